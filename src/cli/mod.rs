@@ -1,0 +1,37 @@
+//! Command-line front end. Each subcommand lives in its own file and only parses
+//! arguments, calls the library and renders the result.
+//!
+//! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
+//! 2 bad input or usage.
+
+use clap::{Parser, Subcommand};
+
+/// Exit code: success.
+pub const EXIT_OK: i32 = 0;
+/// Exit code: a checked claim is false.
+pub const EXIT_FALSE: i32 = 1;
+/// Exit code: bad input or usage.
+pub const EXIT_USAGE: i32 = 2;
+
+#[derive(Parser)]
+#[command(name = "bilin", version, about = "Exact analysis of bilinear products", long_about = None)]
+struct Cli {
+    #[command(subcommand)]
+    command: Command,
+}
+
+#[derive(Subcommand)]
+enum Command {}
+
+/// Parse the command line, run it, return the exit code.
+pub fn run() -> i32 {
+    let cli = match Cli::try_parse() {
+        Ok(c) => c,
+        Err(e) => {
+            let code = if e.use_stderr() { EXIT_USAGE } else { EXIT_OK };
+            let _ = e.print();
+            return code;
+        }
+    };
+    match cli.command {}
+}

@@ -1,0 +1,36 @@
+//! Typed errors of the library. The command line adds context and maps them to exit codes
+//! (2 for bad input).
+
+use thiserror::Error;
+
+/// A position in an input text (1-based line and column, in characters).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Position {
+    /// The file name, or a description such as `<built-in octonions>`.
+    pub source: String,
+    pub line: usize,
+    pub column: usize,
+}
+
+impl std::fmt::Display for Position {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        write!(f, "{}:{}:{}", self.source, self.line, self.column)
+    }
+}
+
+/// Errors of the library.
+#[derive(Debug, Error)]
+pub enum Error {
+    /// Input text that does not follow a documented format.
+    #[error("{at}: {message}")]
+    Parse { at: Position, message: String },
+    /// A request that is well-formed but not meaningful (wrong shape, unknown name, ...).
+    #[error("{0}")]
+    Invalid(String),
+    /// Reading a file failed.
+    #[error("cannot read {path}: {message}")]
+    Io { path: String, message: String },
+}
+
+/// Shorthand result type.
+pub type Result<T> = std::result::Result<T, Error>;

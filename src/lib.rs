@@ -1,0 +1,17 @@
+//! bilin: exact analysis of bilinear products.
+//!
+//! Layers, each importing only from the ones before it:
+//! 1. [`scalar`]: the fields Q and GF(p);
+//! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
+//! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
+//! 4. [`scheme`]: bilinear algorithms and their exact verification.
+//!
+//! [`error`] holds the typed errors shared by all layers.
+
+pub mod error;
+pub mod linalg;
+pub mod scalar;
+pub mod scheme;
+pub mod tensor;
+
+pub use error::{Error, Result};

@@ -1,0 +1,17 @@
+//! Exact dense linear algebra over any [`Field`](crate::scalar::Field).
+//!
+//! - [`Matrix`]: row-major dense storage, no field attached (the field is passed to each
+//!   operation).
+//! - [`echelon`]: reduced row echelon form, rank, nullspace, solve, inverse, determinant over
+//!   any field (Gauss-Jordan, O(r c min(r, c)) field operations).
+//! - [`modular`]: a fast word-size kernel mod p < 2^31, and the rational fast path:
+//!   rank and nullspace over Q through several primes, rational reconstruction and a final
+//!   exact check over Q. The dispatchers [`rank_q`] and [`nullspace_q`] choose the method.
+
+pub mod echelon;
+mod matrix;
+pub mod modular;
+
+pub use echelon::{determinant, inverse, nullspace, rank, rref, solve};
+pub use matrix::Matrix;
+pub use modular::{nullspace_q, rank_q};

@@ -1,0 +1,196 @@
+//! The rational field Q: exact fractions over arbitrary-precision integers, plus the
+//! helpers every exact method needs (parsing, printing, rational reconstruction).
+
+use super::Field;
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_rational::BigRational;
+use num_traits::{One, Signed, ToPrimitive, Zero};
+
+/// An exact rational number, always in lowest terms with a positive denominator.
+pub type Q = BigRational;
+
+/// Shorthand: the rational `n/d` (d != 0).
+pub fn q(n: i64, d: i64) -> Q {
+    Q::new(BigInt::from(n), BigInt::from(d))
+}
+
+/// `5`, `-1/3`: integers without a denominator.
+pub fn q_to_string(a: &Q) -> String {
+    if a.denom().is_one() {
+        a.numer().to_string()
+    } else {
+        format!("{}/{}", a.numer(), a.denom())
+    }
+}
+
+/// Parse `5`, `-7`, `1/3`, `-22/7`, `0.25`, `1e3` (decimals are exact). Errors say what was
+/// expected.
+pub fn parse_rational(s: &str) -> Result<Q, String> {
+    let t = s.trim();
+    if t.is_empty() {
+        return Err("expected a number, found nothing".into());
+    }
+    if let Some((n, d)) = t.split_once('/') {
+        let n: BigInt = parse_int(n)?;
+        let d: BigInt = parse_int(d)?;
+        if d.is_zero() {
+            return Err(format!("division by zero in `{t}`"));
+        }
+        return Ok(Q::new(n, d));
+    }
+    if t.contains(['.', 'e', 'E']) {
+        return parse_decimal(t);
+    }
+    Ok(Q::from_integer(parse_int(t)?))
+}
+
+fn parse_int(s: &str) -> Result<BigInt, String> {
+    let t = s.trim();
+    let digits = t.strip_prefix(['-', '+']).unwrap_or(t);
+    if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) {
+        return Err(format!("expected an integer, found `{t}`"));
+    }
+    t.parse::<BigInt>().map_err(|_| format!("expected an integer, found `{t}`"))
+}
+
+fn parse_decimal(t: &str) -> Result<Q, String> {
+    let (mant, exp) = match t.find(['e', 'E']) {
+        Some(i) => (&t[..i], &t[i + 1..]),
+        None => (t, "0"),
+    };
+    let exp: i64 = exp.parse().map_err(|_| format!("expected a decimal exponent, found `{t}`"))?;
+    if exp.abs() > 4096 {
+        return Err(format!("exponent too large in `{t}` (at most 4096)"));
+    }
+    let neg = mant.starts_with('-');
+    let m = mant.trim_start_matches(['-', '+']);
+    let (ip, fp) = m.split_once('.').unwrap_or((m, ""));
+    if ip.is_empty() && fp.is_empty()
+        || !ip.bytes().chain(fp.bytes()).all(|b| b.is_ascii_digit())
+    {
+        return Err(format!("expected a number, found `{t}`"));
+    }
+    let digits: BigInt = format!("{ip}{fp}0").parse::<BigInt>().unwrap_or_default() / 10;
+    let scale = exp - fp.len() as i64;
+    let ten = BigInt::from(10);
+    let mut v = Q::from_integer(digits);
+    if scale >= 0 {
+        v *= Q::from_integer(num_traits::pow(ten, scale as usize));
+    } else {
+        v /= Q::from_integer(num_traits::pow(ten, (-scale) as usize));
+    }
+    Ok(if neg { -v } else { v })
+}
+
+/// The field of rational numbers.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub struct Rationals;
+
+impl Field for Rationals {
+    type Elem = Q;
+    fn characteristic(&self) -> u64 {
+        0
+    }
+    fn name(&self) -> String {
+        "Q".into()
+    }
+    fn zero(&self) -> Q {
+        Q::zero()
+    }
+    fn one(&self) -> Q {
+        Q::one()
+    }
+    fn is_zero(&self, a: &Q) -> bool {
+        a.is_zero()
+    }
+    fn add(&self, a: &Q, b: &Q) -> Q {
+        a + b
+    }
+    fn sub(&self, a: &Q, b: &Q) -> Q {
+        a - b
+    }
+    fn mul(&self, a: &Q, b: &Q) -> Q {
+        a * b
+    }
+    fn neg(&self, a: &Q) -> Q {
+        -a
+    }
+    fn inv(&self, a: &Q) -> Option<Q> {
+        if a.is_zero() { None } else { Some(a.recip()) }
+    }
+    fn from_rational(&self, a: &Q) -> Option<Q> {
+        Some(a.clone())
+    }
+    fn to_rational(&self, a: &Q) -> Q {
+        a.clone()
+    }
+    fn from_i64(&self, a: i64) -> Q {
+        Q::from_integer(BigInt::from(a))
+    }
+    fn add_mul_assign(&self, a: &mut Q, b: &Q, c: &Q) {
+        if !b.is_zero() && !c.is_zero() {
+            *a += b * c;
+        }
+    }
+    fn sub_mul_assign(&self, a: &mut Q, b: &Q, c: &Q) {
+        if !b.is_zero() && !c.is_zero() {
+            *a -= b * c;
+        }
+    }
+    fn is_one(&self, a: &Q) -> bool {
+        a.is_one()
+    }
+}
+
+/// Rational reconstruction (Wang's algorithm, via the extended Euclidean algorithm): given
+/// `a mod m`, find `n/d` with `n = a d (mod m)`, `|n|, d <= sqrt(m/2)`. Returns `None` if no
+/// such fraction exists. Cost: O(log m) big-integer steps.
+pub fn rational_reconstruct(a: &BigInt, m: &BigInt) -> Option<Q> {
+    let a = a.mod_floor(m);
+    let bound = (m >> 1u32).sqrt();
+    let (mut r0, mut r1) = (m.clone(), a);
+    let (mut t0, mut t1) = (BigInt::zero(), BigInt::one());
+    while r1 > bound {
+        let (qq, r) = r0.div_rem(&r1);
+        r0 = std::mem::replace(&mut r1, r);
+        let t = &t0 - &qq * &t1;
+        t0 = std::mem::replace(&mut t1, t);
+    }
+    if t1.is_zero() || t1.abs() > bound {
+        return None;
+    }
+    if !r1.gcd(&t1).is_one() {
+        return None;
+    }
+    Some(Q::new(r1, t1))
+}
+
+/// `a` as f64 (nearest), for numerical methods that only *find*, never confirm.
+pub fn q_to_f64(a: &Q) -> f64 {
+    a.to_f64().unwrap_or(f64::NAN)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn parses_forms() {
+        assert_eq!(parse_rational("-1/3").unwrap(), q(-1, 3));
+        assert_eq!(parse_rational("0.25").unwrap(), q(1, 4));
+        assert_eq!(parse_rational("2e2").unwrap(), q(200, 1));
+        assert!(parse_rational("1/0").is_err());
+        assert!(parse_rational("x").is_err());
+        assert!(parse_rational("").is_err());
+    }
+
+    #[test]
+    fn reconstructs() {
+        let m = BigInt::from(1_000_000_007u64);
+        // -22/7 mod m
+        let inv7 = BigInt::from(7).modpow(&(&m - 2), &m);
+        let a = (BigInt::from(-22) * inv7).mod_floor(&m);
+        assert_eq!(rational_reconstruct(&a, &m), Some(q(-22, 7)));
+    }
+}

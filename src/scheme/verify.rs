@@ -1,0 +1,79 @@
+//! Exact verification of a scheme against a tensor (the Brent equations).
+
+use super::Scheme;
+use crate::scalar::{FieldSpec, Q};
+use crate::tensor::Tensor;
+use num_traits::Zero;
+
+/// The first coefficient where a scheme and a tensor disagree.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Mismatch {
+    /// The basis triple (left, right, result).
+    pub index: [usize; 3],
+    /// The tensor's coefficient.
+    pub expected: Q,
+    /// The scheme's coefficient `sum_t u_t[i] v_t[j] w_t[k]`.
+    pub got: Q,
+    /// How many coefficients disagree in all.
+    pub count: usize,
+}
+
+/// Check `sum_t u_t (x) v_t (x) w_t == T` exactly, over the tensor's field.
+/// Returns `Ok(())` or the first mismatch (lexicographic in (i, j, k)) with the total count.
+/// Shapes must agree (a shape mismatch is reported at index [0, 0, 0] with count = usize::MAX).
+/// Cost: O(r * d0 * d1 * d2) exact operations, skipping zero factors.
+pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
+    let d = t.dims();
+    if s.dims != d || s.v.len() != s.u.len() || s.w.len() != s.u.len() {
+        return Err(Mismatch {
+            index: [0, 0, 0],
+            expected: Q::zero(),
+            got: Q::zero(),
+            count: usize::MAX,
+        });
+    }
+    let mut acc = vec![Q::zero(); d[0] * d[1] * d[2]];
+    for t_ in 0..s.rank() {
+        for (i, ui) in s.u[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+            for (j, vj) in s.v[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                let uv = ui * vj;
+                for (k, wk) in s.w[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                    acc[(i * d[1] + j) * d[2] + k] += &uv * wk;
+                }
+            }
+        }
+    }
+    let reduce = |x: &Q| -> Q {
+        match t.field() {
+            FieldSpec::Rational => x.clone(),
+            FieldSpec::Prime(p) => {
+                use crate::scalar::{Field, PrimeField};
+                let f = PrimeField::new(p).expect("prime");
+                match f.from_rational(x) {
+                    Some(e) => f.to_rational(&e),
+                    None => x.clone(),
+                }
+            }
+        }
+    };
+    let mut first = None;
+    let mut count = 0;
+    for i in 0..d[0] {
+        for j in 0..d[1] {
+            for k in 0..d[2] {
+                let got = reduce(&acc[(i * d[1] + j) * d[2] + k]);
+                let expected = t.get(i, j, k);
+                if got != expected {
+                    count += 1;
+                    if first.is_none() {
+                        first = Some(([i, j, k], expected, got));
+                    }
+                }
+            }
+        }
+    }
+    match first {
+        None => Ok(()),
+        Some((index, expected, got)) => Err(Mismatch { index, expected, got, count }),
+    }
+}
