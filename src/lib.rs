@@ -9,7 +9,10 @@
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod error;
+pub mod laws;
 pub mod linalg;
+pub mod ranks;
+pub mod report;
 pub mod scalar;
 pub mod scheme;
 pub mod tensor;
