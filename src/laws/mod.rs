@@ -376,7 +376,10 @@ pub fn check_laws_in<F: Field>(
         for &c in law.components() {
             let d = def(c);
             idents.push(identity_text(&d));
-            methods.push(method_text(&d));
+            let m = method_text(&d);
+            if !methods.contains(&m) {
+                methods.push(m);
+            }
             if !cache.iter().any(|e| e.0 == c) {
                 let mut notes = Vec::new();
                 let work = check::work_estimate(n, &d.id, d.degree);
