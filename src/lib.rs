@@ -9,6 +9,7 @@
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod error;
+pub mod generators;
 pub mod laws;
 pub mod linalg;
 pub mod ranks;
