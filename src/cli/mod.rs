@@ -4,6 +4,9 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
+mod analyze;
+mod common;
+
 use clap::{Parser, Subcommand};
 
 /// Exit code: success.
@@ -21,7 +24,10 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Laws, ranks and the full analysis of a product.
+    Analyze(analyze::Args),
+}
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
@@ -33,5 +39,7 @@ pub fn run() -> i32 {
             return code;
         }
     };
-    match cli.command {}
+    match cli.command {
+        Command::Analyze(a) => analyze::run(a),
+    }
 }
