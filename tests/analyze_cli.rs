@@ -25,7 +25,12 @@ fn json(args: &[&str]) -> serde_json::Value {
 }
 
 fn law<'a>(j: &'a serde_json::Value, name: &str) -> &'a serde_json::Value {
-    j["laws"]["results"].as_array().unwrap().iter().find(|r| r["law"] == name).unwrap()
+    j["laws"]["results"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .find(|r| r["law"] == name)
+        .unwrap()
 }
 
 /// Octonions: alternative, not associative (Schafer 1966, An Introduction to
@@ -36,7 +41,10 @@ fn octonions_text_and_json() {
     assert_eq!(code, 0);
     assert!(out.contains("== Laws"), "{out}");
     assert!(out.contains("unit: e0"), "{out}");
-    let line = out.lines().find(|l| l.trim_start().starts_with("alternative ")).unwrap();
+    let line = out
+        .lines()
+        .find(|l| l.trim_start().starts_with("alternative "))
+        .unwrap();
     assert!(line.contains("yes"), "{line}");
     let j = json(&["analyze", "octonions"]);
     assert_eq!(j["schema"], "bilin.analyze/1");
@@ -56,7 +64,10 @@ fn matmul_is_not_square() {
     assert_eq!(j["ranks"]["flattening"], serde_json::json!([6, 12, 8]));
     let (code, out, _) = run(&["analyze", "matmul:2,3,4"]);
     assert_eq!(code, 0);
-    assert!(out.contains("flattening ranks: left 6, right 12, result 8"), "{out}");
+    assert!(
+        out.contains("flattening ranks: left 6, right 12, result 8"),
+        "{out}"
+    );
 }
 
 /// Reduction mod 3 keeps the quaternion identities (common practice).
@@ -81,7 +92,10 @@ fn bad_usage_exits_2() {
 #[test]
 fn files() {
     let j = json(&["analyze", "tests/data/laws_quaternions.bilin"]);
-    assert_eq!(j["input"]["names"][0], serde_json::json!(["e", "i", "j", "k"]));
+    assert_eq!(
+        j["input"]["names"][0],
+        serde_json::json!(["e", "i", "j", "k"])
+    );
     assert_eq!(law(&j, "associative")["holds"], true);
     assert_eq!(law(&j, "commutative")["witness"]["expression"], "i*j - j*i");
     assert_eq!(law(&j, "commutative")["witness"]["value"], "2 k");

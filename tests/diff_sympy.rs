@@ -49,15 +49,23 @@ fn sympy_ranks(ms: &[Matrix<Q>]) -> Vec<usize> {
         .unwrap();
     let out = child.wait_with_output().unwrap();
     assert!(out.status.success(), "sympy script failed");
-    String::from_utf8(out.stdout).unwrap().lines().map(|l| l.trim().parse().unwrap()).collect()
+    String::from_utf8(out.stdout)
+        .unwrap()
+        .lines()
+        .map(|l| l.trim().parse().unwrap())
+        .collect()
 }
 
 fn random_matrix(rng: &mut impl Rng) -> Matrix<Q> {
     let (r, c) = (rng.gen_range(1..7), rng.gen_range(1..7));
     let target = rng.gen_range(0..=r.min(c));
     // a product of an r x target and a target x c matrix (rank <= target), with fractions
-    let a: Vec<Q> = (0..r * target).map(|_| q(rng.gen_range(-3..=3), rng.gen_range(1..4))).collect();
-    let b: Vec<Q> = (0..target * c).map(|_| q(rng.gen_range(-3..=3), rng.gen_range(1..4))).collect();
+    let a: Vec<Q> = (0..r * target)
+        .map(|_| q(rng.gen_range(-3..=3), rng.gen_range(1..4)))
+        .collect();
+    let b: Vec<Q> = (0..target * c)
+        .map(|_| q(rng.gen_range(-3..=3), rng.gen_range(1..4)))
+        .collect();
     let mut m = Matrix::filled(r, c, q(0, 1));
     for i in 0..r {
         for j in 0..c {
@@ -70,7 +78,11 @@ fn random_matrix(rng: &mut impl Rng) -> Matrix<Q> {
 }
 
 fn random_tensor(rng: &mut impl Rng) -> Tensor {
-    let dims = [rng.gen_range(1..4), rng.gen_range(1..4), rng.gen_range(1..4)];
+    let dims = [
+        rng.gen_range(1..4),
+        rng.gen_range(1..4),
+        rng.gen_range(1..4),
+    ];
     let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, dims, None);
     for i in 0..dims[0] {
         for j in 0..dims[1] {
@@ -96,8 +108,10 @@ fn ranks_agree_with_sympy() {
     assert_eq!(ours, sympy_ranks(&ms));
 
     let ts: Vec<Tensor> = (0..20).map(|_| random_tensor(&mut rng)).collect();
-    let flats: Vec<Matrix<Q>> =
-        ts.iter().flat_map(|t| (0..3).map(move |a| flattening(t, a))).collect();
+    let flats: Vec<Matrix<Q>> = ts
+        .iter()
+        .flat_map(|t| (0..3).map(move |a| flattening(t, a)))
+        .collect();
     let ours: Vec<usize> = ts.iter().flat_map(flattening_ranks).collect();
     assert_eq!(ours, sympy_ranks(&flats));
 }

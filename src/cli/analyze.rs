@@ -41,7 +41,10 @@ pub fn run(args: Args) -> i32 {
                 Some(l) => laws.push(l),
                 None => {
                     let known: Vec<&str> = Law::ALL.iter().map(|l| l.name()).collect();
-                    eprintln!("error: --laws: unknown law `{name}`; known: {}", known.join(", "));
+                    eprintln!(
+                        "error: --laws: unknown law `{name}`; known: {}",
+                        known.join(", ")
+                    );
                     return EXIT_USAGE;
                 }
             }

@@ -215,18 +215,28 @@ fn witness<F: Field>(
         let letters = ["a", "b", "c", "d", "e", "f"];
         let mut vn: Vec<&str> = letters[..ms.len()].to_vec();
         vn.extend(free.iter().map(|&i| names[i].as_str()));
-        let pattern: Vec<(i64, String)> =
-            id.terms.iter().map(|(c, e)| (*c, render(e, &vn, notation))).collect();
+        let pattern: Vec<(i64, String)> = id
+            .terms
+            .iter()
+            .map(|(c, e)| (*c, render(e, &vn, notation)))
+            .collect();
         format!(
             "sum over the {} distinct orderings ({}) of ({}) of [{}]",
             orderings.len(),
             letters[..ms.len()].join(","),
-            ms.iter().map(|&i| names[i].as_str()).collect::<Vec<_>>().join(","),
+            ms.iter()
+                .map(|&i| names[i].as_str())
+                .collect::<Vec<_>>()
+                .join(","),
             render_sum(&pattern)
         )
     };
     let value = super::expr::format_combination(f, value, names);
-    Witness { tuple, expression, value }
+    Witness {
+        tuple,
+        expression,
+        value,
+    }
 }
 
 #[cfg(test)]

@@ -121,7 +121,11 @@ pub fn render(e: &Expr, names: &[&str], notation: Notation) -> String {
                 Notation::Anticommutator => format!("{{{l},{r}}}"),
                 Notation::Product => {
                     let wrap = |x: &Expr, s: String| {
-                        if matches!(x, Expr::Mul(..)) { format!("({s})") } else { s }
+                        if matches!(x, Expr::Mul(..)) {
+                            format!("({s})")
+                        } else {
+                            s
+                        }
                     };
                     format!("{}*{}", wrap(a, l), wrap(b, r))
                 }
@@ -196,7 +200,10 @@ mod tests {
     fn render_forms() {
         let e = mul(mul(var(0), var(1)), var(2));
         assert_eq!(render(&e, &["i", "j", "k"], Notation::Product), "(i*j)*k");
-        assert_eq!(render(&e, &["i", "j", "k"], Notation::Commutator), "[[i,j],k]");
+        assert_eq!(
+            render(&e, &["i", "j", "k"], Notation::Commutator),
+            "[[i,j],k]"
+        );
         let s = render_sum(&[(1, "a".into()), (-2, "b".into()), (1, "c".into())]);
         assert_eq!(s, "a - 2 b + c");
     }

@@ -142,7 +142,11 @@ pub struct Params {
 
 impl Default for Params {
     fn default() -> Self {
-        Params { laws: Law::ALL.to_vec(), stop_first: false, max_work: 40_000_000 }
+        Params {
+            laws: Law::ALL.to_vec(),
+            stop_first: false,
+            max_work: 40_000_000,
+        }
     }
 }
 
@@ -243,11 +247,19 @@ fn def(c: Component) -> Def {
     // Jordan: variables 0..3 are x, 3 is y: ((x x) y) x - (x x)(y x)
     let jordan = vec![
         (1, mul(mul(mul(x.clone(), y.clone()), w.clone()), z.clone())),
-        (-1, mul(mul(x.clone(), y.clone()), mul(w.clone(), z.clone()))),
+        (
+            -1,
+            mul(mul(x.clone(), y.clone()), mul(w.clone(), z.clone())),
+        ),
     ];
     let (terms, nvars, degree, product) = match c {
         Assoc => (assoc(&x, &y, &z), 3, 0, Product::Original),
-        Comm => (vec![(1, mul(x.clone(), y.clone())), (-1, mul(y, x))], 2, 0, Product::Original),
+        Comm => (
+            vec![(1, mul(x.clone(), y.clone())), (-1, mul(y, x))],
+            2,
+            0,
+            Product::Original,
+        ),
         Anti => (vec![(1, mul(x, y))], 2, 2, Product::Original),
         Jacobi => (jacobi, 3, 0, Product::Original),
         LeftAlt => (assoc(&x, &y, &z), 3, 2, Product::Original),
@@ -267,7 +279,11 @@ fn def(c: Component) -> Def {
         CommutatorJacobi => (jacobi, 3, 0, Product::Commutator),
         AnticommutatorJordan => (jordan, 4, 3, Product::Anticommutator),
     };
-    Def { id: Identity { terms, nvars }, degree, product }
+    Def {
+        id: Identity { terms, nvars },
+        degree,
+        product,
+    }
 }
 
 type Expr3 = expr::Expr;
@@ -291,7 +307,10 @@ fn identity_text(d: &Def) -> String {
         v
     };
     let terms: Vec<(i64, String)> =
-        d.id.terms.iter().map(|(c, e)| (*c, render(e, &names, notation(d.product)))).collect();
+        d.id.terms
+            .iter()
+            .map(|(c, e)| (*c, render(e, &names, notation(d.product))))
+            .collect();
     format!("{} = 0", expr::render_sum(&terms))
 }
 
@@ -309,7 +328,11 @@ fn method_text(d: &Def) -> String {
             "linearized: each multiset of {} basis elements (summed over its distinct \
              orderings) with each basis {}",
             d.degree,
-            if m == 1 { "element".to_string() } else { format!("{m}-tuple") }
+            if m == 1 {
+                "element".to_string()
+            } else {
+                format!("{m}-tuple")
+            }
         )
     }
 }
@@ -326,7 +349,10 @@ fn symmetrised<F: Field>(f: &F, t: &Table<F::Elem>, sign: i64) -> Table<F::Elem>
             products.push(expr::normalise(f, v));
         }
     }
-    Table { dims: t.dims, products }
+    Table {
+        dims: t.dims,
+        products,
+    }
 }
 
 /// Decide the requested laws for an algebra (or a square bilinear map, read on its left
@@ -340,7 +366,9 @@ pub fn check_laws(t: &Tensor, params: &Params) -> Result<LawReport> {
             d[0], d[1], d[2]
         ))
     })?;
-    Ok(crate::with_field!(alg.field(), f => check_laws_in(f, &alg.table(f), &alg.names()[0], params)))
+    Ok(
+        crate::with_field!(alg.field(), f => check_laws_in(f, &alg.table(f), &alg.names()[0], params)),
+    )
 }
 
 /// [`check_laws`] on a structure table over a field context.
@@ -464,22 +492,35 @@ pub fn check_laws_in<F: Field>(
         }
         results.push(r);
     }
-    LawReport { field: f.name(), dimension: n, results, notes: Vec::new() }
+    LawReport {
+        field: f.name(),
+        dimension: n,
+        results,
+        notes: Vec::new(),
+    }
 }
 
 fn unital<F: Field>(f: &F, t: &Table<F::Elem>, names: &[String]) -> LawResult {
     let n = t.dims[0];
     let u = find_unit(f, t);
     let unit = u.as_ref().map(|u| {
-        let sparse: Vec<(usize, F::Elem)> =
-            u.iter().cloned().enumerate().filter(|(_, c)| !f.is_zero(c)).collect();
+        let sparse: Vec<(usize, F::Elem)> = u
+            .iter()
+            .cloned()
+            .enumerate()
+            .filter(|(_, c)| !f.is_zero(c))
+            .collect();
         format_combination(f, &sparse, names)
     });
     LawResult {
         law: Law::Unital,
         holds: Some(u.is_some()),
         identity: "u*x = x = x*u for some u".into(),
-        method: format!("exact solution of the {} linear equations in {} unknowns", 2 * n * n, n),
+        method: format!(
+            "exact solution of the {} linear equations in {} unknowns",
+            2 * n * n,
+            n
+        ),
         checked: 1,
         failures: u.is_none() as u64,
         witness: None,

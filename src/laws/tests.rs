@@ -22,14 +22,21 @@ fn cd_mul(x: &[Q], y: &[Q]) -> Vec<Q> {
 }
 
 fn conj(x: &[Q]) -> Vec<Q> {
-    x.iter().enumerate().map(|(i, v)| if i == 0 { v.clone() } else { -v }).collect()
+    x.iter()
+        .enumerate()
+        .map(|(i, v)| if i == 0 { v.clone() } else { -v })
+        .collect()
 }
 
 pub(crate) fn cayley_dickson(k: u32, field: FieldSpec) -> Tensor {
     let n = 1usize << k;
     let names: Vec<String> = (0..n).map(|i| format!("e{i}")).collect();
     let mut t = Tensor::algebra(field, names);
-    let unit = |i: usize| (0..n).map(|j| if i == j { q(1, 1) } else { Q::zero() }).collect::<Vec<_>>();
+    let unit = |i: usize| {
+        (0..n)
+            .map(|j| if i == j { q(1, 1) } else { Q::zero() })
+            .collect::<Vec<_>>()
+    };
     for i in 0..n {
         for j in 0..n {
             for (k, v) in cd_mul(&unit(i), &unit(j)).into_iter().enumerate() {
@@ -43,8 +50,9 @@ pub(crate) fn cayley_dickson(k: u32, field: FieldSpec) -> Tensor {
 }
 
 fn matrix_algebra(m: usize) -> Tensor {
-    let names: Vec<String> =
-        (0..m * m).map(|i| format!("E{}{}", i / m + 1, i % m + 1)).collect();
+    let names: Vec<String> = (0..m * m)
+        .map(|i| format!("E{}{}", i / m + 1, i % m + 1))
+        .collect();
     let mut t = Tensor::algebra(FieldSpec::Rational, names);
     for a in 0..m {
         for b in 0..m {
@@ -97,7 +105,10 @@ fn matrices_and_commutators() {
     let r = verdicts(&m);
     assert_eq!(r.holds(Law::Associative), Some(true));
     assert_eq!(r.holds(Law::Jordan), Some(false));
-    assert_eq!(r.get(Law::Unital).unwrap().unit.as_deref(), Some("E11 + E22"));
+    assert_eq!(
+        r.get(Law::Unital).unwrap().unit.as_deref(),
+        Some("E11 + E22")
+    );
     let t = m.table(&crate::scalar::Rationals);
     let c = symmetrised(&crate::scalar::Rationals, &t, -1);
     let names = m.names()[0].clone();
@@ -112,7 +123,12 @@ fn matrices_and_commutators() {
 
 #[test]
 fn nonsquare_is_an_error() {
-    let t = Tensor::zero(FieldSpec::Rational, crate::tensor::Kind::Bilinear, [2, 3, 2], None);
+    let t = Tensor::zero(
+        FieldSpec::Rational,
+        crate::tensor::Kind::Bilinear,
+        [2, 3, 2],
+        None,
+    );
     assert!(check_laws(&t, &Params::default()).is_err());
 }
 
@@ -125,9 +141,17 @@ fn gf2_caveat_and_budget() {
     let r = verdicts(&t);
     assert_eq!(r.holds(Law::PowerAssociative), Some(true));
     assert_eq!(r.holds(Law::Anticommutative), Some(false));
-    let w = r.get(Law::Anticommutative).unwrap().witness.clone().unwrap();
+    let w = r
+        .get(Law::Anticommutative)
+        .unwrap()
+        .witness
+        .clone()
+        .unwrap();
     assert_eq!((w.expression.as_str(), w.value.as_str()), ("a*a", "b"));
-    let p = Params { max_work: 10, ..Params::default() };
+    let p = Params {
+        max_work: 10,
+        ..Params::default()
+    };
     let r = check_laws(&t, &p).unwrap();
     assert_eq!(r.holds(Law::PowerAssociative), None);
 }

@@ -40,7 +40,11 @@ pub struct Params {
 
 impl Default for Params {
     fn default() -> Self {
-        Params { seed: 1, trials: 2, bound: 3 }
+        Params {
+            seed: 1,
+            trials: 2,
+            bound: 3,
+        }
     }
 }
 
@@ -90,7 +94,7 @@ pub fn compute_ranks(t: &Tensor, params: &Params) -> RankReport {
     let d = t.dims();
     let mut out_slices = Vec::new();
     let mut span = Vec::new();
-    for axis in 0..3 {
+    for (axis, axis_name) in AXES.iter().enumerate() {
         let (o1, o2) = others(axis);
         let ms = slices(t, axis);
         let ranks = ms
@@ -98,12 +102,31 @@ pub fn compute_ranks(t: &Tensor, params: &Params) -> RankReport {
             .enumerate()
             .map(|(s, m)| (t.name(axis, s).to_string(), rank_over(t.field(), m)))
             .collect();
-        out_slices.push(AxisSlices { axis: AXES[axis].into(), shape: [d[o1], d[o2]], ranks });
-        let seed = params.seed.wrapping_mul(0x9E37_79B9_7F4A_7C15).wrapping_add(axis as u64);
+        out_slices.push(AxisSlices {
+            axis: axis_name.to_string(),
+            shape: [d[o1], d[o2]],
+            ranks,
+        });
+        let seed = params
+            .seed
+            .wrapping_mul(0x9E37_79B9_7F4A_7C15)
+            .wrapping_add(axis as u64);
         let upper = flattening[o1].min(flattening[o2]);
-        span.push(span_rank(t.field(), &ms, [d[o1], d[o2]], upper, AXES[axis], seed, params));
+        span.push(span_rank(
+            t.field(),
+            &ms,
+            [d[o1], d[o2]],
+            upper,
+            axis_name,
+            seed,
+            params,
+        ));
     }
-    RankReport { flattening, slices: out_slices, span }
+    RankReport {
+        flattening,
+        slices: out_slices,
+        span,
+    }
 }
 
 /// `sum_s c_s M_s` over Q.
@@ -127,7 +150,10 @@ fn combine(ms: &[Matrix<Q>], shape: [usize; 2], c: &[i64]) -> Matrix<Q> {
 fn usable_prime(ms: &[Matrix<Q>]) -> u64 {
     for p in modular::kernel_primes(16) {
         let f = PrimeField::new(p).expect("prime");
-        if ms.iter().all(|m| m.data.iter().all(|x| !f.denominator_vanishes(x))) {
+        if ms
+            .iter()
+            .all(|m| m.data.iter().all(|x| !f.denominator_vanishes(x)))
+        {
             return p;
         }
     }
@@ -148,7 +174,11 @@ fn rank_mod_combination(ms: &[Matrix<Q>], shape: [usize; 2], c: &[u64], p: u64) 
             }
         }
     }
-    let mm = Matrix { rows: shape[0], cols: shape[1], data: acc };
+    let mm = Matrix {
+        rows: shape[0],
+        cols: shape[1],
+        data: acc,
+    };
     if p < (1 << modular::KERNEL_PRIME_BITS) {
         modular::rank_mod(mm, p)
     } else {
@@ -182,8 +212,9 @@ fn span_rank(
             }
         }
         for _ in 0..params.trials.max(1) {
-            let c: Vec<i64> =
-                (0..ms.len()).map(|_| rng.gen_range(-params.bound..=params.bound)).collect();
+            let c: Vec<i64> = (0..ms.len())
+                .map(|_| rng.gen_range(-params.bound..=params.bound))
+                .collect();
             let r = rank_over(field, &combine(ms, shape, &c));
             if r > certificate_rank || certificate.iter().all(|&x| x == 0) {
                 certificate_rank = r;
@@ -212,7 +243,12 @@ mod tests {
 
     fn matmul(n: usize, m: usize, p: usize) -> Tensor {
         // <n,m,p>: A (n x m) times B (m x p)
-        let mut t = Tensor::zero(FieldSpec::Rational, crate::tensor::Kind::Bilinear, [n * m, m * p, n * p], None);
+        let mut t = Tensor::zero(
+            FieldSpec::Rational,
+            crate::tensor::Kind::Bilinear,
+            [n * m, m * p, n * p],
+            None,
+        );
         for i in 0..n {
             for j in 0..m {
                 for k in 0..p {

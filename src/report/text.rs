@@ -75,17 +75,28 @@ fn input(s: &mut String, r: &AnalyzeReport) {
     let _ = writeln!(s, "  {:<12}{}", "field", i.field);
     let (kind, dims) = match i.kind {
         Kind::Algebra => ("algebra", format!("{}", i.dims[0])),
-        Kind::Bilinear => {
-            ("bilinear map", format!("{} x {} -> {}", i.dims[0], i.dims[1], i.dims[2]))
-        }
+        Kind::Bilinear => (
+            "bilinear map",
+            format!("{} x {} -> {}", i.dims[0], i.dims[1], i.dims[2]),
+        ),
     };
     let _ = writeln!(s, "  {:<12}{}", "kind", kind);
     let _ = writeln!(s, "  {:<12}{}", "dimension", dims);
     if i.names.len() == 1 {
-        wrap(s, &format!("  {:<12}", "basis"), &" ".repeat(14), &names_text(&i.names[0]));
+        wrap(
+            s,
+            &format!("  {:<12}", "basis"),
+            &" ".repeat(14),
+            &names_text(&i.names[0]),
+        );
     } else {
         for (label, n) in ["left", "right", "result"].iter().zip(&i.names) {
-            wrap(s, &format!("  {label:<12}"), &" ".repeat(14), &names_text(n));
+            wrap(
+                s,
+                &format!("  {label:<12}"),
+                &" ".repeat(14),
+                &names_text(n),
+            );
         }
     }
     let _ = writeln!(s, "  {:<12}{}", "nonzero", i.nnz);
@@ -100,9 +111,23 @@ fn verdict(h: Option<bool>) -> &'static str {
 }
 
 fn laws(s: &mut String, l: &LawReport) {
-    let _ = writeln!(s, "\n== Laws (over {}, dimension {}) ==", l.field, l.dimension);
-    let w = l.results.iter().map(|r| r.law.name().len()).max().unwrap_or(4).max(3);
-    let _ = writeln!(s, "  {:<w$}  {:<7}  {:>15}  witness", "law", "holds", "failing/checked");
+    let _ = writeln!(
+        s,
+        "\n== Laws (over {}, dimension {}) ==",
+        l.field, l.dimension
+    );
+    let w = l
+        .results
+        .iter()
+        .map(|r| r.law.name().len())
+        .max()
+        .unwrap_or(4)
+        .max(3);
+    let _ = writeln!(
+        s,
+        "  {:<w$}  {:<7}  {:>15}  witness",
+        "law", "holds", "failing/checked"
+    );
     for r in &l.results {
         let counts = format!("{}/{}", r.failures, r.checked);
         let detail = match (&r.witness, &r.unit) {
@@ -110,16 +135,36 @@ fn laws(s: &mut String, l: &LawReport) {
             (None, Some(u)) => format!("unit: {u}"),
             _ => String::new(),
         };
-        let head = format!("  {:<w$}  {:<7}  {:>15}  ", r.law.name(), verdict(r.holds), counts);
+        let head = format!(
+            "  {:<w$}  {:<7}  {:>15}  ",
+            r.law.name(),
+            verdict(r.holds),
+            counts
+        );
         let indent = " ".repeat(head.len());
         wrap(s, &head, &indent, &detail);
     }
     let _ = writeln!(s, "\n  identities and method:");
     for r in &l.results {
-        wrap(s, &format!("  {:<w$}  ", r.law.name()), &" ".repeat(w + 4), &r.identity);
-        wrap(s, &" ".repeat(w + 4), &" ".repeat(w + 4), &format!("[{}]", r.method));
+        wrap(
+            s,
+            &format!("  {:<w$}  ", r.law.name()),
+            &" ".repeat(w + 4),
+            &r.identity,
+        );
+        wrap(
+            s,
+            &" ".repeat(w + 4),
+            &" ".repeat(w + 4),
+            &format!("[{}]", r.method),
+        );
         for n in &r.notes {
-            wrap(s, &format!("{}note: ", " ".repeat(w + 4)), &" ".repeat(w + 10), n);
+            wrap(
+                s,
+                &format!("{}note: ", " ".repeat(w + 4)),
+                &" ".repeat(w + 10),
+                n,
+            );
         }
     }
     for n in &l.notes {
@@ -134,11 +179,18 @@ fn ranks(s: &mut String, r: &RankReport) {
         "  flattening ranks: left {}, right {}, result {}",
         r.flattening[0], r.flattening[1], r.flattening[2]
     );
-    let _ = writeln!(s, "\n  slice ranks (slices along an axis; shape rows x columns):");
+    let _ = writeln!(
+        s,
+        "\n  slice ranks (slices along an axis; shape rows x columns):"
+    );
     for a in &r.slices {
         let head = format!("  {:<7} {:>4} x {:<4} ", a.axis, a.shape[0], a.shape[1]);
         let body = if a.ranks.len() <= MAX_LISTED_SLICES {
-            a.ranks.iter().map(|(n, k)| format!("{n}:{k}")).collect::<Vec<_>>().join(" ")
+            a.ranks
+                .iter()
+                .map(|(n, k)| format!("{n}:{k}"))
+                .collect::<Vec<_>>()
+                .join(" ")
         } else {
             let mut hist: Vec<(usize, usize)> = Vec::new();
             for (_, k) in &a.ranks {
@@ -162,7 +214,11 @@ fn ranks(s: &mut String, r: &RankReport) {
         "axis", "random (mod p)", "certificate", "upper"
     );
     for x in &r.span {
-        let status = if x.proven { "proven maximum" } else { "lower bounds only" };
+        let status = if x.proven {
+            "proven maximum"
+        } else {
+            "lower bounds only"
+        };
         let _ = writeln!(
             s,
             "  {:<7}  {:>14}  {:>11}  {:>5}  {}",
@@ -170,10 +226,18 @@ fn ranks(s: &mut String, r: &RankReport) {
         );
     }
     for x in &r.span {
-        let c = x.certificate.iter().map(|v| v.to_string()).collect::<Vec<_>>().join(", ");
+        let c = x
+            .certificate
+            .iter()
+            .map(|v| v.to_string())
+            .collect::<Vec<_>>()
+            .join(", ");
         wrap(
             s,
-            &format!("  certificate {:<7} (p = {}): coefficients ", x.axis, x.prime),
+            &format!(
+                "  certificate {:<7} (p = {}): coefficients ",
+                x.axis, x.prime
+            ),
             "      ",
             &format!("({c})"),
         );
