@@ -41,6 +41,8 @@ pub struct Check {
     pub failures: u64,
     /// The first failing instance in lexicographic order.
     pub witness: Option<Witness>,
+    /// That instance as indices: the sorted multiset and the linear variables' tuple.
+    pub first: Option<(Vec<usize>, Vec<usize>)>,
 }
 
 /// `C(n+d-1, d) * n^m`: the number of instances (saturating).
@@ -151,22 +153,12 @@ pub fn check_identity<F: Field>(
         let mut free = vec![0usize; m];
         loop {
             out.checked += 1;
-            let mut acc = Vec::new();
-            let mut values: Vec<Sparse<F::Elem>> = Vec::with_capacity(id.nvars);
-            for ord in &orderings {
-                values.clear();
-                values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].clone()));
-                for ((_, e), c) in id.terms.iter().zip(&coefs) {
-                    for (k, v) in eval(f, t, e, &values) {
-                        acc.push((k, f.mul(&v, c)));
-                    }
-                }
-            }
-            let value = normalise(f, acc);
+            let value = eval_instance(f, t, id, &coefs, &units, &orderings, &free);
             if !value.is_empty() {
                 out.failures += 1;
                 if out.witness.is_none() {
                     out.witness = Some(witness(f, names, id, &orderings, &free, &value, notation));
+                    out.first = Some((ms.clone(), free.clone()));
                 }
                 if stop_first {
                     return out;
@@ -181,6 +173,47 @@ pub fn check_identity<F: Field>(
         }
     }
     out
+}
+
+/// The value of one instance: the sum over the orderings of the identity's terms.
+fn eval_instance<F: Field>(
+    f: &F,
+    t: &Table<F::Elem>,
+    id: &Identity,
+    coefs: &[F::Elem],
+    units: &[Sparse<F::Elem>],
+    orderings: &[Vec<usize>],
+    free: &[usize],
+) -> Sparse<F::Elem> {
+    let mut acc = Vec::new();
+    let mut values: Vec<Sparse<F::Elem>> = Vec::with_capacity(id.nvars);
+    for ord in orderings {
+        values.clear();
+        values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].clone()));
+        for ((_, e), c) in id.terms.iter().zip(coefs) {
+            for (k, v) in eval(f, t, e, &values) {
+                acc.push((k, f.mul(&v, c)));
+            }
+        }
+    }
+    normalise(f, acc)
+}
+
+/// The witness of one instance (multiset `ms`, linear tuple `free`), evaluated exactly.
+pub fn witness_at<F: Field>(
+    f: &F,
+    t: &Table<F::Elem>,
+    names: &[String],
+    id: &Identity,
+    instance: &(Vec<usize>, Vec<usize>),
+    notation: Notation,
+) -> Witness {
+    let n = t.dims[0];
+    let units: Vec<Sparse<F::Elem>> = (0..n).map(|i| vec![(i, f.one())]).collect();
+    let coefs: Vec<F::Elem> = id.terms.iter().map(|(c, _)| f.from_i64(*c)).collect();
+    let orderings = distinct_orderings(&instance.0);
+    let value = eval_instance(f, t, id, &coefs, &units, &orderings, &instance.1);
+    witness(f, names, id, &orderings, &instance.1, &value, notation)
 }
 
 /// Most terms written out in a witness before it is summarised.

@@ -18,6 +18,7 @@
 
 pub mod check;
 pub mod expr;
+mod fast;
 mod unit;
 
 pub use check::{Check, Witness};
@@ -429,7 +430,7 @@ pub fn check_laws_in<F: Field>(
                         }
                     };
                     let nt = notation(d.product);
-                    Some(check::check_identity(
+                    Some(fast::check_identity_fast(
                         f,
                         table,
                         names,
