@@ -244,7 +244,10 @@ fn primes_needed(rows: &[Vec<BigInt>], r: usize) -> usize {
     let mut logs: Vec<f64> = rows
         .iter()
         .map(|row| {
-            let s: f64 = row.iter().map(|x| x.to_f64().unwrap_or(f64::MAX).powi(2)).sum();
+            let s: f64 = row
+                .iter()
+                .map(|x| x.to_f64().unwrap_or(f64::MAX).powi(2))
+                .sum();
             0.5 * s.max(1.0).log2()
         })
         .collect();
