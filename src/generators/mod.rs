@@ -28,7 +28,7 @@ pub use jordan::jordan_symmetric;
 pub use lie::{gl, heisenberg, sl, so};
 pub use matrix::{matmul, matrix_algebra};
 pub use polynomial::{poly_mult, quotient_ring};
-pub use spec::{generate, generator_names};
+pub use spec::{generate, generator_names, is_generator_family};
 
 use crate::error::{Error, Result};
 use crate::tensor::MAX_DIM;

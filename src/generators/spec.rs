@@ -74,6 +74,13 @@ pub fn generator_names() -> Vec<(&'static str, &'static str)> {
     ]
 }
 
+/// True when the family part of `spec` (before the first `:`) names a generator family,
+/// so that errors of [`generate`] concern its arguments rather than an unknown name.
+pub fn is_generator_family(spec: &str) -> bool {
+    let family = spec.trim().split(':').next().unwrap_or("").trim().to_ascii_lowercase();
+    generator_names().iter().any(|(s, _)| s.split(':').next() == Some(family.as_str()))
+}
+
 fn family_list() -> String {
     generator_names()
         .iter()
@@ -274,6 +281,8 @@ mod tests {
 
     #[test]
     fn spec_errors() {
+        assert!(is_generator_family("matmul:9") && is_generator_family("Quaternions"));
+        assert!(!is_generator_family("foo.bilin"));
         let e = generate("frobnicate:3").unwrap_err().to_string();
         assert!(
             e.contains("unknown generator") && e.contains("matmul:n,m,p"),
