@@ -85,6 +85,7 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
         for (&(pos, cell), &j) in cells.iter().zip(&cols) {
             let mut cur = Cursor::new(line, pos, pos + cell.len());
             let terms = parse_combination(&mut cur)?;
+            b.check_names(&terms, &line)?;
             b.pending.push(Pending { i, j, terms, line: idx - 1, byte: pos });
         }
     }

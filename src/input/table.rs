@@ -74,6 +74,16 @@ impl<'a> Builder<'a> {
         Err(line.err(byte, format!("unknown {what} `{name}` (expected one of: {list})")))
     }
 
+    /// Check that every named term is a result basis name (errors in file order).
+    pub fn check_names(&self, terms: &[Term], line: &LineRef<'_>) -> Result<()> {
+        for t in terms {
+            if let Some(n) = &t.name {
+                self.lookup(2, n, line, t.pos)?;
+            }
+        }
+        Ok(())
+    }
+
     fn declared(&self) -> bool {
         match self.kind {
             Some(Kind::Algebra) => true,
@@ -290,6 +300,7 @@ fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<(
     }
     cur.bump();
     let terms = parse_combination(&mut cur)?;
+    b.check_names(&terms, &line)?;
     b.pending.push(Pending { i, j, terms, line: idx, byte: start });
     Ok(())
 }

@@ -95,7 +95,11 @@ pub fn write_grid(t: &Tensor) -> Result<String> {
     let mut s = header(t);
     s.push_str("grid\n");
     for r in &rows {
-        let line: Vec<String> = r.iter().enumerate().map(|(c, cell)| format!("{cell:<w$}", w = width[c])).collect();
+        let line: Vec<String> = r
+            .iter()
+            .enumerate()
+            .map(|(c, cell)| if c == 0 { format!("{cell:<w$}", w = width[0]) } else { format!("{cell:>w$}", w = width[c]) })
+            .collect();
         s.push_str(line.join("  ").trim_end());
         s.push('\n');
     }
