@@ -38,7 +38,12 @@ fn good_files_convert() {
 #[test]
 fn both_quaternion_files_give_the_same_table() {
     let a = bilin(&["convert", "tests/data/quaternions.bilin", "--to", "json"]);
-    let b = bilin(&["convert", "tests/data/quaternions_grid.bilin", "--to", "json"]);
+    let b = bilin(&[
+        "convert",
+        "tests/data/quaternions_grid.bilin",
+        "--to",
+        "json",
+    ]);
     assert_eq!(stdout(&a), stdout(&b));
     // i*j = k (Hamilton 1843).
     let t = stdout(&bilin(&["convert", "tests/data/quaternions.bilin"]));
@@ -49,8 +54,18 @@ fn both_quaternion_files_give_the_same_table() {
 fn gf2_product_and_field_override() {
     // In GF(4) = GF(2)[w]/(w^2+w+1): w*w = one + w (common practice).
     let t = stdout(&bilin(&["convert", "tests/data/gf2_field4.bilin"]));
-    assert!(t.contains("field GF(2)") && t.contains("w*w = one + w"), "{t}");
-    let o = bilin(&["convert", "tests/data/complex.json", "--field", "GF(5)", "--to", "table"]);
+    assert!(
+        t.contains("field GF(2)") && t.contains("w*w = one + w"),
+        "{t}"
+    );
+    let o = bilin(&[
+        "convert",
+        "tests/data/complex.json",
+        "--field",
+        "GF(5)",
+        "--to",
+        "table",
+    ]);
     assert!(stdout(&o).contains("i*i = 4 one"), "{}", stdout(&o));
     let o = bilin(&["convert", "jordan:2", "--field", "GF(2)"]);
     assert_eq!(o.status.code(), Some(2));
@@ -62,9 +77,17 @@ fn gf2_product_and_field_override() {
 #[test]
 fn bad_files_report_positions() {
     for (file, pos, msg) in [
-        ("bad_syntax.bilin", "3:11", "expected a coefficient or a basis name"),
+        (
+            "bad_syntax.bilin",
+            "3:11",
+            "expected a coefficient or a basis name",
+        ),
         ("bad_unknown_name.bilin", "3:7", "unknown basis name `k`"),
-        ("bad_conflict.bilin", "4:1", "conflicting duplicate product `i*i`"),
+        (
+            "bad_conflict.bilin",
+            "4:1",
+            "conflicting duplicate product `i*i`",
+        ),
         ("bad_div_zero.bilin", "2:9", "division by zero"),
         ("bad_field.bilin", "1:7", "6 is not a prime"),
         ("bad_empty.bilin", "1:1", "empty input"),
@@ -75,7 +98,10 @@ fn bad_files_report_positions() {
         let o = bilin(&["convert", &path]);
         let e = stderr(&o);
         assert_eq!(o.status.code(), Some(2), "{file}: {e}");
-        assert!(e.starts_with(&format!("error: {path}:{pos}")), "{file}: {e}");
+        assert!(
+            e.starts_with(&format!("error: {path}:{pos}")),
+            "{file}: {e}"
+        );
         assert!(e.contains(msg), "{file}: {e}");
         assert!(stdout(&o).is_empty());
     }

@@ -1,8 +1,8 @@
 //! `bilin convert INPUT --to table|grid|json [--field F]`: read an input (file, generator or
 //! catalog name) and print it in another form on stdout.
 
-use super::common::{generators_help, load, report_error};
 use super::EXIT_OK;
+use super::common::{generators_help, load, report_error};
 use bilin::input::{write_grid, write_json, write_table};
 
 /// The output forms.

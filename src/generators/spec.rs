@@ -77,8 +77,16 @@ pub fn generator_names() -> Vec<(&'static str, &'static str)> {
 /// True when the family part of `spec` (before the first `:`) names a generator family,
 /// so that errors of [`generate`] concern its arguments rather than an unknown name.
 pub fn is_generator_family(spec: &str) -> bool {
-    let family = spec.trim().split(':').next().unwrap_or("").trim().to_ascii_lowercase();
-    generator_names().iter().any(|(s, _)| s.split(':').next() == Some(family.as_str()))
+    let family = spec
+        .trim()
+        .split(':')
+        .next()
+        .unwrap_or("")
+        .trim()
+        .to_ascii_lowercase();
+    generator_names()
+        .iter()
+        .any(|(s, _)| s.split(':').next() == Some(family.as_str()))
 }
 
 fn family_list() -> String {

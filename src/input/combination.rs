@@ -60,7 +60,11 @@ pub(crate) fn parse_combination(cur: &mut Cursor<'_>) -> Result<Vec<Term>, Error
             }
             _ => return Err(cur.expected("a coefficient or a basis name")),
         };
-        terms.push(Term { name, coef: if negative { -coef } else { coef }, pos });
+        terms.push(Term {
+            name,
+            coef: if negative { -coef } else { coef },
+            pos,
+        });
         cur.skip_ws();
         match cur.peek() {
             None => break,
@@ -82,7 +86,11 @@ mod tests {
     use crate::scalar::q;
 
     fn parse(s: &str) -> Result<Vec<(Option<String>, Q)>, String> {
-        let line = LineRef { source: "t", text: s, number: 1 };
+        let line = LineRef {
+            source: "t",
+            text: s,
+            number: 1,
+        };
         let mut c = Cursor::new(line, 0, s.len());
         parse_combination(&mut c)
             .map(|v| v.into_iter().map(|t| (t.name, t.coef)).collect())
@@ -92,11 +100,20 @@ mod tests {
     #[test]
     fn forms() {
         let n = |s: &str| Some(s.to_string());
-        assert_eq!(parse("2 z - 1/3 w").unwrap(), vec![(n("z"), q(2, 1)), (n("w"), q(-1, 3))]);
+        assert_eq!(
+            parse("2 z - 1/3 w").unwrap(),
+            vec![(n("z"), q(2, 1)), (n("w"), q(-1, 3))]
+        );
         assert_eq!(parse("-w").unwrap(), vec![(n("w"), q(-1, 1))]);
-        assert_eq!(parse("3/2*e1 + e2").unwrap(), vec![(n("e1"), q(3, 2)), (n("e2"), q(1, 1))]);
+        assert_eq!(
+            parse("3/2*e1 + e2").unwrap(),
+            vec![(n("e1"), q(3, 2)), (n("e2"), q(1, 1))]
+        );
         assert_eq!(parse("0").unwrap(), vec![(None, q(0, 1))]);
-        assert_eq!(parse("i+2j").unwrap(), vec![(n("i"), q(1, 1)), (n("j"), q(2, 1))]);
+        assert_eq!(
+            parse("i+2j").unwrap(),
+            vec![(n("i"), q(1, 1)), (n("j"), q(2, 1))]
+        );
         assert_eq!(parse("-1/2e").unwrap(), vec![(n("e"), q(-1, 2))]);
         assert_eq!(parse("0.25 x'").unwrap(), vec![(n("x'"), q(1, 4))]);
         assert_eq!(parse("2e1").unwrap(), vec![(n("e1"), q(2, 1))]);
@@ -104,11 +121,27 @@ mod tests {
 
     #[test]
     fn errors() {
-        assert!(parse("").unwrap_err().contains("t:1:1: expected a combination"));
-        assert!(parse("1/0 x").unwrap_err().contains("t:1:3: division by zero"));
-        assert!(parse("x y").unwrap_err().contains("t:1:3: expected `+`, `-`"));
+        assert!(
+            parse("")
+                .unwrap_err()
+                .contains("t:1:1: expected a combination")
+        );
+        assert!(
+            parse("1/0 x")
+                .unwrap_err()
+                .contains("t:1:3: division by zero")
+        );
+        assert!(
+            parse("x y")
+                .unwrap_err()
+                .contains("t:1:3: expected `+`, `-`")
+        );
         assert!(parse("2* ").unwrap_err().contains("basis name after `*`"));
-        assert!(parse("x + ").unwrap_err().contains("expected a coefficient or a basis name"));
+        assert!(
+            parse("x + ")
+                .unwrap_err()
+                .contains("expected a coefficient or a basis name")
+        );
         assert!(parse("2.x").unwrap_err().contains("decimal point"));
         let long = "9".repeat(5000);
         assert!(parse(&long).unwrap_err().contains("at most 4096 digits"));

@@ -27,11 +27,18 @@ impl LineRef<'_> {
     pub fn pos(&self, b: usize) -> Position {
         let b = b.min(self.text.len());
         let column = self.text.get(..b).map_or(b, |s| s.chars().count()) + 1;
-        Position { source: self.source.to_string(), line: self.number, column }
+        Position {
+            source: self.source.to_string(),
+            line: self.number,
+            column,
+        }
     }
 
     pub fn err(&self, b: usize, message: impl Into<String>) -> Error {
-        Error::Parse { at: self.pos(b), message: message.into() }
+        Error::Parse {
+            at: self.pos(b),
+            message: message.into(),
+        }
     }
 }
 
@@ -40,7 +47,11 @@ pub(crate) fn found(rest: &str) -> String {
     match rest.chars().next() {
         None => "the end of the line".to_string(),
         Some(_) => {
-            let tok: String = rest.chars().take_while(|c| !c.is_whitespace()).take(20).collect();
+            let tok: String = rest
+                .chars()
+                .take_while(|c| !c.is_whitespace())
+                .take(20)
+                .collect();
             format!("`{tok}`")
         }
     }

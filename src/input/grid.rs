@@ -18,7 +18,10 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
     match b.kind {
         Some(Kind::Algebra) => {}
         Some(Kind::Bilinear) => {
-            return Err(gline.err(gpos, "a grid is only for algebras; write a bilinear map as product lines `x*y = ...`"));
+            return Err(gline.err(
+                gpos,
+                "a grid is only for algebras; write a bilinear map as product lines `x*y = ...`",
+            ));
         }
         None => return Err(gline.err(gpos, "a grid before the basis: declare `basis ...` first")),
     }
@@ -36,7 +39,10 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
         let is_end = toks.len() == 1 && toks[0].1 == "end";
         let Some(cols) = &columns else {
             if is_end {
-                return Err(line.err(toks[0].0, "expected the grid header (the column names), found `end`"));
+                return Err(line.err(
+                    toks[0].0,
+                    "expected the grid header (the column names), found `end`",
+                ));
             }
             let mut cols = Vec::with_capacity(toks.len());
             let mut where_: HashMap<usize, usize> = HashMap::new();
@@ -52,7 +58,10 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
                 let end = line.text.trim_end().len();
                 return Err(line.err(
                     end,
-                    format!("the grid header has no column for `{}`: every basis name must appear once", b.names[0].as_ref().map_or("", |v| v.0[missing].as_str())),
+                    format!(
+                        "the grid header has no column for `{}`: every basis name must appear once",
+                        b.names[0].as_ref().map_or("", |v| v.0[missing].as_str())
+                    ),
                 ));
             }
             columns = Some(cols);
@@ -62,7 +71,10 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
             if let Some(missing) = (0..n).find(|i| !rows_seen.contains_key(i)) {
                 return Err(line.err(
                     toks[0].0,
-                    format!("the grid has no row for `{}`: every basis name must appear once", b.names[0].as_ref().map_or("", |v| v.0[missing].as_str())),
+                    format!(
+                        "the grid has no row for `{}`: every basis name must appear once",
+                        b.names[0].as_ref().map_or("", |v| v.0[missing].as_str())
+                    ),
                 ));
             }
             return Ok(idx);
@@ -70,15 +82,29 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
         let (rpos, rname) = toks[0];
         let i = b.lookup(0, rname, &line, rpos)?;
         if let Some(first) = rows_seen.get(&i) {
-            return Err(line.err(rpos, format!("row `{rname}` appears twice in the grid (first on line {})", first + 1)));
+            return Err(line.err(
+                rpos,
+                format!(
+                    "row `{rname}` appears twice in the grid (first on line {})",
+                    first + 1
+                ),
+            ));
         }
         rows_seen.insert(i, idx - 1);
         let cells = &toks[1..];
         if cells.len() != cols.len() {
-            let at = if cells.len() > cols.len() { cells[cols.len()].0 } else { line.text.trim_end().len() };
+            let at = if cells.len() > cols.len() {
+                cells[cols.len()].0
+            } else {
+                line.text.trim_end().len()
+            };
             return Err(line.err(
                 at,
-                format!("expected {} cells in row `{rname}` (one per column), found {}", cols.len(), cells.len()),
+                format!(
+                    "expected {} cells in row `{rname}` (one per column), found {}",
+                    cols.len(),
+                    cells.len()
+                ),
             ));
         }
         let cols = cols.clone();
@@ -86,8 +112,17 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
             let mut cur = Cursor::new(line, pos, pos + cell.len());
             let terms = parse_combination(&mut cur)?;
             b.check_names(&terms, &line)?;
-            b.pending.push(Pending { i, j, terms, line: idx - 1, byte: pos });
+            b.pending.push(Pending {
+                i,
+                j,
+                terms,
+                line: idx - 1,
+                byte: pos,
+            });
         }
     }
-    Err(gline.err(gpos, "this grid is not closed: expected a line `end` before the end of the input"))
+    Err(gline.err(
+        gpos,
+        "this grid is not closed: expected a line `end` before the end of the input",
+    ))
 }

@@ -16,14 +16,24 @@ pub const MAX_FILE_BYTES: u64 = 64 << 20;
 /// Read a text file: at most [`MAX_FILE_BYTES`], valid UTF-8 (a binary file gives an
 /// [`Error::Parse`] at the first invalid byte).
 pub fn read_text_file(path: &str) -> Result<String> {
-    let io = |message: String| Error::Io { path: path.to_string(), message };
+    let io = |message: String| Error::Io {
+        path: path.to_string(),
+        message,
+    };
     let file = std::fs::File::open(path).map_err(|e| io(e.to_string()))?;
-    let too_big = || io(format!("the file is larger than the limit of {} MiB", MAX_FILE_BYTES >> 20));
+    let too_big = || {
+        io(format!(
+            "the file is larger than the limit of {} MiB",
+            MAX_FILE_BYTES >> 20
+        ))
+    };
     if file.metadata().map(|m| m.len()).unwrap_or(0) > MAX_FILE_BYTES {
         return Err(too_big());
     }
     let mut bytes = Vec::new();
-    file.take(MAX_FILE_BYTES + 1).read_to_end(&mut bytes).map_err(|e| io(e.to_string()))?;
+    file.take(MAX_FILE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(|e| io(e.to_string()))?;
     if bytes.len() as u64 > MAX_FILE_BYTES {
         return Err(too_big());
     }
@@ -32,9 +42,16 @@ pub fn read_text_file(path: &str) -> Result<String> {
         let bytes = e.as_bytes();
         let prefix = std::str::from_utf8(&bytes[..good]).unwrap_or("");
         let line = prefix.matches('\n').count() + 1;
-        let column = prefix[prefix.rfind('\n').map_or(0, |p| p + 1)..].chars().count() + 1;
+        let column = prefix[prefix.rfind('\n').map_or(0, |p| p + 1)..]
+            .chars()
+            .count()
+            + 1;
         Error::Parse {
-            at: Position { source: path.to_string(), line, column },
+            at: Position {
+                source: path.to_string(),
+                line,
+                column,
+            },
             message: format!(
                 "the input is not UTF-8 text (invalid byte 0x{:02X}): it looks like binary data, \
                  expected a text file",
@@ -46,7 +63,11 @@ pub fn read_text_file(path: &str) -> Result<String> {
 
 /// Parse a text, choosing JSON when its first non-space character is `{`.
 pub fn parse_any(text: &str, source: &str) -> Result<Tensor> {
-    if text.trim_start_matches('\u{feff}').trim_start().starts_with('{') {
+    if text
+        .trim_start_matches('\u{feff}')
+        .trim_start()
+        .starts_with('{')
+    {
         parse_json(text, source)
     } else {
         parse_table(text, source)
@@ -61,7 +82,9 @@ pub fn load_input(spec: &str, field: Option<FieldSpec>) -> Result<Tensor> {
     let t = if path.is_file() {
         parse_any(&read_text_file(spec)?, spec)?
     } else if path.is_dir() {
-        return Err(Error::Invalid(format!("`{spec}` is a directory; expected a file, a generator or a catalog name")));
+        return Err(Error::Invalid(format!(
+            "`{spec}` is a directory; expected a file, a generator or a catalog name"
+        )));
     } else if is_generator_family(spec) {
         generate(spec)?
     } else if let Some(r) = resolve_registered(spec) {
@@ -83,7 +106,8 @@ pub fn load_input(spec: &str, field: Option<FieldSpec>) -> Result<Tensor> {
                     t.field()
                 )));
             }
-            t.with_field(f).map_err(|m| Error::Invalid(format!("cannot read `{spec}` over {f}: {m}")))
+            t.with_field(f)
+                .map_err(|m| Error::Invalid(format!("cannot read `{spec}` over {f}: {m}")))
         }
     }
 }

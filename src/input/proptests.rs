@@ -8,29 +8,52 @@ use proptest::prelude::*;
 use proptest::test_runner::{Config, RngAlgorithm, TestRng, TestRunner};
 
 fn config(cases: u32) -> Config {
-    Config { cases, failure_persistence: None, ..Config::default() }
+    Config {
+        cases,
+        failure_persistence: None,
+        ..Config::default()
+    }
 }
 
 fn runner(cases: u32) -> TestRunner {
-    TestRunner::new_with_rng(config(cases), TestRng::deterministic_rng(RngAlgorithm::ChaCha))
+    TestRunner::new_with_rng(
+        config(cases),
+        TestRng::deterministic_rng(RngAlgorithm::ChaCha),
+    )
 }
 
 /// A random small tensor: dims 1..4, sparse entries n/d with |n| <= 20, 1 <= d <= 6.
 fn arb_tensor() -> impl Strategy<Value = Tensor> {
     (
-        prop_oneof![Just(FieldSpec::Rational), Just(FieldSpec::Prime(2)), Just(FieldSpec::Prime(7)), Just(FieldSpec::Prime(1_000_003))],
+        prop_oneof![
+            Just(FieldSpec::Rational),
+            Just(FieldSpec::Prime(2)),
+            Just(FieldSpec::Prime(7)),
+            Just(FieldSpec::Prime(1_000_003))
+        ],
         any::<bool>(),
         1usize..5,
         1usize..5,
         1usize..5,
-        prop::collection::vec((0usize..4, 0usize..4, 0usize..4, -20i64..=20, 1i64..=6), 0..20),
+        prop::collection::vec(
+            (0usize..4, 0usize..4, 0usize..4, -20i64..=20, 1i64..=6),
+            0..20,
+        ),
     )
         .prop_map(|(field, algebra, a, b, c, es)| {
-            let (kind, dims) = if algebra { (Kind::Algebra, [a; 3]) } else { (Kind::Bilinear, [a, b, c]) };
+            let (kind, dims) = if algebra {
+                (Kind::Algebra, [a; 3])
+            } else {
+                (Kind::Bilinear, [a, b, c])
+            };
             let mut t = Tensor::zero(field, kind, dims, None);
             let p = field.characteristic();
             for (i, j, k, n, d) in es {
-                let d = if p != 0 && d as u64 % p == 0 { 1 } else { d };
+                let d = if p != 0 && (d as u64).is_multiple_of(p) {
+                    1
+                } else {
+                    d
+                };
                 if i < dims[0] && j < dims[1] && k < dims[2] {
                     t.set(i, j, k, q(n, d));
                 }
@@ -68,8 +91,8 @@ fn never_panics_on_arbitrary_strings() {
     let alphabet = prop::collection::vec(
         prop::sample::select(vec![
             "basis ", "left ", "right ", "result ", "unit ", "field ", "GF(7)", "Q", "grid\n",
-            "end\n", "\n", " ", "e", "i", "x1", "*", "=", "+", "-", "/", "0", "1", "2", ".",
-            "#", "{", "}", "[", "]", ",", "\"", ":", "kind", "dims", "entries",
+            "end\n", "\n", " ", "e", "i", "x1", "*", "=", "+", "-", "/", "0", "1", "2", ".", "#",
+            "{", "}", "[", "]", ",", "\"", ":", "kind", "dims", "entries",
         ]),
         0..40,
     )
@@ -97,7 +120,10 @@ fn never_panics_on_mutated_files() {
         })
         .collect();
     let n = seeds.len();
-    let strat = (0..n, prop::collection::vec((any::<prop::sample::Index>(), 0u8..3, any::<char>()), 1..6));
+    let strat = (
+        0..n,
+        prop::collection::vec((any::<prop::sample::Index>(), 0u8..3, any::<char>()), 1..6),
+    );
     runner(2000)
         .run(&strat, |(s, muts)| {
             let mut chars: Vec<char> = seeds[s].chars().collect();

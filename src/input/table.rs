@@ -44,7 +44,11 @@ impl<'a> Builder<'a> {
     pub fn line(&self, idx: usize) -> LineRef<'a> {
         let raw = self.lines[idx];
         let text = raw.find('#').map_or(raw, |c| &raw[..c]);
-        LineRef { source: self.source, text, number: idx + 1 }
+        LineRef {
+            source: self.source,
+            text,
+            number: idx + 1,
+        }
     }
 
     pub fn pos(&self, idx: usize, byte: usize) -> Position {
@@ -52,16 +56,33 @@ impl<'a> Builder<'a> {
     }
 
     fn err(&self, idx: usize, byte: usize, message: impl Into<String>) -> Error {
-        Error::Parse { at: self.pos(idx, byte), message: message.into() }
+        Error::Parse {
+            at: self.pos(idx, byte),
+            message: message.into(),
+        }
     }
 
     /// Look up a name on an axis, with an error listing the basis.
-    pub fn lookup(&self, axis: usize, name: &str, line: &LineRef<'_>, byte: usize) -> Result<usize> {
+    pub fn lookup(
+        &self,
+        axis: usize,
+        name: &str,
+        line: &LineRef<'_>,
+        byte: usize,
+    ) -> Result<usize> {
         if let Some(&i) = self.index[axis].get(name) {
             return Ok(i);
         }
-        let names = self.names[axis].as_ref().map(|n| n.0.as_slice()).unwrap_or(&[]);
-        let mut list = names.iter().take(12).cloned().collect::<Vec<_>>().join(", ");
+        let names = self.names[axis]
+            .as_ref()
+            .map(|n| n.0.as_slice())
+            .unwrap_or(&[]);
+        let mut list = names
+            .iter()
+            .take(12)
+            .cloned()
+            .collect::<Vec<_>>()
+            .join(", ");
         if names.len() > 12 {
             list.push_str(", ...");
         }
@@ -71,7 +92,10 @@ impl<'a> Builder<'a> {
             (_, 1) => "right basis name",
             _ => "result basis name",
         };
-        Err(line.err(byte, format!("unknown {what} `{name}` (expected one of: {list})")))
+        Err(line.err(
+            byte,
+            format!("unknown {what} `{name}` (expected one of: {list})"),
+        ))
     }
 
     /// Check that every named term is a result basis name (errors in file order).
@@ -105,7 +129,11 @@ fn check_text(text: &str, source: &str) -> Result<()> {
         }
         if c.is_control() && c != '\r' && c != '\t' {
             return Err(Error::Parse {
-                at: Position { source: source.to_string(), line, column: col },
+                at: Position {
+                    source: source.to_string(),
+                    line,
+                    column: col,
+                },
                 message: format!(
                     "control character U+{:04X} found: the input looks like binary data, \
                      expected a text file",
@@ -124,7 +152,10 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
     check_text(text, source)?;
     let mut b = Builder {
         source,
-        lines: text.split('\n').map(|l| l.strip_suffix('\r').unwrap_or(l)).collect(),
+        lines: text
+            .split('\n')
+            .map(|l| l.strip_suffix('\r').unwrap_or(l))
+            .collect(),
         field: None,
         kind: None,
         names: [None, None, None],
@@ -153,7 +184,10 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
             "unit" => parse_unit(&mut b, line, idx - 1, &toks)?,
             "grid" => {
                 if toks.len() > 1 {
-                    return Err(line.err(toks[1].0, format!("expected nothing after `grid`, found `{}`", toks[1].1)));
+                    return Err(line.err(
+                        toks[1].0,
+                        format!("expected nothing after `grid`, found `{}`", toks[1].1),
+                    ));
                 }
                 idx = super::grid::parse_grid(&mut b, idx - 1)?;
             }
@@ -176,7 +210,10 @@ fn parse_field(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, after: usize)
     let rest = &line.text[after..];
     let start = after + (rest.len() - rest.trim_start().len());
     if let Some((_, first)) = b.field {
-        return Err(line.err(0, format!("the field is declared twice (first on line {})", first + 1)));
+        return Err(line.err(
+            0,
+            format!("the field is declared twice (first on line {})", first + 1),
+        ));
     }
     if !b.pending.is_empty() {
         return Err(line.err(0, "the `field` statement must come before the products"));
@@ -186,7 +223,12 @@ fn parse_field(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, after: usize)
     Ok(())
 }
 
-fn parse_basis(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, toks: &[(usize, &str)]) -> Result<()> {
+fn parse_basis(
+    b: &mut Builder<'_>,
+    line: LineRef<'_>,
+    idx: usize,
+    toks: &[(usize, &str)],
+) -> Result<()> {
     let (kpos, kw) = toks[0];
     let (kind, axis) = match kw {
         "basis" => (Kind::Algebra, 0),
@@ -205,15 +247,24 @@ fn parse_basis(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, toks: &[(usiz
         _ => {}
     }
     if let Some((_, first)) = &b.names[axis] {
-        return Err(line.err(kpos, format!("`{kw}` is declared twice (first on line {})", first + 1)));
+        return Err(line.err(
+            kpos,
+            format!("`{kw}` is declared twice (first on line {})", first + 1),
+        ));
     }
     if toks.len() == 1 {
-        return Err(line.err(kpos + kw.len(), format!("expected basis names after `{kw}`, found the end of the line")));
+        return Err(line.err(
+            kpos + kw.len(),
+            format!("expected basis names after `{kw}`, found the end of the line"),
+        ));
     }
     if toks.len() - 1 > MAX_DIM {
         return Err(line.err(
             kpos,
-            format!("`{kw}` lists {} names: dimensions are at most {MAX_DIM}", toks.len() - 1),
+            format!(
+                "`{kw}` lists {} names: dimensions are at most {MAX_DIM}",
+                toks.len() - 1
+            ),
         ));
     }
     let mut names = Vec::with_capacity(toks.len() - 1);
@@ -230,7 +281,10 @@ fn parse_basis(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, toks: &[(usiz
             ));
         }
         if let Some(c) = columns.get(name) {
-            return Err(line.err(pos, format!("duplicate basis name `{name}` (already at column {c})")));
+            return Err(line.err(
+                pos,
+                format!("duplicate basis name `{name}` (already at column {c})"),
+            ));
         }
         columns.insert(name, line.pos(pos).column);
         index.insert(name.to_string(), names.len());
@@ -249,17 +303,28 @@ fn parse_basis(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, toks: &[(usiz
     Ok(())
 }
 
-fn parse_unit(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, toks: &[(usize, &str)]) -> Result<()> {
+fn parse_unit(
+    b: &mut Builder<'_>,
+    line: LineRef<'_>,
+    idx: usize,
+    toks: &[(usize, &str)],
+) -> Result<()> {
     let kpos = toks[0].0;
     match b.kind {
         None => return Err(line.err(kpos, "`unit` before the basis: declare `basis ...` first")),
         Some(Kind::Bilinear) => {
-            return Err(line.err(kpos, "`unit` is only meaningful for an algebra (a `basis` statement)"));
+            return Err(line.err(
+                kpos,
+                "`unit` is only meaningful for an algebra (a `basis` statement)",
+            ));
         }
         _ => {}
     }
     if let Some((_, first)) = b.unit {
-        return Err(line.err(kpos, format!("`unit` is declared twice (first on line {})", first + 1)));
+        return Err(line.err(
+            kpos,
+            format!("`unit` is declared twice (first on line {})", first + 1),
+        ));
     }
     if toks.len() != 2 {
         let at = toks.get(2).map_or(kpos + 4, |t| t.0);
@@ -301,12 +366,22 @@ fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<(
     cur.bump();
     let terms = parse_combination(&mut cur)?;
     b.check_names(&terms, &line)?;
-    b.pending.push(Pending { i, j, terms, line: idx, byte: start });
+    b.pending.push(Pending {
+        i,
+        j,
+        terms,
+        line: idx,
+        byte: start,
+    });
     Ok(())
 }
 
 /// Reduce a product's terms into the field: sorted `(k, c)` without zeros.
-fn reduce_terms(b: &Builder<'_>, p: &Pending, field: Option<&PrimeField>) -> Result<Vec<(usize, Q)>> {
+fn reduce_terms(
+    b: &Builder<'_>,
+    p: &Pending,
+    field: Option<&PrimeField>,
+) -> Result<Vec<(usize, Q)>> {
     let line = b.line(p.line);
     let mut acc: BTreeMap<usize, Q> = BTreeMap::new();
     for t in &p.terms {
@@ -366,6 +441,9 @@ fn show(t: &Tensor, v: &[(usize, Q)]) -> String {
     super::write::format_combination(v.iter().map(|(k, c)| (t.name(2, *k), c)), true)
 }
 
+/// A product already read: its reduced value and the line index where it was given.
+type Seen = (Vec<(usize, Q)>, usize);
+
 /// Second pass: build the tensor from the statements.
 fn finish(b: Builder<'_>) -> Result<Tensor> {
     let kind = match b.kind {
@@ -400,7 +478,7 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
         FieldSpec::Rational => None,
     };
     let mut t = Tensor::zero(field, kind, dims, Some(names));
-    let mut seen: HashMap<(usize, usize), (Vec<(usize, Q)>, usize)> = HashMap::new();
+    let mut seen: HashMap<(usize, usize), Seen> = HashMap::new();
     for p in &b.pending {
         let v = reduce_terms(&b, p, prime.as_ref())?;
         if let Some((old, line)) = seen.get(&(p.i, p.j)) {
@@ -431,7 +509,10 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
             for (i, j) in [(u, x), (x, u)] {
                 match seen.get(&(i, j)) {
                     Some((v, line)) if *v != expect => {
-                        let p = b.pending.iter().find(|p| (p.i, p.j) == (i, j) && p.line == *line);
+                        let p = b
+                            .pending
+                            .iter()
+                            .find(|p| (p.i, p.j) == (i, j) && p.line == *line);
                         return Err(b.err(
                             *line,
                             p.map_or(0, |p| p.byte),

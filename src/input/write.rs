@@ -10,7 +10,10 @@ use crate::tensor::{Kind, Tensor};
 use num_traits::{One, Signed};
 
 /// A combination `2 z - 1/3 w` (`spaced`) or `2z-1/3w` (for grid cells); `0` when empty.
-pub fn format_combination<'a>(terms: impl IntoIterator<Item = (&'a str, &'a Q)>, spaced: bool) -> String {
+pub fn format_combination<'a>(
+    terms: impl IntoIterator<Item = (&'a str, &'a Q)>,
+    spaced: bool,
+) -> String {
     let mut out = String::new();
     for (name, c) in terms {
         let neg = c.is_negative();
@@ -39,7 +42,10 @@ pub fn format_combination<'a>(terms: impl IntoIterator<Item = (&'a str, &'a Q)>,
 }
 
 fn product_cell(t: &Tensor, i: usize, j: usize, spaced: bool) -> String {
-    format_combination(t.product(i, j).iter().map(|(k, c)| (t.name(2, *k), c)), spaced)
+    format_combination(
+        t.product(i, j).iter().map(|(k, c)| (t.name(2, *k), c)),
+        spaced,
+    )
 }
 
 fn header(t: &Tensor) -> String {
@@ -62,7 +68,12 @@ pub fn write_table(t: &Tensor) -> String {
     for i in 0..a {
         for j in 0..b {
             if !t.product(i, j).is_empty() {
-                s.push_str(&format!("{}*{} = {}\n", t.name(0, i), t.name(1, j), product_cell(t, i, j, true)));
+                s.push_str(&format!(
+                    "{}*{} = {}\n",
+                    t.name(0, i),
+                    t.name(1, j),
+                    product_cell(t, i, j, true)
+                ));
             }
         }
     }
@@ -98,7 +109,13 @@ pub fn write_grid(t: &Tensor) -> Result<String> {
         let line: Vec<String> = r
             .iter()
             .enumerate()
-            .map(|(c, cell)| if c == 0 { format!("{cell:<w$}", w = width[0]) } else { format!("{cell:>w$}", w = width[c]) })
+            .map(|(c, cell)| {
+                if c == 0 {
+                    format!("{cell:<w$}", w = width[0])
+                } else {
+                    format!("{cell:>w$}", w = width[c])
+                }
+            })
             .collect();
         s.push_str(line.join("  ").trim_end());
         s.push('\n');
@@ -121,7 +138,12 @@ pub fn write_json(t: &Tensor) -> String {
     let names: Vec<String> = t
         .names()
         .iter()
-        .map(|v| format!("[{}]", v.iter().map(|n| json_str(n)).collect::<Vec<_>>().join(", ")))
+        .map(|v| {
+            format!(
+                "[{}]",
+                v.iter().map(|n| json_str(n)).collect::<Vec<_>>().join(", ")
+            )
+        })
         .collect();
     let entries: Vec<String> = t
         .entries()
