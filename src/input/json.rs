@@ -72,7 +72,7 @@ fn array_element_bytes(text: &str, key: &str) -> Vec<usize> {
                 depth += 1;
             }
             b']' | b'}' => {
-                depth -= 1;
+                depth = depth.saturating_sub(1);
                 if depth == 0 {
                     break;
                 }
