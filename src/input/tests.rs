@@ -364,7 +364,9 @@ fn file_loader_limits() {
     let f = std::fs::File::create(&big).unwrap();
     f.set_len(MAX_FILE_BYTES + 1).unwrap();
     drop(f);
-    let e = read_text_file(big.to_str().unwrap()).unwrap_err().to_string();
+    let e = read_text_file(big.to_str().unwrap())
+        .unwrap_err()
+        .to_string();
     assert!(e.contains("larger than the limit of 64 MiB"), "{e}");
     std::fs::remove_file(&big).unwrap();
     // Invalid UTF-8 is reported at its line and column.
@@ -372,11 +374,18 @@ fn file_loader_limits() {
     std::fs::write(&bin, b"basis e\nxy\xff\xfe\n").unwrap();
     let path = bin.to_str().unwrap().to_string();
     let e = load_input(&path, None).unwrap_err().to_string();
-    assert!(e.starts_with(&format!("{path}:2:3:")) && e.contains("not UTF-8"), "{e}");
+    assert!(
+        e.starts_with(&format!("{path}:2:3:")) && e.contains("not UTF-8"),
+        "{e}"
+    );
     std::fs::remove_file(&bin).unwrap();
     // JSON is chosen by the first non-space character.
     let js = dir.join(format!("bilin-test-json-{pid}.txt"));
-    std::fs::write(&js, " \n{\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[[0,0,0,\"1\"]]}").unwrap();
+    std::fs::write(
+        &js,
+        " \n{\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[[0,0,0,\"1\"]]}",
+    )
+    .unwrap();
     assert_eq!(load_input(js.to_str().unwrap(), None).unwrap().nnz(), 1);
     std::fs::remove_file(&js).unwrap();
 }
