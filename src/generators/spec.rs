@@ -142,6 +142,18 @@ fn no_args(spec: &str, args: Option<&str>) -> Result<()> {
 /// [`generator_names`]). Unknown names give [`Error::Invalid`] listing the families;
 /// sizes above the dimension limit are refused before allocation.
 pub fn generate(spec: &str) -> Result<Tensor> {
+    generate_nested(spec, 0)
+}
+
+/// `commutator:` and `anticommutator:` may be nested at most this deep.
+const MAX_NESTING: usize = 8;
+
+fn generate_nested(spec: &str, depth: usize) -> Result<Tensor> {
+    if depth > MAX_NESTING {
+        return Err(Error::Invalid(format!(
+            "generator spec nested more than {MAX_NESTING} levels deep"
+        )));
+    }
     let spec = spec.trim();
     let (name, args) = match spec.split_once(':') {
         Some((n, a)) => (n.trim(), Some(a)),
@@ -241,7 +253,7 @@ pub fn generate(spec: &str) -> Result<Tensor> {
                     "generator `{name}` needs another generator after a colon, e.g. `{name}:matrix:2`"
                 )));
             };
-            let t = generate(inner)?;
+            let t = generate_nested(inner, depth + 1)?;
             if lname == "commutator" {
                 commutator_algebra(&t)
             } else {
@@ -310,5 +322,7 @@ mod tests {
         assert!(generate("quotient:1,2,x").is_err());
         assert!(generate("commutator:matmul:2,2,2").is_err());
         assert!(generate("cd:99").is_err());
+        let deep = format!("{}matrix:1", "commutator:".repeat(100_000));
+        assert!(generate(&deep).unwrap_err().to_string().contains("nested"));
     }
 }
