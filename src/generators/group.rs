@@ -253,6 +253,18 @@ mod tests {
         // generators of S_4 in two orders give algebras of dimension 24 with g0 the unit.
         let s4 = permutation_group_algebra(&[vec![1, 0, 2, 3], vec![1, 2, 3, 0]]).unwrap();
         assert_eq!(s4.dim(), 24);
+        // Group axioms on the index table: associativity and Latin-square rows.
+        let m = |a: usize, b: usize| s4.product(a, b)[0].0;
+        for a in 0..24 {
+            let mut row: Vec<usize> = (0..24).map(|b| m(a, b)).collect();
+            row.sort();
+            assert_eq!(row, (0..24).collect::<Vec<_>>());
+            for b in 0..24 {
+                for c in 0..24 {
+                    assert_eq!(m(m(a, b), c), m(a, m(b, c)));
+                }
+            }
+        }
         for x in 0..24 {
             assert_eq!(s4.product(0, x), &[(x, q(1, 1))]);
             assert_eq!(s4.product(x, 0), &[(x, q(1, 1))]);

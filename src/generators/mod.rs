@@ -126,7 +126,6 @@ mod tests {
             matrix_algebra(3).unwrap(),
             dihedral_group_algebra(3).unwrap(),
             symmetric_group_algebra(3).unwrap(),
-            permutation_group_algebra(&[vec![1, 0, 2, 3], vec![1, 2, 3, 0]]).unwrap(),
             permutation_group_algebra(&[vec![1, 2, 0, 3, 4], vec![0, 1, 3, 4, 2]]).unwrap(),
             clifford(2, 1).unwrap(),
             quotient_ring(&[
