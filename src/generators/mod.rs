@@ -126,7 +126,7 @@ mod tests {
             matrix_algebra(3).unwrap(),
             dihedral_group_algebra(3).unwrap(),
             symmetric_group_algebra(3).unwrap(),
-            permutation_group_algebra(&[vec![1, 2, 0, 3, 4], vec![0, 1, 3, 4, 2]]).unwrap(),
+            permutation_group_algebra(&[vec![1, 2, 0, 3, 4, 5], vec![0, 1, 2, 4, 5, 3]]).unwrap(),
             clifford(2, 1).unwrap(),
             quotient_ring(&[
                 crate::scalar::q(1, 1),
