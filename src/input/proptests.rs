@@ -39,8 +39,9 @@ fn arb_tensor() -> impl Strategy<Value = Tensor> {
             (0usize..4, 0usize..4, 0usize..4, -20i64..=20, 1i64..=6),
             0..20,
         ),
+        prop::collection::vec(0usize..5, 3),
     )
-        .prop_map(|(field, algebra, a, b, c, es)| {
+        .prop_map(|(field, algebra, a, b, c, es, styles)| {
             let (kind, dims) = if algebra {
                 (Kind::Algebra, [a; 3])
             } else {
@@ -57,6 +58,14 @@ fn arb_tensor() -> impl Strategy<Value = Tensor> {
                 if i < dims[0] && j < dims[1] && k < dims[2] {
                     t.set(i, j, k, q(n, d));
                 }
+            }
+            // Name styles exercising every allowed name character.
+            for (axis, style) in styles.iter().enumerate() {
+                if algebra && axis > 0 {
+                    break;
+                }
+                let pat = ["e", "x'", "_b.", "\u{3b1}", "E_"][*style];
+                t.set_names(axis, (0..dims[axis]).map(|i| format!("{pat}{i}")).collect());
             }
             t
         })
