@@ -1,33 +1,32 @@
 //! Helpers shared by subcommands: loading an input with error rendering.
-//! (Placeholder until the input loader is merged: generators only.)
 
 use super::EXIT_USAGE;
 use bilin::error::Error;
+use bilin::input::load_input;
 use bilin::scalar::FieldSpec;
 use bilin::tensor::Tensor;
 
-/// Print an error on stderr and return the exit code for bad input (2).
+/// Print an error as `error: file:line:col: message` (or `error: message`) on stderr and
+/// return the exit code for bad input (2).
 pub fn report_error(e: &Error) -> i32 {
     eprintln!("error: {e}");
     EXIT_USAGE
 }
 
-/// Load a generator spec, optionally over another field.
+/// Load an input (file, generator spec or catalog name), optionally over another field
+/// given as text (`Q`, `GF(7)`). Errors are printed; the `Err` holds the exit code (2).
 pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {
-    let t = bilin::generators::generate(spec).map_err(|e| report_error(&e))?;
-    match field {
-        None => Ok(t),
-        Some(f) => {
-            let f = FieldSpec::parse(f).map_err(|m| {
+    let field = match field {
+        None => None,
+        Some(f) => match FieldSpec::parse(f) {
+            Ok(f) => Some(f),
+            Err(m) => {
                 eprintln!("error: --field: {m}");
-                EXIT_USAGE
-            })?;
-            t.with_field(f).map_err(|m| {
-                eprintln!("error: {m}");
-                EXIT_USAGE
-            })
-        }
-    }
+                return Err(EXIT_USAGE);
+            }
+        },
+    };
+    load_input(spec, field).map_err(|e| report_error(&e))
 }
 
 /// The generator list for `--help` texts.

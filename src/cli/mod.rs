@@ -4,10 +4,11 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
-mod analyze;
-mod common;
-
 use clap::{Parser, Subcommand};
+
+mod analyze;
+pub mod common;
+mod convert;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -27,6 +28,8 @@ struct Cli {
 enum Command {
     /// Laws, ranks and the full analysis of a product.
     Analyze(analyze::Args),
+    /// Print an input (file, generator or catalog name) as a table, grid or JSON.
+    Convert(convert::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -41,5 +44,6 @@ pub fn run() -> i32 {
     };
     match cli.command {
         Command::Analyze(a) => analyze::run(a),
+        Command::Convert(a) => convert::run(a),
     }
 }
