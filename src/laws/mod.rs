@@ -19,6 +19,7 @@
 pub mod check;
 pub mod expr;
 mod fast;
+pub mod pointwise;
 mod unit;
 
 pub use check::{Check, Witness};
@@ -139,6 +140,9 @@ pub struct Params {
     /// An identity whose estimated number of term evaluations exceeds this is skipped
     /// (reported undecided, never guessed).
     pub max_work: u128,
+    /// Over GF(p) with p below an identity's degree, a failing identity is also checked on
+    /// every element when there are at most this many (p^n).
+    pub max_pointwise_elements: u64,
 }
 
 impl Default for Params {
@@ -147,6 +151,7 @@ impl Default for Params {
             laws: Law::ALL.to_vec(),
             stop_first: false,
             max_work: 40_000_000,
+            max_pointwise_elements: 1 << 14,
         }
     }
 }
@@ -443,15 +448,14 @@ pub fn check_laws_in<F: Field>(
                 if let Some(res) = &res
                     && res.failures > 0
                     && p > 0
-                    && (p as u128) < d.degree as u128
+                    && p < d.degree as u64
                 {
-                    notes.push(format!(
-                        "`{}` is decided as a polynomial identity (in every extension field); \
-                         since p = {p} < {} (its degree in x), it may still hold for every \
-                         element over GF({p}) itself",
-                        identity_text(&d),
-                        d.degree
-                    ));
+                    let table = match d.product {
+                        Product::Original => t,
+                        Product::Commutator => tables[0].as_ref().expect("built"),
+                        Product::Anticommutator => tables[1].as_ref().expect("built"),
+                    };
+                    notes.push(char_note(f, table, names, &d, params));
                 }
                 cache.push((c, res, notes));
             }
@@ -498,6 +502,40 @@ pub fn check_laws_in<F: Field>(
         dimension: n,
         results,
         notes: Vec::new(),
+    }
+}
+
+/// The note on a polynomial identity that fails over GF(p) with p below its degree:
+/// settled element-wise when GF(p)^n is small enough.
+fn char_note<F: Field>(
+    f: &F,
+    t: &Table<F::Elem>,
+    names: &[String],
+    d: &Def,
+    params: &Params,
+) -> String {
+    let p = f.characteristic();
+    let head = format!(
+        "`{}` is decided as a polynomial identity (in every extension field) and fails; \
+         since p = {p} < {} (its degree in x)",
+        identity_text(d),
+        d.degree
+    );
+    let max = params.max_pointwise_elements;
+    match pointwise::check_pointwise(f, t, names, &d.id, d.degree, notation(d.product), max) {
+        Some(pointwise::Pointwise::Holds(k)) => format!(
+            "{head}, it was also checked element-wise: it holds for all {k} elements over \
+             GF({p}) itself"
+        ),
+        Some(pointwise::Pointwise::Fails(w)) => format!(
+            "{head}, it was also checked element-wise: it fails over GF({p}) itself too: \
+             {} = {}",
+            w.expression, w.value
+        ),
+        None => format!(
+            "{head}, it may still hold for every element over GF({p}) itself (too many \
+             elements to check them all)"
+        ),
     }
 }
 

@@ -155,3 +155,41 @@ fn gf2_caveat_and_budget() {
     let r = check_laws(&t, &p).unwrap();
     assert_eq!(r.holds(Law::PowerAssociative), None);
 }
+
+/// Over GF(2), `(x*x)*x = x*(x*x)` can hold for every element without holding as a
+/// polynomial identity (a^2 b and a b^2 agree as functions on GF(2)); among the 256
+/// two-dimensional algebras over GF(2) some show it, and the note says so.
+#[test]
+fn gf2_pointwise_versus_polynomial() {
+    let mut found = 0;
+    for bits in 0u32..256 {
+        let mut t = Tensor::algebra(FieldSpec::Prime(2), vec!["a".into(), "b".into()]);
+        for idx in 0..8 {
+            if bits >> idx & 1 == 1 {
+                t.set(idx / 4, (idx / 2) % 2, idx % 2, q(1, 1));
+            }
+        }
+        let p = Params {
+            laws: vec![Law::PowerAssociative],
+            ..Params::default()
+        };
+        let r = check_laws(&t, &p).unwrap();
+        let res = r.get(Law::PowerAssociative).unwrap();
+        if res.holds == Some(false)
+            && res
+                .notes
+                .iter()
+                .any(|n| n.contains("holds for all 4 elements"))
+        {
+            found += 1;
+        }
+        if res.holds == Some(false) {
+            assert!(
+                res.notes.iter().any(|n| n.contains("element-wise")),
+                "{:?}",
+                res.notes
+            );
+        }
+    }
+    assert!(found > 0);
+}
