@@ -11,7 +11,13 @@
 //! extension field). Over Q, and over GF(p) with `p >= d`, that is the same as holding
 //! for every element; over GF(p) with `p < d` (GF(2) and degree 3 or 4, GF(3) and degree
 //! 4) a law reported as failing may still hold for every element of the algebra over GF(p)
-//! itself, and the result then carries a note saying so.
+//! itself, and the result then carries a note saying so; when GF(p)^n is small
+//! (`Params::max_pointwise_elements`) the note settles the question by checking every
+//! element ([`pointwise`]).
+//!
+//! Over Q the checks run in GF(2^61 - 1) on the integer-scaled table when a coefficient
+//! bound proves that this decides every instance exactly (see `fast`); witnesses are
+//! always recomputed over the algebra's own field.
 //!
 //! Every failure comes with a witness: the basis tuple, the substituted expression and its
 //! exact nonzero value written with the basis names.
