@@ -357,3 +357,17 @@ fn matmul_slice_span() {
     assert!(r.span[0].proven || r.span[0].upper_bound >= 4);
     assert_eq!(r.span[0].random_rank, 4);
 }
+
+/// The generic element of a semisimple Lie algebra L is regular: its centralizer has
+/// dimension rank(L), so the largest rank of ad x is dim L - rank L; for sl(2): 3 - 1 = 2
+/// (Humphreys 1972, Introduction to Lie Algebras and Representation Theory, 15.3)
+/// (from memory). The left slices of a Lie algebra are the matrices of ad e_i (up to
+/// transposition).
+#[test]
+fn sl2_regular_elements() {
+    let r = ranks::compute_ranks(&load("sl:2", Q), &ranks::Params::default());
+    assert_eq!(r.span[0].certificate_rank, 2);
+    assert_eq!(r.span[0].upper_bound, 2);
+    assert!(r.span[0].proven);
+    assert!(r.span[0].upper_bound_method.starts_with("grid"));
+}

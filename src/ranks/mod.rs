@@ -16,6 +16,11 @@
 //!   The upper bound `min(rank of the flattenings of the two other axes)` holds because
 //!   the column (row) space of every combination lies in the span of all the slices'
 //!   columns (rows). When a lower bound meets it, the maximum is proven.
+//!   Otherwise, when the span has few slices, the grid argument proves the lower bound
+//!   `r` is the generic rank: every `(r+1)`-minor of `sum_s t_s M_s` has degree at most
+//!   `r + 1` in each `t_s`, so if all the points of `{0..r+1}^k` give rank `<= r`, the
+//!   minors vanish identically (Alon 1999, Combinatorial Nullstellensatz). A grid point
+//!   of larger rank becomes the new certificate.
 //!
 //! Over GF(q) the "largest rank in the span" means over GF(q) itself; both lower bounds
 //! are then computed in GF(q).
@@ -36,6 +41,8 @@ pub struct Params {
     pub trials: usize,
     /// The small integer coefficients of the certificate lie in `-bound..=bound`.
     pub bound: i64,
+    /// The grid argument is used when it needs at most this many exact ranks.
+    pub max_grid_points: u64,
 }
 
 impl Default for Params {
@@ -44,6 +51,7 @@ impl Default for Params {
             seed: 1,
             trials: 2,
             bound: 3,
+            max_grid_points: 4096,
         }
     }
 }
@@ -71,8 +79,11 @@ pub struct SpanRank {
     pub certificate: Vec<i64>,
     /// Exact rank of the certificate combination (a proven lower bound).
     pub certificate_rank: usize,
-    /// `min` of the flattening ranks of the two other axes (a proven upper bound).
+    /// A proven upper bound: `min` of the flattening ranks of the two other axes, or the
+    /// lower bound itself when the grid argument (see [`compute_ranks`]) proves it.
     pub upper_bound: usize,
+    /// `flattening`, or `grid {0..m}^k` when the grid argument gave the bound.
+    pub upper_bound_method: String,
     /// True when a lower bound equals the upper bound (the maximum is then proven).
     pub proven: bool,
 }
@@ -225,15 +236,85 @@ fn span_rank(
             }
         }
     }
+    let mut upper_bound = upper;
+    let mut upper_bound_method = "flattening".to_string();
+    let mut lower = random_rank.max(certificate_rank);
+    // the grid argument: rescan with a larger candidate whenever a grid point beats it
+    while lower < upper_bound {
+        match grid_scan(field, ms, shape, lower, params.max_grid_points) {
+            GridScan::TooLarge => break,
+            GridScan::AllAtMost => {
+                upper_bound = lower;
+                upper_bound_method = format!("grid {{0..{}}}^{}", lower + 1, ms.len());
+            }
+            GridScan::Found(c, r) => {
+                certificate = c;
+                certificate_rank = r;
+                lower = r;
+            }
+        }
+    }
     SpanRank {
         axis: axis.into(),
         random_rank,
         prime: p,
         certificate,
         certificate_rank,
-        upper_bound: upper,
-        proven: random_rank.max(certificate_rank) == upper,
+        upper_bound,
+        upper_bound_method,
+        proven: lower == upper_bound,
     }
+}
+
+enum GridScan {
+    /// More than the allowed number of points (or the field is too small).
+    TooLarge,
+    /// Every grid point has rank at most the candidate.
+    AllAtMost,
+    /// A point with a larger rank.
+    Found(Vec<i64>, usize),
+}
+
+/// Every `(r+1)`-minor of `sum_s t_s M_s` is a polynomial of degree at most `r + 1` in
+/// each `t_s`; one that vanishes on the grid `{0, ..., r+1}^k` is zero (a polynomial of
+/// degree `< |S|` in each variable vanishing on `S^k` is zero; Alon 1999, Combinatorial
+/// Nullstellensatz). So if every grid point has rank `<= r`, the generic rank of the span
+/// is `<= r`. Needs `r + 2` distinct field elements. Cost: `(r+2)^k` exact ranks.
+fn grid_scan(
+    field: FieldSpec,
+    ms: &[Matrix<Q>],
+    shape: [usize; 2],
+    r: usize,
+    max_points: u64,
+) -> GridScan {
+    let base = r as u64 + 2;
+    if field.characteristic() != 0 && field.characteristic() < base {
+        return GridScan::TooLarge;
+    }
+    let Some(points) = u32::try_from(ms.len())
+        .ok()
+        .and_then(|k| base.checked_pow(k))
+    else {
+        return GridScan::TooLarge;
+    };
+    if points > max_points {
+        return GridScan::TooLarge;
+    }
+    let mut t = vec![0i64; ms.len()];
+    for _ in 0..points {
+        let rk = rank_over(field, &combine(ms, shape, &t));
+        if rk > r {
+            return GridScan::Found(t, rk);
+        }
+        for x in t.iter_mut() {
+            *x += 1;
+            if (*x as u64) < base {
+                break;
+            }
+            *x = 0;
+        }
+    }
+    GridScan::AllAtMost
 }
 
 #[cfg(test)]

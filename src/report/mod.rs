@@ -114,9 +114,18 @@ pub fn analyze(t: &Tensor, source: &str, params: &Params) -> Result<AnalyzeRepor
         "slice span: 'random' is the rank of a random element mod a large prime (lower bound, \
          equal to the generic rank w.h.p.); 'certificate' is the exact rank of the stated \
          integer combination (proven lower bound); 'upper' is min of the two other \
-         flattening ranks (proven); the maximum is proven when a lower bound meets it"
+         flattening ranks, or the lower bound itself when every point of a small integer \
+         grid has rank at most it (Combinatorial Nullstellensatz; proven); the maximum is \
+         proven when a lower bound meets it"
             .into(),
     );
+    if let crate::scalar::FieldSpec::Prime(p) = t.field() {
+        notes.push(format!(
+            "over GF({p}) the slice-span elements are drawn from GF({p}) itself; for a small \
+             prime a random element may miss the largest rank, which is then proven only \
+             when it meets the upper bound"
+        ));
+    }
     Ok(AnalyzeReport {
         schema: SCHEMA.into(),
         input: summarize_input(t, source),

@@ -214,10 +214,10 @@ fn ranks(s: &mut String, r: &RankReport) {
         "axis", "random (mod p)", "certificate", "upper"
     );
     for x in &r.span {
-        let status = if x.proven {
-            "proven maximum"
-        } else {
-            "lower bounds only"
+        let status = match (x.proven, x.upper_bound_method.starts_with("grid")) {
+            (true, true) => "proven maximum (grid argument)",
+            (true, false) => "proven maximum",
+            _ => "lower bounds only",
         };
         let _ = writeln!(
             s,
