@@ -117,3 +117,22 @@ fn files() {
     assert_eq!(code, 2);
     assert!(err.contains("laws_bad.bilin"), "{err}");
 }
+
+/// Exit code 1 when a claim is false: octonions are alternative but not associative
+/// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. III).
+#[test]
+fn expect_claims() {
+    let (code, _, err) = run(&[
+        "analyze",
+        "octonions",
+        "--laws",
+        "unital",
+        "--expect",
+        "alternative,!associative",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let (code, _, err) = run(&["analyze", "octonions", "--expect", "associative"]);
+    assert_eq!(code, 1);
+    assert!(err.contains("associative"), "{err}");
+    assert_eq!(run(&["analyze", "octonions", "--expect", "!nonsense"]).0, 2);
+}

@@ -1,8 +1,9 @@
-//! `bilin analyze INPUT [--json] [--field F] [--laws a,b] [--seed N]`: laws, ranks and the
-//! rest of the analysis of one product, as text or JSON (schema `bilin.analyze/1`).
+//! `bilin analyze INPUT [--json] [--field F] [--laws a,b] [--expect a,!b] [--seed N]`: laws,
+//! ranks and the rest of the analysis of one product, as text or JSON (schema
+//! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false.
 
 use super::common::{generators_help, load, report_error};
-use super::{EXIT_OK, EXIT_USAGE};
+use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::laws::Law;
 use bilin::report::{Params, analyze, render_json, render_text};
 
@@ -21,6 +22,10 @@ pub struct Args {
     /// Only these laws, comma-separated (e.g. `associative,jordan`); default all.
     #[arg(long)]
     pub laws: Option<String>,
+    /// Claims to check, comma-separated: `law` must hold, `!law` must fail
+    /// (e.g. `alternative,!associative`). Exit code 1 if a claim is false or undecided.
+    #[arg(long)]
+    pub expect: Option<String>,
     /// Seed of the random elements used for the slice-span ranks.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -51,15 +56,56 @@ pub fn run(args: Args) -> i32 {
         }
         params.laws.laws = laws;
     }
-    match analyze(&t, &args.input, &params) {
-        Ok(r) => {
-            if args.json {
-                println!("{}", render_json(&r));
-            } else {
-                print!("{}", render_text(&r));
-            }
-            EXIT_OK
+    let mut claims = Vec::new();
+    for item in args.expect.iter().flat_map(|s| s.split(',')).map(str::trim) {
+        if item.is_empty() {
+            continue;
         }
-        Err(e) => report_error(&e),
+        let (want, name) = match item.strip_prefix('!') {
+            Some(n) => (false, n),
+            None => (true, item),
+        };
+        match Law::parse(name) {
+            Some(l) => claims.push((l, want)),
+            None => return unknown_law(name),
+        }
     }
+    for (l, _) in &claims {
+        if !params.laws.laws.contains(l) {
+            params.laws.laws.push(*l);
+        }
+    }
+    let r = match analyze(&t, &args.input, &params) {
+        Ok(r) => r,
+        Err(e) => return report_error(&e),
+    };
+    if args.json {
+        println!("{}", render_json(&r));
+    } else {
+        print!("{}", render_text(&r));
+    }
+    let mut code = EXIT_OK;
+    for (l, want) in claims {
+        let got = r.laws.as_ref().and_then(|x| x.holds(l));
+        if got != Some(want) {
+            let said = match got {
+                Some(true) => "holds",
+                Some(false) => "fails",
+                None => "is not decided",
+            };
+            let claim = if want { "hold" } else { "fail" };
+            eprintln!(
+                "claim false: `{}` was expected to {claim} but {said}",
+                l.name()
+            );
+            code = EXIT_FALSE;
+        }
+    }
+    code
+}
+
+fn unknown_law(name: &str) -> i32 {
+    let known: Vec<&str> = Law::ALL.iter().map(|l| l.name()).collect();
+    eprintln!("error: unknown law `{name}`; known: {}", known.join(", "));
+    EXIT_USAGE
 }
