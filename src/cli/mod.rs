@@ -6,6 +6,12 @@
 
 use clap::{Parser, Subcommand};
 
+mod bounds;
+mod emit;
+mod scheme;
+mod scheme_io;
+mod verify;
+
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
 /// Exit code: a checked claim is false.
@@ -21,7 +27,16 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Verify a scheme (bilinear algorithm) exactly against a tensor.
+    Verify(verify::Args),
+    /// Proven lower bounds for the tensor rank, each with its theorem.
+    Bounds(bounds::Args),
+    /// Emit a verified scheme as C, Rust, Python or LaTeX.
+    Emit(emit::Args),
+    /// Schemes as data: convert, cost, polish, kron, sum, permute, cyclic, transpose, restrict.
+    Scheme(scheme::Args),
+}
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
@@ -33,5 +48,10 @@ pub fn run() -> i32 {
             return code;
         }
     };
-    match cli.command {}
+    match cli.command {
+        Command::Verify(a) => verify::run(&a),
+        Command::Bounds(a) => bounds::run(&a),
+        Command::Emit(a) => emit::run(&a),
+        Command::Scheme(a) => scheme::run(&a),
+    }
 }

@@ -563,6 +563,12 @@ mod tests {
         dual.set(0, 1, 1, Q::one());
         dual.set(1, 0, 1, Q::one());
         assert_eq!(alder_strassen(&dual, &p).unwrap().value, 3);
+        // the built-in generators: complex numbers (t = 1) and Hamilton's quaternions, a
+        // division algebra with centre Q (t = 1): 2*4 - 1 = 7 (Alder and Strassen 1981)
+        let c = crate::generators::generate("complex").unwrap();
+        assert_eq!(alder_strassen(&c, &p).unwrap().value, 3);
+        let h = crate::generators::generate("quaternions").unwrap();
+        assert_eq!(alder_strassen(&h, &p).unwrap().value, 7);
         // not an algebra
         assert!(alder_strassen(&matmul(2, 2, 2), &p).is_err());
     }

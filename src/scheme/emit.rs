@@ -17,7 +17,7 @@ use super::{Scheme, verify};
 use crate::error::Error;
 use crate::scalar::{FieldSpec, Q, q_to_string};
 use crate::tensor::Tensor;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Signed};
 
 /// Target language.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -327,6 +327,7 @@ fn emit_latex(s: &Scheme, t: &Tensor, head: &[String]) -> String {
 mod tests {
     use super::*;
     use crate::scheme::testkit::*;
+    use num_traits::Zero;
     use rand::{Rng, SeedableRng};
     use std::process::Command;
 

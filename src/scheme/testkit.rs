@@ -7,36 +7,13 @@
 
 use super::Scheme;
 use crate::scalar::{FieldSpec, Q, q};
-use crate::tensor::{Kind, Tensor};
+use crate::tensor::Tensor;
 use num_traits::{One, Zero};
 use rand::{Rng, SeedableRng};
 
-fn mat_names(p: &str, r: usize, c: usize) -> Vec<String> {
-    let mut v = Vec::new();
-    for i in 0..r {
-        for j in 0..c {
-            if r < 10 && c < 10 {
-                v.push(format!("{p}{}{}", i + 1, j + 1));
-            } else {
-                v.push(format!("{p}{}_{}", i + 1, j + 1));
-            }
-        }
-    }
-    v
-}
-
-/// The matrix multiplication tensor <n,m,p> over Q.
+/// The matrix multiplication tensor <n,m,p> over Q (the built-in generator).
 pub fn matmul(n: usize, m: usize, p: usize) -> Tensor {
-    let names = [mat_names("a", n, m), mat_names("b", m, p), mat_names("c", n, p)];
-    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [n * m, m * p, n * p], Some(names));
-    for i in 0..n {
-        for j in 0..m {
-            for k in 0..p {
-                t.set(i * m + j, j * p + k, i * p + k, Q::one());
-            }
-        }
-    }
-    t
+    crate::generators::matmul(n, m, p).expect("small format")
 }
 
 /// The complex numbers as a 2-dimensional algebra over Q, basis `one`, `i`.
@@ -49,23 +26,14 @@ pub fn complex() -> Tensor {
     t
 }
 
-/// Product of two polynomials of degree < n (coefficients a0.., b0.., c0..c_{2n-2}).
+/// Product of two polynomials of degree < n (the built-in generator; a0.., b0.., c0..).
 pub fn polymul(n: usize) -> Tensor {
-    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [n, n, 2 * n - 1], None);
-    for i in 0..n {
-        for j in 0..n {
-            t.set(i, j, i + j, Q::one());
-        }
-    }
-    t
+    crate::generators::poly_mult(n, n).expect("small")
 }
 
-/// The algebra M_2(Q) with basis e11, e12, e21, e22.
+/// The algebra M_2(Q) with basis e11, e12, e21, e22 (the built-in generator).
 pub fn m2_algebra() -> Tensor {
-    let mm = matmul(2, 2, 2);
-    let mut t = mm.as_algebra().unwrap();
-    t.set_names(0, vec!["e11".into(), "e12".into(), "e21".into(), "e22".into()]);
-    t
+    crate::generators::matrix_algebra(2).expect("small")
 }
 
 /// A random scheme with small coefficients (rationals over Q), some rows all zero.
