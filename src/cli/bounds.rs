@@ -24,7 +24,13 @@ pub fn run(a: &Args) -> i32 {
         Ok(t) => t,
         Err(e) => return fail(&e),
     };
-    let b = lower_bounds(&t, &BoundsParams { seed: a.seed, ..BoundsParams::default() });
+    let b = lower_bounds(
+        &t,
+        &BoundsParams {
+            seed: a.seed,
+            ..BoundsParams::default()
+        },
+    );
     if a.json {
         let v = serde_json::json!({
             "input": a.input,
@@ -38,7 +44,14 @@ pub fn run(a: &Args) -> i32 {
         return EXIT_OK;
     }
     let d = t.dims();
-    println!("lower bounds for the rank of {} ({}x{}x{}, over {}):", a.input, d[0], d[1], d[2], t.field().name());
+    println!(
+        "lower bounds for the rank of {} ({}x{}x{}, over {}):",
+        a.input,
+        d[0],
+        d[1],
+        d[2],
+        t.field().name()
+    );
     for x in &b.bounds {
         println!("  R >= {:<4} {}: {}", x.value, x.name, x.detail);
         println!("           theorem: {}", x.theorem);

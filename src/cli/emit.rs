@@ -35,10 +35,16 @@ pub fn run(a: &Args) -> i32 {
         Err(e) => return fail(&e),
     };
     if bilin::scheme::verify(&s, &t).is_err() {
-        eprintln!("error: the scheme does not verify for {}; run `bilin verify` for details", a.input);
+        eprintln!(
+            "error: the scheme does not verify for {}; run `bilin verify` for details",
+            a.input
+        );
         return EXIT_FALSE;
     }
-    let p = EmitParams { function: a.function.clone(), title: a.input.clone() };
+    let p = EmitParams {
+        function: a.function.clone(),
+        title: a.input.clone(),
+    };
     match emit(&s, &t, lang, &p) {
         Ok(code) => {
             print!("{code}");

@@ -123,7 +123,9 @@ fn both(one: &One) -> Result<(Tensor, Scheme), Error> {
 
 fn fmt_of(input: &str, explicit: Option<&str>) -> Result<[usize; 3], Error> {
     matmul_format(input, explicit).ok_or_else(|| {
-        Error::Invalid(format!("give the matrix format with --format n,m,p (input `{input}` is not matmul:n,m,p)"))
+        Error::Invalid(format!(
+            "give the matrix format with --format n,m,p (input `{input}` is not matmul:n,m,p)"
+        ))
     })
 }
 
@@ -143,14 +145,25 @@ fn show(s: &Scheme, t: &Tensor, title: &str, json_out: bool) -> i32 {
     if json_out {
         print!("{}", json::write_json(s));
     } else {
-        print!("{}", text::write_text(s, t, &format!("{title}\nrank {} scheme, verified exactly", s.rank())));
+        print!(
+            "{}",
+            text::write_text(
+                s,
+                t,
+                &format!("{title}\nrank {} scheme, verified exactly", s.rank())
+            )
+        );
     }
     EXIT_OK
 }
 
 fn parse_list(s: &str) -> Result<Vec<usize>, Error> {
     s.split(',')
-        .map(|x| x.trim().parse().map_err(|_| Error::Invalid(format!("expected a list of integers, found `{s}`"))))
+        .map(|x| {
+            x.trim()
+                .parse()
+                .map_err(|_| Error::Invalid(format!("expected a list of integers, found `{s}`")))
+        })
         .collect()
 }
 
@@ -169,12 +182,20 @@ fn run_op(op: &Op) -> Result<i32, Error> {
         }
         Op::Standard { input, field, json } => {
             let t = load_tensor(input, field.as_deref())?;
-            show(&Scheme::standard(&t), &t, &format!("standard scheme for {input}"), *json)
+            show(
+                &Scheme::standard(&t),
+                &t,
+                &format!("standard scheme for {input}"),
+                *json,
+            )
         }
         Op::Cost { one, format } => {
             let (t, s) = both(one)?;
             if let Err(m) = verify(&s, &t) {
-                eprintln!("error: the scheme does not verify ({} wrong coefficients)", m.count);
+                eprintln!(
+                    "error: the scheme does not verify ({} wrong coefficients)",
+                    m.count
+                );
                 return Ok(EXIT_FALSE);
             }
             let c = count_cost(&s);
@@ -188,7 +209,14 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
             } else {
                 let d = t.dims();
-                println!("rank {} scheme for {} ({}x{}x{}), verified", s.rank(), one.input, d[0], d[1], d[2]);
+                println!(
+                    "rank {} scheme for {} ({}x{}x{}), verified",
+                    s.rank(),
+                    one.input,
+                    d[0],
+                    d[1],
+                    d[2]
+                );
                 println!(
                     "additions, naive: {} (left {}, right {}, output {})",
                     c.naive_total(),
@@ -203,9 +231,18 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                     c.additions[1],
                     c.additions[2]
                 );
-                println!("scalar multiplications (coefficients other than +-1): {}", c.scalings_total());
+                println!(
+                    "scalar multiplications (coefficients other than +-1): {}",
+                    c.scalings_total()
+                );
                 if let Some(f) = fmt {
-                    println!("exponent 3 log r / log(nmp) for <{},{},{}>: {:.4}", f[0], f[1], f[2], exponent(s.rank(), f));
+                    println!(
+                        "exponent 3 log r / log(nmp) for <{},{},{}>: {:.4}",
+                        f[0],
+                        f[1],
+                        f[2],
+                        exponent(s.rank(), f)
+                    );
                 }
             }
             EXIT_OK
@@ -227,7 +264,10 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                 p.cost_after.total()
             );
             if let Some(f) = fmt {
-                title.push_str(&format!("\nexponent 3 log r / log(nmp): {:.4}", exponent(p.scheme.rank(), f)));
+                title.push_str(&format!(
+                    "\nexponent 3 log r / log(nmp): {:.4}",
+                    exponent(p.scheme.rank(), f)
+                ));
             }
             eprintln!("{title}");
             show(&p.scheme, &t, &title, one.json)
@@ -245,11 +285,19 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                 let perm = cs::matmul_kron_order(f1, f2);
                 let fm = [f1[0] * f2[0], f1[1] * f2[1], f1[2] * f2[2]];
                 let t = matmul_tensor(fm, f)?;
-                let title = format!("Kronecker product of {} and {} as matmul:{},{},{}", two.scheme1, two.scheme2, fm[0], fm[1], fm[2]);
+                let title = format!(
+                    "Kronecker product of {} and {} as matmul:{},{},{}",
+                    two.scheme1, two.scheme2, fm[0], fm[1], fm[2]
+                );
                 show(&cs::relabel(&ks, &perm)?, &t, &title, two.json)
             } else {
                 let t = cs::kron_tensor(&t1, &t2)?;
-                show(&ks, &t, &format!("Kronecker product of {} and {}", two.scheme1, two.scheme2), two.json)
+                show(
+                    &ks,
+                    &t,
+                    &format!("Kronecker product of {} and {}", two.scheme1, two.scheme2),
+                    two.json,
+                )
             }
         }
         Op::Sum(two) => {
@@ -259,17 +307,29 @@ fn run_op(op: &Op) -> Result<i32, Error> {
             let t2 = load_tensor(&two.input2, f)?;
             let s2 = load_scheme(&two.scheme2, &t2)?;
             let t = cs::direct_sum_tensor(&t1, &t2)?;
-            show(&cs::direct_sum(&s1, &s2)?, &t, &format!("direct sum of {} and {}", two.scheme1, two.scheme2), two.json)
+            show(
+                &cs::direct_sum(&s1, &s2)?,
+                &t,
+                &format!("direct sum of {} and {}", two.scheme1, two.scheme2),
+                two.json,
+            )
         }
         Op::Permute { one, axes } => {
             let (t, s) = both(one)?;
             let v = parse_list(axes)?;
             if v.len() != 3 {
-                return Err(Error::Invalid("--axes needs three entries, e.g. 1,2,0".into()));
+                return Err(Error::Invalid(
+                    "--axes needs three entries, e.g. 1,2,0".into(),
+                ));
             }
             let perm = [v[0], v[1], v[2]];
             let ps = cs::permute_axes(&s, perm)?;
-            show(&ps, &t.permute_axes(perm), &format!("{} with axes permuted to {axes}", one.scheme), one.json)
+            show(
+                &ps,
+                &t.permute_axes(perm),
+                &format!("{} with axes permuted to {axes}", one.scheme),
+                one.json,
+            )
         }
         Op::Cyclic { one, format } | Op::Transpose { one, format } => {
             let (_, s) = both(one)?;
@@ -280,7 +340,12 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                 (cs::matmul_transpose(&s, [n, m, p])?, [p, m, n])
             };
             let t = matmul_tensor(nf, one.field.as_deref())?;
-            show(&ns, &t, &format!("matmul:{},{},{} from {}", nf[0], nf[1], nf[2], one.scheme), one.json)
+            show(
+                &ns,
+                &t,
+                &format!("matmul:{},{},{} from {}", nf[0], nf[1], nf[2], one.scheme),
+                one.json,
+            )
         }
         Op::Restrict { one, to, format } => {
             let (_, s) = both(one)?;
@@ -292,7 +357,12 @@ fn run_op(op: &Op) -> Result<i32, Error> {
             let sub = [v[0], v[1], v[2]];
             let keep = cs::matmul_subformat(f, sub)?;
             let t = matmul_tensor(sub, one.field.as_deref())?;
-            show(&cs::restrict(&s, &keep)?, &t, &format!("restriction of {} to matmul:{to}", one.scheme), one.json)
+            show(
+                &cs::restrict(&s, &keep)?,
+                &t,
+                &format!("restriction of {} to matmul:{to}", one.scheme),
+                one.json,
+            )
         }
     })
 }

@@ -22,8 +22,10 @@ pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
 
 /// Read a scheme file (text or JSON form) against a tensor.
 pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| Error::Io { path: path.to_string(), message: e.to_string() })?;
+    let text = std::fs::read_to_string(path).map_err(|e| Error::Io {
+        path: path.to_string(),
+        message: e.to_string(),
+    })?;
     bilin::scheme::parse_scheme(&text, path, t)
 }
 
@@ -33,7 +35,10 @@ pub fn matmul_format(spec: &str, explicit: Option<&str>) -> Option<[usize; 3]> {
         Some(e) => e,
         None => spec.trim().strip_prefix("matmul:")?,
     };
-    let v: Vec<usize> = s.split(',').map(|x| x.trim().parse().ok()).collect::<Option<Vec<_>>>()?;
+    let v: Vec<usize> = s
+        .split(',')
+        .map(|x| x.trim().parse().ok())
+        .collect::<Option<Vec<_>>>()?;
     (v.len() == 3).then(|| [v[0], v[1], v[2]])
 }
 

@@ -44,7 +44,11 @@ pub struct BoundsParams {
 
 impl Default for BoundsParams {
     fn default() -> Self {
-        BoundsParams { seed: 1, slice_trials: 3, max_algebra_dim: 64 }
+        BoundsParams {
+            seed: 1,
+            slice_trials: 3,
+            max_algebra_dim: 64,
+        }
     }
 }
 
@@ -95,7 +99,9 @@ pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
     bounds.push(Bound {
         value: val,
         name: "slice span".into(),
-        theorem: format!("R(T) >= rank of any matrix in the span of the slices along one axis ({src})"),
+        theorem: format!(
+            "R(T) >= rank of any matrix in the span of the slices along one axis ({src})"
+        ),
         detail: format!(
             "exact rank of a seeded random combination of the {} slices (seed {})",
             crate::tensor::AXES[axis],
@@ -142,11 +148,16 @@ pub fn slice_span_rank(t: &Tensor, params: &BoundsParams) -> (usize, usize) {
 /// The Alder-Strassen bound for an associative algebra with unit, or why it does not apply.
 pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String> {
     if t.kind() != Kind::Algebra {
-        return Err("the input is not an algebra (one basis for both factors and the result)".into());
+        return Err(
+            "the input is not an algebra (one basis for both factors and the result)".into(),
+        );
     }
     let n = t.dim();
     if n > params.max_algebra_dim {
-        return Err(format!("dimension {n} is above the limit {}", params.max_algebra_dim));
+        return Err(format!(
+            "dimension {n} is above the limit {}",
+            params.max_algebra_dim
+        ));
     }
     let (t_bound, how) = crate::with_field!(t.field(), f => count_components(f, t, params.seed))?;
     let value = (2 * n).saturating_sub(t_bound);
@@ -251,8 +262,8 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
     for i in 0..n {
         for j in 0..n {
             let mut s = f.zero();
-            for k in 0..n {
-                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], &tau[k]);
+            for (k, tk) in tau.iter().enumerate() {
+                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], tk);
             }
             g[(j, i)] = s; // row j: the condition sum_i x_i G[i][j] = 0
         }
@@ -328,7 +339,10 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
     }
     let centre = nullspace(f, &cm);
     let dz = centre.len();
-    let head = format!("dim rad A = {}, dim A/rad A = {ds}, dim Z(A/rad A) = {dz}", rad.len());
+    let head = format!(
+        "dim rad A = {}, dim A/rad A = {ds}, dim Z(A/rad A) = {dz}",
+        rad.len()
+    );
     if dz <= 1 {
         return Ok((dz.max(1), format!("{head}, so t = 1 (A/rad A is simple)")));
     }
@@ -348,7 +362,10 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
             fm[(i, i)] = f.sub(&fm[(i, i)], &f.one());
         }
         let tt = dz - rank(f, &fm);
-        return Ok((tt, format!("{head}, t = {tt} (fixed points of Frobenius on the centre, exact)")));
+        return Ok((
+            tt,
+            format!("{head}, t = {tt} (fixed points of Frobenius on the centre, exact)"),
+        ));
     }
     // characteristic 0: a primitive element of the centre and its minimal polynomial
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
@@ -384,8 +401,11 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
     Ok((dz, format!("{head}, t <= dim Z(A/rad A) = {dz}")))
 }
 
+/// A product on coordinate vectors.
+type Product<'a, E> = &'a dyn Fn(&[E], &[E]) -> Vec<E>;
+
 /// `z^e` in an algebra with unit `one` and product `mul`, by repeated squaring.
-fn pow_in<E: Clone>(z: &[E], mut e: u64, one: &[E], mul: &dyn Fn(&[E], &[E]) -> Vec<E>) -> Vec<E> {
+fn pow_in<E: Clone>(z: &[E], mut e: u64, one: &[E], mul: Product<'_, E>) -> Vec<E> {
     let mut r = one.to_vec();
     let mut b = z.to_vec();
     while e > 0 {
@@ -422,12 +442,22 @@ fn in_span<F: Field>(f: &F, basis: &[Vec<F::Elem>], x: &[F::Elem], n: usize) -> 
 /// Returns (count, prime) or `None` if no prime among the first few qualifies.
 fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
     use num_integer::Integer;
-    let lcm = coeffs.iter().fold(num_bigint::BigInt::one(), |l, c| l.lcm(c.denom()));
-    let ints: Vec<num_bigint::BigInt> = coeffs.iter().map(|c| (c * Q::from_integer(lcm.clone())).to_integer()).collect();
+    let lcm = coeffs
+        .iter()
+        .fold(num_bigint::BigInt::one(), |l, c| l.lcm(c.denom()));
+    let ints: Vec<num_bigint::BigInt> = coeffs
+        .iter()
+        .map(|c| (c * Q::from_integer(lcm.clone())).to_integer())
+        .collect();
     let d = ints.len() - 1;
     let mut best: Option<(usize, u64)> = None;
-    for p in crate::scalar::word_primes(40).into_iter().chain([3u64, 5, 7, 11, 13, 17, 19, 23, 29, 31]) {
-        let Some(fp) = PrimeField::new(p) else { continue };
+    for p in crate::scalar::word_primes(40)
+        .into_iter()
+        .chain([3u64, 5, 7, 11, 13, 17, 19, 23, 29, 31])
+    {
+        let Some(fp) = PrimeField::new(p) else {
+            continue;
+        };
         let poly: Vec<u64> = ints.iter().map(|x| fp.reduce_big(x)).collect();
         if poly[d] == 0 {
             continue;
@@ -482,7 +512,9 @@ fn trim(mut a: Vec<u64>) -> Vec<u64> {
 
 /// gcd(f, f') == 1 over GF(p) (f monic).
 fn squarefree(fp: &PrimeField, f: &[u64]) -> bool {
-    let der: Vec<u64> = (1..f.len()).map(|i| fp.mul(&f[i], &fp.from_i64(i as i64))).collect();
+    let der: Vec<u64> = (1..f.len())
+        .map(|i| fp.mul(&f[i], &fp.from_i64(i as i64)))
+        .collect();
     let mut a = trim(f.to_vec());
     let mut b = trim(der);
     if b.is_empty() {

@@ -42,12 +42,17 @@ fn kron_vec(field: crate::scalar::FieldSpec, x: &[Q], y: &[Q]) -> Vec<Q> {
 /// Cost: O(nnz(T) nnz(T')).
 pub fn kron_tensor(t1: &Tensor, t2: &Tensor) -> Result<Tensor, Error> {
     if t1.field() != t2.field() {
-        return Err(Error::Invalid("the tensors are over different fields".into()));
+        return Err(Error::Invalid(
+            "the tensors are over different fields".into(),
+        ));
     }
     let (d1, d2) = (t1.dims(), t2.dims());
     let dims = [d1[0] * d2[0], d1[1] * d2[1], d1[2] * d2[2]];
     if dims.iter().any(|&d| d > crate::tensor::MAX_DIM) {
-        return Err(Error::Invalid(format!("the product is too large (limit {} per axis)", crate::tensor::MAX_DIM)));
+        return Err(Error::Invalid(format!(
+            "the product is too large (limit {} per axis)",
+            crate::tensor::MAX_DIM
+        )));
     }
     let names = [0, 1, 2].map(|a| {
         let mut v = Vec::new();
@@ -58,7 +63,11 @@ pub fn kron_tensor(t1: &Tensor, t2: &Tensor) -> Result<Tensor, Error> {
         }
         v
     });
-    let kind = if t1.kind() == Kind::Algebra && t2.kind() == Kind::Algebra { Kind::Algebra } else { Kind::Bilinear };
+    let kind = if t1.kind() == Kind::Algebra && t2.kind() == Kind::Algebra {
+        Kind::Algebra
+    } else {
+        Kind::Bilinear
+    };
     let mut t = Tensor::zero(t1.field(), kind, dims, Some(names));
     for (i, j, k, c) in t1.entries() {
         for (i2, j2, k2, c2) in t2.entries() {
@@ -95,7 +104,8 @@ fn block_order(r: usize, c: usize, r2: usize, c2: usize) -> Vec<usize> {
         for b in 0..c {
             for a2 in 0..r2 {
                 for b2 in 0..c2 {
-                    perm[(a * c + b) * (r2 * c2) + a2 * c2 + b2] = (a * r2 + a2) * (c * c2) + b * c2 + b2;
+                    perm[(a * c + b) * (r2 * c2) + a2 * c2 + b2] =
+                        (a * r2 + a2) * (c * c2) + b * c2 + b2;
                 }
             }
         }
@@ -107,14 +117,25 @@ fn block_order(r: usize, c: usize, r2: usize, c2: usize) -> Vec<usize> {
 /// multiplication order of <nn', mm', pp'>: `perm[axis][kron_index] = matmul_index`.
 pub fn matmul_kron_order(f1: [usize; 3], f2: [usize; 3]) -> [Vec<usize>; 3] {
     let ([n, m, p], [n2, m2, p2]) = (f1, f2);
-    [block_order(n, m, n2, m2), block_order(m, p, m2, p2), block_order(n, p, n2, p2)]
+    [
+        block_order(n, m, n2, m2),
+        block_order(m, p, m2, p2),
+        block_order(n, p, n2, p2),
+    ]
 }
 
 fn check_perm(perm: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
         let mut seen = vec![false; dims[a]];
-        if perm[a].len() != dims[a] || perm[a].iter().any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true)) {
-            return Err(Error::Invalid(format!("not a permutation of the {} basis", crate::tensor::AXES[a])));
+        if perm[a].len() != dims[a]
+            || perm[a]
+                .iter()
+                .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
+        {
+            return Err(Error::Invalid(format!(
+                "not a permutation of the {} basis",
+                crate::tensor::AXES[a]
+            )));
         }
     }
     Ok(())
@@ -131,7 +152,11 @@ pub fn relabel_tensor(t: &Tensor, perm: &[Vec<usize>; 3]) -> Result<Tensor, Erro
         v
     });
     let algebra = t.kind() == Kind::Algebra && perm[0] == perm[1] && perm[1] == perm[2];
-    let kind = if algebra { Kind::Algebra } else { Kind::Bilinear };
+    let kind = if algebra {
+        Kind::Algebra
+    } else {
+        Kind::Bilinear
+    };
     let mut out = Tensor::zero(t.field(), kind, t.dims(), Some(names));
     for (i, j, k, c) in t.entries() {
         out.set(perm[0][i], perm[1][j], perm[2][k], c.clone());
@@ -151,14 +176,21 @@ pub fn relabel(s: &Scheme, perm: &[Vec<usize>; 3]) -> Result<Scheme, Error> {
     };
     let mut out = Scheme::empty(s.field, s.dims);
     for t in 0..s.rank() {
-        out.push(mv(&s.u[t], &perm[0]), mv(&s.v[t], &perm[1]), mv(&s.w[t], &perm[2]));
+        out.push(
+            mv(&s.u[t], &perm[0]),
+            mv(&s.v[t], &perm[1]),
+            mv(&s.w[t], &perm[2]),
+        );
     }
     Ok(out)
 }
 
 fn sum_names(a: &[String], b: &[String]) -> Vec<String> {
     if a.iter().any(|x| b.contains(x)) {
-        a.iter().map(|x| format!("{x}_1")).chain(b.iter().map(|x| format!("{x}_2"))).collect()
+        a.iter()
+            .map(|x| format!("{x}_1"))
+            .chain(b.iter().map(|x| format!("{x}_2")))
+            .collect()
     } else {
         a.iter().chain(b).cloned().collect()
     }
@@ -168,12 +200,18 @@ fn sum_names(a: &[String], b: &[String]) -> Vec<String> {
 /// the first one's dimensions; clashing names get suffixes `_1`, `_2`).
 pub fn direct_sum_tensor(t1: &Tensor, t2: &Tensor) -> Result<Tensor, Error> {
     if t1.field() != t2.field() {
-        return Err(Error::Invalid("the tensors are over different fields".into()));
+        return Err(Error::Invalid(
+            "the tensors are over different fields".into(),
+        ));
     }
     let (d1, d2) = (t1.dims(), t2.dims());
     let dims = [d1[0] + d2[0], d1[1] + d2[1], d1[2] + d2[2]];
     let names = [0, 1, 2].map(|a| sum_names(&t1.names()[a], &t2.names()[a]));
-    let kind = if t1.kind() == Kind::Algebra && t2.kind() == Kind::Algebra { Kind::Algebra } else { Kind::Bilinear };
+    let kind = if t1.kind() == Kind::Algebra && t2.kind() == Kind::Algebra {
+        Kind::Algebra
+    } else {
+        Kind::Bilinear
+    };
     let mut t = Tensor::zero(t1.field(), kind, dims, Some(names));
     for (i, j, k, c) in t1.entries() {
         t.set(i, j, k, c.clone());
@@ -196,10 +234,18 @@ pub fn direct_sum(s1: &Scheme, s2: &Scheme) -> Result<Scheme, Error> {
         v
     };
     for t in 0..s1.rank() {
-        s.push(pad(&s1.u[t], 0, d2[0]), pad(&s1.v[t], 0, d2[1]), pad(&s1.w[t], 0, d2[2]));
+        s.push(
+            pad(&s1.u[t], 0, d2[0]),
+            pad(&s1.v[t], 0, d2[1]),
+            pad(&s1.w[t], 0, d2[2]),
+        );
     }
     for t in 0..s2.rank() {
-        s.push(pad(&s2.u[t], d1[0], 0), pad(&s2.v[t], d1[1], 0), pad(&s2.w[t], d1[2], 0));
+        s.push(
+            pad(&s2.u[t], d1[0], 0),
+            pad(&s2.v[t], d1[1], 0),
+            pad(&s2.w[t], d1[2], 0),
+        );
     }
     Ok(s)
 }
@@ -210,7 +256,9 @@ pub fn permute_axes(s: &Scheme, perm: [usize; 3]) -> Result<Scheme, Error> {
     let mut sorted = perm;
     sorted.sort_unstable();
     if sorted != [0, 1, 2] {
-        return Err(Error::Invalid(format!("{perm:?} is not a permutation of the axes 0, 1, 2")));
+        return Err(Error::Invalid(format!(
+            "{perm:?} is not a permutation of the axes 0, 1, 2"
+        )));
     }
     let dims = perm.map(|a| s.dims[a]);
     let mut out = Scheme::empty(s.field, dims);
@@ -285,8 +333,14 @@ pub fn matmul_transpose(s: &Scheme, nmp: [usize; 3]) -> Result<Scheme, Error> {
 fn check_keep(keep: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
         let mut seen = vec![false; dims[a]];
-        if keep[a].iter().any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true)) {
-            return Err(Error::Invalid(format!("bad index list for the {} axis", crate::tensor::AXES[a])));
+        if keep[a]
+            .iter()
+            .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
+        {
+            return Err(Error::Invalid(format!(
+                "bad index list for the {} axis",
+                crate::tensor::AXES[a]
+            )));
         }
     }
     Ok(())
@@ -318,7 +372,11 @@ pub fn restrict(s: &Scheme, keep: &[Vec<usize>; 3]) -> Result<Scheme, Error> {
     let mut out = Scheme::empty(s.field, [keep[0].len(), keep[1].len(), keep[2].len()]);
     let pick = |x: &[Q], k: &[usize]| k.iter().map(|&i| x[i].clone()).collect::<Vec<_>>();
     for t in 0..s.rank() {
-        let (u, v, w) = (pick(&s.u[t], &keep[0]), pick(&s.v[t], &keep[1]), pick(&s.w[t], &keep[2]));
+        let (u, v, w) = (
+            pick(&s.u[t], &keep[0]),
+            pick(&s.v[t], &keep[1]),
+            pick(&s.w[t], &keep[2]),
+        );
         if [&u, &v, &w].iter().all(|x| x.iter().any(|c| !c.is_zero())) {
             out.push(u, v, w);
         }
@@ -330,10 +388,14 @@ pub fn restrict(s: &Scheme, keep: &[Vec<usize>; 3]) -> Result<Scheme, Error> {
 pub fn matmul_subformat(nmp: [usize; 3], sub: [usize; 3]) -> Result<[Vec<usize>; 3], Error> {
     let ([_, m, p], [n2, m2, p2]) = (nmp, sub);
     if (0..3).any(|a| sub[a] > nmp[a]) {
-        return Err(Error::Invalid(format!("<{n2},{m2},{p2}> is not a sub-format of {nmp:?}")));
+        return Err(Error::Invalid(format!(
+            "<{n2},{m2},{p2}> is not a sub-format of {nmp:?}"
+        )));
     }
     let grid = |r: usize, c: usize, cols: usize| -> Vec<usize> {
-        (0..r).flat_map(|a| (0..c).map(move |b| a * cols + b)).collect()
+        (0..r)
+            .flat_map(|a| (0..c).map(move |b| a * cols + b))
+            .collect()
     };
     Ok([grid(n2, m2, m), grid(m2, p2, p), grid(n2, p2, p)])
 }
@@ -360,11 +422,18 @@ mod tests {
         let rt = relabel_tensor(&kt, &perm).unwrap();
         let rs = relabel(&ks, &perm).unwrap();
         let m444 = matmul(4, 4, 4);
-        assert_eq!(rt.entries().collect::<Vec<_>>(), m444.entries().collect::<Vec<_>>());
+        assert_eq!(
+            rt.entries().collect::<Vec<_>>(),
+            m444.entries().collect::<Vec<_>>()
+        );
         assert!(verify(&rs, &m444).is_ok());
         // mixed formats: <2,2,2> (x) <1,2,3> = <2,4,6>
         let s123 = Scheme::standard(&matmul(1, 2, 3));
-        let ks = relabel(&kron(&strassen(), &s123).unwrap(), &matmul_kron_order([2, 2, 2], [1, 2, 3])).unwrap();
+        let ks = relabel(
+            &kron(&strassen(), &s123).unwrap(),
+            &matmul_kron_order([2, 2, 2], [1, 2, 3]),
+        )
+        .unwrap();
         assert_eq!(ks.rank(), 42);
         assert!(verify(&ks, &matmul(2, 4, 6)).is_ok());
     }
@@ -385,7 +454,14 @@ mod tests {
         assert!(matmul_cyclic(&s223, [2, 3, 2]).is_err());
         // generic axis permutation agrees with the tensor's
         let t = matmul(2, 2, 3);
-        for perm in [[0, 1, 2], [1, 2, 0], [2, 0, 1], [1, 0, 2], [0, 2, 1], [2, 1, 0]] {
+        for perm in [
+            [0, 1, 2],
+            [1, 2, 0],
+            [2, 0, 1],
+            [1, 0, 2],
+            [0, 2, 1],
+            [2, 1, 0],
+        ] {
             assert!(verify(&permute_axes(&s223, perm).unwrap(), &t.permute_axes(perm)).is_ok());
         }
     }
@@ -420,7 +496,13 @@ mod tests {
         let r = restrict(&s, &keep).unwrap();
         assert!(verify(&r, &matmul(3, 3, 3)).is_ok());
         assert!(r.rank() <= 49);
-        assert_eq!(restrict_tensor(&matmul(4, 4, 4), &keep).unwrap().entries().count(), 27);
+        assert_eq!(
+            restrict_tensor(&matmul(4, 4, 4), &keep)
+                .unwrap()
+                .entries()
+                .count(),
+            27
+        );
         let a = matmul(2, 2, 2);
         let ds = direct_sum(&strassen(), &strassen()).unwrap();
         assert!(verify(&ds, &direct_sum_tensor(&a, &a).unwrap()).is_ok());

@@ -41,12 +41,22 @@ fn is_unit(field: FieldSpec, c: &Q) -> bool {
 impl LinearProgram {
     /// Additions: one per temporary, plus s - 1 per final form with s terms.
     pub fn additions(&self) -> usize {
-        self.temps.len() + self.forms.iter().map(|f| f.len().saturating_sub(1)).sum::<usize>()
+        self.temps.len()
+            + self
+                .forms
+                .iter()
+                .map(|f| f.len().saturating_sub(1))
+                .sum::<usize>()
     }
     /// Scalar multiplications: coefficients other than +-1 (in temporaries and forms).
     pub fn scalings(&self, field: FieldSpec) -> usize {
         self.temps.iter().filter(|t| !is_unit(field, &t.1)).count()
-            + self.forms.iter().flatten().filter(|(_, c)| !is_unit(field, c)).count()
+            + self
+                .forms
+                .iter()
+                .flatten()
+                .filter(|(_, c)| !is_unit(field, c))
+                .count()
     }
 }
 
@@ -76,7 +86,11 @@ impl Cost {
 }
 
 fn sparse(x: &[Q]) -> Form {
-    x.iter().enumerate().filter(|(_, c)| !c.is_zero()).map(|(i, c)| (i, c.clone())).collect()
+    x.iter()
+        .enumerate()
+        .filter(|(_, c)| !c.is_zero())
+        .map(|(i, c)| (i, c.clone()))
+        .collect()
 }
 
 /// The three lists of forms of a scheme: rows of U (over a), rows of V (over b), and for
@@ -85,7 +99,12 @@ pub fn side_forms(s: &Scheme) -> [Vec<Form>; 3] {
     let left = s.u.iter().map(|x| sparse(x)).collect();
     let right = s.v.iter().map(|x| sparse(x)).collect();
     let out = (0..s.dims[2])
-        .map(|k| (0..s.rank()).filter(|&t| !s.w[t][k].is_zero()).map(|t| (t, s.w[t][k].clone())).collect())
+        .map(|k| {
+            (0..s.rank())
+                .filter(|&t| !s.w[t][k].is_zero())
+                .map(|t| (t, s.w[t][k].clone()))
+                .collect()
+        })
         .collect();
     [left, right, out]
 }
@@ -103,16 +122,23 @@ pub fn cse(field: FieldSpec, inputs: usize, forms: Vec<Form>) -> LinearProgram {
         for f in &forms {
             for a in 0..f.len() {
                 for b in a + 1..f.len() {
-                    *counts.entry((f[a].0, f[b].0, ratio(&f[a].1, &f[b].1))).or_default() += 1;
+                    *counts
+                        .entry((f[a].0, f[b].0, ratio(&f[a].1, &f[b].1)))
+                        .or_default() += 1;
                 }
             }
         }
-        let Some(((x, y, r), n)) = counts.into_iter().fold(None, |best: Option<((usize, usize, Q), usize)>, (k, n)| {
-            match &best {
-                Some((_, bn)) if *bn >= n => best,
-                _ => Some((k, n)),
-            }
-        }) else {
+        let Some(((x, y, r), n)) =
+            counts
+                .into_iter()
+                .fold(
+                    None,
+                    |best: Option<((usize, usize, Q), usize)>, (k, n)| match &best {
+                        Some((_, bn)) if *bn >= n => best,
+                        _ => Some((k, n)),
+                    },
+                )
+        else {
             break;
         };
         if n < 2 {
@@ -133,13 +159,21 @@ pub fn cse(field: FieldSpec, inputs: usize, forms: Vec<Form>) -> LinearProgram {
             }
         }
     }
-    LinearProgram { inputs, temps, forms }
+    LinearProgram {
+        inputs,
+        temps,
+        forms,
+    }
 }
 
 /// The straight-line programs of the three sides after CSE (inputs: a's, b's, m's).
 pub fn programs(s: &Scheme) -> [LinearProgram; 3] {
     let [l, r, o] = side_forms(s);
-    [cse(s.field, s.dims[0], l), cse(s.field, s.dims[1], r), cse(s.field, s.rank(), o)]
+    [
+        cse(s.field, s.dims[0], l),
+        cse(s.field, s.dims[1], r),
+        cse(s.field, s.rank(), o),
+    ]
 }
 
 /// Count additions and scalings, naive and after CSE. Cost: that of three [`cse`] runs.
@@ -149,7 +183,11 @@ pub fn count_cost(s: &Scheme) -> Cost {
     let naive: Vec<LinearProgram> = forms
         .iter()
         .zip(ins)
-        .map(|(f, i)| LinearProgram { inputs: i, temps: Vec::new(), forms: f.clone() })
+        .map(|(f, i)| LinearProgram {
+            inputs: i,
+            temps: Vec::new(),
+            forms: f.clone(),
+        })
         .collect();
     let opt = programs(s);
     Cost {
@@ -167,7 +205,14 @@ pub fn evaluate(p: &LinearProgram, x: &[Q]) -> Vec<Q> {
         let v = &vals[*a] + r * &vals[*b];
         vals.push(v);
     }
-    p.forms.iter().map(|f| f.iter().map(|(i, c)| c * &vals[*i]).fold(Q::zero(), |s, t| s + t)).collect()
+    p.forms
+        .iter()
+        .map(|f| {
+            f.iter()
+                .map(|(i, c)| c * &vals[*i])
+                .fold(Q::zero(), |s, t| s + t)
+        })
+        .collect()
 }
 
 #[cfg(test)]
@@ -196,10 +241,16 @@ mod tests {
         let s = scheme(WINOGRAD, &t);
         let forms = side_forms(&s);
         let progs = programs(&s);
-        let x: Vec<Q> = (0..7).map(|i| crate::scalar::q(3 * i - 5, 1 + i % 3)).collect();
+        let x: Vec<Q> = (0..7)
+            .map(|i| crate::scalar::q(3 * i - 5, 1 + i % 3))
+            .collect();
         for a in 0..3 {
             let n = progs[a].inputs;
-            let naive = LinearProgram { inputs: n, temps: vec![], forms: forms[a].clone() };
+            let naive = LinearProgram {
+                inputs: n,
+                temps: vec![],
+                forms: forms[a].clone(),
+            };
             assert_eq!(evaluate(&progs[a], &x[..n]), evaluate(&naive, &x[..n]));
         }
     }

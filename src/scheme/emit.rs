@@ -36,7 +36,9 @@ impl Lang {
             "rust" | "rs" => Ok(Lang::Rust),
             "python" | "py" => Ok(Lang::Python),
             "latex" | "tex" => Ok(Lang::Latex),
-            _ => Err(Error::Invalid(format!("unknown language `{s}` (expected c, rust, python or latex)"))),
+            _ => Err(Error::Invalid(format!(
+                "unknown language `{s}` (expected c, rust, python or latex)"
+            ))),
         }
     }
 }
@@ -52,7 +54,10 @@ pub struct EmitParams {
 
 impl Default for EmitParams {
     fn default() -> Self {
-        EmitParams { function: "bilin_mul".into(), title: String::new() }
+        EmitParams {
+            function: "bilin_mul".into(),
+            title: String::new(),
+        }
     }
 }
 
@@ -69,12 +74,21 @@ pub fn emit(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams) -> Result<S
         && p >= 1 << 31
         && matches!(lang, Lang::C | Lang::Rust)
     {
-        return Err(Error::Invalid(format!("C and Rust output over GF({p}) needs p < 2^31")));
+        return Err(Error::Invalid(format!(
+            "C and Rust output over GF({p}) needs p < 2^31"
+        )));
     }
     let cost = count_cost(s);
     let d = s.dims;
     let mut head = vec![
-        format!("Bilinear algorithm for {} (dims {} x {} -> {}), over {}.", describe(params, t), d[0], d[1], d[2], s.field.name()),
+        format!(
+            "Bilinear algorithm for {} (dims {} x {} -> {}), over {}.",
+            describe(params, t),
+            d[0],
+            d[1],
+            d[2],
+            s.field.name()
+        ),
         format!(
             "Rank {}: {} multiplications, {} additions ({} before common-subexpression elimination), {} scalar multiplications.",
             s.rank(),
@@ -87,11 +101,16 @@ pub fn emit(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams) -> Result<S
     ];
     match s.field {
         FieldSpec::Rational if lang != Lang::Latex && lang != Lang::Python => {
-            head.push("Floating point: fast schemes can have a larger rounding error than the schoolbook".into());
+            head.push(
+                "Floating point: fast schemes can have a larger rounding error than the schoolbook"
+                    .into(),
+            );
             head.push("method; rational coefficients are rounded to the nearest double.".into());
         }
         FieldSpec::Rational => {}
-        FieldSpec::Prime(p) => head.push(format!("Arithmetic modulo p = {p}: inputs and outputs are integers in 0..p.")),
+        FieldSpec::Prime(p) => head.push(format!(
+            "Arithmetic modulo p = {p}: inputs and outputs are integers in 0..p."
+        )),
     }
     Ok(match lang {
         Lang::Latex => emit_latex(s, t, &head),
@@ -100,13 +119,18 @@ pub fn emit(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams) -> Result<S
 }
 
 fn describe(params: &EmitParams, t: &Tensor) -> String {
-    if params.title.is_empty() { format!("a {:?} tensor", t.kind()).to_lowercase() } else { params.title.clone() }
+    if params.title.is_empty() {
+        format!("a {:?} tensor", t.kind()).to_lowercase()
+    } else {
+        params.title.clone()
+    }
 }
 
 fn coef_literal(field: FieldSpec, lang: Lang, c: &Q) -> String {
     match (field, lang) {
         (FieldSpec::Prime(_), Lang::Python) => q_to_string(c),
-        (FieldSpec::Prime(_), _) => format!("{}u64", q_to_string(c)).replace("u64", if lang == Lang::C { "ULL" } else { "u64" }),
+        (FieldSpec::Prime(_), _) => format!("{}u64", q_to_string(c))
+            .replace("u64", if lang == Lang::C { "ULL" } else { "u64" }),
         (FieldSpec::Rational, Lang::Python) => {
             if c.is_integer() {
                 q_to_string(c)
@@ -138,7 +162,13 @@ fn expr(field: FieldSpec, lang: Lang, f: &Form, var: &dyn Fn(usize) -> String) -
     if let FieldSpec::Prime(_) = field {
         let terms: Vec<String> = f
             .iter()
-            .map(|(i, c)| if c.is_one() { var(*i) } else { format!("{} * {} % P", coef_literal(field, lang, c), var(*i)) })
+            .map(|(i, c)| {
+                if c.is_one() {
+                    var(*i)
+                } else {
+                    format!("{} * {} % P", coef_literal(field, lang, c), var(*i))
+                }
+            })
             .collect();
         return format!("({}) % P", terms.join(" + "));
     }
@@ -146,7 +176,11 @@ fn expr(field: FieldSpec, lang: Lang, f: &Form, var: &dyn Fn(usize) -> String) -
     for (i, c) in f {
         let neg = c.is_negative();
         let a = c.abs();
-        let term = if a.is_one() { var(*i) } else { format!("{} * {}", coef_literal(field, lang, &a), var(*i)) };
+        let term = if a.is_one() {
+            var(*i)
+        } else {
+            format!("{} * {}", coef_literal(field, lang, &a), var(*i))
+        };
         if s.is_empty() {
             s = if neg { format!("-{term}") } else { term };
         } else {
@@ -178,7 +212,12 @@ fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[St
         out.push_str(&format!("{cmt} {h}\n"));
     }
     let basis = |axis: usize| t.names()[axis].join(" ");
-    out.push_str(&format!("{cmt} a = [{}]\n{cmt} b = [{}]\n{cmt} c = [{}]\n", basis(0), basis(1), basis(2)));
+    out.push_str(&format!(
+        "{cmt} a = [{}]\n{cmt} b = [{}]\n{cmt} c = [{}]\n",
+        basis(0),
+        basis(1),
+        basis(2)
+    ));
     let ind = "    ";
     let decl = |name: &str, e: &str| -> String {
         match lang {
@@ -193,7 +232,9 @@ fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[St
             if let Some(p) = modp {
                 out.push_str(&format!("#define P {p}ULL\n\n"));
             }
-            out.push_str(&format!("void {fname}(const {ty} *a, const {ty} *b, {ty} *c) {{\n"));
+            out.push_str(&format!(
+                "void {fname}(const {ty} *a, const {ty} *b, {ty} *c) {{\n"
+            ));
         }
         Lang::Rust => {
             if let Some(p) = modp {
@@ -211,33 +252,67 @@ fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[St
                 out.push_str(&format!("P = {}\n\n", modp.unwrap_or(0)));
             }
             out.push_str(&format!("def {fname}(a, b):\n"));
-            out.push_str(&format!("{ind}\"\"\"Return c (length {}) from a (length {}) and b (length {}).\"\"\"\n", d[2], d[0], d[1]));
+            out.push_str(&format!(
+                "{ind}\"\"\"Return c (length {}) from a (length {}) and b (length {}).\"\"\"\n",
+                d[2], d[0], d[1]
+            ));
         }
     }
-    let prog_vars = |p: &LinearProgram, input: &dyn Fn(usize) -> String, tmp: &str, out: &mut String| {
-        let n = p.inputs;
-        let var = |i: usize| if i < n { input(i) } else { format!("{tmp}{}", i - n) };
-        for (k, (x, r, y)) in p.temps.iter().enumerate() {
-            let f: Form = vec![(*x, Q::one()), (*y, r.clone())];
-            out.push_str(&decl(&format!("{tmp}{k}"), &expr(field, lang, &f, &var)));
-        }
-    };
+    let prog_vars =
+        |p: &LinearProgram, input: &dyn Fn(usize) -> String, tmp: &str, out: &mut String| {
+            let n = p.inputs;
+            let var = |i: usize| {
+                if i < n {
+                    input(i)
+                } else {
+                    format!("{tmp}{}", i - n)
+                }
+            };
+            for (k, (x, r, y)) in p.temps.iter().enumerate() {
+                let f: Form = vec![(*x, Q::one()), (*y, r.clone())];
+                out.push_str(&decl(&format!("{tmp}{k}"), &expr(field, lang, &f, &var)));
+            }
+        };
     let ain = |i: usize| format!("a[{i}]");
     let bin = |i: usize| format!("b[{i}]");
     prog_vars(&progs[0], &ain, "s", &mut out);
     prog_vars(&progs[1], &bin, "r", &mut out);
     for tt in 0..s.rank() {
-        let lv = |i: usize| if i < d[0] { ain(i) } else { format!("s{}", i - d[0]) };
-        let rv = |i: usize| if i < d[1] { bin(i) } else { format!("r{}", i - d[1]) };
+        let lv = |i: usize| {
+            if i < d[0] {
+                ain(i)
+            } else {
+                format!("s{}", i - d[0])
+            }
+        };
+        let rv = |i: usize| {
+            if i < d[1] {
+                bin(i)
+            } else {
+                format!("r{}", i - d[1])
+            }
+        };
         let l = expr(field, lang, &progs[0].forms[tt], &lv);
         let r = expr(field, lang, &progs[1].forms[tt], &rv);
-        let e = if modp.is_some() { format!("({l}) * ({r}) % P") } else { format!("({l}) * ({r})") };
+        let e = if modp.is_some() {
+            format!("({l}) * ({r}) % P")
+        } else {
+            format!("({l}) * ({r})")
+        };
         out.push_str(&decl(&format!("m{tt}"), &e));
     }
     let min = |i: usize| format!("m{i}");
     prog_vars(&progs[2], &min, "o", &mut out);
-    let ov = |i: usize| if i < s.rank() { min(i) } else { format!("o{}", i - s.rank()) };
-    let outs: Vec<String> = (0..d[2]).map(|k| expr(field, lang, &progs[2].forms[k], &ov)).collect();
+    let ov = |i: usize| {
+        if i < s.rank() {
+            min(i)
+        } else {
+            format!("o{}", i - s.rank())
+        }
+    };
+    let outs: Vec<String> = (0..d[2])
+        .map(|k| expr(field, lang, &progs[2].forms[k], &ov))
+        .collect();
     match lang {
         Lang::C | Lang::Rust => {
             for (k, e) in outs.iter().enumerate() {
@@ -261,7 +336,11 @@ fn latex_name(n: &str) -> String {
     let (p, rest) = n.split_at(split);
     let p = if p.is_empty() { "x" } else { p };
     let rest = rest.trim_start_matches('_').replace('_', ",");
-    if rest.is_empty() { p.to_string() } else { format!("{p}_{{{rest}}}") }
+    if rest.is_empty() {
+        p.to_string()
+    } else {
+        format!("{p}_{{{rest}}}")
+    }
 }
 
 fn latex_form(field: FieldSpec, f: &Form, name: &dyn Fn(usize) -> String, paren: bool) -> String {
@@ -290,7 +369,11 @@ fn latex_form(field: FieldSpec, f: &Form, name: &dyn Fn(usize) -> String, paren:
     if s.is_empty() {
         return "0".into();
     }
-    if paren && (f.len() > 1 || s.starts_with('-')) { format!("({s})") } else { s }
+    if paren && (f.len() > 1 || s.starts_with('-')) {
+        format!("({s})")
+    } else {
+        s
+    }
 }
 
 fn emit_latex(s: &Scheme, t: &Tensor, head: &[String]) -> String {
@@ -313,7 +396,11 @@ fn emit_latex(s: &Scheme, t: &Tensor, head: &[String]) -> String {
     }
     let mname = |i: usize| format!("m_{{{}}}", i + 1);
     for (k, f) in o.iter().enumerate() {
-        lines.push(format!("{} &= {}", latex_name(t.name(2, k)), latex_form(field, f, &mname, false)));
+        lines.push(format!(
+            "{} &= {}",
+            latex_name(t.name(2, k)),
+            latex_form(field, f, &mname, false)
+        ));
     }
     out.push_str(&lines.join(" \\\\\n"));
     if let FieldSpec::Prime(p) = field {
@@ -357,8 +444,14 @@ mod tests {
         let t = matmul(2, 2, 2);
         let w = scheme(WINOGRAD, &t);
         let mut frac = scheme(STRASSEN, &t);
-        frac.u[0] = frac.u[0].iter().map(|x| x * crate::scalar::q(1, 3)).collect();
-        frac.w[0] = frac.w[0].iter().map(|x| x * Q::from_integer(3.into())).collect();
+        frac.u[0] = frac.u[0]
+            .iter()
+            .map(|x| x * crate::scalar::q(1, 3))
+            .collect();
+        frac.w[0] = frac.w[0]
+            .iter()
+            .map(|x| x * Q::from_integer(3.into()))
+            .collect();
         let s = scheme(STRASSEN, &t);
         let k = crate::scheme::construct::kron(&s, &s).unwrap();
         let kt = crate::scheme::construct::kron_tensor(&t, &t).unwrap();
@@ -371,9 +464,24 @@ mod tests {
         let mut s = scheme(STRASSEN, &t);
         s.w[0][0] = Q::zero();
         assert!(emit(&s, &t, Lang::C, &EmitParams::default()).is_err());
-        let tex = emit(&scheme(STRASSEN, &t), &t, Lang::Latex, &EmitParams::default()).unwrap();
-        assert!(tex.contains("m_{1} &= (a_{11} + a_{22})\\,(b_{11} + b_{22})"), "{tex}");
-        let rs = emit(&scheme(STRASSEN, &t), &t, Lang::Rust, &EmitParams::default()).unwrap();
+        let tex = emit(
+            &scheme(STRASSEN, &t),
+            &t,
+            Lang::Latex,
+            &EmitParams::default(),
+        )
+        .unwrap();
+        assert!(
+            tex.contains("m_{1} &= (a_{11} + a_{22})\\,(b_{11} + b_{22})"),
+            "{tex}"
+        );
+        let rs = emit(
+            &scheme(STRASSEN, &t),
+            &t,
+            Lang::Rust,
+            &EmitParams::default(),
+        )
+        .unwrap();
         assert!(rs.contains("pub fn bilin_mul"));
     }
 
@@ -390,7 +498,12 @@ mod tests {
             let mut main = String::from("#include <stdio.h>\nint main(void) {\n");
             main.push_str(&format!("  double c[{}];\n", d[2]));
             for (a, b, _) in &cs {
-                let fmt = |v: &[i64]| v.iter().map(|x| format!("{x}.0")).collect::<Vec<_>>().join(",");
+                let fmt = |v: &[i64]| {
+                    v.iter()
+                        .map(|x| format!("{x}.0"))
+                        .collect::<Vec<_>>()
+                        .join(",")
+                };
                 main.push_str(&format!(
                     "  {{ double a[] = {{{}}}; double b[] = {{{}}}; bilin_mul(a, b, c);\n    for (int k = 0; k < {}; k++) printf(\"%.17g\\n\", c[k]); }}\n",
                     fmt(a),
@@ -401,11 +514,21 @@ mod tests {
             main.push_str("  return 0;\n}\n");
             let dir = tmpdir(&format!("c{n}"));
             std::fs::write(dir.join("s.c"), format!("{code}\n{main}")).unwrap();
-            let st = Command::new("cc").current_dir(&dir).args(["-O1", "-o", "s", "s.c"]).status().unwrap();
+            let st = Command::new("cc")
+                .current_dir(&dir)
+                .args(["-O1", "-o", "s", "s.c"])
+                .status()
+                .unwrap();
             assert!(st.success(), "C code did not compile:\n{code}");
             let o = Command::new(dir.join("s")).output().unwrap();
-            let got: Vec<f64> = String::from_utf8_lossy(&o.stdout).lines().map(|l| l.parse().unwrap()).collect();
-            let want: Vec<f64> = cs.iter().flat_map(|c| c.2.iter().map(crate::scalar::q_to_f64)).collect();
+            let got: Vec<f64> = String::from_utf8_lossy(&o.stdout)
+                .lines()
+                .map(|l| l.parse().unwrap())
+                .collect();
+            let want: Vec<f64> = cs
+                .iter()
+                .flat_map(|c| c.2.iter().map(crate::scalar::q_to_f64))
+                .collect();
             assert_eq!(got.len(), want.len());
             for (g, w) in got.iter().zip(&want) {
                 assert!((g - w).abs() <= 1e-9 * (1.0 + w.abs()), "{g} vs {w}");
@@ -423,7 +546,9 @@ mod tests {
         let mut all = schemes();
         // over GF(7) as well
         let t7 = matmul(2, 2, 2).with_field(FieldSpec::Prime(7)).unwrap();
-        let s7 = scheme(STRASSEN, &matmul(2, 2, 2)).with_field(FieldSpec::Prime(7)).unwrap();
+        let s7 = scheme(STRASSEN, &matmul(2, 2, 2))
+            .with_field(FieldSpec::Prime(7))
+            .unwrap();
         all.push((s7, t7));
         for (n, (s, t)) in all.into_iter().enumerate() {
             let code = emit(&s, &t, Lang::Python, &EmitParams::default()).unwrap();
@@ -436,18 +561,32 @@ mod tests {
             for (a, b, _) in &cs {
                 let a: Vec<i64> = a.iter().map(|&x| modp(x)).collect();
                 let b: Vec<i64> = b.iter().map(|&x| modp(x)).collect();
-                main.push_str(&format!("for x in bilin_mul({a:?}, {b:?}):\n    print(x)\n"));
+                main.push_str(&format!(
+                    "for x in bilin_mul({a:?}, {b:?}):\n    print(x)\n"
+                ));
             }
             let dir = tmpdir(&format!("py{n}"));
             std::fs::write(dir.join("s.py"), format!("{code}{main}")).unwrap();
-            let o = Command::new("python3").arg(dir.join("s.py")).output().unwrap();
-            assert!(o.status.success(), "{}\n{code}", String::from_utf8_lossy(&o.stderr));
-            let got: Vec<String> = String::from_utf8_lossy(&o.stdout).lines().map(String::from).collect();
+            let o = Command::new("python3")
+                .arg(dir.join("s.py"))
+                .output()
+                .unwrap();
+            assert!(
+                o.status.success(),
+                "{}\n{code}",
+                String::from_utf8_lossy(&o.stderr)
+            );
+            let got: Vec<String> = String::from_utf8_lossy(&o.stdout)
+                .lines()
+                .map(String::from)
+                .collect();
             let want: Vec<String> = cs
                 .iter()
                 .flat_map(|c| {
                     // the tensor's multiply reduces mod p; the inputs were reduced the same way
-                    c.2.iter().map(|x| q_to_string(&super::super::reduce_into(t.field(), x).unwrap())).collect::<Vec<_>>()
+                    c.2.iter()
+                        .map(|x| q_to_string(&super::super::reduce_into(t.field(), x).unwrap()))
+                        .collect::<Vec<_>>()
                 })
                 .collect();
             assert_eq!(got, want, "{code}");

@@ -40,7 +40,10 @@ pub fn to_json(s: &Scheme) -> Value {
 /// The JSON text of a scheme, one multiplication per line inside each matrix.
 pub fn write_json(s: &Scheme) -> String {
     let row = |r: &Vec<Q>| {
-        let items: Vec<String> = r.iter().map(|x| format!("\"{}\"", q_to_string(x))).collect();
+        let items: Vec<String> = r
+            .iter()
+            .map(|x| format!("\"{}\"", q_to_string(x)))
+            .collect();
         format!("[{}]", items.join(","))
     };
     let mat = |rows: &[Vec<Q>]| {
@@ -66,33 +69,51 @@ pub fn write_json(s: &Scheme) -> String {
 /// Parse the JSON form. Syntax errors carry serde's line and column; structural errors
 /// name the offending field (reported at line 1, column 1). Cost: linear in the text.
 pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
-    let at = |line: usize, column: usize| Position { source: source.to_string(), line, column };
+    let at = |line: usize, column: usize| Position {
+        source: source.to_string(),
+        line,
+        column,
+    };
     let v: Value = serde_json::from_str(text).map_err(|e| Error::Parse {
         at: at(e.line(), e.column()),
         message: format!("invalid JSON: {e}"),
     })?;
-    let bad = |m: String| Error::Parse { at: at(1, 1), message: m };
-    let obj = v.as_object().ok_or_else(|| bad("a scheme must be a JSON object".into()))?;
-    if let Some(sc) = obj.get("schema") {
-        if sc.as_str() != Some(SCHEMA) {
-            return Err(bad(format!("unknown schema {sc}, expected \"{SCHEMA}\"")));
-        }
+    let bad = |m: String| Error::Parse {
+        at: at(1, 1),
+        message: m,
+    };
+    let obj = v
+        .as_object()
+        .ok_or_else(|| bad("a scheme must be a JSON object".into()))?;
+    if let Some(sc) = obj.get("schema")
+        && sc.as_str() != Some(SCHEMA)
+    {
+        return Err(bad(format!("unknown schema {sc}, expected \"{SCHEMA}\"")));
     }
     let field = match obj.get("field") {
         None => FieldSpec::Rational,
-        Some(f) => FieldSpec::parse(f.as_str().ok_or_else(|| bad("`field` must be a string".into()))?)
-            .map_err(bad)?,
+        Some(f) => FieldSpec::parse(
+            f.as_str()
+                .ok_or_else(|| bad("`field` must be a string".into()))?,
+        )
+        .map_err(bad)?,
     };
     let dims_v = obj
         .get("dims")
         .and_then(Value::as_array)
         .ok_or_else(|| bad("missing `dims` (three integers)".into()))?;
-    let dims: Vec<usize> = dims_v.iter().filter_map(|d| d.as_u64().map(|x| x as usize)).collect();
+    let dims: Vec<usize> = dims_v
+        .iter()
+        .filter_map(|d| d.as_u64().map(|x| x as usize))
+        .collect();
     if dims.len() != 3 || dims_v.len() != 3 {
         return Err(bad("`dims` must be three non-negative integers".into()));
     }
     if dims.iter().any(|&d| d > crate::tensor::MAX_DIM) {
-        return Err(bad(format!("a dimension exceeds the limit {}", crate::tensor::MAX_DIM)));
+        return Err(bad(format!(
+            "a dimension exceeds the limit {}",
+            crate::tensor::MAX_DIM
+        )));
     }
     let dims = [dims[0], dims[1], dims[2]];
     let mut mats = Vec::new();
@@ -117,7 +138,9 @@ pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
             for (i, x) in row.iter().enumerate() {
                 let q = match x {
                     Value::String(s) => parse_rational(s),
-                    Value::Number(n) if n.is_i64() => Ok(Q::from_integer(n.as_i64().unwrap_or(0).into())),
+                    Value::Number(n) if n.is_i64() => {
+                        Ok(Q::from_integer(n.as_i64().unwrap_or(0).into()))
+                    }
                     _ => Err("expected a string \"p/q\" or an integer".to_string()),
                 }
                 .map_err(|m| bad(format!("`{key}[{t}][{i}]`: {m}")))?;
@@ -127,7 +150,11 @@ pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
         }
         mats.push(m);
     }
-    let (w, v, u) = (mats.pop().unwrap_or_default(), mats.pop().unwrap_or_default(), mats.pop().unwrap_or_default());
+    let (w, v, u) = (
+        mats.pop().unwrap_or_default(),
+        mats.pop().unwrap_or_default(),
+        mats.pop().unwrap_or_default(),
+    );
     if u.len() != v.len() || v.len() != w.len() {
         return Err(bad(format!(
             "`u`, `v`, `w` must have the same number of rows (found {}, {}, {})",
@@ -136,12 +163,18 @@ pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
             w.len()
         )));
     }
-    if let Some(r) = obj.get("rank") {
-        if r.as_u64() != Some(u.len() as u64) {
-            return Err(bad(format!("`rank` is {r} but there are {} rows", u.len())));
-        }
+    if let Some(r) = obj.get("rank")
+        && r.as_u64() != Some(u.len() as u64)
+    {
+        return Err(bad(format!("`rank` is {r} but there are {} rows", u.len())));
     }
-    Ok(Scheme { field, dims, u, v, w })
+    Ok(Scheme {
+        field,
+        dims,
+        u,
+        v,
+        w,
+    })
 }
 
 #[cfg(test)]
@@ -163,10 +196,16 @@ mod tests {
             r#"{"schema":"other","dims":[1,1,1],"u":[],"v":[],"w":[]}"#,
             r#"{"dims":[1,1,1],"rank":2,"u":[],"v":[],"w":[]}"#,
         ] {
-            assert!(matches!(parse_json(bad, "j"), Err(Error::Parse { .. })), "{bad}");
+            assert!(
+                matches!(parse_json(bad, "j"), Err(Error::Parse { .. })),
+                "{bad}"
+            );
         }
         let ok = r#"{"dims":[1,1,1],"u":[[1]],"v":[["1"]],"w":[["-1/2"]]}"#;
-        assert_eq!(parse_json(ok, "j").unwrap().w[0][0], crate::scalar::q(-1, 2));
+        assert_eq!(
+            parse_json(ok, "j").unwrap().w[0][0],
+            crate::scalar::q(-1, 2)
+        );
     }
 
     proptest! {

@@ -14,9 +14,9 @@ pub mod cost;
 pub mod emit;
 pub mod json;
 pub mod polish;
-pub mod text;
 #[cfg(test)]
 pub(crate) mod testkit;
+pub mod text;
 mod verify;
 
 pub use verify::{Mismatch, verify};
@@ -133,12 +133,14 @@ pub fn reduce_into(field: FieldSpec, x: &Q) -> crate::Result<Q> {
         FieldSpec::Prime(p) => {
             let f = PrimeField::new(p)
                 .ok_or_else(|| crate::Error::Invalid(format!("{p} is not a prime")))?;
-            f.from_rational(x).map(|e| f.to_rational(&e)).ok_or_else(|| {
-                crate::Error::Invalid(format!(
-                    "the coefficient {} has a denominator divisible by {p}",
-                    crate::scalar::q_to_string(x)
-                ))
-            })
+            f.from_rational(x)
+                .map(|e| f.to_rational(&e))
+                .ok_or_else(|| {
+                    crate::Error::Invalid(format!(
+                        "the coefficient {} has a denominator divisible by {p}",
+                        crate::scalar::q_to_string(x)
+                    ))
+                })
         }
     }
 }

@@ -47,7 +47,9 @@ pub struct Polished {
 }
 
 fn is_unit(field: FieldSpec, c: &Q) -> bool {
-    c.is_one() || (-c).is_one() || matches!(field, FieldSpec::Prime(p) if *c == Q::from_integer((p - 1).into()))
+    c.is_one()
+        || (-c).is_one()
+        || matches!(field, FieldSpec::Prime(p) if *c == Q::from_integer((p - 1).into()))
 }
 
 /// Number of coefficients other than 0, +1, -1.
@@ -81,8 +83,9 @@ fn proportional(field: FieldSpec, x: &[Q], y: &[Q]) -> Option<Q> {
 /// Cost: O(r^2 (d0 + d1 + d2)) per merge.
 pub fn simplify(s: &Scheme) -> Scheme {
     let f = s.field;
-    let mut terms: Vec<[Vec<Q>; 3]> =
-        (0..s.rank()).map(|t| [s.u[t].clone(), s.v[t].clone(), s.w[t].clone()]).collect();
+    let mut terms: Vec<[Vec<Q>; 3]> = (0..s.rank())
+        .map(|t| [s.u[t].clone(), s.v[t].clone(), s.w[t].clone()])
+        .collect();
     let nonzero = |x: &[Q]| x.iter().any(|c| !c.is_zero());
     loop {
         terms.retain(|tr| tr.iter().all(|x| nonzero(x)));
@@ -95,9 +98,10 @@ pub fn simplify(s: &Scheme) -> Scheme {
                         1 => (0, 2),
                         _ => (1, 2),
                     };
-                    let (Some(x), Some(y)) =
-                        (proportional(f, &terms[a][p], &terms[b][p]), proportional(f, &terms[a][q], &terms[b][q]))
-                    else {
+                    let (Some(x), Some(y)) = (
+                        proportional(f, &terms[a][p], &terms[b][p]),
+                        proportional(f, &terms[a][q], &terms[b][q]),
+                    ) else {
                         continue;
                     };
                     let xy = red(f, x * y);
@@ -174,7 +178,11 @@ pub fn rescale(s: &Scheme) -> Scheme {
                 if lm.is_zero() {
                     continue;
                 }
-                let (u2, v2, w2) = (scale(f, u, l), scale(f, v, m), scale(f, w, &red(f, lm.recip())));
+                let (u2, v2, w2) = (
+                    scale(f, u, l),
+                    scale(f, v, m),
+                    scale(f, w, &red(f, lm.recip())),
+                );
                 let c = term_cost(f, [&u2, &v2, &w2]);
                 if c < best.0 {
                     best = (c, u2, v2, w2);
@@ -215,7 +223,9 @@ pub fn polish(s: &Scheme, t: &Tensor, params: &PolishParams) -> Result<Polished,
         cur = next;
     }
     if verify(&cur, t).is_err() {
-        return Err(Error::Invalid("internal error: the polished scheme does not verify".into()));
+        return Err(Error::Invalid(
+            "internal error: the polished scheme does not verify".into(),
+        ));
     }
     Ok(Polished {
         rank_before: s.rank(),
@@ -269,7 +279,11 @@ mod tests {
         // split the first term into two halves and add a zero term
         let (u, v, w) = (s.u[0].clone(), s.v[0].clone(), s.w[0].clone());
         s.w[0] = scale(s.field, &w, &q(1, 2));
-        s.push(scale(s.field, &u, &q(3, 1)), v.clone(), scale(s.field, &w, &q(1, 6)));
+        s.push(
+            scale(s.field, &u, &q(3, 1)),
+            v.clone(),
+            scale(s.field, &w, &q(1, 6)),
+        );
         s.push(u.clone(), vec![Q::zero(); 4], w.clone());
         assert!(verify(&s, &t).is_ok());
         let p = polish(&s, &t, &PolishParams::default()).unwrap();

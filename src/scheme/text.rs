@@ -23,6 +23,9 @@ use crate::tensor::Tensor;
 use num_traits::{One, Signed, Zero};
 use std::collections::HashMap;
 
+/// A parsed term: coefficient, name (None for a bare number), column.
+type Term = (Q, Option<String>, usize);
+
 #[derive(Clone, Debug, PartialEq)]
 enum Tok {
     Name(String),
@@ -97,7 +100,10 @@ fn lex(line: &str, err: &dyn Fn(usize, String) -> Error) -> Result<Lexed, Error>
             return Err(err(col, format!("unexpected character `{c}`")));
         }
     }
-    Ok(Lexed { toks, end_col: chars.len() + 1 })
+    Ok(Lexed {
+        toks,
+        end_col: chars.len() + 1,
+    })
 }
 
 /// A cursor over one line's tokens.
@@ -130,7 +136,7 @@ impl Cur<'_> {
     }
 
     /// `[coef [*]] name` or a bare coefficient; returns (coefficient, name or None, column).
-    fn term(&mut self) -> Result<(Q, Option<String>, usize), Error> {
+    fn term(&mut self) -> Result<Term, Error> {
         let col = self.col();
         let mut c = Q::one();
         let mut had_num = false;
@@ -156,7 +162,7 @@ impl Cur<'_> {
     }
 
     /// A combination `t1 +- t2 ...`; a bare `0` is allowed.
-    fn combination(&mut self, stop: &[Tok]) -> Result<Vec<(Q, Option<String>, usize)>, Error> {
+    fn combination(&mut self, stop: &[Tok]) -> Result<Vec<Term>, Error> {
         let mut out = Vec::new();
         let mut sign = Q::one();
         if self.eat(&Tok::Minus) {
@@ -185,7 +191,7 @@ impl Cur<'_> {
     }
 
     /// A factor: `( combination )` or a single signed term.
-    fn factor(&mut self) -> Result<Vec<(Q, Option<String>, usize)>, Error> {
+    fn factor(&mut self) -> Result<Vec<Term>, Error> {
         if self.eat(&Tok::LParen) {
             let c = self.combination(&[Tok::RParen])?;
             if !self.eat(&Tok::RParen) {
@@ -207,7 +213,11 @@ impl Cur<'_> {
 pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error> {
     let dims = t.dims();
     let index = |axis: usize| -> HashMap<&str, usize> {
-        t.names()[axis].iter().enumerate().map(|(i, n)| (n.as_str(), i)).collect()
+        t.names()[axis]
+            .iter()
+            .enumerate()
+            .map(|(i, n)| (n.as_str(), i))
+            .collect()
     };
     let idx = [index(0), index(1), index(2)];
     let mut field = t.field();
@@ -215,22 +225,31 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
     let mut labels: HashMap<String, usize> = HashMap::new();
     let mut scheme = Scheme::empty(field, dims);
     // output lines kept until all labels are known: (line, result index, terms)
-    let mut outputs: Vec<(usize, usize, Vec<(Q, Option<String>, usize)>)> = Vec::new();
+    let mut outputs: Vec<(usize, usize, Vec<Term>)> = Vec::new();
     let mut seen_out = vec![false; dims[2]];
     let mut seen_any = false;
     for (ln, line) in text.lines().enumerate() {
         let ln = ln + 1;
         let err = move |col: usize, message: String| Error::Parse {
-            at: Position { source: source.to_string(), line: ln, column: col },
+            at: Position {
+                source: source.to_string(),
+                line: ln,
+                column: col,
+            },
             message,
         };
         let lx = lex(line, &err)?;
         if lx.toks.is_empty() {
             continue;
         }
-        let mut cur = Cur { lx: &lx, pos: 0, err: &err };
+        let mut cur = Cur {
+            lx: &lx,
+            pos: 0,
+            err: &err,
+        };
         let Some(Tok::Name(head)) = cur.peek().cloned() else {
-            return cur.fail("expected a header (`field`, `dims`, `rank`), a product or an output line");
+            return cur
+                .fail("expected a header (`field`, `dims`, `rank`), a product or an output line");
         };
         let is_assign = lx.toks.get(1).map(|t| &t.0) == Some(&Tok::Eq);
         if !is_assign {
@@ -244,11 +263,16 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                     scheme.field = field;
                 }
                 "dims" | "format" => {
-                    let parts: Vec<&str> =
-                        rest.split(|c: char| c.is_whitespace() || c == 'x' || c == ',').filter(|s| !s.is_empty()).collect();
+                    let parts: Vec<&str> = rest
+                        .split(|c: char| c.is_whitespace() || c == 'x' || c == ',')
+                        .filter(|s| !s.is_empty())
+                        .collect();
                     let parsed: Vec<usize> = parts.iter().filter_map(|p| p.parse().ok()).collect();
                     if parsed.len() != 3 || parts.len() != 3 {
-                        return Err(err(lx.toks[0].1, format!("expected `dims a b c`, found `{rest}`")));
+                        return Err(err(
+                            lx.toks[0].1,
+                            format!("expected `dims a b c`, found `{rest}`"),
+                        ));
                     }
                     if parsed != dims {
                         return Err(err(
@@ -261,12 +285,16 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                     }
                 }
                 "rank" => {
-                    let r: usize = rest
-                        .parse()
-                        .map_err(|_| err(lx.toks[0].1, format!("expected `rank r`, found `{rest}`")))?;
+                    let r: usize = rest.parse().map_err(|_| {
+                        err(lx.toks[0].1, format!("expected `rank r`, found `{rest}`"))
+                    })?;
                     declared_rank = Some((r, ln));
                 }
-                _ => return cur.fail(format!("unknown statement `{head}` (expected `name = ...`)")),
+                _ => {
+                    return cur.fail(format!(
+                        "unknown statement `{head}` (expected `name = ...`)"
+                    ));
+                }
             }
             continue;
         }
@@ -274,7 +302,10 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
         cur.pos = 2;
         if let Some(&k) = idx[2].get(head.as_str()) {
             if seen_out[k] {
-                return Err(err(lx.toks[0].1, format!("the output `{head}` is given twice")));
+                return Err(err(
+                    lx.toks[0].1,
+                    format!("the output `{head}` is given twice"),
+                ));
             }
             seen_out[k] = true;
             let terms = cur.combination(&[])?;
@@ -282,7 +313,10 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             continue;
         }
         if labels.contains_key(&head) {
-            return Err(err(lx.toks[0].1, format!("the product `{head}` is defined twice")));
+            return Err(err(
+                lx.toks[0].1,
+                format!("the product `{head}` is defined twice"),
+            ));
         }
         let left = cur.factor()?;
         let had_star = cur.eat(&Tok::Star);
@@ -310,7 +344,8 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                                 ),
                             ));
                         };
-                        vec[i] = reduce_into(field, &(&vec[i] + c)).map_err(|e| err(*col, e.to_string()))?;
+                        vec[i] = reduce_into(field, &(&vec[i] + c))
+                            .map_err(|e| err(*col, e.to_string()))?;
                     }
                     None if c.is_zero() => {}
                     None => return Err(err(*col, "a bare number in a factor must be 0".into())),
@@ -327,14 +362,20 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
     for (ln, k, terms) in outputs {
         for (c, n, col) in terms {
             let err = |m: String| Error::Parse {
-                at: Position { source: source.to_string(), line: ln, column: col },
+                at: Position {
+                    source: source.to_string(),
+                    line: ln,
+                    column: col,
+                },
                 message: m,
             };
             let c = reduce_into(field, &c).map_err(|e| err(e.to_string()))?;
             match n {
                 Some(n) => {
                     let Some(&tt) = labels.get(&n) else {
-                        return Err(err(format!("`{n}` is not a product defined in this scheme")));
+                        return Err(err(format!(
+                            "`{n}` is not a product defined in this scheme"
+                        )));
                     };
                     let x = &scheme.w[tt][k] + c;
                     scheme.w[tt][k] = reduce_into(field, &x).map_err(|e| err(e.to_string()))?;
@@ -348,8 +389,15 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
         && r != scheme.rank()
     {
         return Err(Error::Parse {
-            at: Position { source: source.to_string(), line: ln, column: 1 },
-            message: format!("declared rank {r} but {} products are defined", scheme.rank()),
+            at: Position {
+                source: source.to_string(),
+                line: ln,
+                column: 1,
+            },
+            message: format!(
+                "declared rank {r} but {} products are defined",
+                scheme.rank()
+            ),
         });
     }
     Ok(scheme)
@@ -368,7 +416,11 @@ pub(crate) fn display_coef(field: FieldSpec, c: &Q) -> Q {
     match field {
         FieldSpec::Prime(p) if c.is_integer() => {
             let pq = Q::from_integer(p.into());
-            if c > &(&pq / Q::from_integer(2.into())) { c - pq } else { c.clone() }
+            if c > &(&pq / Q::from_integer(2.into())) {
+                c - pq
+            } else {
+                c.clone()
+            }
         }
         _ => c.clone(),
     }
@@ -406,7 +458,10 @@ pub(crate) fn product_prefix(t: &Tensor) -> &'static str {
     ["m", "p", "q", "mult", "t_"]
         .into_iter()
         .find(|p| {
-            !r.clone().any(|n| n.strip_prefix(p).is_some_and(|d| d.chars().all(|c| c.is_ascii_digit())))
+            !r.clone().any(|n| {
+                n.strip_prefix(p)
+                    .is_some_and(|d| d.chars().all(|c| c.is_ascii_digit()))
+            })
         })
         .unwrap_or("mult_")
 }
@@ -448,13 +503,17 @@ pub fn write_text(s: &Scheme, t: &Tensor, title: &str) -> String {
         ));
     }
     let labels: Vec<String> = (1..=s.rank()).map(|i| format!("{pre}{i}")).collect();
-    for k in 0..s.dims[2] {
+    for (k, name) in names[2].iter().enumerate() {
         let terms: Vec<(Q, &str)> = (0..s.rank())
             .filter(|&tt| !s.w[tt][k].is_zero())
             .map(|tt| (s.w[tt][k].clone(), labels[tt].as_str()))
             .collect();
         if !terms.is_empty() {
-            out.push_str(&format!("{} = {}\n", names[2][k], write_combination(s.field, &terms)));
+            out.push_str(&format!(
+                "{} = {}\n",
+                name,
+                write_combination(s.field, &terms)
+            ));
         }
     }
     out
@@ -502,7 +561,10 @@ mod tests {
             "m1 = (a11 $ a12)*b11",
             "m1 = (3)*b11",
         ] {
-            assert!(matches!(parse_text(bad, "f", &t), Err(Error::Parse { .. })), "{bad}");
+            assert!(
+                matches!(parse_text(bad, "f", &t), Err(Error::Parse { .. })),
+                "{bad}"
+            );
         }
     }
 
