@@ -249,8 +249,12 @@ fn run_op(op: &Op) -> Result<i32, Error> {
         }
         Op::Polish { one, format } => {
             let (t, s) = both(one)?;
-            let p = polish(&s, &t, &PolishParams::default())?;
             let fmt = matmul_format(&one.input, format.as_deref());
+            let params = PolishParams {
+                matmul: fmt,
+                ..PolishParams::default()
+            };
+            let p = polish(&s, &t, &params)?;
             let mut title = format!(
                 "polished scheme for {}: rank {} -> {}, nonzeros {} -> {}, coefficients other than +-1 {} -> {}, additions (CSE) {} -> {}",
                 one.input,

@@ -14,6 +14,7 @@ pub mod cost;
 pub mod emit;
 pub mod json;
 pub mod polish;
+pub mod sandwich;
 #[cfg(test)]
 pub(crate) mod testkit;
 pub mod text;

@@ -8,9 +8,12 @@
 //!   scheme valid. A greedy pass chooses, term by term, the (l, m) among the inverses of
 //!   the coefficients that minimise the number of coefficients other than +-1, then the
 //!   size of the coefficients; the first nonzero entries of u_t and v_t are made positive.
-//!   (Sandwiching matrix multiplication schemes by invertible matrices is not done.)
+//! - *Sandwich* (matrix multiplication only, when the format is given): the greedy
+//!   descent of [`super::sandwich`] with elementary matrices, lowering the number of
+//!   nonzeros and then of non-(+-1) coefficients.
 //!
-//! The number of nonzeros is invariant under rescaling; simplification can only lower it.
+//! The number of nonzeros is invariant under rescaling; simplification and the sandwich
+//! search can only lower it.
 //! Every polished scheme is re-verified exactly before it is returned.
 
 use super::cost::{Cost, count_cost};
@@ -25,11 +28,19 @@ use num_traits::{One, Signed, Zero};
 pub struct PolishParams {
     /// Rounds of simplify + rescale (each round is deterministic).
     pub rounds: usize,
+    /// The format <n,m,p> when the tensor is matrix multiplication (enables sandwiching).
+    pub matmul: Option<[usize; 3]>,
+    /// Most elementary sandwich moves per round.
+    pub sandwich_steps: usize,
 }
 
 impl Default for PolishParams {
     fn default() -> Self {
-        PolishParams { rounds: 3 }
+        PolishParams {
+            rounds: 3,
+            matmul: None,
+            sandwich_steps: 200,
+        }
     }
 }
 
@@ -216,7 +227,13 @@ pub fn polish(s: &Scheme, t: &Tensor, params: &PolishParams) -> Result<Polished,
     }
     let mut cur = s.clone();
     for _ in 0..params.rounds.max(1) {
-        let next = rescale(&simplify(&cur));
+        let mut next = simplify(&cur);
+        if let Some(nmp) = params.matmul
+            && next.dims == [nmp[0] * nmp[1], nmp[1] * nmp[2], nmp[0] * nmp[2]]
+        {
+            next = super::sandwich::sandwich_greedy(&next, nmp, params.sandwich_steps).0;
+        }
+        let next = rescale(&next);
         if next == cur {
             break;
         }
@@ -295,6 +312,27 @@ mod tests {
         let p7 = polish(&s7, &t7, &PolishParams::default()).unwrap();
         assert_eq!(p7.scheme.rank(), 8);
         assert_eq!(p7.nonunit_after, 0);
+    }
+
+    #[test]
+    fn sandwich_polish_lowers_nonzeros() {
+        let t = matmul(2, 2, 2);
+        let s = scheme(STRASSEN, &t);
+        let mv = crate::scheme::sandwich::Move {
+            side: crate::scheme::sandwich::Side::X,
+            a: 0,
+            b: 1,
+            c: Q::one(),
+        };
+        let scr = crate::scheme::sandwich::apply_move(&s, [2, 2, 2], &mv);
+        assert!(scr.nnz() > s.nnz());
+        let params = PolishParams {
+            matmul: Some([2, 2, 2]),
+            ..PolishParams::default()
+        };
+        let p = polish(&scr, &t, &params).unwrap();
+        assert!(p.nnz_after < p.nnz_before);
+        assert!(p.nnz_after <= s.nnz());
     }
 
     #[test]
