@@ -10,6 +10,7 @@
 
 pub mod error;
 pub mod generators;
+pub mod input;
 pub mod linalg;
 pub mod scalar;
 pub mod scheme;

@@ -6,7 +6,7 @@ use bilin::scheme::bounds::{BoundsParams, lower_bounds};
 
 #[derive(clap::Args)]
 pub struct Args {
-    /// The tensor (a generator spec such as matmul:3,3,3).
+    /// The tensor: a file, a generator spec such as matmul:3,3,3, or a catalog name.
     pub input: String,
     /// Print JSON.
     #[arg(long)]

@@ -7,6 +7,8 @@
 use clap::{Parser, Subcommand};
 
 mod bounds;
+pub mod common;
+mod convert;
 mod emit;
 mod scheme;
 mod scheme_io;
@@ -28,6 +30,8 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Print an input (file, generator or catalog name) as a table, grid or JSON.
+    Convert(convert::Args),
     /// Verify a scheme (bilinear algorithm) exactly against a tensor.
     Verify(verify::Args),
     /// Proven lower bounds for the tensor rank, each with its theorem.
@@ -49,6 +53,7 @@ pub fn run() -> i32 {
         }
     };
     match cli.command {
+        Command::Convert(a) => convert::run(a),
         Command::Verify(a) => verify::run(&a),
         Command::Bounds(a) => bounds::run(&a),
         Command::Emit(a) => emit::run(&a),

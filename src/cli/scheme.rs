@@ -21,7 +21,7 @@ pub struct Args {
 /// One input tensor and one scheme file.
 #[derive(clap::Args)]
 pub struct One {
-    /// The tensor (a generator spec such as matmul:2,2,2).
+    /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
     pub input: String,
     /// The scheme file (text or JSON form).
     pub scheme: String,

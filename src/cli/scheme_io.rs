@@ -1,23 +1,20 @@
 //! Shared helpers of the scheme subcommands: loading an input tensor and a scheme file.
 //!
-//! `load_tensor` resolves a generator spec (e.g. `matmul:2,2,2`); it is the single place to
-//! point at the general input loader.
+//! `load_tensor` resolves an input (file, generator spec such as `matmul:2,2,2`, or catalog
+//! name) through the shared loader `bilin::input::load_input`.
 
 use bilin::error::Error;
 use bilin::scalar::FieldSpec;
 use bilin::scheme::Scheme;
 use bilin::tensor::Tensor;
 
-/// Load an input (a generator spec) and bring it to `field` if given.
+/// Load an input (file, generator spec or catalog name), over `field` if given.
 pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
-    let t = bilin::generators::generate(spec)?;
-    match field {
-        None => Ok(t),
-        Some(f) => {
-            let f = FieldSpec::parse(f).map_err(Error::Invalid)?;
-            t.with_field(f).map_err(Error::Invalid)
-        }
-    }
+    let field = match field {
+        None => None,
+        Some(f) => Some(FieldSpec::parse(f).map_err(|m| Error::Invalid(format!("--field: {m}")))?),
+    };
+    bilin::input::load_input(spec, field)
 }
 
 /// Read a scheme file (text or JSON form) against a tensor.

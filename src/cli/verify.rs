@@ -6,7 +6,7 @@ use bilin::scalar::q_to_string;
 
 #[derive(clap::Args)]
 pub struct Args {
-    /// The tensor (a generator spec such as matmul:2,2,2).
+    /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
     pub input: String,
     /// The scheme file (text or JSON form, see docs/schemes.md).
     pub scheme: String,
