@@ -12,7 +12,7 @@
 //! and need p < 2^31; larger p is refused). The emitter verifies the scheme first and
 //! refuses one that does not verify.
 
-use super::cost::{Form, LinearProgram, count_cost, programs, side_forms};
+use super::cost::{Form, LinearProgram, count_cost, programs};
 use super::{Scheme, verify};
 use crate::error::Error;
 use crate::scalar::{FieldSpec, Q, q_to_string};
@@ -113,7 +113,7 @@ pub fn emit(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams) -> Result<S
         )),
     }
     Ok(match lang {
-        Lang::Latex => emit_latex(s, t, &head),
+        Lang::Latex => super::latex::emit_latex(s, t, &head),
         _ => emit_code(s, t, lang, params, &head),
     })
 }
@@ -189,6 +189,15 @@ fn expr(field: FieldSpec, lang: Lang, f: &Form, var: &dyn Fn(usize) -> String) -
         }
     }
     s
+}
+
+/// Parenthesise an expression unless it is a single unsigned term.
+fn paren(e: &str) -> String {
+    if e.contains(' ') || e.starts_with('-') {
+        format!("({e})")
+    } else {
+        e.to_string()
+    }
 }
 
 fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[String]) -> String {
@@ -297,7 +306,7 @@ fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[St
         let e = if modp.is_some() {
             format!("({l}) * ({r}) % P")
         } else {
-            format!("({l}) * ({r})")
+            format!("{} * {}", paren(&l), paren(&r))
         };
         out.push_str(&decl(&format!("m{tt}"), &e));
     }
@@ -328,85 +337,6 @@ fn emit_code(s: &Scheme, t: &Tensor, lang: Lang, params: &EmitParams, head: &[St
             out.push_str(&format!("{ind}]\n"));
         }
     }
-    out
-}
-
-fn latex_name(n: &str) -> String {
-    let split = n.find(|c: char| !c.is_alphabetic()).unwrap_or(n.len());
-    let (p, rest) = n.split_at(split);
-    let p = if p.is_empty() { "x" } else { p };
-    let rest = rest.trim_start_matches('_').replace('_', ",");
-    if rest.is_empty() {
-        p.to_string()
-    } else {
-        format!("{p}_{{{rest}}}")
-    }
-}
-
-fn latex_form(field: FieldSpec, f: &Form, name: &dyn Fn(usize) -> String, paren: bool) -> String {
-    let mut s = String::new();
-    for (i, c) in f {
-        let c = super::text::display_coef(field, c);
-        let neg = c.is_negative();
-        let a = c.abs();
-        let coef = if a.is_one() {
-            String::new()
-        } else if a.is_integer() {
-            format!("{} ", a.numer())
-        } else {
-            format!("\\tfrac{{{}}}{{{}}} ", a.numer(), a.denom())
-        };
-        if s.is_empty() {
-            if neg {
-                s.push('-');
-            }
-        } else {
-            s.push_str(if neg { " - " } else { " + " });
-        }
-        s.push_str(&coef);
-        s.push_str(&name(*i));
-    }
-    if s.is_empty() {
-        return "0".into();
-    }
-    if paren && (f.len() > 1 || s.starts_with('-')) {
-        format!("({s})")
-    } else {
-        s
-    }
-}
-
-fn emit_latex(s: &Scheme, t: &Tensor, head: &[String]) -> String {
-    let field = s.field;
-    let [l, r, o] = side_forms(s);
-    let mut out = String::new();
-    for h in head {
-        out.push_str(&format!("% {h}\n"));
-    }
-    out.push_str("\\begin{align*}\n");
-    let name = |axis: usize| move |i: usize| latex_name(t.name(axis, i));
-    let mut lines = Vec::new();
-    for tt in 0..s.rank() {
-        lines.push(format!(
-            "m_{{{}}} &= {}\\,{}",
-            tt + 1,
-            latex_form(field, &l[tt], &name(0), true),
-            latex_form(field, &r[tt], &name(1), true)
-        ));
-    }
-    let mname = |i: usize| format!("m_{{{}}}", i + 1);
-    for (k, f) in o.iter().enumerate() {
-        lines.push(format!(
-            "{} &= {}",
-            latex_name(t.name(2, k)),
-            latex_form(field, f, &mname, false)
-        ));
-    }
-    out.push_str(&lines.join(" \\\\\n"));
-    if let FieldSpec::Prime(p) = field {
-        out.push_str(&format!(" \\qquad (\\mathrm{{mod}}\\ {p})"));
-    }
-    out.push_str("\n\\end{align*}\n");
     out
 }
 
@@ -485,55 +415,112 @@ mod tests {
         assert!(rs.contains("pub fn bilin_mul"));
     }
 
-    #[test]
-    fn emitted_c_agrees_with_schoolbook() {
-        if Command::new("cc").arg("--version").output().is_err() {
-            eprintln!("note: no C compiler `cc`; skipping the C emission test");
-            return;
+    /// Compile `code` plus a harness with `compiler` and return the printed outputs.
+    fn run_native(lang: Lang, s: &Scheme, t: &Tensor, seed: u64) -> Option<(Vec<f64>, Vec<f64>)> {
+        let (compiler, file) = if lang == Lang::C {
+            ("cc", "s.c")
+        } else {
+            ("rustc", "s.rs")
+        };
+        if Command::new(compiler).arg("--version").output().is_err() {
+            eprintln!("note: `{compiler}` not found; skipping the {lang:?} emission test");
+            return None;
         }
-        for (n, (s, t)) in schemes().into_iter().enumerate() {
-            let code = emit(&s, &t, Lang::C, &EmitParams::default()).unwrap();
-            let cs = cases(&t, 5, 7 + n as u64);
-            let d = t.dims();
-            let mut main = String::from("#include <stdio.h>\nint main(void) {\n");
-            main.push_str(&format!("  double c[{}];\n", d[2]));
+        let code = emit(s, t, lang, &EmitParams::default()).unwrap();
+        let cs = cases(t, 5, seed);
+        let d = t.dims();
+        let modp = |x: i64| match t.field() {
+            FieldSpec::Prime(p) => x.rem_euclid(p as i64),
+            FieldSpec::Rational => x,
+        };
+        let gf = t.field() != FieldSpec::Rational;
+        let lit = |x: i64| {
+            if gf {
+                format!("{}", modp(x))
+            } else {
+                format!("{x}.0")
+            }
+        };
+        let list = |v: &[i64]| v.iter().map(|&x| lit(x)).collect::<Vec<_>>().join(", ");
+        let mut main = String::new();
+        if lang == Lang::C {
+            let ty = if gf { "uint64_t" } else { "double" };
+            main.push_str(&format!(
+                "#include <stdio.h>\nint main(void) {{\n  {ty} c[{}];\n",
+                d[2]
+            ));
             for (a, b, _) in &cs {
-                let fmt = |v: &[i64]| {
-                    v.iter()
-                        .map(|x| format!("{x}.0"))
-                        .collect::<Vec<_>>()
-                        .join(",")
-                };
                 main.push_str(&format!(
-                    "  {{ double a[] = {{{}}}; double b[] = {{{}}}; bilin_mul(a, b, c);\n    for (int k = 0; k < {}; k++) printf(\"%.17g\\n\", c[k]); }}\n",
-                    fmt(a),
-                    fmt(b),
-                    d[2]
+                    "  {{ {ty} a[] = {{{}}}; {ty} b[] = {{{}}}; bilin_mul(a, b, c);\n    for (int k = 0; k < {}; k++) printf(\"%.17g\\n\", (double)c[k]); }}\n",
+                    list(a), list(b), d[2]
                 ));
             }
             main.push_str("  return 0;\n}\n");
-            let dir = tmpdir(&format!("c{n}"));
-            std::fs::write(dir.join("s.c"), format!("{code}\n{main}")).unwrap();
-            let st = Command::new("cc")
-                .current_dir(&dir)
-                .args(["-O1", "-o", "s", "s.c"])
-                .status()
-                .unwrap();
-            assert!(st.success(), "C code did not compile:\n{code}");
-            let o = Command::new(dir.join("s")).output().unwrap();
-            let got: Vec<f64> = String::from_utf8_lossy(&o.stdout)
-                .lines()
-                .map(|l| l.parse().unwrap())
-                .collect();
-            let want: Vec<f64> = cs
-                .iter()
-                .flat_map(|c| c.2.iter().map(crate::scalar::q_to_f64))
-                .collect();
-            assert_eq!(got.len(), want.len());
-            for (g, w) in got.iter().zip(&want) {
-                assert!((g - w).abs() <= 1e-9 * (1.0 + w.abs()), "{g} vs {w}");
+        } else {
+            let ty = if gf { "u64" } else { "f64" };
+            main.push_str(&format!(
+                "fn main() {{\n    let mut c = [0 as {ty}; {}];\n",
+                d[2]
+            ));
+            for (a, b, _) in &cs {
+                main.push_str(&format!(
+                    "    bilin_mul(&[{}], &[{}], &mut c);\n    for x in c {{ println!(\"{{}}\", x as f64); }}\n",
+                    list(a), list(b)
+                ));
             }
-            let _ = std::fs::remove_dir_all(&dir);
+            main.push_str("}\n");
+        }
+        let dir = tmpdir(&format!("{lang:?}{seed}"));
+        std::fs::write(dir.join(file), format!("{code}\n{main}")).unwrap();
+        let args: Vec<&str> = if lang == Lang::C {
+            vec!["-O1", "-o", "s", file]
+        } else {
+            vec!["--edition", "2021", "-A", "warnings", "-o", "s", file]
+        };
+        let st = Command::new(compiler)
+            .current_dir(&dir)
+            .args(&args)
+            .status()
+            .unwrap();
+        assert!(st.success(), "{lang:?} code did not compile:\n{code}");
+        let o = Command::new(dir.join("s")).output().unwrap();
+        let got: Vec<f64> = String::from_utf8_lossy(&o.stdout)
+            .lines()
+            .map(|l| l.parse().unwrap())
+            .collect();
+        let want: Vec<f64> = cs
+            .iter()
+            .flat_map(|c| {
+                c.2.iter().map(|x| {
+                    crate::scalar::q_to_f64(&super::super::reduce_into(t.field(), x).unwrap())
+                })
+            })
+            .collect();
+        let _ = std::fs::remove_dir_all(&dir);
+        Some((got, want))
+    }
+
+    #[test]
+    fn emitted_c_and_rust_agree_with_schoolbook() {
+        let mut all = schemes();
+        let t7 = matmul(2, 2, 2).with_field(FieldSpec::Prime(7)).unwrap();
+        let s7 = scheme(WINOGRAD, &matmul(2, 2, 2))
+            .with_field(FieldSpec::Prime(7))
+            .unwrap();
+        all.push((s7, t7));
+        for lang in [Lang::C, Lang::Rust] {
+            for (n, (s, t)) in all.iter().enumerate() {
+                let Some((got, want)) = run_native(lang, s, t, 7 + n as u64) else {
+                    return;
+                };
+                assert_eq!(got.len(), want.len());
+                for (g, w) in got.iter().zip(&want) {
+                    assert!(
+                        (g - w).abs() <= 1e-9 * (1.0 + w.abs()),
+                        "{lang:?}: {g} vs {w}"
+                    );
+                }
+            }
         }
     }
 

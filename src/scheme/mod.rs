@@ -13,6 +13,7 @@ pub mod construct;
 pub mod cost;
 pub mod emit;
 pub mod json;
+mod latex;
 pub mod polish;
 pub mod sandwich;
 #[cfg(test)]
