@@ -569,6 +569,19 @@ mod tests {
     }
 
     #[test]
+    fn syntax_variants() {
+        // Karatsuba and Ofman 1962, written with every accepted variation of the notation
+        let t = polymul(2);
+        let txt = "# comment line\n\nfield Q\nrank 3\nc0 = m1   # output before its product\n\
+                   m1 = a0*b0\nm2 = 1*a1 * b1\nm3 = (a0 + a1)(b0 + 0.5 b1 + 1/2*b1)\n\
+                   c1 = m3 - m1 - 2/2 m2\nc2 = m2\n";
+        let s = parse_text(txt, "k", &t).unwrap();
+        assert_eq!(s.rank(), 3);
+        assert!(verify(&s, &t).is_ok());
+        assert_eq!(s, parse_text(KARATSUBA, "k", &t).unwrap());
+    }
+
+    #[test]
     fn gf_p_coefficients_reduce() {
         let t = matmul(1, 1, 1).with_field(FieldSpec::Prime(7)).unwrap();
         let s = parse_text("field GF(7)\nm1 = (1/2 a11)*b11\nc11 = 2 m1\n", "f", &t).unwrap();
