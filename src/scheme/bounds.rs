@@ -601,6 +601,18 @@ mod tests {
         assert_eq!(alder_strassen(&c, &p).unwrap().value, 3);
         let h = crate::generators::generate("quaternions").unwrap();
         assert_eq!(alder_strassen(&h, &p).unwrap().value, 7);
+        // group algebras by their Wedderburn decompositions (common practice):
+        // QS_3 = Q + Q + M_2(Q) (t = 3), QC_3 = Q + Q(w) (t = 2), QC_5 = Q + Q(z_5) (t = 2),
+        // QD_4 = Q^4 + M_2(Q) (t = 5)
+        for (spec, want) in [
+            ("symmetric:3", 9),
+            ("cyclic:3", 4),
+            ("cyclic:5", 8),
+            ("dihedral:4", 11),
+        ] {
+            let a = crate::generators::generate(spec).unwrap();
+            assert_eq!(alder_strassen(&a, &p).unwrap().value, want, "{spec}");
+        }
         // not an algebra
         assert!(alder_strassen(&matmul(2, 2, 2), &p).is_err());
     }
