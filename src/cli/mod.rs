@@ -7,13 +7,17 @@
 use clap::{Parser, Subcommand};
 
 mod analyze;
+mod bounds;
 pub mod common;
 mod convert;
+mod emit;
+mod scheme;
+mod scheme_io;
+mod verify;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
 /// Exit code: a checked claim is false.
-#[allow(dead_code)]
 pub const EXIT_FALSE: i32 = 1;
 /// Exit code: bad input or usage.
 pub const EXIT_USAGE: i32 = 2;
@@ -31,6 +35,14 @@ enum Command {
     Analyze(analyze::Args),
     /// Print an input (file, generator or catalog name) as a table, grid or JSON.
     Convert(convert::Args),
+    /// Verify a scheme (bilinear algorithm) exactly against a tensor.
+    Verify(verify::Args),
+    /// Proven lower bounds for the tensor rank, each with its theorem.
+    Bounds(bounds::Args),
+    /// Emit a verified scheme as C, Rust, Python or LaTeX.
+    Emit(emit::Args),
+    /// Schemes as data: convert, cost, polish, kron, sum, permute, cyclic, transpose, restrict.
+    Scheme(scheme::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -46,5 +58,9 @@ pub fn run() -> i32 {
     match cli.command {
         Command::Analyze(a) => analyze::run(a),
         Command::Convert(a) => convert::run(a),
+        Command::Verify(a) => verify::run(&a),
+        Command::Bounds(a) => bounds::run(&a),
+        Command::Emit(a) => emit::run(&a),
+        Command::Scheme(a) => scheme::run(&a),
     }
 }
