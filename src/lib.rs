@@ -9,6 +9,7 @@
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod error;
+pub mod invariants;
 pub mod linalg;
 pub mod scalar;
 pub mod scheme;

@@ -142,7 +142,11 @@ fn reduce_rows(rows: &[Vec<BigInt>], cols: usize, p: u64) -> Matrix<u64> {
             data.push(v);
         }
     }
-    Matrix { rows: rows.len(), cols, data }
+    Matrix {
+        rows: rows.len(),
+        cols,
+        data,
+    }
 }
 
 /// Rank over Q, proven. Fast path: rank modulo a 28-bit prime (a lower bound); when it is
@@ -290,13 +294,21 @@ fn check_nullspace(rows: &[Vec<BigInt>], basis: &[Vec<Q>]) -> bool {
 /// Rank and nullspace of a matrix with small integer entries given as i64, over Q.
 /// Convenience for callers that build integer systems.
 pub fn rank_q_i64(rows: usize, cols: usize, data: &[i64]) -> usize {
-    let m = Matrix { rows, cols, data: data.iter().map(|&x| Q::from_integer(x.into())).collect() };
+    let m = Matrix {
+        rows,
+        cols,
+        data: data.iter().map(|&x| Q::from_integer(x.into())).collect(),
+    };
     rank_q(&m)
 }
 
 #[allow(dead_code)]
 fn max_abs(rows: &[Vec<BigInt>]) -> BigInt {
-    rows.iter().flatten().map(|x| x.abs()).max().unwrap_or_default()
+    rows.iter()
+        .flatten()
+        .map(|x| x.abs())
+        .max()
+        .unwrap_or_default()
 }
 
 #[cfg(test)]
@@ -320,7 +332,11 @@ mod tests {
     #[test]
     fn kernel_rank_mod() {
         let p = kernel_primes(1)[0];
-        let m = Matrix { rows: 3, cols: 3, data: vec![1, 2, 3, 4, 5, 6, 7, 8, 9] };
+        let m = Matrix {
+            rows: 3,
+            cols: 3,
+            data: vec![1, 2, 3, 4, 5, 6, 7, 8, 9],
+        };
         assert_eq!(rank_mod(m, p), 2);
     }
 }
