@@ -11,6 +11,7 @@
 pub mod error;
 pub mod invariants;
 pub mod linalg;
+pub mod report;
 pub mod scalar;
 pub mod scheme;
 pub mod tensor;

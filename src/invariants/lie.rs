@@ -14,7 +14,7 @@ use crate::scalar::{Field, FieldSpec};
 use crate::tensor::Tensor;
 
 /// Lie-algebra invariants.
-#[derive(Clone, Debug, PartialEq, Eq)]
+#[derive(Clone, Debug, PartialEq, Eq, serde::Serialize)]
 pub struct LieInvariants {
     /// dims of L^(0) = L, L^(1), ... until it stabilises.
     pub derived_series: Vec<usize>,

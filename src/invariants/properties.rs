@@ -189,3 +189,40 @@ print(der, cen)
         );
     }
 }
+
+/// Timing probe (release, ignored): `cargo test --release --lib timing_probe -- --ignored --nocapture`.
+#[test]
+#[ignore]
+fn timing_probe() {
+    use crate::report::invariants::{InvariantParams, invariants_report};
+    let mut cyc = Tensor::algebra(
+        crate::scalar::FieldSpec::Rational,
+        (0..64).map(|i| format!("g{i}")).collect(),
+    );
+    for i in 0..64 {
+        for j in 0..64 {
+            cyc.set(i, j, (i + j) % 64, Q::from_integer(1.into()));
+        }
+    }
+    for (name, t) in [
+        ("M_4", matrix_algebra(4)),
+        ("octonions", octonions()),
+        ("random 32", random_algebra(32, 1)),
+        ("M_8", matrix_algebra(8)),
+        ("cyclic 64", cyc),
+    ] {
+        let s = std::time::Instant::now();
+        let r = invariants_report(&t, &InvariantParams::default(), &mut |_| {}).unwrap();
+        eprintln!(
+            "{name}: total {:.3}s {:?}",
+            s.elapsed().as_secs_f64(),
+            r.seconds
+        );
+        eprintln!(
+            "  der {} centroid {} centre {}",
+            r.derivations.as_ref().unwrap().space.dim,
+            r.centroid.as_ref().unwrap().space.dim,
+            r.centre.as_ref().unwrap().dim
+        );
+    }
+}

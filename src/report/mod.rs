@@ -1,0 +1,3 @@
+//! Reports: results gathered as serialisable data and rendered as text or JSON.
+
+pub mod invariants;
