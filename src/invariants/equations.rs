@@ -43,27 +43,39 @@ pub fn associator(t: &IntTable, slot: Slot) -> Result<SparseSystem> {
     let n = t.dims[0];
     let mut s = t.system(n);
     let mut b = BlockBuf::default();
-    // (a b) c - a (b c) with the unknown basis vector e_i in the given slot
-    let term = |b: &mut BlockBuf, x: usize, y: usize, z: usize, i: usize| {
-        for &(u, c1) in t.product(x, y) {
-            for &(m, c2) in t.product(u, z) {
-                b.add(m, i, c1 as i128 * c2 as i128);
-            }
-        }
-        for &(u, c1) in t.product(y, z) {
-            for &(m, c2) in t.product(x, u) {
-                b.add(m, i, -(c1 as i128 * c2 as i128));
-            }
-        }
-    };
+    // (a b) c - a (b c) with the unknown basis vector e_i in the given slot, accumulated
+    // densely over the result coordinate m
+    let mut acc = vec![0i128; n];
+    let mut touched: Vec<usize> = Vec::new();
     for j in 0..n {
         for k in 0..n {
             for i in 0..n {
-                match slot {
-                    Slot::Left => term(&mut b, i, j, k, i),
-                    Slot::Middle => term(&mut b, j, i, k, i),
-                    Slot::Right => term(&mut b, j, k, i, i),
+                let (x, y, z) = match slot {
+                    Slot::Left => (i, j, k),
+                    Slot::Middle => (j, i, k),
+                    Slot::Right => (j, k, i),
+                };
+                for &(u, c1) in t.product(x, y) {
+                    for &(m, c2) in t.product(u, z) {
+                        if acc[m] == 0 {
+                            touched.push(m);
+                        }
+                        acc[m] += t.mul(c1, c2 as i128);
+                    }
                 }
+                for &(u, c1) in t.product(y, z) {
+                    for &(m, c2) in t.product(x, u) {
+                        if acc[m] == 0 {
+                            touched.push(m);
+                        }
+                        acc[m] -= t.mul(c1, c2 as i128);
+                    }
+                }
+                for &m in &touched {
+                    b.add(m, i, acc[m]);
+                    acc[m] = 0;
+                }
+                touched.clear();
             }
             s.push_block(&mut b)?;
         }
@@ -270,7 +282,7 @@ pub fn trace_form(t: &IntTable) -> Result<SparseSystem> {
     for j in 0..n {
         for i in 0..n {
             for &(m, c) in t.product(i, j) {
-                b.add(0, i, c as i128 * tau[m]);
+                b.add(0, i, t.mul(c, tau[m]));
             }
         }
         s.push_block(&mut b)?;

@@ -53,7 +53,7 @@ pub fn is_lie(it: &IntTable) -> bool {
                 for (x, y, z) in [(i, j, k), (j, k, i), (k, i, j)] {
                     for &(u, c1) in it.product(x, y) {
                         for &(m, c2) in it.product(u, z) {
-                            acc[m] += c1 as i128 * c2 as i128;
+                            acc[m] += it.mul(c1, c2 as i128);
                         }
                     }
                 }

@@ -103,6 +103,16 @@ impl IntTable {
         SparseSystem::new(unknowns, self.modulus)
     }
 
+    /// The product of two coefficients, reduced mod p over GF(p) (so that sums of many
+    /// products stay far below 2^127).
+    #[inline]
+    pub fn mul(&self, a: i64, b: i128) -> i128 {
+        match self.modulus {
+            None => a as i128 * b,
+            Some(p) => (a as i128 * b.rem_euclid(p as i128)).rem_euclid(p as i128),
+        }
+    }
+
     /// Total number of nonzero constants.
     pub fn nnz(&self) -> usize {
         self.products.iter().map(Vec::len).sum()
