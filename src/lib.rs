@@ -9,6 +9,8 @@
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod error;
+pub mod generators;
+pub mod input;
 pub mod invariants;
 pub mod linalg;
 pub mod report;

@@ -6,6 +6,9 @@
 
 use clap::{Parser, Subcommand};
 
+pub mod common;
+mod convert;
+
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
 /// Exit code: a checked claim is false.
@@ -21,7 +24,10 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Print an input (file, generator or catalog name) as a table, grid or JSON.
+    Convert(convert::Args),
+}
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
@@ -33,5 +39,7 @@ pub fn run() -> i32 {
             return code;
         }
     };
-    match cli.command {}
+    match cli.command {
+        Command::Convert(a) => convert::run(a),
+    }
 }
