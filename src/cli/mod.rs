@@ -8,6 +8,7 @@ use clap::{Parser, Subcommand};
 
 pub mod common;
 mod convert;
+mod invariants;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -27,6 +28,8 @@ struct Cli {
 enum Command {
     /// Print an input (file, generator or catalog name) as a table, grid or JSON.
     Convert(convert::Args),
+    /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
+    Invariants(invariants::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -41,5 +44,6 @@ pub fn run() -> i32 {
     };
     match cli.command {
         Command::Convert(a) => convert::run(a),
+        Command::Invariants(a) => invariants::run(a),
     }
 }

@@ -21,6 +21,7 @@ pub mod maps;
 mod properties;
 pub mod radical;
 pub mod solve;
+pub mod sparse_echelon;
 pub mod system;
 #[cfg(test)]
 pub(crate) mod testing;

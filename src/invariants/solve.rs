@@ -22,6 +22,7 @@
 //! checked against every equation. The bases returned are in reduced form: each vector has
 //! a 1 at its own free coordinate and 0 at the others', so they are independent.
 
+use super::sparse_echelon::SparseEchelon;
 use super::system::SparseSystem;
 use crate::error::{Error, Result};
 use crate::linalg::{Matrix, echelon, modular::kernel_primes, modular::rref_mod, nullspace_q};
@@ -194,6 +195,22 @@ impl Echelon {
         self.data.truncate(self.pivots.len() * m);
         self.pivots.len() - before
     }
+    /// Add sparse rows given in local columns and re-reduce.
+    fn add_dense(&mut self, rows: &[Vec<(u32, u64)>]) {
+        let m = self.m;
+        let before = self.rank();
+        self.data.truncate(before * m);
+        for row in rows {
+            let start = self.data.len();
+            self.data.resize(start + m, 0);
+            for &(c, v) in row {
+                self.data[start + c as usize] = v;
+            }
+        }
+        let total = before + rows.len();
+        self.pivots = rref_p(&mut self.data, total, m, self.p);
+        self.data.truncate(self.pivots.len() * m);
+    }
     fn free(&self) -> Vec<usize> {
         let mut is_p = vec![false; self.m];
         for &c in &self.pivots {
@@ -210,6 +227,87 @@ impl Echelon {
             }
         }
         out
+    }
+}
+
+/// Dense or sparse elimination, chosen per block (sparse for short equations), with a
+/// switch to dense form when fill-in grows past 1/8 of the dense size.
+enum Elim {
+    Dense(Echelon),
+    Sparse(SparseEchelon),
+}
+
+impl Elim {
+    fn new(p: u64, blk: &Block) -> Self {
+        let m = blk.unknowns.len();
+        let terms: usize = blk
+            .rows
+            .iter()
+            .map(|&r| blk.sys.row(r as usize).0.len())
+            .sum();
+        if m > 64 && terms <= 8 * blk.rows.len() {
+            Elim::Sparse(SparseEchelon::new(p, m))
+        } else {
+            Elim::Dense(Echelon::new(p, m))
+        }
+    }
+    fn rank(&self) -> usize {
+        match self {
+            Elim::Dense(e) => e.rank(),
+            Elim::Sparse(e) => e.rank(),
+        }
+    }
+    fn p(&self) -> u64 {
+        match self {
+            Elim::Dense(e) => e.p,
+            Elim::Sparse(e) => e.p,
+        }
+    }
+    fn pivots(&self) -> Vec<usize> {
+        match self {
+            Elim::Dense(e) => e.pivots.clone(),
+            Elim::Sparse(e) => e.pivots(),
+        }
+    }
+    fn free(&self) -> Vec<usize> {
+        match self {
+            Elim::Dense(e) => e.free(),
+            Elim::Sparse(e) => e.free(),
+        }
+    }
+    fn image(&self, free: &[usize]) -> Vec<u64> {
+        match self {
+            Elim::Dense(e) => e.image(free),
+            Elim::Sparse(e) => e.image(free),
+        }
+    }
+    fn add_rows(&mut self, blk: &Block, rows: &[u32]) {
+        match self {
+            Elim::Dense(e) => {
+                e.add_rows(blk, rows);
+            }
+            Elim::Sparse(e) => {
+                let p = e.p as i64;
+                let mut buf = Vec::new();
+                for &r in rows {
+                    let (cols, vals) = blk.sys.row(r as usize);
+                    buf.clear();
+                    buf.extend(
+                        cols.iter()
+                            .zip(vals)
+                            .map(|(&c, &v)| (blk.local[c as usize], v.rem_euclid(p) as u64)),
+                    );
+                    buf.sort_unstable();
+                    e.add(&buf);
+                }
+                if e.nnz() > (e.m * e.m / 8).max(4096) {
+                    // too much fill-in: continue densely
+                    let mut d = Echelon::new(e.p, e.m);
+                    d.add_dense(e.rows());
+                    *self = Elim::Dense(d);
+                }
+            }
+        }
     }
 }
 
@@ -231,7 +329,7 @@ impl Block<'_> {
 
     fn solve_mod(&self, p: u64, order: &[u32]) -> Result<Vec<Vec<Q>>> {
         let m = self.unknowns.len();
-        let mut ech = Echelon::new(p, m);
+        let mut ech = Elim::new(p, self);
         for chunk in order.chunks(batch_size(m)) {
             ech.add_rows(self, chunk);
             if ech.rank() == m {
@@ -239,13 +337,17 @@ impl Block<'_> {
             }
         }
         let free = ech.free();
+        let pivots = ech.pivots();
+        let img = ech.image(&free);
+        let nf = free.len();
         let basis: Vec<Vec<Q>> = free
             .iter()
-            .map(|&f| {
+            .enumerate()
+            .map(|(k, &f)| {
                 let mut v = vec![Q::zero(); m];
                 v[f] = Q::one();
-                for (r, &pc) in ech.pivots.iter().enumerate() {
-                    let e = ech.data[r * m + f];
+                for (r, &pc) in pivots.iter().enumerate() {
+                    let e = img[r * nf + k];
                     if e != 0 {
                         v[pc] = Q::from_integer(BigInt::from(p - e));
                     }
@@ -264,7 +366,7 @@ impl Block<'_> {
     fn solve_q(&self, params: &SolveParams, order: &[u32]) -> Result<Vec<Vec<Q>>> {
         let m = self.unknowns.len();
         let primes = kernel_primes(params.max_primes.max(2));
-        let mut ech = Echelon::new(primes[0], m);
+        let mut ech = Elim::new(primes[0], self);
         let mut used = 0;
         for chunk in order.chunks(batch_size(m)) {
             ech.add_rows(self, chunk);
@@ -277,7 +379,7 @@ impl Block<'_> {
             if used < order.len() && nullity * ech.rank() <= 1 << 16 {
                 let free = ech.free();
                 let img: Vec<BigInt> = ech.image(&free).into_iter().map(BigInt::from).collect();
-                if let Some(b) = reconstruct(&img, &BigInt::from(ech.p), &ech.pivots, &free, m)
+                if let Some(b) = reconstruct(&img, &BigInt::from(ech.p()), &ech.pivots(), &free, m)
                     && self.check(&b)
                 {
                     return Ok(b);
@@ -286,32 +388,35 @@ impl Block<'_> {
         }
         // all equations used: multi-modular lift
         let mut best = ech;
+        let mut best_pivots = best.pivots();
         let mut free = best.free();
         let mut residues: Vec<BigInt> = best.image(&free).into_iter().map(BigInt::from).collect();
-        let mut modulus = BigInt::from(best.p);
+        let mut modulus = BigInt::from(best.p());
         for (t, &p) in primes.iter().enumerate() {
             if t > 0 {
-                let mut e = Echelon::new(p, m);
+                let mut e = Elim::new(p, self);
                 for chunk in order.chunks(batch_size(m)) {
                     e.add_rows(self, chunk);
                 }
-                if e.rank() > best.rank() || (e.rank() == best.rank() && e.pivots < best.pivots) {
+                let e_pivots = e.pivots();
+                if e.rank() > best.rank() || (e.rank() == best.rank() && e_pivots < best_pivots) {
                     // the earlier primes were unlucky: restart from this one
                     best = e;
+                    best_pivots = e_pivots;
                     free = best.free();
                     residues = best.image(&free).into_iter().map(BigInt::from).collect();
                     modulus = BigInt::from(p);
                     if best.rank() == m {
                         return Ok(Vec::new());
                     }
-                } else if e.pivots != best.pivots {
+                } else if e_pivots != best_pivots {
                     continue;
                 } else {
                     crt_combine(&mut residues, &modulus, &e.image(&free), p);
                     modulus *= p;
                 }
             }
-            if let Some(b) = reconstruct(&residues, &modulus, &best.pivots, &free, m)
+            if let Some(b) = reconstruct(&residues, &modulus, &best_pivots, &free, m)
                 && self.check(&b)
             {
                 return Ok(b);
