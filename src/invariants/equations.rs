@@ -40,15 +40,34 @@ pub enum Slot {
 /// Associator: `(x, e_j, e_k) = 0` (Left), `(e_j, x, e_k) = 0` (Middle) or
 /// `(e_j, e_k, x) = 0` (Right) for all j, k (unknowns: x).
 pub fn associator(t: &IntTable, slot: Slot) -> Result<SparseSystem> {
+    associator_blocks(t, slot, None)
+}
+
+/// The associator equations of the blocks `(j, k) = (b / n, b % n)` for b in `blocks`
+/// (all n^2 blocks when `None`): a subsystem used to probe for a trivial solution space.
+pub fn associator_blocks(
+    t: &IntTable,
+    slot: Slot,
+    blocks: Option<&[usize]>,
+) -> Result<SparseSystem> {
     let n = t.dims[0];
+    let all: Vec<usize>;
+    let blocks = match blocks {
+        Some(b) => b,
+        None => {
+            all = (0..n * n).collect();
+            &all
+        }
+    };
     let mut s = t.system(n);
     let mut b = BlockBuf::default();
     // (a b) c - a (b c) with the unknown basis vector e_i in the given slot, accumulated
     // densely over the result coordinate m
     let mut acc = vec![0i128; n];
     let mut touched: Vec<usize> = Vec::new();
-    for j in 0..n {
-        for k in 0..n {
+    for &blk in blocks {
+        let (j, k) = (blk / n, blk % n);
+        {
             for i in 0..n {
                 let (x, y, z) = match slot {
                     Slot::Left => (i, j, k),

@@ -365,7 +365,7 @@ impl Block<'_> {
 
     fn solve_q(&self, params: &SolveParams, order: &[u32]) -> Result<Vec<Vec<Q>>> {
         let m = self.unknowns.len();
-        let primes = kernel_primes(params.max_primes.max(2));
+        let primes = &cached_primes()[..params.max_primes.clamp(2, 64)];
         let mut ech = Elim::new(primes[0], self);
         let mut used = 0;
         for chunk in order.chunks(batch_size(m)) {
@@ -479,6 +479,12 @@ impl Block<'_> {
             })
         })
     }
+}
+
+/// The first 64 kernel primes, computed once.
+fn cached_primes() -> &'static [u64] {
+    static PRIMES: std::sync::OnceLock<Vec<u64>> = std::sync::OnceLock::new();
+    PRIMES.get_or_init(|| kernel_primes(64))
 }
 
 fn batch_size(m: usize) -> usize {

@@ -217,6 +217,17 @@ fn vectors(sp: &Space, names: &[String], omit: bool) -> VectorSpaceReport {
     }
 }
 
+/// An entry as text, with a fast path for 0 and small integers.
+fn entry_string(x: &Q) -> String {
+    if x.is_zero() {
+        "0".to_string()
+    } else if x.is_integer() {
+        x.numer().to_string()
+    } else {
+        q_to_string(x)
+    }
+}
+
 /// Basis of a space of tuples of maps on spaces of the given dimensions.
 fn map_space(sp: &Space, sizes: &[usize], omit: bool) -> MapSpaceReport {
     let basis = if omit {
