@@ -11,6 +11,7 @@
 pub mod error;
 pub mod generators;
 pub mod input;
+pub mod invariants;
 pub mod laws;
 pub mod linalg;
 pub mod ranks;

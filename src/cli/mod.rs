@@ -14,6 +14,7 @@ mod emit;
 mod scheme;
 mod scheme_io;
 mod verify;
+mod invariants;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -43,6 +44,8 @@ enum Command {
     Emit(emit::Args),
     /// Schemes as data: convert, cost, polish, kron, sum, permute, cyclic, transpose, restrict.
     Scheme(scheme::Args),
+    /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
+    Invariants(invariants::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -62,5 +65,6 @@ pub fn run() -> i32 {
         Command::Bounds(a) => bounds::run(&a),
         Command::Emit(a) => emit::run(&a),
         Command::Scheme(a) => scheme::run(&a),
+        Command::Invariants(a) => invariants::run(a),
     }
 }
