@@ -41,6 +41,10 @@ pub struct AlsParams {
     /// Sweeps after each freeze, and how many rejected freezes end the rounding.
     pub round_sweeps: usize,
     pub max_rejects: usize,
+    /// How far (absolute) an entry may be moved by one freeze.
+    pub radius: f64,
+    /// Relative error accepted after a freeze (the exact check decides at the end).
+    pub round_tol: f64,
 }
 
 impl Default for AlsParams {
@@ -53,8 +57,10 @@ impl Default for AlsParams {
             bound: 20.0,
             tol: 1e-11,
             denominators: vec![1, 2, 3, 4, 6],
-            round_sweeps: 60,
-            max_rejects: 40,
+            round_sweeps: 300,
+            max_rejects: 200,
+            radius: 0.75,
+            round_tol: 1e-9,
         }
     }
 }
@@ -226,6 +232,10 @@ impl State {
     }
 }
 
+fn gcd(a: i64, b: i64) -> i64 {
+    if b == 0 { a.abs() } else { gcd(b, a % b) }
+}
+
 /// Nearest `p/q` with q in `dens` (ties to the smaller denominator), with its distance.
 fn nearest_rational(x: f64, dens: &[i64]) -> ((i64, i64), f64) {
     let mut best = ((x.round() as i64, 1), f64::INFINITY);
@@ -284,11 +294,17 @@ fn relax(t: &Dense, s: &mut State, p: &AlsParams) -> bool {
         if !s.sweep(t, p.lambda_min) {
             return false;
         }
-        if it % 5 == 4 && s.error(t) < p.tol {
-            return true;
+        if it % 10 == 9 {
+            let e = s.error(t);
+            if e < p.round_tol {
+                return true;
+            }
+            if it >= 49 && e > 1e-3 {
+                return false;
+            }
         }
     }
-    s.error(t) < p.tol
+    s.error(t) < p.round_tol
 }
 
 /// The rounding phase: freeze entries one by one at nearby small-denominator rationals.
@@ -299,36 +315,57 @@ fn round_state(t: &Dense, mut s: State, p: &AlsParams, stop: &dyn Fn() -> bool) 
     }
     let r = s.rank();
     let mut banned: Vec<(usize, usize, (i64, i64))> = Vec::new();
+    // the entries of the rational solution need not be the nearest ones: the free
+    // directions of the solution set let the relaxation move far
     let mut rejects = 0;
     loop {
         if stop() {
             return None;
         }
-        // candidates: every free entry with its nearest rational
-        let mut cands: Vec<(f64, usize, usize, (i64, i64))> = Vec::new();
+        // candidates: every free entry with each nearby p/q, simplest denominators first,
+        // then the smallest move
+        let mut cands: Vec<((usize, f64), usize, usize, (i64, i64))> = Vec::new();
+        let mut tight = Vec::new();
+        let mut any_free = false;
         for a in 0..3 {
             for (e, fz) in s.frozen[a].iter().enumerate() {
                 if fz.is_some() {
                     continue;
                 }
+                any_free = true;
                 let x = s.f[a][(e / r, e % r)];
                 let (pq, dist) = nearest_rational(x, &p.denominators);
-                if banned.contains(&(a, e, pq)) {
+                if dist < 1e-9 {
+                    tight.push((a, e, pq));
                     continue;
                 }
-                cands.push((dist, a, e, pq));
+                for (level, &d) in p.denominators.iter().enumerate() {
+                    let num = (x * d as f64).round() as i64;
+                    let dist = (x - num as f64 / d as f64).abs();
+                    if dist > p.radius || gcd(num, d) != 1 {
+                        continue;
+                    }
+                    let pq = (num, d);
+                    if !banned.contains(&(a, e, pq)) {
+                        cands.push(((level, dist), a, e, pq));
+                    }
+                }
             }
         }
-        if cands.is_empty() {
-            let all = s.frozen.iter().all(|f| f.iter().all(Option::is_some));
-            return all.then_some(s);
+        if !any_free {
+            return Some(s);
         }
-        cands.sort_by(|x, y| x.0.total_cmp(&y.0));
-        // freeze every entry already at round-off distance, else the single closest one
-        let tight: Vec<_> = cands.iter().filter(|c| c.0 < 1e-9).cloned().collect();
-        let batch = if tight.is_empty() { vec![cands[0]] } else { tight };
+        let batch: Vec<(usize, usize, (i64, i64))> = if !tight.is_empty() {
+            tight
+        } else {
+            if cands.is_empty() {
+                return None;
+            }
+            cands.sort_by(|x, y| x.0.0.cmp(&y.0.0).then(x.0.1.total_cmp(&y.0.1)));
+            vec![(cands[0].1, cands[0].2, cands[0].3)]
+        };
         let saved = s.clone();
-        for &(_, a, e, pq) in &batch {
+        for &(a, e, pq) in &batch {
             s.frozen[a][e] = Some(pq);
             s.f[a][(e / r, e % r)] = pq.0 as f64 / pq.1 as f64;
         }
@@ -337,8 +374,7 @@ fn round_state(t: &Dense, mut s: State, p: &AlsParams, stop: &dyn Fn() -> bool) 
         }
         s = saved;
         if batch.len() == 1 {
-            let (_, a, e, pq) = batch[0];
-            banned.push((a, e, pq));
+            banned.push(batch[0]);
         }
         rejects += 1;
         if rejects > p.max_rejects {
