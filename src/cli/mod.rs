@@ -4,6 +4,9 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
+mod merge;
+mod search;
+
 use clap::{Parser, Subcommand};
 
 /// Exit code: success.
@@ -21,7 +24,12 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
+    Search(search::SearchArgs),
+    /// Keep the lowest-rank verified scheme among result and checkpoint files.
+    Merge(merge::MergeArgs),
+}
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
@@ -33,5 +41,8 @@ pub fn run() -> i32 {
             return code;
         }
     };
-    match cli.command {}
+    match cli.command {
+        Command::Search(a) => search::run(a),
+        Command::Merge(a) => merge::run(a),
+    }
 }
