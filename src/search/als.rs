@@ -9,14 +9,19 @@
 //! norms are balanced after each sweep and a run is abandoned when a factor norm exceeds a
 //! bound (drift towards a border-rank limit, where terms blow up and cancel).
 //!
-//! Rounding: repeatedly take the free entry closest to a rational `p/q` with q from a small
-//! list, freeze it there, and re-solve the free entries by ALS (rows with frozen entries are
-//! solved on the free ones only); a freeze after which the error does not return to
-//! round-off level is undone and banned. When every entry is frozen the rational scheme is
-//! checked with [`crate::scheme::verify`]; only a verified scheme is returned.
+//! Rounding: each term is scaled so its left and right factors have largest entry 1; then
+//! repeatedly a free entry of a left or right factor is frozen at a nearby rational `p/q`
+//! (simplest denominators first, then the smallest move) and the free entries are re-solved
+//! by ALS (rows with frozen entries are solved on the free ones only); a freeze after which
+//! the error does not return to round-off level is undone and banned. When every left and
+//! right entry is frozen, the result factors are solved for exactly over Q (the Brent
+//! equations are linear in them) and the scheme is checked with [`crate::scheme::verify`];
+//! only a verified scheme is returned.
 //! Floating point only *finds* candidates; the exact check *confirms*.
 
-use crate::scalar::{FieldSpec, Q, q, q_to_f64};
+use crate::linalg::{Matrix, solve};
+use crate::scalar::{FieldSpec, Q, Rationals, q, q_to_f64};
+use num_traits::Zero;
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use nalgebra::{DMatrix, DVector};
@@ -56,7 +61,7 @@ impl Default for AlsParams {
             lambda_min: 1e-12,
             bound: 20.0,
             tol: 1e-11,
-            denominators: vec![1, 2, 3, 4, 6],
+            denominators: vec![1, 2, 3, 4],
             round_sweeps: 300,
             max_rejects: 200,
             radius: 0.75,
@@ -327,7 +332,7 @@ fn round_state(t: &Dense, mut s: State, p: &AlsParams, stop: &dyn Fn() -> bool) 
         let mut cands: Vec<((usize, f64), usize, usize, (i64, i64))> = Vec::new();
         let mut tight = Vec::new();
         let mut any_free = false;
-        for a in 0..3 {
+        for a in 0..2 {
             for (e, fz) in s.frozen[a].iter().enumerate() {
                 if fz.is_some() {
                     continue;
@@ -395,27 +400,52 @@ pub fn als_run(t: &Tensor, r: usize, p: &AlsParams, rng: &mut ChaCha8Rng, stop: 
     let s = converge(&dense, r, p, rng, stop)?;
     let s = round_state(&dense, s, p, stop)?;
     let d = t.dims();
+    let uv = |a: usize, x: usize| -> Vec<Q> {
+        (0..d[a])
+            .map(|i| {
+                let (n, m) = s.frozen[a][i * r + x].expect("left and right factors frozen");
+                q(n, m)
+            })
+            .collect()
+    };
+    let us: Vec<Vec<Q>> = (0..r).map(|x| uv(0, x)).collect();
+    let vs: Vec<Vec<Q>> = (0..r).map(|x| uv(1, x)).collect();
+    let ws = solve_result_factors(t, &us, &vs)?;
     let mut out = Scheme::empty(FieldSpec::Rational, d);
     for x in 0..r {
-        let col = |a: usize| -> Vec<Q> {
-            (0..d[a])
-                .map(|i| {
-                    let (n, m) = s.frozen[a][i * r + x].expect("all frozen");
-                    q(n, m)
-                })
-                .collect()
-        };
-        out.push(col(0), col(1), col(2));
-    }
-    // drop terms that rounded to zero (they contribute nothing)
-    let mut pruned = Scheme::empty(FieldSpec::Rational, d);
-    for x in 0..r {
         let zero = |v: &Vec<Q>| v.iter().all(num_traits::Zero::is_zero);
-        if !(zero(&out.u[x]) || zero(&out.v[x]) || zero(&out.w[x])) {
-            pruned.push(out.u[x].clone(), out.v[x].clone(), out.w[x].clone());
+        // terms with a zero factor contribute nothing
+        if !(zero(&us[x]) || zero(&vs[x]) || zero(&ws[x])) {
+            out.push(us[x].clone(), vs[x].clone(), ws[x].clone());
         }
     }
-    verify(&pruned, t).ok().map(|_| pruned)
+    verify(&out, t).ok().map(|_| out)
+}
+
+/// Given exact left and right factors, solve the Brent equations (linear in the result
+/// factors) exactly over Q: for each k, `sum_t u_t[i] v_t[j] w_t[k] = c[i][j][k]`.
+/// Returns `w_t` for each term, or `None` when the system has no solution.
+/// Cost: d2 exact eliminations of a `d0 d1 x r` system.
+pub fn solve_result_factors(t: &Tensor, us: &[Vec<Q>], vs: &[Vec<Q>]) -> Option<Vec<Vec<Q>>> {
+    let d = t.dims();
+    let r = us.len();
+    let mut a = Matrix::zeros(&Rationals, d[0] * d[1], r);
+    for x in 0..r {
+        for i in 0..d[0] {
+            for j in 0..d[1] {
+                a[(i * d[1] + j, x)] = &us[x][i] * &vs[x][j];
+            }
+        }
+    }
+    let mut ws = vec![vec![Q::zero(); d[2]]; r];
+    for k in 0..d[2] {
+        let b: Vec<Q> = (0..d[0] * d[1]).map(|ij| t.get(ij / d[1], ij % d[1], k)).collect();
+        let sol = solve(&Rationals, &a, &b)?;
+        for x in 0..r {
+            ws[x][k] = sol[x].clone();
+        }
+    }
+    Some(ws)
 }
 
 #[cfg(test)]
