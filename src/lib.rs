@@ -10,6 +10,8 @@
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod error;
+pub mod generators;
+pub mod input;
 pub mod linalg;
 pub mod scalar;
 pub mod scheme;

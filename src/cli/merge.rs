@@ -20,12 +20,9 @@ pub struct MergeArgs {
 }
 
 pub fn run(a: MergeArgs) -> i32 {
-    let t = match super::search::load_tensor(&a.tensor) {
+    let t = match super::common::load(&a.tensor, None) {
         Ok(t) => t,
-        Err(e) => {
-            eprintln!("bilin merge: {e}");
-            return EXIT_USAGE;
-        }
+        Err(code) => return code,
     };
     let mut schemes = Vec::new();
     for f in &a.files {

@@ -9,9 +9,13 @@ mod search;
 
 use clap::{Parser, Subcommand};
 
+pub mod common;
+mod convert;
+
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
 /// Exit code: a checked claim is false.
+#[allow(dead_code)]
 pub const EXIT_FALSE: i32 = 1;
 /// Exit code: bad input or usage.
 pub const EXIT_USAGE: i32 = 2;
@@ -25,6 +29,8 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Print an input (file, generator or catalog name) as a table, grid or JSON.
+    Convert(convert::Args),
     /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
     Search(search::SearchArgs),
     /// Keep the lowest-rank verified scheme among result and checkpoint files.
@@ -42,6 +48,7 @@ pub fn run() -> i32 {
         }
     };
     match cli.command {
+        Command::Convert(a) => convert::run(a),
         Command::Search(a) => search::run(a),
         Command::Merge(a) => merge::run(a),
     }
