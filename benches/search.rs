@@ -16,7 +16,12 @@ use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
 fn matmul(n: usize, m: usize, p: usize) -> Tensor {
-    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [n * m, m * p, n * p], None);
+    let mut t = Tensor::zero(
+        FieldSpec::Rational,
+        Kind::Bilinear,
+        [n * m, m * p, n * p],
+        None,
+    );
     for i in 0..n {
         for l in 0..m {
             for j in 0..p {
@@ -56,7 +61,11 @@ fn gf4() -> Tensor {
 
 fn median(mut v: Vec<f64>) -> f64 {
     v.sort_by(f64::total_cmp);
-    if v.is_empty() { f64::NAN } else { v[v.len() / 2] }
+    if v.is_empty() {
+        f64::NAN
+    } else {
+        v[v.len() / 2]
+    }
 }
 
 /// Time to a verified scheme of rank `r` for each seed; prints median and success count.
@@ -78,7 +87,11 @@ fn case(name: &str, t: &Tensor, method: Method, r: usize, seeds: u64, threads: u
         let dt = t0.elapsed().as_secs_f64();
         let good = o.best.as_ref().is_some_and(|s| {
             s.rank() <= r && {
-                let g = if s.field == t.field() { t.clone() } else { t.with_field(s.field).unwrap() };
+                let g = if s.field == t.field() {
+                    t.clone()
+                } else {
+                    t.with_field(s.field).unwrap()
+                };
                 verify(s, &g).is_ok()
             }
         });
@@ -111,31 +124,103 @@ fn throughput() {
         }
     }
     let dt = t0.elapsed().as_secs_f64();
-    println!("flip throughput <4,4,4> GF(2), 1 core: {:.2e} moves/s (rank now {})", moves as f64 / dt, w.rank());
+    println!(
+        "flip throughput <4,4,4> GF(2), 1 core: {:.2e} moves/s (rank now {})",
+        moves as f64 / dt,
+        w.rank()
+    );
 }
 
 fn main() {
-    let args: Vec<String> = std::env::args().skip(1).filter(|a| !a.starts_with('-')).collect();
-    let want = |c: &str| if args.is_empty() { c != "m333" } else { args.iter().any(|a| a == c) };
-    let seeds: u64 = std::env::var("SEEDS").ok().and_then(|s| s.parse().ok()).unwrap_or(10);
+    let args: Vec<String> = std::env::args()
+        .skip(1)
+        .filter(|a| !a.starts_with('-'))
+        .collect();
+    let want = |c: &str| {
+        if args.is_empty() {
+            c != "m333"
+        } else {
+            args.iter().any(|a| a == c)
+        }
+    };
+    let seeds: u64 = std::env::var("SEEDS")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(10);
     if want("strassen") {
-        case("<2,2,2> flip GF(2) + lift to Q", &matmul(2, 2, 2), Method::Flip, 7, seeds, 1, 10.0);
-        case("<2,2,2> ALS + rounding", &matmul(2, 2, 2), Method::Als, 7, seeds, 1, 60.0);
+        case(
+            "<2,2,2> flip GF(2) + lift to Q",
+            &matmul(2, 2, 2),
+            Method::Flip,
+            7,
+            seeds,
+            1,
+            10.0,
+        );
+        case(
+            "<2,2,2> ALS + rounding",
+            &matmul(2, 2, 2),
+            Method::Als,
+            7,
+            seeds,
+            1,
+            60.0,
+        );
     }
     if want("small") {
-        case("<2,2,3> flip + lift", &matmul(2, 2, 3), Method::Flip, 11, seeds, 1, 60.0);
-        case("<2,3,3> flip + lift", &matmul(2, 3, 3), Method::Flip, 15, seeds, 1, 60.0);
-        case("<2,2,4> flip + lift", &matmul(2, 2, 4), Method::Flip, 14, seeds, 1, 60.0);
+        case(
+            "<2,2,3> flip + lift",
+            &matmul(2, 2, 3),
+            Method::Flip,
+            11,
+            seeds,
+            1,
+            60.0,
+        );
+        case(
+            "<2,3,3> flip + lift",
+            &matmul(2, 3, 3),
+            Method::Flip,
+            15,
+            seeds,
+            1,
+            60.0,
+        );
+        case(
+            "<2,2,4> flip + lift",
+            &matmul(2, 2, 4),
+            Method::Flip,
+            14,
+            seeds,
+            1,
+            60.0,
+        );
     }
     if want("als") {
         case("complex ALS", &complex(), Method::Als, 3, seeds, 1, 10.0);
         case("poly 3x3 ALS", &poly(3, 3), Method::Als, 5, seeds, 1, 30.0);
     }
     if want("gf4") {
-        case("GF(4) over GF(2) flip", &gf4(), Method::Flip, 3, seeds, 1, 10.0);
+        case(
+            "GF(4) over GF(2) flip",
+            &gf4(),
+            Method::Flip,
+            3,
+            seeds,
+            1,
+            10.0,
+        );
     }
     if want("m333") {
-        case("<3,3,3> flip + lift", &matmul(3, 3, 3), Method::Flip, 23, seeds, 2, 300.0);
+        case(
+            "<3,3,3> flip + lift",
+            &matmul(3, 3, 3),
+            Method::Flip,
+            23,
+            seeds,
+            2,
+            300.0,
+        );
     }
     if want("throughput") {
         throughput();

@@ -26,7 +26,10 @@ pub fn run(a: MergeArgs) -> i32 {
     };
     let mut schemes = Vec::new();
     for f in &a.files {
-        match std::fs::read_to_string(f).map_err(|e| e.to_string()).and_then(|s| checkpoint_from_json(&s).map_err(|e| e.to_string())) {
+        match std::fs::read_to_string(f)
+            .map_err(|e| e.to_string())
+            .and_then(|s| checkpoint_from_json(&s).map_err(|e| e.to_string()))
+        {
             Ok(c) => schemes.extend(c.best),
             Err(e) => {
                 eprintln!("bilin merge: {f}: {e}");
@@ -35,7 +38,10 @@ pub fn run(a: MergeArgs) -> i32 {
         }
     }
     let Some(best) = merge_schemes(&t, &schemes) else {
-        eprintln!("bilin merge: none of the {} schemes verifies", schemes.len());
+        eprintln!(
+            "bilin merge: none of the {} schemes verifies",
+            schemes.len()
+        );
         return EXIT_FALSE;
     };
     let text = format!("{}\n", scheme_to_json(&best));
@@ -48,6 +54,11 @@ pub fn run(a: MergeArgs) -> i32 {
         }
         None => print!("{text}"),
     }
-    eprintln!("bilin merge: rank {} verified ({} of {} files had a scheme)", best.rank(), schemes.len(), a.files.len());
+    eprintln!(
+        "bilin merge: rank {} verified ({} of {} files had a scheme)",
+        best.rank(),
+        schemes.len(),
+        a.files.len()
+    );
     EXIT_OK
 }

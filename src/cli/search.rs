@@ -5,7 +5,9 @@
 //! it is a terminal, and writes checkpoints and the result atomically.
 
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
-use bilin::search::json::{Checkpoint, checkpoint_from_json, checkpoint_to_json, scheme_to_json, write_atomic};
+use bilin::search::json::{
+    Checkpoint, checkpoint_from_json, checkpoint_to_json, scheme_to_json, write_atomic,
+};
 use bilin::search::{Method, Params, Progress, search_scheme};
 use clap::Args;
 use std::io::IsTerminal;
@@ -58,9 +60,17 @@ fn usage(msg: impl std::fmt::Display) -> i32 {
 }
 
 fn parse_shard(s: &str) -> Result<(u64, u64), String> {
-    let (k, n) = s.split_once('/').ok_or_else(|| format!("expected K/N, found `{s}`"))?;
-    let k: u64 = k.trim().parse().map_err(|_| format!("expected K/N, found `{s}`"))?;
-    let n: u64 = n.trim().parse().map_err(|_| format!("expected K/N, found `{s}`"))?;
+    let (k, n) = s
+        .split_once('/')
+        .ok_or_else(|| format!("expected K/N, found `{s}`"))?;
+    let k: u64 = k
+        .trim()
+        .parse()
+        .map_err(|_| format!("expected K/N, found `{s}`"))?;
+    let n: u64 = n
+        .trim()
+        .parse()
+        .map_err(|_| format!("expected K/N, found `{s}`"))?;
     if n == 0 || k >= n {
         return Err(format!("shard {k}/{n}: need 0 <= K < N"));
     }
@@ -88,7 +98,10 @@ pub fn run(a: SearchArgs) -> i32 {
     }
     let resumed = match &a.resume {
         None => None,
-        Some(path) => match std::fs::read_to_string(path).map_err(|e| e.to_string()).and_then(|s| checkpoint_from_json(&s).map_err(|e| e.to_string())) {
+        Some(path) => match std::fs::read_to_string(path)
+            .map_err(|e| e.to_string())
+            .and_then(|s| checkpoint_from_json(&s).map_err(|e| e.to_string()))
+        {
             Ok(c) => Some(c),
             Err(e) => return usage(format!("{path}: {e}")),
         },
@@ -110,13 +123,21 @@ pub fn run(a: SearchArgs) -> i32 {
         let s = stop.clone();
         let _ = ctrlc::set_handler(move || s.store(true, Ordering::SeqCst));
     }
-    let ckpt_path = a.checkpoint.clone().or_else(|| a.out.as_ref().map(|o| format!("{o}.checkpoint.json")));
+    let ckpt_path = a
+        .checkpoint
+        .clone()
+        .or_else(|| a.out.as_ref().map(|o| format!("{o}.checkpoint.json")));
     let tty = std::io::stderr().is_terminal();
     let last_ckpt = std::sync::Mutex::new(Instant::now());
     let last_moves = std::sync::Mutex::new((Duration::ZERO, 0u64));
     let write_ckpt = |p: &Progress| {
         if let Some(path) = &ckpt_path {
-            let c = Checkpoint { seed: a.seed, shard, next_run: p.next_run, best: p.best.clone() };
+            let c = Checkpoint {
+                seed: a.seed,
+                shard,
+                next_run: p.next_run,
+                best: p.best.clone(),
+            };
             if let Err(e) = write_atomic(path, &checkpoint_to_json(&c).to_string()) {
                 eprintln!("bilin search: {e}");
             }
@@ -128,8 +149,16 @@ pub fn run(a: SearchArgs) -> i32 {
             let dt = (p.elapsed - lm.0).as_secs_f64().max(1e-9);
             let rate = (p.moves - lm.1) as f64 / dt;
             *lm = (p.elapsed, p.moves);
-            let best = p.best.as_ref().map_or("-".to_string(), |s| s.rank().to_string());
-            eprint!("\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ", p.moves as f64, rate, p.elapsed.as_secs_f64());
+            let best = p
+                .best
+                .as_ref()
+                .map_or("-".to_string(), |s| s.rank().to_string());
+            eprint!(
+                "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ",
+                p.moves as f64,
+                rate,
+                p.elapsed.as_secs_f64()
+            );
         }
         let mut lc = last_ckpt.lock().expect("lock");
         if lc.elapsed() >= Duration::from_secs(10) {
@@ -145,7 +174,12 @@ pub fn run(a: SearchArgs) -> i32 {
     if tty {
         eprintln!();
     }
-    write_ckpt(&Progress { best: outcome.best.clone(), moves: outcome.moves, next_run: outcome.next_run, elapsed: outcome.elapsed });
+    write_ckpt(&Progress {
+        best: outcome.best.clone(),
+        moves: outcome.moves,
+        next_run: outcome.next_run,
+        elapsed: outcome.elapsed,
+    });
     match &outcome.best {
         Some(s) => {
             let text = format!("{}\n", scheme_to_json(s));
@@ -168,5 +202,9 @@ pub fn run(a: SearchArgs) -> i32 {
         }
         None => eprintln!("bilin search: no verified scheme found"),
     }
-    if outcome.reached || (a.rank.is_none() && outcome.best.is_some()) { EXIT_OK } else { EXIT_FALSE }
+    if outcome.reached || (a.rank.is_none() && outcome.best.is_some()) {
+        EXIT_OK
+    } else {
+        EXIT_FALSE
+    }
 }

@@ -21,10 +21,10 @@
 
 use crate::linalg::{Matrix, solve};
 use crate::scalar::{FieldSpec, Q, Rationals, q, q_to_f64};
-use num_traits::Zero;
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use nalgebra::{DMatrix, DVector};
+use num_traits::Zero;
 use rand::Rng;
 use rand_chacha::ChaCha8Rng;
 
@@ -89,7 +89,12 @@ impl Dense {
             entries.push(([i, j, k], v));
         }
         let norm = data.iter().map(|x| x * x).sum::<f64>().sqrt().max(1e-300);
-        Dense { dims: d, data, entries, norm }
+        Dense {
+            dims: d,
+            data,
+            entries,
+            norm,
+        }
     }
 }
 
@@ -133,7 +138,8 @@ impl State {
             _ => (0, 1),
         };
         let r = self.rank();
-        let g = (self.f[p].transpose() * &self.f[p]).component_mul(&(self.f[qa].transpose() * &self.f[qa]));
+        let g = (self.f[p].transpose() * &self.f[p])
+            .component_mul(&(self.f[qa].transpose() * &self.f[qa]));
         let mut rhs = DMatrix::<f64>::zeros(t.dims[m], r);
         for (idx, v) in &t.entries {
             for x in 0..r {
@@ -146,14 +152,18 @@ impl State {
             for x in 0..r {
                 gl[(x, x)] += lambda;
             }
-            let Some(ch) = gl.cholesky() else { return false };
+            let Some(ch) = gl.cholesky() else {
+                return false;
+            };
             // F_m = rhs * gl^-1  <=>  gl * F_m^T = rhs^T
             let sol = ch.solve(&rhs.transpose());
             self.f[m] = sol.transpose();
             return self.f[m].iter().all(|x| x.is_finite());
         }
         for row in 0..t.dims[m] {
-            let free: Vec<usize> = (0..r).filter(|&x| self.frozen[m][row * r + x].is_none()).collect();
+            let free: Vec<usize> = (0..r)
+                .filter(|&x| self.frozen[m][row * r + x].is_none())
+                .collect();
             for x in 0..r {
                 if let Some((a, b)) = self.frozen[m][row * r + x] {
                     self.f[m][(row, x)] = a as f64 / b as f64;
@@ -178,7 +188,9 @@ impl State {
                 }
                 gf[(a, a)] += lambda;
             }
-            let Some(ch) = gf.cholesky() else { return false };
+            let Some(ch) = gf.cholesky() else {
+                return false;
+            };
             let sol = ch.solve(&b);
             for (a, &fa) in free.iter().enumerate() {
                 self.f[m][(row, fa)] = sol[a];
@@ -233,9 +245,15 @@ impl State {
     }
 
     fn max_abs(&self) -> f64 {
-        self.f.iter().flat_map(|m| m.iter()).fold(0.0, |a, &b| a.max(b.abs()))
+        self.f
+            .iter()
+            .flat_map(|m| m.iter())
+            .fold(0.0, |a, &b| a.max(b.abs()))
     }
 }
+
+/// A freeze candidate: ((denominator level, distance), axis, entry, p/q).
+type Candidate = ((usize, f64), usize, usize, (i64, i64));
 
 fn gcd(a: i64, b: i64) -> i64 {
     if b == 0 { a.abs() } else { gcd(b, a % b) }
@@ -255,16 +273,27 @@ fn nearest_rational(x: f64, dens: &[i64]) -> ((i64, i64), f64) {
 }
 
 fn random_state(t: &Dense, r: usize, rng: &mut ChaCha8Rng) -> State {
-    let mk = |n: usize, rng: &mut ChaCha8Rng| DMatrix::from_fn(n, r, |_, _| rng.gen_range(-1.0..1.0));
+    let mk =
+        |n: usize, rng: &mut ChaCha8Rng| DMatrix::from_fn(n, r, |_, _| rng.gen_range(-1.0..1.0));
     State {
         f: [mk(t.dims[0], rng), mk(t.dims[1], rng), mk(t.dims[2], rng)],
-        frozen: [vec![None; t.dims[0] * r], vec![None; t.dims[1] * r], vec![None; t.dims[2] * r]],
+        frozen: [
+            vec![None; t.dims[0] * r],
+            vec![None; t.dims[1] * r],
+            vec![None; t.dims[2] * r],
+        ],
     }
 }
 
 /// The numerical phase: ALS from a random start. Returns a state with relative error
 /// below `tol`, or `None` (no convergence, blow-up, or stopped).
-fn converge(t: &Dense, r: usize, p: &AlsParams, rng: &mut ChaCha8Rng, stop: &dyn Fn() -> bool) -> Option<State> {
+fn converge(
+    t: &Dense,
+    r: usize,
+    p: &AlsParams,
+    rng: &mut ChaCha8Rng,
+    stop: &dyn Fn() -> bool,
+) -> Option<State> {
     let mut s = random_state(t, r, rng);
     let mut lambda = p.lambda0;
     for it in 0..p.sweeps {
@@ -329,7 +358,7 @@ fn round_state(t: &Dense, mut s: State, p: &AlsParams, stop: &dyn Fn() -> bool) 
         }
         // candidates: every free entry with each nearby p/q, simplest denominators first,
         // then the smallest move
-        let mut cands: Vec<((usize, f64), usize, usize, (i64, i64))> = Vec::new();
+        let mut cands: Vec<Candidate> = Vec::new();
         let mut tight = Vec::new();
         let mut any_free = false;
         for a in 0..2 {
@@ -392,7 +421,13 @@ fn round_state(t: &Dense, mut s: State, p: &AlsParams, stop: &dyn Fn() -> bool) 
 /// check. Returns a scheme of rank `r` verified exactly over Q, or `None`.
 /// Cost per sweep: O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) flops; the error check costs
 /// O(d0 d1 d2 r).
-pub fn als_run(t: &Tensor, r: usize, p: &AlsParams, rng: &mut ChaCha8Rng, stop: &dyn Fn() -> bool) -> Option<Scheme> {
+pub fn als_run(
+    t: &Tensor,
+    r: usize,
+    p: &AlsParams,
+    rng: &mut ChaCha8Rng,
+    stop: &dyn Fn() -> bool,
+) -> Option<Scheme> {
     if t.field() != FieldSpec::Rational || r == 0 {
         return None;
     }
@@ -439,10 +474,12 @@ pub fn solve_result_factors(t: &Tensor, us: &[Vec<Q>], vs: &[Vec<Q>]) -> Option<
     }
     let mut ws = vec![vec![Q::zero(); d[2]]; r];
     for k in 0..d[2] {
-        let b: Vec<Q> = (0..d[0] * d[1]).map(|ij| t.get(ij / d[1], ij % d[1], k)).collect();
+        let b: Vec<Q> = (0..d[0] * d[1])
+            .map(|ij| t.get(ij / d[1], ij % d[1], k))
+            .collect();
         let sol = solve(&Rationals, &a, &b)?;
-        for x in 0..r {
-            ws[x][k] = sol[x].clone();
+        for (w, x) in ws.iter_mut().zip(sol) {
+            w[k] = x;
         }
     }
     Some(ws)
@@ -456,7 +493,12 @@ mod tests {
 
     /// The complex numbers over Q as a bilinear map on (re, im).
     fn complex() -> Tensor {
-        let mut t = Tensor::zero(FieldSpec::Rational, crate::tensor::Kind::Bilinear, [2, 2, 2], None);
+        let mut t = Tensor::zero(
+            FieldSpec::Rational,
+            crate::tensor::Kind::Bilinear,
+            [2, 2, 2],
+            None,
+        );
         t.set(0, 0, 0, q(1, 1));
         t.set(1, 1, 0, q(-1, 1));
         t.set(0, 1, 1, q(1, 1));

@@ -115,7 +115,10 @@ impl BitScheme {
                 terms.push(tr);
             }
         }
-        Ok(BitScheme { dims: s.dims, terms })
+        Ok(BitScheme {
+            dims: s.dims,
+            terms,
+        })
     }
 
     /// The number of terms.
@@ -126,11 +129,17 @@ impl BitScheme {
     /// The scheme with 0/1 entries, labelled with `field`.
     pub fn to_scheme(&self, field: FieldSpec) -> Scheme {
         let unpack = |m: u64, n: usize| -> Vec<Q> {
-            (0..n).map(|i| if m >> i & 1 == 1 { Q::one() } else { Q::zero() }).collect()
+            (0..n)
+                .map(|i| if m >> i & 1 == 1 { Q::one() } else { Q::zero() })
+                .collect()
         };
         let mut s = Scheme::empty(field, self.dims);
         for tr in &self.terms {
-            s.push(unpack(tr[0], self.dims[0]), unpack(tr[1], self.dims[1]), unpack(tr[2], self.dims[2]));
+            s.push(
+                unpack(tr[0], self.dims[0]),
+                unpack(tr[1], self.dims[1]),
+                unpack(tr[2], self.dims[2]),
+            );
         }
         s
     }
@@ -183,7 +192,7 @@ impl FastRng {
     /// Uniform in `0..n` (n > 0), by the multiply-shift method.
     #[inline(always)]
     pub fn below(&mut self, n: usize) -> usize {
-        ((self.next_u64() >> 32) * n as u64 >> 32) as usize
+        (((self.next_u64() >> 32) * n as u64) >> 32) as usize
     }
 }
 
@@ -227,8 +236,13 @@ impl Walker {
 
     /// A copy of the current scheme.
     pub fn scheme(&self) -> BitScheme {
-        let terms = (0..self.rank()).map(|t| [self.f[0][t], self.f[1][t], self.f[2][t]]).collect();
-        BitScheme { dims: self.dims, terms }
+        let terms = (0..self.rank())
+            .map(|t| [self.f[0][t], self.f[1][t], self.f[2][t]])
+            .collect();
+        BitScheme {
+            dims: self.dims,
+            terms,
+        }
     }
 
     /// Remove term i (swap with the last); fix the indices on the work list.
@@ -384,7 +398,11 @@ pub struct FlipParams {
 
 impl Default for FlipParams {
     fn default() -> Self {
-        FlipParams { plateau: 200_000, max_excess: 2, retry_every: 20_000 }
+        FlipParams {
+            plateau: 200_000,
+            max_excess: 2,
+            retry_every: 20_000,
+        }
     }
 }
 
@@ -431,12 +449,14 @@ pub fn walk(
             since = 0;
             last_try = moves;
             if event(WalkEvent::Candidate(&best)) {
+                event(WalkEvent::Moves(unreported));
                 return Some(best);
             }
         } else if r <= target && moves - last_try >= params.retry_every {
             last_try = moves;
             let s = w.scheme();
             if event(WalkEvent::Candidate(&s)) {
+                event(WalkEvent::Moves(unreported));
                 return Some(s);
             }
         }
@@ -470,7 +490,12 @@ mod tests {
     /// <n,m,p> matrix multiplication tensor (local builder until the generators land):
     /// a_{il} b_{lj} -> c_{ij}.
     pub(crate) fn matmul(n: usize, m: usize, p: usize) -> Tensor {
-        let mut t = Tensor::zero(FieldSpec::Rational, crate::tensor::Kind::Bilinear, [n * m, m * p, n * p], None);
+        let mut t = Tensor::zero(
+            FieldSpec::Rational,
+            crate::tensor::Kind::Bilinear,
+            [n * m, m * p, n * p],
+            None,
+        );
         for i in 0..n {
             for l in 0..m {
                 for j in 0..p {

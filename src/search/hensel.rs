@@ -122,7 +122,9 @@ impl Lifter {
                 break;
             }
             let (w, b) = (c / 64, 1u64 << (c % 64));
-            let Some(p) = (r..m).find(|&i| jac[i][w] & b != 0) else { continue };
+            let Some(p) = (r..m).find(|&i| jac[i][w] & b != 0) else {
+                continue;
+            };
             jac.swap(r, p);
             trans.swap(r, p);
             let (pj, pt) = (jac[r].clone(), trans[r].clone());
@@ -139,7 +141,15 @@ impl Lifter {
             pivots.push(c);
             r += 1;
         }
-        Some(Lifter { dims: d, rank: s.rank(), n, m, trans, pivots, target })
+        Some(Lifter {
+            dims: d,
+            rank: s.rank(),
+            n,
+            m,
+            trans,
+            pivots,
+            target,
+        })
     }
 
     /// `T - sum_t u_t (x) v_t (x) w_t` mod 2^64 for unknowns `x` (layout: per term u, v, w).
@@ -166,7 +176,14 @@ impl Lifter {
 
     /// Solve `J d = e (mod 2)`; `None` if inconsistent.
     fn solve(&self, e: &[u64]) -> Option<Vec<bool>> {
-        let parity = |row: &[u64]| row.iter().zip(e).map(|(a, b)| (a & b).count_ones()).sum::<u32>() & 1 == 1;
+        let parity = |row: &[u64]| {
+            row.iter()
+                .zip(e)
+                .map(|(a, b)| (a & b).count_ones())
+                .sum::<u32>()
+                & 1
+                == 1
+        };
         for row in &self.trans[self.pivots.len()..] {
             if parity(row) {
                 return None;
@@ -185,7 +202,11 @@ impl Lifter {
         let mut s = Scheme::empty(FieldSpec::Rational, d);
         for t in 0..self.rank {
             let b = &vals[t * len..(t + 1) * len];
-            s.push(b[..d[0]].to_vec(), b[d[0]..d[0] + d[1]].to_vec(), b[d[0] + d[1]..].to_vec());
+            s.push(
+                b[..d[0]].to_vec(),
+                b[d[0]..d[0] + d[1]].to_vec(),
+                b[d[0] + d[1]..].to_vec(),
+            );
         }
         s
     }
@@ -222,7 +243,10 @@ pub fn lift_scheme(s: &BitScheme, t: &Tensor, params: &HenselParams) -> Option<S
         if prec >= 2 || exact64 {
             let sym: Vec<u64> = x.iter().map(|&v| symmetric(v, bits) as u64).collect();
             if lf.residual(&sym).iter().all(|&v| v == 0) {
-                let vals: Vec<Q> = sym.iter().map(|&v| Q::from_integer(BigInt::from(v as i64))).collect();
+                let vals: Vec<Q> = sym
+                    .iter()
+                    .map(|&v| Q::from_integer(BigInt::from(v as i64)))
+                    .collect();
                 let cand = lf.to_scheme(vals);
                 if verify(&cand, t).is_ok() {
                     return Some(cand);
@@ -230,7 +254,7 @@ pub fn lift_scheme(s: &BitScheme, t: &Tensor, params: &HenselParams) -> Option<S
             }
         }
         // candidate 2: rational reconstruction at a few precisions
-        if exact64 || (prec >= 8 && prec % 8 == 0) || prec == max_bits {
+        if exact64 || (prec >= 8 && prec.is_multiple_of(8)) || prec == max_bits {
             let m = BigInt::one() << bits.min(63);
             let mut vals = Vec::with_capacity(x.len());
             let mut ok = true;
@@ -282,12 +306,20 @@ fn symmetric(v: u64, bits: u32) -> i64 {
     }
     let m = 1u64 << bits;
     let r = v & (m - 1);
-    if r > m / 2 { r as i64 - m as i64 } else { r as i64 }
+    if r > m / 2 {
+        r as i64 - m as i64
+    } else {
+        r as i64
+    }
 }
 
 /// True when every entry of the scheme is an integer.
 pub fn is_integral(s: &Scheme) -> bool {
-    s.u.iter().chain(&s.v).chain(&s.w).flatten().all(|x| x.denom().is_one() || x.is_zero())
+    s.u.iter()
+        .chain(&s.v)
+        .chain(&s.w)
+        .flatten()
+        .all(|x| x.denom().is_one() || x.is_zero())
 }
 
 #[cfg(test)]
@@ -296,7 +328,12 @@ mod tests {
     use crate::scalar::q;
 
     fn matmul2() -> Tensor {
-        let mut t = Tensor::zero(FieldSpec::Rational, crate::tensor::Kind::Bilinear, [4, 4, 4], None);
+        let mut t = Tensor::zero(
+            FieldSpec::Rational,
+            crate::tensor::Kind::Bilinear,
+            [4, 4, 4],
+            None,
+        );
         for i in 0..2 {
             for l in 0..2 {
                 for j in 0..2 {

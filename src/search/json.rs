@@ -17,7 +17,11 @@ use serde_json::{Value, json};
 /// The JSON value of a scheme (the agreed `bilin.scheme/1` form).
 pub fn scheme_to_json(s: &Scheme) -> Value {
     let mat = |m: &Vec<Vec<Q>>| -> Value {
-        Value::Array(m.iter().map(|row| Value::Array(row.iter().map(|x| json!(q_to_string(x))).collect())).collect())
+        Value::Array(
+            m.iter()
+                .map(|row| Value::Array(row.iter().map(|x| json!(q_to_string(x))).collect()))
+                .collect(),
+        )
     };
     json!({
         "schema": "bilin.scheme/1",
@@ -39,57 +43,94 @@ pub fn scheme_from_value(v: &Value) -> Result<Scheme> {
     if let Some(sc) = v.get("schema").and_then(Value::as_str)
         && sc != "bilin.scheme/1"
     {
-        return Err(invalid(format!("expected schema \"bilin.scheme/1\", found \"{sc}\"")));
+        return Err(invalid(format!(
+            "expected schema \"bilin.scheme/1\", found \"{sc}\""
+        )));
     }
     let field = match v.get("field").and_then(Value::as_str) {
         Some(f) => FieldSpec::parse(f).map_err(invalid)?,
         None => FieldSpec::Rational,
     };
-    let dims_v = v.get("dims").and_then(Value::as_array).ok_or_else(|| invalid("scheme JSON: missing \"dims\""))?;
+    let dims_v = v
+        .get("dims")
+        .and_then(Value::as_array)
+        .ok_or_else(|| invalid("scheme JSON: missing \"dims\""))?;
     if dims_v.len() != 3 {
         return Err(invalid("scheme JSON: \"dims\" must list three dimensions"));
     }
     let mut dims = [0usize; 3];
     for (a, d) in dims_v.iter().enumerate() {
-        dims[a] = d.as_u64().ok_or_else(|| invalid("scheme JSON: dimensions must be integers"))? as usize;
+        dims[a] = d
+            .as_u64()
+            .ok_or_else(|| invalid("scheme JSON: dimensions must be integers"))?
+            as usize;
     }
     let read = |key: &str, n: usize| -> Result<Vec<Vec<Q>>> {
-        let rows = v.get(key).and_then(Value::as_array).ok_or_else(|| invalid(format!("scheme JSON: missing \"{key}\"")))?;
+        let rows = v
+            .get(key)
+            .and_then(Value::as_array)
+            .ok_or_else(|| invalid(format!("scheme JSON: missing \"{key}\"")))?;
         rows.iter()
             .enumerate()
             .map(|(t, row)| {
-                let row = row.as_array().ok_or_else(|| invalid(format!("scheme JSON: {key}[{t}] is not a list")))?;
+                let row = row
+                    .as_array()
+                    .ok_or_else(|| invalid(format!("scheme JSON: {key}[{t}] is not a list")))?;
                 if row.len() != n {
-                    return Err(invalid(format!("scheme JSON: {key}[{t}] has {} entries, expected {n}", row.len())));
+                    return Err(invalid(format!(
+                        "scheme JSON: {key}[{t}] has {} entries, expected {n}",
+                        row.len()
+                    )));
                 }
                 row.iter()
                     .map(|x| {
                         let s = match x {
                             Value::String(s) => s.clone(),
                             Value::Number(n) if n.is_i64() => n.to_string(),
-                            _ => return Err(invalid(format!("scheme JSON: entry {x} of {key}[{t}] is not \"p/q\""))),
+                            _ => {
+                                return Err(invalid(format!(
+                                    "scheme JSON: entry {x} of {key}[{t}] is not \"p/q\""
+                                )));
+                            }
                         };
-                        parse_rational(&s).map_err(|e| invalid(format!("scheme JSON: {key}[{t}]: {e}")))
+                        parse_rational(&s)
+                            .map_err(|e| invalid(format!("scheme JSON: {key}[{t}]: {e}")))
                     })
                     .collect()
             })
             .collect()
     };
-    let (u, vv, w) = (read("u", dims[0])?, read("v", dims[1])?, read("w", dims[2])?);
+    let (u, vv, w) = (
+        read("u", dims[0])?,
+        read("v", dims[1])?,
+        read("w", dims[2])?,
+    );
     if u.len() != vv.len() || u.len() != w.len() {
-        return Err(invalid("scheme JSON: \"u\", \"v\", \"w\" must have one row per term each"));
+        return Err(invalid(
+            "scheme JSON: \"u\", \"v\", \"w\" must have one row per term each",
+        ));
     }
     if let Some(r) = v.get("rank").and_then(Value::as_u64)
         && r as usize != u.len()
     {
-        return Err(invalid(format!("scheme JSON: \"rank\" is {r} but there are {} terms", u.len())));
+        return Err(invalid(format!(
+            "scheme JSON: \"rank\" is {r} but there are {} terms",
+            u.len()
+        )));
     }
-    Ok(Scheme { field, dims, u, v: vv, w })
+    Ok(Scheme {
+        field,
+        dims,
+        u,
+        v: vv,
+        w,
+    })
 }
 
 /// Parse a scheme JSON text.
 pub fn scheme_from_json(text: &str) -> Result<Scheme> {
-    let v: Value = serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
+    let v: Value =
+        serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
     scheme_from_value(&v)
 }
 
@@ -115,10 +156,15 @@ pub fn checkpoint_to_json(c: &Checkpoint) -> Value {
 
 /// Read a checkpoint, or a plain scheme file (taken as a checkpoint with that best scheme).
 pub fn checkpoint_from_json(text: &str) -> Result<Checkpoint> {
-    let v: Value = serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
+    let v: Value =
+        serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
     match v.get("schema").and_then(Value::as_str) {
         Some("bilin.search-checkpoint/1") => {
-            let num = |k: &str| v.get(k).and_then(Value::as_u64).ok_or_else(|| invalid(format!("checkpoint: missing \"{k}\"")));
+            let num = |k: &str| {
+                v.get(k)
+                    .and_then(Value::as_u64)
+                    .ok_or_else(|| invalid(format!("checkpoint: missing \"{k}\"")))
+            };
             let shard = v
                 .get("shard")
                 .and_then(Value::as_array)
@@ -128,15 +174,28 @@ pub fn checkpoint_from_json(text: &str) -> Result<Checkpoint> {
                 None | Some(Value::Null) => None,
                 Some(b) => Some(scheme_from_value(b)?),
             };
-            Ok(Checkpoint { seed: num("seed")?, shard, next_run: num("next_run")?, best })
+            Ok(Checkpoint {
+                seed: num("seed")?,
+                shard,
+                next_run: num("next_run")?,
+                best,
+            })
         }
-        _ => Ok(Checkpoint { seed: 0, shard: (0, 1), next_run: 0, best: Some(scheme_from_value(&v)?) }),
+        _ => Ok(Checkpoint {
+            seed: 0,
+            shard: (0, 1),
+            next_run: 0,
+            best: Some(scheme_from_value(&v)?),
+        }),
     }
 }
 
 /// Write `text` to `path` atomically: a temporary file in the same directory, then rename.
 pub fn write_atomic(path: &str, text: &str) -> Result<()> {
-    let io = |e: std::io::Error| Error::Io { path: path.to_string(), message: e.to_string() };
+    let io = |e: std::io::Error| Error::Io {
+        path: path.to_string(),
+        message: e.to_string(),
+    };
     let tmp = format!("{path}.tmp{}", std::process::id());
     std::fs::write(&tmp, text).map_err(io)?;
     std::fs::rename(&tmp, path).map_err(io)
@@ -153,9 +212,19 @@ mod tests {
         s.push(vec![q(1, 2), q(-3, 1)], vec![q(1, 1)], vec![q(0, 1)]);
         let text = scheme_to_json(&s).to_string();
         assert_eq!(scheme_from_json(&text).unwrap(), s);
-        let c = Checkpoint { seed: 3, shard: (1, 4), next_run: 17, best: Some(s) };
-        assert_eq!(checkpoint_from_json(&checkpoint_to_json(&c).to_string()).unwrap(), c);
+        let c = Checkpoint {
+            seed: 3,
+            shard: (1, 4),
+            next_run: 17,
+            best: Some(s),
+        };
+        assert_eq!(
+            checkpoint_from_json(&checkpoint_to_json(&c).to_string()).unwrap(),
+            c
+        );
         assert!(scheme_from_json("{\"dims\":[1,1]}").is_err());
-        assert!(scheme_from_json("{\"dims\":[1,1,1],\"u\":[[\"x\"]],\"v\":[[1]],\"w\":[[1]]}").is_err());
+        assert!(
+            scheme_from_json("{\"dims\":[1,1,1],\"u\":[[\"x\"]],\"v\":[[1]],\"w\":[[1]]}").is_err()
+        );
     }
 }

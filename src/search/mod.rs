@@ -169,21 +169,33 @@ pub fn search_scheme(
         t.with_field(field).map_err(Error::Invalid)?
     };
     if params.method == Method::Als && field != FieldSpec::Rational {
-        return Err(Error::Invalid("the ALS search works over Q; use --method flip for GF(2)".into()));
+        return Err(Error::Invalid(
+            "the ALS search works over Q; use --method flip for GF(2)".into(),
+        ));
     }
     if params.method == Method::Als && params.target_rank.is_none() {
-        return Err(Error::Invalid("the ALS search needs a target rank (--rank)".into()));
+        return Err(Error::Invalid(
+            "the ALS search needs a target rank (--rank)".into(),
+        ));
     }
-    if params.method == Method::Flip && !matches!(field, FieldSpec::Rational | FieldSpec::Prime(2)) {
-        return Err(Error::Invalid(format!("the flip search works over GF(2) and Q, not {}", field.name())));
+    if params.method == Method::Flip && !matches!(field, FieldSpec::Rational | FieldSpec::Prime(2))
+    {
+        return Err(Error::Invalid(format!(
+            "the flip search works over GF(2) and Q, not {}",
+            field.name()
+        )));
     }
     if params.target_rank.is_none() && params.time_limit.is_none() && params.restarts.is_none() {
-        return Err(Error::Invalid("give a target rank, a time limit or a run limit".into()));
+        return Err(Error::Invalid(
+            "give a target rank, a time limit or a run limit".into(),
+        ));
     }
     if let Some(s) = &start
         && verify(s, &goal).is_err()
     {
-        return Err(Error::Invalid("the start scheme does not verify against the tensor".into()));
+        return Err(Error::Invalid(
+            "the start scheme does not verify against the tensor".into(),
+        ));
     }
     let target = params.target_rank.unwrap_or(0);
     let flip_start = match params.method {
@@ -211,7 +223,8 @@ pub fn search_scheme(
     };
     let t0 = Instant::now();
     let out_of_time = || params.time_limit.is_some_and(|l| t0.elapsed() >= l);
-    let halted = || stop.load(Ordering::Relaxed) || shared.found.load(Ordering::Relaxed) || out_of_time();
+    let halted =
+        || stop.load(Ordering::Relaxed) || shared.found.load(Ordering::Relaxed) || out_of_time();
     // run numbers of this shard: base, base + N, base + 2N, ... with base = K (mod N)
     let base = params.first_run + (k + n - params.first_run % n) % n;
     let run_of = |seq: u64| base + seq * n;
@@ -232,7 +245,9 @@ pub fn search_scheme(
                     match params.method {
                         Method::Als => {
                             let mut rng = ChaCha8Rng::seed_from_u64(seed);
-                            if let Some(s) = als::als_run(&goal, target, &params.als, &mut rng, &halted) {
+                            if let Some(s) =
+                                als::als_run(&goal, target, &params.als, &mut rng, &halted)
+                            {
                                 shared.offer(s, target);
                             }
                         }
@@ -246,7 +261,9 @@ pub fn search_scheme(
                                     }
                                     WalkEvent::Candidate(b) => {
                                         let r = b.rank();
-                                        if r >= shared.best_rank.load(Ordering::SeqCst) && r > target {
+                                        if r >= shared.best_rank.load(Ordering::SeqCst)
+                                            && r > target
+                                        {
                                             return false;
                                         }
                                         let s = if field == FieldSpec::Rational {
@@ -265,7 +282,14 @@ pub fn search_scheme(
                                     }
                                 }
                             };
-                            flip::walk(startb, target, &params.flip, seed, params.walk_budget, &mut ev);
+                            flip::walk(
+                                startb,
+                                target,
+                                &params.flip,
+                                seed,
+                                params.walk_budget,
+                                &mut ev,
+                            );
                         }
                     }
                     if !halted() {
@@ -287,7 +311,13 @@ pub fn search_scheme(
     let snap = snapshot(&shared, t0, &run_of);
     progress(&snap);
     let reached = snap.best.as_ref().is_some_and(|s| s.rank() <= target);
-    Ok(Outcome { best: snap.best, reached, moves: snap.moves, next_run: snap.next_run, elapsed: snap.elapsed })
+    Ok(Outcome {
+        best: snap.best,
+        reached,
+        moves: snap.moves,
+        next_run: snap.next_run,
+        elapsed: snap.elapsed,
+    })
 }
 
 fn snapshot(shared: &Shared, t0: Instant, run_of: &dyn Fn(u64) -> u64) -> Progress {
@@ -315,7 +345,11 @@ pub fn merge_schemes(t: &Tensor, schemes: &[Scheme]) -> Option<Scheme> {
     schemes
         .iter()
         .filter(|s| {
-            let goal = if s.field == t.field() { Some(t.clone()) } else { t.with_field(s.field).ok() };
+            let goal = if s.field == t.field() {
+                Some(t.clone())
+            } else {
+                t.with_field(s.field).ok()
+            };
             goal.is_some_and(|g| verify(s, &g).is_ok())
         })
         .min_by_key(|s| s.rank())

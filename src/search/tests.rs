@@ -7,7 +7,12 @@ use num_traits::One;
 
 /// <n,m,p> matrix multiplication (a_{il} b_{lj} -> c_{ij}); local builder.
 pub(crate) fn matmul(n: usize, m: usize, p: usize) -> Tensor {
-    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [n * m, m * p, n * p], None);
+    let mut t = Tensor::zero(
+        FieldSpec::Rational,
+        Kind::Bilinear,
+        [n * m, m * p, n * p],
+        None,
+    );
     for i in 0..n {
         for l in 0..m {
             for j in 0..p {
