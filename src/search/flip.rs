@@ -407,28 +407,73 @@ impl Default for FlipParams {
 }
 
 /// What the walk reports to its caller.
-pub enum WalkEvent<'a> {
+pub enum WalkEvent<'a, S> {
     /// A scheme of a rank lower than any before in this walk, or (at or below the target)
     /// another scheme offered for acceptance. Return true to end the walk with it.
-    Candidate(&'a BitScheme),
+    Candidate(&'a S),
     /// Moves done since the last report (for throughput); return true to stop.
     Moves(u64),
 }
 
-/// Walk from `start` for at most `budget` attempted moves. `event` sees each new lowest
-/// rank and, at or below `target`, a candidate every `retry_every` moves; the walk ends
-/// when it returns true for a candidate (returned) or for a `Moves` report (stop).
-/// Cost: O(r) per move.
+/// A walk state on a flip graph (over GF(2) bit-packed, or over GF(p)).
+pub trait WalkState {
+    /// A copy of the current scheme.
+    type Snap: Clone;
+    /// One attempted flip; false when the random choice had no partner.
+    fn flip(&mut self) -> bool;
+    /// One attempted plus transition (rank + 1).
+    fn plus(&mut self) -> bool;
+    fn rank(&self) -> usize;
+    fn snap(&self) -> Self::Snap;
+    fn restore(&mut self, s: &Self::Snap);
+}
+
+impl WalkState for Walker {
+    type Snap = BitScheme;
+    fn flip(&mut self) -> bool {
+        Walker::flip(self)
+    }
+    fn plus(&mut self) -> bool {
+        Walker::plus(self)
+    }
+    fn rank(&self) -> usize {
+        Walker::rank(self)
+    }
+    fn snap(&self) -> BitScheme {
+        self.scheme()
+    }
+    fn restore(&mut self, s: &BitScheme) {
+        self.load(s)
+    }
+}
+
+/// Walk from `start` over GF(2) for at most `budget` attempted moves; see [`walk_state`].
 pub fn walk(
     start: &BitScheme,
     target: usize,
     params: &FlipParams,
     seed: u64,
     budget: u64,
-    event: &mut dyn FnMut(WalkEvent) -> bool,
+    event: &mut dyn FnMut(WalkEvent<BitScheme>) -> bool,
 ) -> Option<BitScheme> {
     let mut w = Walker::new(start, seed);
-    let mut best = w.scheme();
+    walk_state(&mut w, target, params, budget, event)
+}
+
+/// Walk for at most `budget` attempted moves. `event` sees each new lowest rank and, at or
+/// below `target`, a candidate every `retry_every` moves; the walk ends when it returns
+/// true for a candidate (returned) or for a `Moves` report (stop). After `plateau` moves
+/// without a new lowest rank the walk makes a plus transition, or returns to its best
+/// scheme when already `max_excess` above it.
+/// Cost: O(r) per move over GF(2), O(r (d0 + d1 + d2)) over GF(p).
+pub fn walk_state<W: WalkState>(
+    w: &mut W,
+    target: usize,
+    params: &FlipParams,
+    budget: u64,
+    event: &mut dyn FnMut(WalkEvent<W::Snap>) -> bool,
+) -> Option<W::Snap> {
+    let mut best = w.snap();
     let mut best_rank = w.rank();
     if best_rank <= target && event(WalkEvent::Candidate(&best)) {
         return Some(best);
@@ -445,7 +490,7 @@ pub fn walk(
         let r = w.rank();
         if r < best_rank {
             best_rank = r;
-            best = w.scheme();
+            best = w.snap();
             since = 0;
             last_try = moves;
             if event(WalkEvent::Candidate(&best)) {
@@ -454,7 +499,7 @@ pub fn walk(
             }
         } else if r <= target && moves - last_try >= params.retry_every {
             last_try = moves;
-            let s = w.scheme();
+            let s = w.snap();
             if event(WalkEvent::Candidate(&s)) {
                 event(WalkEvent::Moves(unreported));
                 return Some(s);
@@ -469,7 +514,7 @@ pub fn walk(
                     }
                 }
             } else {
-                w.load(&best);
+                w.restore(&best);
             }
         }
         if unreported >= 1 << 16 {

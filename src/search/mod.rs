@@ -4,7 +4,7 @@
 //! - [`als`]: numerical alternating least squares in f64, rounding to small rationals,
 //!   exact verification over Q;
 //! - [`flip`]: a flip-graph random walk over GF(2), then [`hensel`] lifting to Z / Q when
-//!   the tensor is over Q.
+//!   the tensor is over Q; [`flip_p`]: the same walk over GF(p) for tensors over GF(p).
 //!
 //! The driver [`search_scheme`] splits the work into *runs* numbered 0, 1, 2, ...; run n
 //! uses its own RNG seeded from `(seed, n)`, so a run's outcome depends only on the seed
@@ -18,6 +18,7 @@
 
 pub mod als;
 pub mod flip;
+pub mod flip_p;
 pub mod hensel;
 pub mod json;
 
@@ -178,13 +179,6 @@ pub fn search_scheme(
             "the ALS search needs a target rank (--rank)".into(),
         ));
     }
-    if params.method == Method::Flip && !matches!(field, FieldSpec::Rational | FieldSpec::Prime(2))
-    {
-        return Err(Error::Invalid(format!(
-            "the flip search works over GF(2) and Q, not {}",
-            field.name()
-        )));
-    }
     if params.target_rank.is_none() && params.time_limit.is_none() && params.restarts.is_none() {
         return Err(Error::Invalid(
             "give a target rank, a time limit or a run limit".into(),
@@ -198,7 +192,12 @@ pub fn search_scheme(
         ));
     }
     let target = params.target_rank.unwrap_or(0);
+    let p_start = match (params.method, field) {
+        (Method::Flip, FieldSpec::Prime(p)) if p != 2 => Some(flip_p::PScheme::standard(&goal)?),
+        _ => None,
+    };
     let flip_start = match params.method {
+        Method::Flip if p_start.is_some() => None,
         Method::Flip => {
             let std = BitScheme::standard(&goal)?;
             Some(match &start {
@@ -251,9 +250,37 @@ pub fn search_scheme(
                                 shared.offer(s, target);
                             }
                         }
+                        Method::Flip if p_start.is_some() => {
+                            let startp = p_start.as_ref().expect("GF(p) start");
+                            let mut ev = |e: WalkEvent<flip_p::PScheme>| -> bool {
+                                match e {
+                                    WalkEvent::Moves(m) => {
+                                        shared.moves.fetch_add(m, Ordering::Relaxed);
+                                        halted()
+                                    }
+                                    WalkEvent::Candidate(b) => {
+                                        let s = b.to_scheme();
+                                        let ok = verify(&s, &goal).is_ok();
+                                        let r = s.rank();
+                                        if ok {
+                                            shared.offer(s, target);
+                                        }
+                                        ok && r <= target
+                                    }
+                                }
+                            };
+                            flip_p::walk_p(
+                                startp,
+                                target,
+                                &params.flip,
+                                seed,
+                                params.walk_budget,
+                                &mut ev,
+                            );
+                        }
                         Method::Flip => {
                             let startb = flip_start.as_ref().expect("flip start");
-                            let mut ev = |e: WalkEvent| -> bool {
+                            let mut ev = |e: WalkEvent<BitScheme>| -> bool {
                                 match e {
                                     WalkEvent::Moves(m) => {
                                         shared.moves.fetch_add(m, Ordering::Relaxed);

@@ -161,3 +161,15 @@ fn merge_keeps_lowest_verified() {
     let m = merge_schemes(&t, &[std.clone(), bad, good.clone()]).unwrap();
     assert_eq!(m, good);
 }
+
+/// <2,2,2> over GF(3) has rank 7 (Strassen 1969 works over any field; Winograd 1971,
+/// "On multiplication of 2x2 matrices", shows 7 is optimal): the GF(p) walk finds it.
+#[test]
+fn strassen_rank_seven_over_gf3() {
+    let t = matmul(2, 2, 2).with_field(FieldSpec::Prime(3)).unwrap();
+    let o = run(&t, &params(Method::Flip, 7, 1));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 7);
+    assert_eq!(s.field, FieldSpec::Prime(3));
+    assert!(verify(&s, &t).is_ok());
+}
