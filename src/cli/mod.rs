@@ -4,6 +4,9 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
+mod merge;
+mod search;
+
 use clap::{Parser, Subcommand};
 
 mod analyze;
@@ -46,6 +49,10 @@ enum Command {
     Scheme(scheme::Args),
     /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
     Invariants(invariants::Args),
+    /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
+    Search(search::SearchArgs),
+    /// Keep the lowest-rank verified scheme among result and checkpoint files.
+    Merge(merge::MergeArgs),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -66,5 +73,7 @@ pub fn run() -> i32 {
         Command::Emit(a) => emit::run(&a),
         Command::Scheme(a) => scheme::run(&a),
         Command::Invariants(a) => invariants::run(a),
+        Command::Search(a) => search::run(a),
+        Command::Merge(a) => merge::run(a),
     }
 }
