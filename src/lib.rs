@@ -8,7 +8,10 @@
 //!
 //! [`error`] holds the typed errors shared by all layers.
 
+pub mod catalog;
 pub mod error;
+pub mod generators;
+pub mod input;
 pub mod linalg;
 pub mod scalar;
 pub mod scheme;

@@ -4,6 +4,10 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
+mod catalog;
+mod catalog_input;
+mod identify;
+
 use clap::{Parser, Subcommand};
 
 /// Exit code: success.
@@ -21,7 +25,12 @@ struct Cli {
 }
 
 #[derive(Subcommand)]
-enum Command {}
+enum Command {
+    /// Browse the catalog of known algebras and bilinear maps (list, show, check, doc).
+    Catalog(catalog::CatalogArgs),
+    /// Identify an input against the catalog by invariants (and explicit isomorphisms).
+    Identify(identify::IdentifyArgs),
+}
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
@@ -33,5 +42,8 @@ pub fn run() -> i32 {
             return code;
         }
     };
-    match cli.command {}
+    match cli.command {
+        Command::Catalog(a) => catalog::run(a),
+        Command::Identify(a) => identify::run(a),
+    }
 }
