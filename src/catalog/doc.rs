@@ -29,7 +29,7 @@ by hand. Each entry is a table in the text format of `docs/formats.md` with meta
 comment lines starting with `#:` (the table parser ignores them):\n\n\
 | key | meaning |\n|---|---|\n\
 | `name` | the entry's name, usable wherever an input is expected |\n\
-| `aliases` | other names, comma separated |\n\
+| `aliases` | other names, separated by a comma and a space |\n\
 | `family` | the family the entry belongs to |\n\
 | `about` | what the product is |\n\
 | `source` | a published source for the definition |\n\

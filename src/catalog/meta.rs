@@ -7,7 +7,7 @@
 //! | key | meaning |
 //! |---|---|
 //! | `name` | the entry's name (required, equal to the file stem) |
-//! | `aliases` | other names, comma separated |
+//! | `aliases` | other names, separated by a comma and a space (names may contain commas) |
 //! | `family` | a family label such as `cayley-dickson`, `lie`, `matmul` (required) |
 //! | `about` | one sentence saying what the product is (required) |
 //! | `source` | a published source for the definition (at least one; may repeat) |
@@ -87,7 +87,7 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
         match key {
             "name" => name = Some(value.to_string()),
             "aliases" => aliases.extend(
-                value.split(',').map(str::trim).filter(|s| !s.is_empty()).map(String::from),
+                value.split(", ").map(str::trim).filter(|s| !s.is_empty()).map(String::from),
             ),
             "family" => family = Some(value.to_string()),
             "about" => about = Some(value.to_string()),
@@ -145,10 +145,10 @@ mod tests {
 
     #[test]
     fn parses_metadata_and_rejects_missing_sources() {
-        let text = "#: name x\n#: aliases a, b\n#: family f\n#: about y\n#: source S 1999\n\
+        let text = "#: name x\n#: aliases a, b, m:2,2\n#: family f\n#: about y\n#: source S 1999\n\
                     #: fact rank.upper = 8 ; domain Q ; source T 2000; p. 3\nfield Q\n";
         let m = parse_meta(text, "x").unwrap();
-        assert_eq!(m.aliases, vec!["a", "b"]);
+        assert_eq!(m.aliases, vec!["a", "b", "m:2,2"]);
         assert_eq!(m.facts[0].domain.as_deref(), Some("Q"));
         assert_eq!(m.facts[0].source, "T 2000; p. 3");
         assert!(m.is_named("B"));
