@@ -161,7 +161,12 @@ mod tests {
     use crate::scalar::{PrimeField, Rationals, q};
 
     fn qm(rows: &[&[i64]]) -> Matrix<crate::scalar::Q> {
-        Matrix::from_rows(rows.iter().map(|r| r.iter().map(|&x| q(x, 1)).collect()).collect(), 0)
+        Matrix::from_rows(
+            rows.iter()
+                .map(|r| r.iter().map(|&x| q(x, 1)).collect())
+                .collect(),
+            0,
+        )
     }
 
     #[test]

@@ -13,7 +13,11 @@ pub struct Matrix<E> {
 impl<E: Clone> Matrix<E> {
     /// A matrix with every entry equal to `fill`.
     pub fn filled(rows: usize, cols: usize, fill: E) -> Self {
-        Matrix { rows, cols, data: vec![fill; rows * cols] }
+        Matrix {
+            rows,
+            cols,
+            data: vec![fill; rows * cols],
+        }
     }
 
     /// The zero matrix of a field.
@@ -36,7 +40,11 @@ impl<E: Clone> Matrix<E> {
         let c = rows.first().map_or(cols, |x| x.len());
         let data: Vec<E> = rows.into_iter().flatten().collect();
         assert_eq!(data.len(), r * c, "rows of unequal length");
-        Matrix { rows: r, cols: c, data }
+        Matrix {
+            rows: r,
+            cols: c,
+            data,
+        }
     }
 
     /// Row `i` as a slice.
@@ -67,17 +75,28 @@ impl<E: Clone> Matrix<E> {
                 data.push(self[(i, j)].clone());
             }
         }
-        Matrix { rows: self.cols, cols: self.rows, data }
+        Matrix {
+            rows: self.cols,
+            cols: self.rows,
+            data,
+        }
     }
 
     /// Map every entry (e.g. into another field).
     pub fn map<T>(&self, g: impl Fn(&E) -> T) -> Matrix<T> {
-        Matrix { rows: self.rows, cols: self.cols, data: self.data.iter().map(g).collect() }
+        Matrix {
+            rows: self.rows,
+            cols: self.cols,
+            data: self.data.iter().map(g).collect(),
+        }
     }
 
     /// The product `self * other`. Cost: O(r k c) field operations (zero entries skipped).
     pub fn mul<F: Field<Elem = E>>(&self, f: &F, other: &Matrix<E>) -> Matrix<E> {
-        assert_eq!(self.cols, other.rows, "matrix product of incompatible shapes");
+        assert_eq!(
+            self.cols, other.rows,
+            "matrix product of incompatible shapes"
+        );
         let mut out = Matrix::zeros(f, self.rows, other.cols);
         for i in 0..self.rows {
             for k in 0..self.cols {

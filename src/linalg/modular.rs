@@ -16,7 +16,7 @@ use super::{Matrix, echelon};
 use crate::scalar::{Q, Rationals, rational_reconstruct};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::{One, ToPrimitive, Zero};
 
 /// Primes used by the fast kernel: below 2^28, so that 127 delayed updates fit in a u64.
 pub const KERNEL_PRIME_BITS: u32 = 28;
@@ -142,7 +142,11 @@ fn reduce_rows(rows: &[Vec<BigInt>], cols: usize, p: u64) -> Matrix<u64> {
             data.push(v);
         }
     }
-    Matrix { rows: rows.len(), cols, data }
+    Matrix {
+        rows: rows.len(),
+        cols,
+        data,
+    }
 }
 
 /// Rank over Q, proven. Fast path: rank modulo a 28-bit prime (a lower bound); when it is
@@ -164,12 +168,15 @@ pub fn rank_q(m: &Matrix<Q>) -> usize {
 /// A basis of the right nullspace {x in Q^c : m x = 0}, in reduced form (one vector per
 /// free column: 1 there, 0 at the other free columns), proven exactly over Q.
 ///
-/// Method: reduced echelon forms modulo successive 28-bit primes (keeping those with the
-/// largest rank and the first pivot pattern), Chinese remaindering, rational reconstruction,
-/// and an exact check m N = 0 over the integers. Falls back to elimination over Q after
-/// 64 primes. Cost per prime: O(r c rank) word operations, plus the final check
-/// O(r c (c - rank)) big-integer operations.
+/// Method: reduced echelon forms modulo successive 28-bit primes (in parallel batches;
+/// keeping those with the largest rank and the first pivot pattern), Chinese remaindering,
+/// rational reconstruction, and an exact check m N = 0 over the integers. Reconstruction is
+/// tried after 1, 2, 4, ... primes and is guaranteed to succeed once the modulus exceeds
+/// twice the square of the Hadamard bound of the matrix; after twice that many primes the
+/// method falls back to elimination over Q. Cost per prime: O(r c rank) word operations,
+/// plus the final check O(r c (c - rank)) big-integer operations.
 pub fn nullspace_q(m: &Matrix<Q>) -> Vec<Vec<Q>> {
+    use rayon::prelude::*;
     if m.cols == 0 {
         return Vec::new();
     }
@@ -177,44 +184,76 @@ pub fn nullspace_q(m: &Matrix<Q>) -> Vec<Vec<Q>> {
         return echelon::nullspace(&Rationals, m);
     }
     let ints = integer_rows(m);
-    let primes = kernel_primes(64);
+    let needed = primes_needed(&ints, m.rows.min(m.cols));
+    let batch = rayon::current_num_threads().max(1);
+    let primes = kernel_primes(2 * needed + batch + 2);
     let mut best: Option<Vec<usize>> = None;
     let mut residues: Vec<BigInt> = Vec::new(); // CRT image of the entries rref[r][free]
     let mut modulus = BigInt::one();
-    for &p in &primes {
-        let mut red = reduce_rows(&ints, m.cols, p);
-        let pivots = rref_mod(&mut red.data, red.rows, red.cols, p, true);
-        let better = match &best {
-            None => true,
-            Some(b) => pivots.len() > b.len() || (pivots.len() == b.len() && pivots < *b),
-        };
-        if better {
-            best = Some(pivots.clone());
-            residues.clear();
-            modulus = BigInt::one();
-        } else if best.as_ref() != Some(&pivots) {
-            continue; // an unlucky prime: fewer pivots or a later pattern
-        }
-        let free = free_columns(m.cols, &pivots);
-        // entries rref[r][f] for pivot rows r and free columns f, row-major
-        let img: Vec<u64> = (0..pivots.len())
-            .flat_map(|r| free.iter().map(move |&f| (r, f)))
-            .map(|(r, f)| red.data[r * red.cols + f])
+    let mut used = 0usize; // primes combined into `residues`
+    let mut next_try = 1usize;
+    for chunk in primes.chunks(batch) {
+        let images: Vec<(u64, Vec<usize>, Vec<u64>)> = chunk
+            .par_iter()
+            .map(|&p| {
+                let mut red = reduce_rows(&ints, m.cols, p);
+                let pivots = rref_mod(&mut red.data, red.rows, red.cols, p, true);
+                let free = free_columns(m.cols, &pivots);
+                let img: Vec<u64> = (0..pivots.len())
+                    .flat_map(|r| free.iter().map(move |&f| (r, f)))
+                    .map(|(r, f)| red.data[r * red.cols + f])
+                    .collect();
+                (p, pivots, img)
+            })
             .collect();
-        if residues.is_empty() {
-            residues = img.iter().map(|&x| BigInt::from(x)).collect();
-            modulus = BigInt::from(p);
-        } else {
-            crt_combine(&mut residues, &modulus, &img, p);
-            modulus *= p;
+        for (p, pivots, img) in images {
+            let better = match &best {
+                None => true,
+                Some(b) => pivots.len() > b.len() || (pivots.len() == b.len() && pivots < *b),
+            };
+            if better {
+                best = Some(pivots);
+                residues = img.iter().map(|&x| BigInt::from(x)).collect();
+                modulus = BigInt::from(p);
+                used = 1;
+                next_try = 1;
+            } else if best.as_ref() == Some(&pivots) {
+                crt_combine(&mut residues, &modulus, &img, p);
+                modulus *= p;
+                used += 1;
+            }
         }
-        if let Some(basis) = reconstruct_nullspace(&residues, &modulus, &pivots, &free, m.cols)
-            && check_nullspace(&ints, &basis)
-        {
-            return basis;
+        if used >= next_try || used >= needed {
+            next_try = 2 * used;
+            let pivots = best.as_ref().expect("at least one prime");
+            let free = free_columns(m.cols, pivots);
+            if let Some(basis) = reconstruct_nullspace(&residues, &modulus, pivots, &free, m.cols)
+                && check_nullspace(&ints, &basis)
+            {
+                return basis;
+            }
         }
     }
     echelon::nullspace(&Rationals, m)
+}
+
+/// Number of 28-bit primes whose product exceeds 2 H^2, with H the Hadamard bound of the
+/// largest square minor (product of the `r` largest row norms): enough for rational
+/// reconstruction of every entry of the reduced echelon form.
+fn primes_needed(rows: &[Vec<BigInt>], r: usize) -> usize {
+    let mut logs: Vec<f64> = rows
+        .iter()
+        .map(|row| {
+            let s: f64 = row
+                .iter()
+                .map(|x| x.to_f64().unwrap_or(f64::MAX).powi(2))
+                .sum();
+            0.5 * s.max(1.0).log2()
+        })
+        .collect();
+    logs.sort_by(|a, b| b.total_cmp(a));
+    let log_h: f64 = logs.iter().take(r).sum();
+    ((2.0 * log_h + 2.0) / (KERNEL_PRIME_BITS as f64 - 1.0)).ceil() as usize + 1
 }
 
 fn free_columns(cols: usize, pivots: &[usize]) -> Vec<usize> {
@@ -290,13 +329,12 @@ fn check_nullspace(rows: &[Vec<BigInt>], basis: &[Vec<Q>]) -> bool {
 /// Rank and nullspace of a matrix with small integer entries given as i64, over Q.
 /// Convenience for callers that build integer systems.
 pub fn rank_q_i64(rows: usize, cols: usize, data: &[i64]) -> usize {
-    let m = Matrix { rows, cols, data: data.iter().map(|&x| Q::from_integer(x.into())).collect() };
+    let m = Matrix {
+        rows,
+        cols,
+        data: data.iter().map(|&x| Q::from_integer(x.into())).collect(),
+    };
     rank_q(&m)
-}
-
-#[allow(dead_code)]
-fn max_abs(rows: &[Vec<BigInt>]) -> BigInt {
-    rows.iter().flatten().map(|x| x.abs()).max().unwrap_or_default()
 }
 
 #[cfg(test)]
@@ -320,7 +358,11 @@ mod tests {
     #[test]
     fn kernel_rank_mod() {
         let p = kernel_primes(1)[0];
-        let m = Matrix { rows: 3, cols: 3, data: vec![1, 2, 3, 4, 5, 6, 7, 8, 9] };
+        let m = Matrix {
+            rows: 3,
+            cols: 3,
+            data: vec![1, 2, 3, 4, 5, 6, 7, 8, 9],
+        };
         assert_eq!(rank_mod(m, p), 2);
     }
 }

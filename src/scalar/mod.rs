@@ -98,19 +98,24 @@ impl FieldSpec {
             return Ok(FieldSpec::Rational);
         }
         let inner = if let Some(r) = t.strip_prefix("GF(").or_else(|| t.strip_prefix("gf(")) {
-            r.strip_suffix(')')
-                .ok_or_else(|| format!("expected `GF(p)` with a closing parenthesis, found `{t}`"))?
+            r.strip_suffix(')').ok_or_else(|| {
+                format!("expected `GF(p)` with a closing parenthesis, found `{t}`")
+            })?
         } else if let Some(r) = t.strip_prefix("F_").or_else(|| t.strip_prefix("GF")) {
             r
         } else {
             return Err(format!("expected a field `Q` or `GF(p)`, found `{t}`"));
         };
-        let p: u64 = inner
-            .trim()
-            .parse()
-            .map_err(|_| format!("expected a prime number inside GF(...), found `{}`", inner.trim()))?;
+        let p: u64 = inner.trim().parse().map_err(|_| {
+            format!(
+                "expected a prime number inside GF(...), found `{}`",
+                inner.trim()
+            )
+        })?;
         if p >= 1 << 63 {
-            return Err(format!("the prime {p} is too large: bilin supports p < 2^63"));
+            return Err(format!(
+                "the prime {p} is too large: bilin supports p < 2^63"
+            ));
         }
         if !is_prime(p) {
             return Err(format!("{p} is not a prime, so GF({p}) is not a field"));

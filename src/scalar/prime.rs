@@ -17,7 +17,11 @@ impl PrimeField {
     /// GF(p). The caller guarantees that p is a prime below 2^63 (see [`super::is_prime`]);
     /// returns `None` otherwise.
     pub fn new(p: u64) -> Option<Self> {
-        if p < (1 << 63) && super::is_prime(p) { Some(PrimeField { p }) } else { None }
+        if p < (1 << 63) && super::is_prime(p) {
+            Some(PrimeField { p })
+        } else {
+            None
+        }
     }
 
     /// The modulus.
@@ -55,7 +59,11 @@ impl PrimeField {
 
     /// The symmetric representative in `(-p/2, p/2]` as i64.
     pub fn symmetric(&self, a: u64) -> i64 {
-        if a > self.p / 2 { a as i64 - self.p as i64 } else { a as i64 }
+        if a > self.p / 2 {
+            a as i64 - self.p as i64
+        } else {
+            a as i64
+        }
     }
 }
 

@@ -66,7 +66,10 @@ mod tests {
     #[test]
     fn small_primes() {
         let ps: Vec<u64> = (0..50).filter(|&n| is_prime(n)).collect();
-        assert_eq!(ps, vec![2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47]);
+        assert_eq!(
+            ps,
+            vec![2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47]
+        );
         assert!(is_prime((1 << 61) - 1)); // Mersenne prime M61 (common practice)
         assert!(!is_prime(3_215_031_751)); // strong pseudoprime to bases 2,3,5,7 (from memory)
         assert_eq!(word_primes(2), vec![2147483647, 2147483629]);

@@ -51,7 +51,8 @@ fn parse_int(s: &str) -> Result<BigInt, String> {
     if digits.is_empty() || !digits.bytes().all(|b| b.is_ascii_digit()) {
         return Err(format!("expected an integer, found `{t}`"));
     }
-    t.parse::<BigInt>().map_err(|_| format!("expected an integer, found `{t}`"))
+    t.parse::<BigInt>()
+        .map_err(|_| format!("expected an integer, found `{t}`"))
 }
 
 fn parse_decimal(t: &str) -> Result<Q, String> {
@@ -59,16 +60,16 @@ fn parse_decimal(t: &str) -> Result<Q, String> {
         Some(i) => (&t[..i], &t[i + 1..]),
         None => (t, "0"),
     };
-    let exp: i64 = exp.parse().map_err(|_| format!("expected a decimal exponent, found `{t}`"))?;
+    let exp: i64 = exp
+        .parse()
+        .map_err(|_| format!("expected a decimal exponent, found `{t}`"))?;
     if exp.abs() > 4096 {
         return Err(format!("exponent too large in `{t}` (at most 4096)"));
     }
     let neg = mant.starts_with('-');
     let m = mant.trim_start_matches(['-', '+']);
     let (ip, fp) = m.split_once('.').unwrap_or((m, ""));
-    if ip.is_empty() && fp.is_empty()
-        || !ip.bytes().chain(fp.bytes()).all(|b| b.is_ascii_digit())
-    {
+    if ip.is_empty() && fp.is_empty() || !ip.bytes().chain(fp.bytes()).all(|b| b.is_ascii_digit()) {
         return Err(format!("expected a number, found `{t}`"));
     }
     let digits: BigInt = format!("{ip}{fp}0").parse::<BigInt>().unwrap_or_default() / 10;

@@ -32,7 +32,13 @@ pub struct Scheme {
 impl Scheme {
     /// The empty scheme (rank 0) for a shape.
     pub fn empty(field: FieldSpec, dims: [usize; 3]) -> Self {
-        Scheme { field, dims, u: Vec::new(), v: Vec::new(), w: Vec::new() }
+        Scheme {
+            field,
+            dims,
+            u: Vec::new(),
+            v: Vec::new(),
+            w: Vec::new(),
+        }
     }
 
     /// The number of multiplications.

@@ -74,6 +74,11 @@ pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
     }
     match first {
         None => Ok(()),
-        Some((index, expected, got)) => Err(Mismatch { index, expected, got, count }),
+        Some((index, expected, got)) => Err(Mismatch {
+            index,
+            expected,
+            got,
+            count,
+        }),
     }
 }

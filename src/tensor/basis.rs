@@ -78,7 +78,9 @@ pub fn random_invertible(n: usize, b: i64, seed: u64) -> Matrix<Q> {
         let m = Matrix {
             rows: n,
             cols: n,
-            data: (0..n * n).map(|_| Q::from_integer(rng.gen_range(-b..=b).into())).collect(),
+            data: (0..n * n)
+                .map(|_| Q::from_integer(rng.gen_range(-b..=b).into()))
+                .collect(),
         };
         if inverse(&Rationals, &m).is_some() {
             return m;

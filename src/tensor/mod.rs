@@ -63,19 +63,33 @@ impl Tensor {
         names: Option<[Vec<String>; 3]>,
     ) -> Self {
         if kind == Kind::Algebra {
-            assert!(dims[0] == dims[1] && dims[1] == dims[2], "an algebra has one dimension");
+            assert!(
+                dims[0] == dims[1] && dims[1] == dims[2],
+                "an algebra has one dimension"
+            );
         }
         let names = names.unwrap_or_else(|| default_names(kind, dims));
         for a in 0..3 {
             assert_eq!(names[a].len(), dims[a], "one name per basis vector");
         }
-        Tensor { field, kind, dims, names, products: vec![Vec::new(); dims[0] * dims[1]] }
+        Tensor {
+            field,
+            kind,
+            dims,
+            names,
+            products: vec![Vec::new(); dims[0] * dims[1]],
+        }
     }
 
     /// The zero algebra of dimension n with the given names.
     pub fn algebra(field: FieldSpec, names: Vec<String>) -> Self {
         let n = names.len();
-        Tensor::zero(field, Kind::Algebra, [n; 3], Some([names.clone(), names.clone(), names]))
+        Tensor::zero(
+            field,
+            Kind::Algebra,
+            [n; 3],
+            Some([names.clone(), names.clone(), names]),
+        )
     }
 
     pub fn field(&self) -> FieldSpec {
@@ -117,7 +131,11 @@ impl Tensor {
         }
         let mut t = self.clone();
         t.kind = Kind::Algebra;
-        t.names = [self.names[0].clone(), self.names[0].clone(), self.names[0].clone()];
+        t.names = [
+            self.names[0].clone(),
+            self.names[0].clone(),
+            self.names[0].clone(),
+        ];
         Some(t)
     }
 

@@ -19,7 +19,9 @@ impl<E: Clone> Table<E> {
         let dims = t.dims();
         let mut products = vec![Vec::new(); dims[0] * dims[1]];
         for (i, j, k, v) in t.entries() {
-            let e = f.from_rational(v).expect("coefficient has an image in the field");
+            let e = f
+                .from_rational(v)
+                .expect("coefficient has an image in the field");
             if !f.is_zero(&e) {
                 products[i * dims[1] + j].push((k, e));
             }

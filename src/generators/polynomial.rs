@@ -1,0 +1,122 @@
+//! Polynomial multiplication maps and quotient rings Q[x]/(f).
+//!
+//! `poly_mult(m, n)`: the bilinear map (deg < m) x (deg < n) -> (deg < m+n-1), basis the
+//! monomials `x^i` named `a0..a{m-1}`, `b0..b{n-1}`, `c0..c{m+n-2}`; `a_i * b_j = c_{i+j}`.
+//!
+//! `quotient_ring(f)`: the algebra Q[x]/(f) for `f = f_0 + f_1 x + ... + f_d x^d`
+//! (coefficients lowest degree first, `f_d != 0`, d >= 1), basis `x^0, ..., x^{d-1}` named
+//! `x0, ..., x{d-1}`; `x^i x^j` is the remainder of `x^{i+j}` modulo f. f need not be monic.
+
+use super::{check_dim, check_positive};
+use crate::error::{Error, Result};
+use crate::scalar::{FieldSpec, Q};
+use crate::tensor::{Kind, Tensor};
+use num_traits::{One, Zero};
+
+/// The polynomial multiplication map: `c[i][j][i+j] = 1`. Dimensions `[m, n, m+n-1]`.
+/// Cost: O(mn).
+pub fn poly_mult(m: usize, n: usize) -> Result<Tensor> {
+    let what = format!("polynomial multiplication ({m},{n})");
+    check_positive(&what, "m", m)?;
+    check_positive(&what, "n", n)?;
+    check_dim(&what, Some(m))?;
+    check_dim(&what, Some(n))?;
+    let c = check_dim(&what, (m + n).checked_sub(1))?;
+    let mk = |p: &str, k: usize| (0..k).map(|i| format!("{p}{i}")).collect::<Vec<_>>();
+    let names = [mk("a", m), mk("b", n), mk("c", c)];
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [m, n, c], Some(names));
+    for i in 0..m {
+        for j in 0..n {
+            t.set(i, j, i + j, Q::one());
+        }
+    }
+    Ok(t)
+}
+
+/// The algebra Q[x]/(f), coefficients of f lowest degree first. Errors: degree below 1,
+/// zero leading coefficient, degree above the dimension limit. Cost: O(d^3).
+pub fn quotient_ring(coeffs: &[Q]) -> Result<Tensor> {
+    let Some(lead) = coeffs.last() else {
+        return Err(Error::Invalid(
+            "quotient ring: no coefficients given for f".into(),
+        ));
+    };
+    if lead.is_zero() {
+        return Err(Error::Invalid(
+            "quotient ring: the leading (last) coefficient of f must be nonzero".into(),
+        ));
+    }
+    let d = coeffs.len() - 1;
+    if d == 0 {
+        return Err(Error::Invalid(
+            "quotient ring: f must have degree at least 1 (give at least two coefficients)".into(),
+        ));
+    }
+    check_dim("the quotient ring Q[x]/(f)", Some(d))?;
+    // powers[s] = coordinates of x^s mod f, for s <= 2d-2.
+    let mut powers: Vec<Vec<Q>> = Vec::with_capacity(2 * d - 1);
+    let mut cur = vec![Q::zero(); d];
+    cur[0] = Q::one();
+    for _ in 0..(2 * d - 1) {
+        powers.push(cur.clone());
+        // multiply by x: shift up, reduce x^d = -(1/lead) sum_{k<d} f_k x^k.
+        let top = cur[d - 1].clone();
+        for k in (1..d).rev() {
+            cur[k] = cur[k - 1].clone();
+        }
+        cur[0] = Q::zero();
+        if !top.is_zero() {
+            let s = &top / lead;
+            for (k, fk) in coeffs[..d].iter().enumerate() {
+                cur[k] -= &s * fk;
+            }
+        }
+    }
+    let names = (0..d).map(|i| format!("x{i}")).collect();
+    let mut t = Tensor::algebra(FieldSpec::Rational, names);
+    for i in 0..d {
+        for j in 0..d {
+            for (k, v) in powers[i + j].iter().enumerate() {
+                if !v.is_zero() {
+                    t.set(i, j, k, v.clone());
+                }
+            }
+        }
+    }
+    Ok(t)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scalar::q;
+
+    #[test]
+    fn poly_shape() {
+        let t = poly_mult(3, 2).unwrap();
+        assert_eq!(t.dims(), [3, 2, 4]);
+        assert_eq!(t.get(2, 1, 3), q(1, 1));
+        assert_eq!(t.nnz(), 6);
+        assert!(poly_mult(0, 2).is_err());
+    }
+
+    #[test]
+    fn sqrt2() {
+        // Q[x]/(x^2 - 2): x * x = 2.
+        let t = quotient_ring(&[q(-2, 1), q(0, 1), q(1, 1)]).unwrap();
+        assert_eq!(t.dim(), 2);
+        assert_eq!(t.product(1, 1), &[(0, q(2, 1))]);
+        assert_eq!(t.product(0, 1), &[(1, q(1, 1))]);
+    }
+
+    #[test]
+    fn non_monic_cubic() {
+        // f = 2x^3 - x - 1: x^3 = (x + 1)/2, x^4 = (x^2 + x)/2.
+        let t = quotient_ring(&[q(-1, 1), q(-1, 1), q(0, 1), q(2, 1)]).unwrap();
+        assert_eq!(t.product(1, 2), &[(0, q(1, 2)), (1, q(1, 2))]);
+        assert_eq!(t.product(2, 2), &[(1, q(1, 2)), (2, q(1, 2))]);
+        assert!(quotient_ring(&[q(1, 1)]).is_err());
+        assert!(quotient_ring(&[q(1, 1), q(0, 1)]).is_err());
+        assert!(quotient_ring(&[]).is_err());
+    }
+}
