@@ -139,3 +139,30 @@ fn time_identify_per_entry() {
         println!("{:<20} n={n:<3} fingerprint {:?} identify {:?} keys {}", e.meta.name, t1, t0.elapsed(), fp.entries.len());
     }
 }
+
+/// Cross-check of the hand-written tables against the generators: an entry whose alias is a
+/// generator spec has the same fingerprint as the generated tensor (and, in dimension <= 4,
+/// an explicit isomorphism is found). common practice: two constructions of one algebra.
+#[test]
+fn tables_agree_with_generators() {
+    let params = FingerprintParams::default();
+    let mut compared = 0;
+    for e in catalog::all_entries().unwrap() {
+        for a in &e.meta.aliases {
+            let Ok(g) = bilin::generators::generate(a) else { continue };
+            let t = e.tensor().unwrap();
+            if t.dims()[0] > MAX_IDENTIFY_DIM || g.field() != t.field() {
+                continue;
+            }
+            let (ft, fg) = (catalog::compute_fingerprint(&t, &params), catalog::compute_fingerprint(&g, &params));
+            assert!(ft.differences(&fg).is_empty(), "{} vs generator {a}: {:?}", e.meta.name, ft.differences(&fg));
+            if t.kind() == Kind::Algebra && t.dim() <= 4 {
+                let iso = catalog::find_isomorphism(&g, &t, &catalog::IsoParams { coord_bound: 2, ..Default::default() });
+                assert!(iso.is_some(), "{} vs generator {a}: no isomorphism found", e.meta.name);
+            }
+            compared += 1;
+        }
+    }
+    println!("entries cross-checked against a generator: {compared}");
+    assert!(compared >= 30);
+}
