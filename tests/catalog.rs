@@ -15,7 +15,10 @@ fn embedded_list_matches_directory() {
         .filter(|f| f.ends_with(".bilin"))
         .collect();
     files.sort();
-    let embedded: Vec<String> = catalog::embedded_files().into_iter().map(String::from).collect();
+    let embedded: Vec<String> = catalog::embedded_files()
+        .into_iter()
+        .map(String::from)
+        .collect();
     assert_eq!(files, embedded, "regenerate src/catalog/entries.rs");
 }
 
@@ -26,9 +29,18 @@ fn every_entry_parses_builds_and_has_sources() {
     for e in all {
         let m = &e.meta;
         assert_eq!(format!("{}.bilin", m.name), e.file, "name matches the file");
-        assert!(!m.sources.is_empty(), "{}: a source for the definition", m.name);
+        assert!(
+            !m.sources.is_empty(),
+            "{}: a source for the definition",
+            m.name
+        );
         for f in &m.facts {
-            assert!(!f.source.trim().is_empty(), "{}: fact {} has a source", m.name, f.key);
+            assert!(
+                !f.source.trim().is_empty(),
+                "{}: fact {} has a source",
+                m.name,
+                f.key
+            );
         }
         e.tensor().unwrap_or_else(|err| panic!("{}: {err}", m.name));
     }
@@ -41,7 +53,10 @@ fn names_and_aliases_are_unique() {
     for e in all {
         for n in std::iter::once(&e.meta.name).chain(&e.meta.aliases) {
             let k = n.to_lowercase();
-            assert!(seen.insert(k.clone(), e.meta.name.clone()).is_none(), "`{n}` names two entries");
+            assert!(
+                seen.insert(k.clone(), e.meta.name.clone()).is_none(),
+                "`{n}` names two entries"
+            );
         }
     }
     assert!(catalog::catalog_tensor("H").is_some());
@@ -60,12 +75,18 @@ fn stored_facts_agree_with_bilin() {
         for f in &e.meta.facts {
             match catalog::check_fact(f, &fp, &t) {
                 FactCheck::Agrees => agree += 1,
-                FactCheck::Disagrees(v) => bad.push(format!("{}: {} stored {} computed {v} (source: {})", e.meta.name, f.key, f.value, f.source)),
+                FactCheck::Disagrees(v) => bad.push(format!(
+                    "{}: {} stored {} computed {v} (source: {})",
+                    e.meta.name, f.key, f.value, f.source
+                )),
                 FactCheck::NotComputable(_) => not_comp += 1,
             }
         }
     }
-    println!("catalog facts: {agree} recomputed and agree, {} disagree, {not_comp} not computable by bilin", bad.len());
+    println!(
+        "catalog facts: {agree} recomputed and agree, {} disagree, {not_comp} not computable by bilin",
+        bad.len()
+    );
     assert!(bad.is_empty(), "{bad:#?}");
     assert!(agree > 200);
 }
@@ -75,7 +96,10 @@ fn docs_page_is_current() {
     let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("docs/catalog.md");
     let on_disk = std::fs::read_to_string(path).unwrap_or_default();
     let generated = catalog::doc::render_markdown().unwrap();
-    assert!(on_disk == generated, "docs/catalog.md is stale: run `bilin catalog doc > docs/catalog.md`");
+    assert!(
+        on_disk == generated,
+        "docs/catalog.md is stale: run `bilin catalog doc > docs/catalog.md`"
+    );
 }
 
 /// Largest algebra dimension the identification test covers: 16 in release builds, 6 in
@@ -100,7 +124,11 @@ fn identify_finds_each_entry_after_a_change_of_basis() {
                 continue;
             }
             // a matrix invertible over the entry's field (over GF(2) some are singular)
-            (0..100).find_map(|k| change_basis_algebra(&t, &random_invertible(d[0], 1, seed + 7919 * k))).unwrap()
+            (0..100)
+                .find_map(|k| {
+                    change_basis_algebra(&t, &random_invertible(d[0], 1, seed + 7919 * k))
+                })
+                .unwrap()
         } else {
             if d.iter().max().unwrap() > &12 {
                 continue;
@@ -111,9 +139,14 @@ fn identify_finds_each_entry_after_a_change_of_basis() {
         params.search_isomorphism = t.kind() == Kind::Algebra && d[0] <= 4;
         let id = catalog::identify(&u, &params).unwrap();
         let hit = id.matches.iter().find(|m| m.name == e.meta.name);
-        let hit = hit.unwrap_or_else(|| panic!("{} not identified; near: {:?}", e.meta.name, id.near));
+        let hit =
+            hit.unwrap_or_else(|| panic!("{} not identified; near: {:?}", e.meta.name, id.near));
         if params.search_isomorphism {
-            assert!(matches!(hit.iso, IsoOutcome::Found(_)), "{}: no isomorphism found", e.meta.name);
+            assert!(
+                matches!(hit.iso, IsoOutcome::Found(_)),
+                "{}: no isomorphism found",
+                e.meta.name
+            );
             found_iso += 1;
         }
     }
@@ -131,12 +164,20 @@ fn time_identify_per_entry() {
             continue;
         }
         let n = t.dim();
-        let u = (0..100).find_map(|k| change_basis_algebra(&t, &random_invertible(n, 1, s as u64 + 7919 * k))).unwrap();
+        let u = (0..100)
+            .find_map(|k| change_basis_algebra(&t, &random_invertible(n, 1, s as u64 + 7919 * k)))
+            .unwrap();
         let t0 = std::time::Instant::now();
         let fp = catalog::compute_fingerprint(&u, &FingerprintParams::default());
         let t1 = t0.elapsed();
         let _ = catalog::identify(&u, &params).unwrap();
-        println!("{:<20} n={n:<3} fingerprint {:?} identify {:?} keys {}", e.meta.name, t1, t0.elapsed(), fp.entries.len());
+        println!(
+            "{:<20} n={n:<3} fingerprint {:?} identify {:?} keys {}",
+            e.meta.name,
+            t1,
+            t0.elapsed(),
+            fp.entries.len()
+        );
     }
 }
 
@@ -149,16 +190,37 @@ fn tables_agree_with_generators() {
     let mut compared = 0;
     for e in catalog::all_entries().unwrap() {
         for a in &e.meta.aliases {
-            let Ok(g) = bilin::generators::generate(a) else { continue };
+            let Ok(g) = bilin::generators::generate(a) else {
+                continue;
+            };
             let t = e.tensor().unwrap();
             if t.dims()[0] > MAX_IDENTIFY_DIM || g.field() != t.field() {
                 continue;
             }
-            let (ft, fg) = (catalog::compute_fingerprint(&t, &params), catalog::compute_fingerprint(&g, &params));
-            assert!(ft.differences(&fg).is_empty(), "{} vs generator {a}: {:?}", e.meta.name, ft.differences(&fg));
+            let (ft, fg) = (
+                catalog::compute_fingerprint(&t, &params),
+                catalog::compute_fingerprint(&g, &params),
+            );
+            assert!(
+                ft.differences(&fg).is_empty(),
+                "{} vs generator {a}: {:?}",
+                e.meta.name,
+                ft.differences(&fg)
+            );
             if t.kind() == Kind::Algebra && t.dim() <= 4 {
-                let iso = catalog::find_isomorphism(&g, &t, &catalog::IsoParams { coord_bound: 2, ..Default::default() });
-                assert!(iso.is_some(), "{} vs generator {a}: no isomorphism found", e.meta.name);
+                let iso = catalog::find_isomorphism(
+                    &g,
+                    &t,
+                    &catalog::IsoParams {
+                        coord_bound: 2,
+                        ..Default::default()
+                    },
+                );
+                assert!(
+                    iso.is_some(),
+                    "{} vs generator {a}: no isomorphism found",
+                    e.meta.name
+                );
             }
             compared += 1;
         }

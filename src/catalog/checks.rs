@@ -41,7 +41,9 @@ pub fn is_alternative(d: &Dense, assoc: &[Vec<Q>]) -> bool {
         (0..n).all(|k| {
             d.is_zero_vec(a(i, i, k))
                 && d.is_zero_vec(a(k, i, i))
-                && (0..n).all(|j| sum_zero(d, a(i, j, k), a(j, i, k)) && sum_zero(d, a(k, i, j), a(k, j, i)))
+                && (0..n).all(|j| {
+                    sum_zero(d, a(i, j, k), a(j, i, k)) && sum_zero(d, a(k, i, j), a(k, j, i))
+                })
         })
     })
 }
@@ -51,7 +53,9 @@ pub fn is_flexible(d: &Dense, assoc: &[Vec<Q>]) -> bool {
     let n = d.n;
     let a = |i: usize, j: usize, k: usize| &assoc[(i * n + j) * n + k];
     (0..n).all(|i| {
-        (0..n).all(|j| d.is_zero_vec(a(i, j, i)) && (0..n).all(|k| sum_zero(d, a(i, j, k), a(k, j, i))))
+        (0..n).all(|j| {
+            d.is_zero_vec(a(i, j, i)) && (0..n).all(|k| sum_zero(d, a(i, j, k), a(k, j, i)))
+        })
     })
 }
 

@@ -29,8 +29,15 @@ impl Dense {
         for (i, j, k, v) in t.entries() {
             c[(i * n + j) * n + k] = v.clone();
         }
-        let prods = (0..n * n).map(|ij| t.product(ij / n, ij % n).to_vec()).collect();
-        Dense { field: t.field(), n, c, prods }
+        let prods = (0..n * n)
+            .map(|ij| t.product(ij / n, ij % n).to_vec())
+            .collect();
+        Dense {
+            field: t.field(),
+            n,
+            c,
+            prods,
+        }
     }
 
     /// The coefficient of `e_k` in `e_i e_j`.
@@ -60,7 +67,9 @@ impl Dense {
             FieldSpec::Rational => v,
             FieldSpec::Prime(p) => {
                 let f = crate::scalar::PrimeField::new(p).expect("a prime field");
-                v.iter().map(|x| f.to_rational(&f.from_rational(x).unwrap_or(0))).collect()
+                v.iter()
+                    .map(|x| f.to_rational(&f.from_rational(x).unwrap_or(0)))
+                    .collect()
             }
         }
     }
@@ -91,7 +100,11 @@ impl Dense {
         let n = self.n;
         let mut out = vec![Q::zero(); n];
         for (m, x) in ab {
-            let row = if left { &self.prods[m * n + c] } else { &self.prods[c * n + m] };
+            let row = if left {
+                &self.prods[m * n + c]
+            } else {
+                &self.prods[c * n + m]
+            };
             for (k, y) in row {
                 out[*k] += x * y;
             }
@@ -122,7 +135,11 @@ impl Dense {
             return 0;
         }
         let r = rows.len();
-        let m = Matrix { rows: r, cols, data: rows.into_iter().flatten().collect() };
+        let m = Matrix {
+            rows: r,
+            cols,
+            data: rows.into_iter().flatten().collect(),
+        };
         rank_over(self.field, &m)
     }
 
@@ -158,7 +175,17 @@ impl Dense {
     /// The standard basis of the whole algebra.
     pub fn full_basis(&self) -> Vec<Vec<Q>> {
         (0..self.n)
-            .map(|i| (0..self.n).map(|j| if i == j { Q::from_integer(1.into()) } else { Q::zero() }).collect())
+            .map(|i| {
+                (0..self.n)
+                    .map(|j| {
+                        if i == j {
+                            Q::from_integer(1.into())
+                        } else {
+                            Q::zero()
+                        }
+                    })
+                    .collect()
+            })
             .collect()
     }
 }

@@ -9,7 +9,10 @@ use std::fmt::Write;
 
 /// Families in the order the page lists them, with a heading each.
 const FAMILIES: &[(&str, &str)] = &[
-    ("cayley-dickson", "Number systems and Cayley-Dickson algebras"),
+    (
+        "cayley-dickson",
+        "Number systems and Cayley-Dickson algebras",
+    ),
     ("number-field", "Number fields"),
     ("finite-field", "Finite fields over GF(2)"),
     ("matrix", "Matrix algebras and subalgebras"),
@@ -90,13 +93,19 @@ pub fn render_markdown() -> Result<String, Error> {
         if members.is_empty() {
             continue;
         }
-        let names: Vec<String> = members.iter().map(|e| format!("`{}`", e.meta.name)).collect();
+        let names: Vec<String> = members
+            .iter()
+            .map(|e| format!("`{}`", e.meta.name))
+            .collect();
         let _ = writeln!(out, "## {heading}\n\n{}\n", names.join(", "));
         for e in members {
             entry_section(&mut out, e);
         }
     }
-    let others: Vec<&Entry> = all.iter().filter(|e| !FAMILIES.iter().any(|(f, _)| *f == e.meta.family)).collect();
+    let others: Vec<&Entry> = all
+        .iter()
+        .filter(|e| !FAMILIES.iter().any(|(f, _)| *f == e.meta.family))
+        .collect();
     if !others.is_empty() {
         let _ = writeln!(out, "## Other entries\n");
         for e in others {

@@ -33,12 +33,16 @@ pub fn computed_value(key: &str, fp: &Fingerprint, t: &Tensor) -> Result<String,
     let flag = |k: &str| matches!(fp.get(k), Some(Value::Bool(true)));
     let char0 = t.field().characteristic() == 0;
     let n = t.dims()[0];
-    let get = |k: &str| fp.get(k).map(as_text).ok_or_else(|| format!("`{k}` is not computed for this input"));
+    let get = |k: &str| {
+        fp.get(k)
+            .map(as_text)
+            .ok_or_else(|| format!("`{k}` is not computed for this input"))
+    };
     match key {
         "dimension" => Ok(n.to_string()),
-        "dims" | "flattening" | "commutative" | "anticommutative" | "associative" | "alternative"
-        | "flexible" | "lie" | "jordan" | "unital" | "annihilator" | "commutant" | "nucleus" | "centre"
-        | "derivations" | "squares" => get(key),
+        "dims" | "flattening" | "commutative" | "anticommutative" | "associative"
+        | "alternative" | "flexible" | "lie" | "jordan" | "unital" | "annihilator"
+        | "commutant" | "nucleus" | "centre" | "derivations" | "squares" => get(key),
         "derived" => match fp.get("derived.series") {
             Some(Value::Ints(v)) => Ok(v.get(1).copied().unwrap_or(v[0]).to_string()),
             _ => Err("the derived series is computed for algebras only".into()),
@@ -48,16 +52,29 @@ pub fn computed_value(key: &str, fp: &Fingerprint, t: &Tensor) -> Result<String,
             Some(Value::Int(r)) => Ok((n - r).to_string()),
             _ => Err("no trace form".into()),
         },
-        "semisimple" if (flag("associative") || flag("lie")) && char0 => match fp.get("trace.rank") {
+        "semisimple" if (flag("associative") || flag("lie")) && char0 => match fp.get("trace.rank")
+        {
             Some(Value::Int(r)) => Ok(if *r == n { "yes" } else { "no" }.into()),
             _ => Err("no trace form".into()),
         },
-        "nilpotent" if flag("lie") => Ok(if last(fp.get("lower.central")) == Some(0) { "yes" } else { "no" }.into()),
-        "solvable" if flag("lie") => Ok(if last(fp.get("derived.series")) == Some(0) { "yes" } else { "no" }.into()),
-        "killing.rank" | "radical" | "semisimple" | "nilpotent" | "solvable" => {
-            Err(format!("`{key}` is computed only for Lie (or, for radical/semisimple, associative) algebras over Q"))
+        "nilpotent" if flag("lie") => Ok(if last(fp.get("lower.central")) == Some(0) {
+            "yes"
+        } else {
+            "no"
         }
-        "rank.upper" | "rank.lower" => Err("tensor rank bounds are not recomputed by the catalog".into()),
+        .into()),
+        "solvable" if flag("lie") => Ok(if last(fp.get("derived.series")) == Some(0) {
+            "yes"
+        } else {
+            "no"
+        }
+        .into()),
+        "killing.rank" | "radical" | "semisimple" | "nilpotent" | "solvable" => Err(format!(
+            "`{key}` is computed only for Lie (or, for radical/semisimple, associative) algebras over Q"
+        )),
+        "rank.upper" | "rank.lower" => {
+            Err("tensor rank bounds are not recomputed by the catalog".into())
+        }
         _ => Err(format!("no computation for the fact key `{key}`")),
     }
 }
@@ -68,7 +85,10 @@ pub fn check_fact(fact: &Fact, fp: &Fingerprint, t: &Tensor) -> FactCheck {
         && !d.eq_ignore_ascii_case(&t.field().name())
         && !fact.key.starts_with("rank.")
     {
-        return FactCheck::NotComputable(format!("the fact refers to {d}, the table is over {}", t.field()));
+        return FactCheck::NotComputable(format!(
+            "the fact refers to {d}, the table is over {}",
+            t.field()
+        ));
     }
     match computed_value(&fact.key, fp, t) {
         Ok(v) if v == fact.value => FactCheck::Agrees,

@@ -49,7 +49,12 @@ impl std::fmt::Display for Value {
         match self {
             Value::Bool(b) => f.write_str(if *b { "yes" } else { "no" }),
             Value::Int(n) => write!(f, "{n}"),
-            Value::Ints(v) => f.write_str(&v.iter().map(|x| x.to_string()).collect::<Vec<_>>().join(",")),
+            Value::Ints(v) => f.write_str(
+                &v.iter()
+                    .map(|x| x.to_string())
+                    .collect::<Vec<_>>()
+                    .join(","),
+            ),
             Value::Text(s) => f.write_str(s),
             Value::SquareClass(q) => f.write_str(&square_class_text(q)),
         }
@@ -95,7 +100,11 @@ pub struct FingerprintParams {
 
 impl Default for FingerprintParams {
     fn default() -> Self {
-        FingerprintParams { seed: 1, slice_trials: 3, max_dim_derivations: 16 }
+        FingerprintParams {
+            seed: 1,
+            slice_trials: 3,
+            max_dim_derivations: 16,
+        }
     }
 }
 
@@ -106,7 +115,8 @@ fn generic_slice_rank(t: &Tensor, axis: usize, params: &FingerprintParams) -> us
     if sl.is_empty() {
         return 0;
     }
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ (axis as u64 + 1) * 0x9e37_79b9);
+    let mut rng =
+        rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ ((axis as u64 + 1) * 0x9e37_79b9));
     let bound: i64 = match t.field() {
         FieldSpec::Rational => 1000,
         FieldSpec::Prime(p) => (p as i64 - 1).clamp(1, 1000),
@@ -140,16 +150,28 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     fp.push("field", Value::Text(t.field().name()));
     fp.push("dims", Value::Ints(t.dims().to_vec()));
     fp.push("flattening", Value::Ints(flattening_ranks(t).to_vec()));
-    fp.push("slice.generic", Value::Ints((0..3).map(|a| generic_slice_rank(t, a, params)).collect()));
+    fp.push(
+        "slice.generic",
+        Value::Ints((0..3).map(|a| generic_slice_rank(t, a, params)).collect()),
+    );
     if t.kind() != Kind::Algebra {
         return fp;
     }
     let d = Dense::new(t);
     let assoc = d.associators();
     fp.push("commutative", Value::Bool(checks::is_commutative(&d)));
-    fp.push("anticommutative", Value::Bool(checks::is_anticommutative(&d)));
-    fp.push("associative", Value::Bool(checks::is_associative(&d, &assoc)));
-    fp.push("alternative", Value::Bool(checks::is_alternative(&d, &assoc)));
+    fp.push(
+        "anticommutative",
+        Value::Bool(checks::is_anticommutative(&d)),
+    );
+    fp.push(
+        "associative",
+        Value::Bool(checks::is_associative(&d, &assoc)),
+    );
+    fp.push(
+        "alternative",
+        Value::Bool(checks::is_alternative(&d, &assoc)),
+    );
     fp.push("flexible", Value::Bool(checks::is_flexible(&d, &assoc)));
     fp.push("lie", Value::Bool(checks::is_lie(&d)));
     if let Some(j) = checks::is_jordan(&d) {
@@ -165,7 +187,10 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     }
     fp.push("squares", Value::Int(spaces::squares_dim(&d)));
     fp.push("derived.series", Value::Ints(spaces::derived_series(&d)));
-    fp.push("lower.central", Value::Ints(spaces::lower_central_series(&d)));
+    fp.push(
+        "lower.central",
+        Value::Ints(spaces::lower_central_series(&d)),
+    );
     let tl = traceform::form_invariants(&d, &traceform::trace_form(&d, true));
     fp.push("trace.rank", Value::Int(tl.rank));
     if let Some((p, m)) = tl.signature {
@@ -189,8 +214,12 @@ mod tests {
     fn quaternions() -> Tensor {
         let names = ["one", "i", "j", "k"].map(String::from).to_vec();
         let mut t = Tensor::algebra(FieldSpec::Rational, names);
-        let tab = [[(0, 1), (1, 1), (2, 1), (3, 1)], [(1, 1), (0, -1), (3, 1), (2, -1)],
-                   [(2, 1), (3, -1), (0, -1), (1, 1)], [(3, 1), (2, 1), (1, -1), (0, -1)]];
+        let tab = [
+            [(0, 1), (1, 1), (2, 1), (3, 1)],
+            [(1, 1), (0, -1), (3, 1), (2, -1)],
+            [(2, 1), (3, -1), (0, -1), (1, 1)],
+            [(3, 1), (2, 1), (1, -1), (0, -1)],
+        ];
         for (i, row) in tab.iter().enumerate() {
             for (j, &(k, s)) in row.iter().enumerate() {
                 t.set(i, j, k, q(s, 1));

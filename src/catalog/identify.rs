@@ -113,14 +113,21 @@ pub fn identify(t: &Tensor, params: &IdentifyParams) -> Result<Identification, E
             } else if t.kind() != crate::tensor::Kind::Algebra {
                 IsoOutcome::NotAttempted("the search handles algebras only".into())
             } else if t.dim() > params.iso.max_dim {
-                IsoOutcome::NotAttempted(format!("dimension {} is above the search limit {}", t.dim(), params.iso.max_dim))
+                IsoOutcome::NotAttempted(format!(
+                    "dimension {} is above the search limit {}",
+                    t.dim(),
+                    params.iso.max_dim
+                ))
             } else {
                 match find_isomorphism(t, &et, &params.iso) {
                     Some(m) => IsoOutcome::Found(m),
                     None => IsoOutcome::NotFound,
                 }
             };
-            matches.push(Match { name: e.meta.name.clone(), iso });
+            matches.push(Match {
+                name: e.meta.name.clone(),
+                iso,
+            });
         } else if diff.len() <= params.max_near_differences {
             let differences = diff
                 .into_iter()
@@ -130,9 +137,16 @@ pub fn identify(t: &Tensor, params: &IdentifyParams) -> Result<Identification, E
                     (k, a, b)
                 })
                 .collect();
-            near.push(NearMatch { name: e.meta.name.clone(), differences });
+            near.push(NearMatch {
+                name: e.meta.name.clone(),
+                differences,
+            });
         }
     }
     near.sort_by_key(|n| n.differences.len());
-    Ok(Identification { fingerprint: fp, matches, near })
+    Ok(Identification {
+        fingerprint: fp,
+        matches,
+        near,
+    })
 }

@@ -32,7 +32,11 @@ pub struct IsoParams {
 
 impl Default for IsoParams {
     fn default() -> Self {
-        IsoParams { coord_bound: 1, max_nodes: 200_000, max_dim: 4 }
+        IsoParams {
+            coord_bound: 1,
+            max_nodes: 200_000,
+            max_dim: 4,
+        }
     }
 }
 
@@ -40,7 +44,11 @@ impl Default for IsoParams {
 fn express(field: crate::scalar::FieldSpec, cols: &[Vec<Q>], v: &[Q]) -> Option<Vec<Q>> {
     let n = v.len();
     if cols.is_empty() {
-        return if v.iter().all(|x| x.is_zero()) { Some(Vec::new()) } else { None };
+        return if v.iter().all(|x| x.is_zero()) {
+            Some(Vec::new())
+        } else {
+            None
+        };
     }
     crate::with_field!(field, f => {
         let mut data = Vec::with_capacity(n * cols.len());
@@ -140,7 +148,11 @@ fn satisfies_relation(d: &Dense, start: &[Vec<Q>], h: &[Q], rel: &(usize, Vec<Q>
 /// Cost: at most `max_nodes` candidate checks, each O(n^4) exact operations.
 pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Matrix<Q>> {
     let n = x.dim();
-    if x.kind() != Kind::Algebra || e.kind() != Kind::Algebra || e.dim() != n || x.field() != e.field() {
+    if x.kind() != Kind::Algebra
+        || e.kind() != Kind::Algebra
+        || e.dim() != n
+        || x.field() != e.field()
+    {
         return None;
     }
     if n > params.max_dim {
@@ -156,7 +168,10 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
     if ux.is_some() != ue.is_some() {
         return None;
     }
-    let start = Words { xs: ux.clone().into_iter().collect(), es: ue.clone().into_iter().collect() };
+    let start = Words {
+        xs: ux.clone().into_iter().collect(),
+        es: ue.clone().into_iter().collect(),
+    };
     let start = close(&dx, &de, start)?;
     // generators of X among its basis vectors
     let basis = dx.full_basis();
@@ -165,7 +180,10 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
     for (i, b) in basis.iter().enumerate() {
         if express(dx.field, &span, b).is_none() {
             gens.push(i);
-            let w = Words { xs: span.clone(), es: span.clone() };
+            let w = Words {
+                xs: span.clone(),
+                es: span.clone(),
+            };
             let mut w = w;
             w.xs.push(b.clone());
             w.es.push(b.clone());
@@ -200,7 +218,10 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
                 continue;
             }
             let v = de.reduce(v);
-            if rel.as_ref().is_none_or(|r| satisfies_relation(&de, &unit_start, &v, r)) {
+            if rel
+                .as_ref()
+                .is_none_or(|r| satisfies_relation(&de, &unit_start, &v, r))
+            {
                 list.push(v);
             }
         }
@@ -213,9 +234,18 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
         let l = express(dx.field, &m.xs, bj)?;
         cols.push(combine(&de, &l, &m.es));
     }
-    let mat = Matrix { rows: n, cols: n, data: (0..n).flat_map(|r| cols.iter().map(move |c| c[r].clone())).collect::<Vec<_>>() };
+    let mat = Matrix {
+        rows: n,
+        cols: n,
+        data: (0..n)
+            .flat_map(|r| cols.iter().map(move |c| c[r].clone()))
+            .collect::<Vec<_>>(),
+    };
     let y = change_basis_algebra(e, &mat)?;
-    let agree = y.entries().map(|(i, j, k, v)| (i, j, k, v.clone())).eq(x.entries().map(|(i, j, k, v)| (i, j, k, v.clone())));
+    let agree = y
+        .entries()
+        .map(|(i, j, k, v)| (i, j, k, v.clone()))
+        .eq(x.entries().map(|(i, j, k, v)| (i, j, k, v.clone())));
     agree.then_some(mat)
 }
 

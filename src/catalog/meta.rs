@@ -48,7 +48,8 @@ pub struct Meta {
 impl Meta {
     /// True if `name` is the entry's name or one of its aliases (case-insensitive).
     pub fn is_named(&self, name: &str) -> bool {
-        self.name.eq_ignore_ascii_case(name) || self.aliases.iter().any(|a| a.eq_ignore_ascii_case(name))
+        self.name.eq_ignore_ascii_case(name)
+            || self.aliases.iter().any(|a| a.eq_ignore_ascii_case(name))
     }
 
     /// The stored facts with a given key.
@@ -73,9 +74,15 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
     let mut generate = None;
     let mut facts = Vec::new();
     for (ln, line) in text.lines().enumerate() {
-        let Some(rest) = line.trim_start().strip_prefix("#:") else { continue };
+        let Some(rest) = line.trim_start().strip_prefix("#:") else {
+            continue;
+        };
         let at = |message: String| Error::Parse {
-            at: Position { source: source.to_string(), line: ln + 1, column: 1 },
+            at: Position {
+                source: source.to_string(),
+                line: ln + 1,
+                column: 1,
+            },
             message,
         };
         let rest = rest.trim();
@@ -87,17 +94,26 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
         match key {
             "name" => name = Some(value.to_string()),
             "aliases" => aliases.extend(
-                value.split(", ").map(str::trim).filter(|s| !s.is_empty()).map(String::from),
+                value
+                    .split(", ")
+                    .map(str::trim)
+                    .filter(|s| !s.is_empty())
+                    .map(String::from),
             ),
             "family" => family = Some(value.to_string()),
             "about" => about = Some(value.to_string()),
             "source" => sources.push(value.to_string()),
             "generate" => generate = Some(value.to_string()),
             "fact" => facts.push(parse_fact(value).map_err(at)?),
-            _ => return Err(at(format!("unknown metadata key `{key}` (expected name, aliases, family, about, source, generate or fact)"))),
+            _ => {
+                return Err(at(format!(
+                    "unknown metadata key `{key}` (expected name, aliases, family, about, source, generate or fact)"
+                )));
+            }
         }
     }
-    let missing = |k: &str| Error::Invalid(format!("{source}: the catalog entry has no `#: {k}` line"));
+    let missing =
+        |k: &str| Error::Invalid(format!("{source}: the catalog entry has no `#: {k}` line"));
     let meta = Meta {
         name: name.ok_or_else(|| missing("name"))?,
         aliases,
@@ -123,7 +139,9 @@ fn parse_fact(text: &str) -> Result<Fact, String> {
     let mut tail = parts.next().unwrap_or("").trim();
     let mut domain = None;
     if let Some(r) = tail.strip_prefix("domain") {
-        let (d, t) = r.split_once(';').ok_or_else(|| "a fact's `domain D` must be followed by `; source ...`".to_string())?;
+        let (d, t) = r
+            .split_once(';')
+            .ok_or_else(|| "a fact's `domain D` must be followed by `; source ...`".to_string())?;
         domain = Some(d.trim().to_string());
         tail = t.trim();
     }
@@ -136,7 +154,12 @@ fn parse_fact(text: &str) -> Result<Fact, String> {
     if key.is_empty() || value.is_empty() {
         return Err(format!("a fact needs a key and a value, found `{text}`"));
     }
-    Ok(Fact { key, value, domain, source: source.to_string() })
+    Ok(Fact {
+        key,
+        value,
+        domain,
+        source: source.to_string(),
+    })
 }
 
 #[cfg(test)]

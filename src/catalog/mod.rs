@@ -24,7 +24,7 @@ mod traceform;
 
 pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};
-pub use identify::{IdentifyParams, Identification, IsoOutcome, identify};
+pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
 pub use store::{Entry, all_entries, catalog_tensor, find_entry};

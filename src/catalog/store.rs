@@ -27,7 +27,11 @@ impl Entry {
 
     /// The table part of the file (every line that is not a `#:` metadata line).
     pub fn table_text(&self) -> String {
-        self.text.lines().filter(|l| !l.trim_start().starts_with("#:")).map(|l| format!("{l}\n")).collect()
+        self.text
+            .lines()
+            .filter(|l| !l.trim_start().starts_with("#:"))
+            .map(|l| format!("{l}\n"))
+            .collect()
     }
 }
 
@@ -45,13 +49,17 @@ pub fn all_entries() -> Result<&'static [Entry], Error> {
             })
             .collect()
     });
-    parsed.as_deref().map_err(|e| Error::Invalid(format!("malformed catalog entry: {e}")))
+    parsed
+        .as_deref()
+        .map_err(|e| Error::Invalid(format!("malformed catalog entry: {e}")))
 }
 
 /// The entry with this name or alias (case-insensitive), if any.
 pub fn find_entry(name: &str) -> Option<&'static Entry> {
     let all = all_entries().ok()?;
-    all.iter().find(|e| e.meta.name.eq_ignore_ascii_case(name)).or_else(|| all.iter().find(|e| e.meta.is_named(name)))
+    all.iter()
+        .find(|e| e.meta.name.eq_ignore_ascii_case(name))
+        .or_else(|| all.iter().find(|e| e.meta.is_named(name)))
 }
 
 /// The tensor of the catalog entry with this name or alias: the hook the input loader uses

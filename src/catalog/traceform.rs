@@ -23,6 +23,7 @@ pub struct FormInvariants {
     pub discriminant: Option<Q>,
 }
 
+#[allow(clippy::needless_range_loop)]
 /// The Gram matrix of `t_L` (left = true) or `t_R`. Cost: O(n^2 * nnz).
 pub fn trace_form(d: &Dense, left: bool) -> Vec<Vec<Q>> {
     let n = d.n;
@@ -51,6 +52,7 @@ pub fn trace_form(d: &Dense, left: bool) -> Vec<Vec<Q>> {
     g
 }
 
+#[allow(clippy::needless_range_loop)]
 /// Diagonalize a symmetric matrix by congruence (exact; needs characteristic != 2) and
 /// return the nonzero diagonal entries. Cost: O(n^3) field operations.
 fn diagonal_entries<F: Field>(f: &F, mut g: Vec<Vec<F::Elem>>) -> Vec<F::Elem> {
@@ -63,7 +65,9 @@ fn diagonal_entries<F: Field>(f: &F, mut g: Vec<Vec<F::Elem>>) -> Vec<F::Elem> {
         let p = match piv {
             Some(p) => p,
             None => {
-                let Some((i, j)) = (k..n).flat_map(|i| (i + 1..n).map(move |j| (i, j))).find(|&(i, j)| !f.is_zero(&g[i][j]))
+                let Some((i, j)) = (k..n)
+                    .flat_map(|i| (i + 1..n).map(move |j| (i, j)))
+                    .find(|&(i, j)| !f.is_zero(&g[i][j]))
                 else {
                     break;
                 };
@@ -114,17 +118,40 @@ pub fn form_invariants(d: &Dense, g: &[Vec<Q>]) -> FormInvariants {
             let diag = diagonal_entries(&crate::scalar::Rationals, g.to_vec());
             let pos = diag.iter().filter(|x| x.is_positive()).count();
             let disc = diag.iter().fold(Q::one(), |a, b| a * b);
-            FormInvariants { rank, signature: Some((pos, diag.len() - pos)), discriminant: Some(disc) }
+            FormInvariants {
+                rank,
+                signature: Some((pos, diag.len() - pos)),
+                discriminant: Some(disc),
+            }
         }
-        FieldSpec::Prime(2) => FormInvariants { rank, signature: None, discriminant: None },
+        FieldSpec::Prime(2) => FormInvariants {
+            rank,
+            signature: None,
+            discriminant: None,
+        },
         FieldSpec::Prime(p) => {
             let f = PrimeField::new(p).expect("prime");
-            let gg = g.iter().map(|r| r.iter().map(|x| f.from_rational(x).expect("in field")).collect()).collect();
+            let gg = g
+                .iter()
+                .map(|r| {
+                    r.iter()
+                        .map(|x| f.from_rational(x).expect("in field"))
+                        .collect()
+                })
+                .collect();
             let diag = diagonal_entries(&f, gg);
             let disc = diag.iter().fold(1u64, |a, b| f.mul(&a, b));
             let square = f.pow(disc, (p - 1) / 2) == 1;
-            let rep = if square { 1 } else { (2..p).find(|&a| f.pow(a, (p - 1) / 2) != 1).unwrap_or(1) };
-            FormInvariants { rank, signature: None, discriminant: Some(Q::from_integer(BigInt::from(rep))) }
+            let rep = if square {
+                1
+            } else {
+                (2..p).find(|&a| f.pow(a, (p - 1) / 2) != 1).unwrap_or(1)
+            };
+            FormInvariants {
+                rank,
+                signature: None,
+                discriminant: Some(Q::from_integer(BigInt::from(rep))),
+            }
         }
     }
 }

@@ -85,14 +85,23 @@ fn unknown(name: &str) -> i32 {
 }
 
 fn list(all: &[Entry], family: Option<String>, dim: Option<usize>, law: Option<String>) -> i32 {
-    println!("{:<20} {:<26} {:<7} {:<10} aliases", "name", "family", "field", "dims");
+    println!(
+        "{:<20} {:<26} {:<7} {:<10} aliases",
+        "name", "family", "field", "dims"
+    );
     for e in all {
         let m = &e.meta;
-        if family.as_ref().is_some_and(|f| !m.family.eq_ignore_ascii_case(f)) {
+        if family
+            .as_ref()
+            .is_some_and(|f| !m.family.eq_ignore_ascii_case(f))
+        {
             continue;
         }
         if let Some(l) = &law
-            && !m.facts.iter().any(|f| f.key.eq_ignore_ascii_case(l) && f.value == "yes")
+            && !m
+                .facts
+                .iter()
+                .any(|f| f.key.eq_ignore_ascii_case(l) && f.value == "yes")
         {
             continue;
         }
@@ -104,8 +113,19 @@ fn list(all: &[Entry], family: Option<String>, dim: Option<usize>, law: Option<S
             continue;
         }
         let d = t.dims();
-        let dims = if t.kind() == bilin::tensor::Kind::Algebra { d[0].to_string() } else { format!("{}x{}->{}", d[0], d[1], d[2]) };
-        println!("{:<20} {:<26} {:<7} {:<10} {}", m.name, m.family, t.field().name(), dims, m.aliases.join(", "));
+        let dims = if t.kind() == bilin::tensor::Kind::Algebra {
+            d[0].to_string()
+        } else {
+            format!("{}x{}->{}", d[0], d[1], d[2])
+        };
+        println!(
+            "{:<20} {:<26} {:<7} {:<10} {}",
+            m.name,
+            m.family,
+            t.field().name(),
+            dims,
+            m.aliases.join(", ")
+        );
     }
     EXIT_OK
 }
@@ -131,7 +151,11 @@ fn show(e: &Entry, recompute: bool) -> i32 {
     println!("\nfacts:");
     let mut bad = false;
     for f in &m.facts {
-        let dom = f.domain.as_ref().map(|d| format!(" over {d}")).unwrap_or_default();
+        let dom = f
+            .domain
+            .as_ref()
+            .map(|d| format!(" over {d}"))
+            .unwrap_or_default();
         let status = match &fp {
             Some(fp) => match catalog::check_fact(f, fp, &t) {
                 FactCheck::Agrees => "  [recomputed: agrees]".to_string(),
@@ -143,12 +167,21 @@ fn show(e: &Entry, recompute: bool) -> i32 {
             },
             None => String::new(),
         };
-        println!("  {} = {}{dom}{status}\n      source: {}", f.key, f.value, f.source);
+        println!(
+            "  {} = {}{dom}{status}\n      source: {}",
+            f.key, f.value, f.source
+        );
     }
     match &m.generate {
         Some(g) => {
             let d = t.dims();
-            println!("\nbuilt by the generator `{g}`: dims {} x {} -> {}, {} nonzero coefficients", d[0], d[1], d[2], t.nnz());
+            println!(
+                "\nbuilt by the generator `{g}`: dims {} x {} -> {}, {} nonzero coefficients",
+                d[0],
+                d[1],
+                d[2],
+                t.nnz()
+            );
         }
         None => println!("\ntable:\n{}", e.table_text()),
     }
@@ -172,7 +205,10 @@ fn check(entries: &[&Entry]) -> i32 {
                 FactCheck::Agrees => agree += 1,
                 FactCheck::Disagrees(v) => {
                     disagree += 1;
-                    println!("{}: stored {} = {}, bilin computes {v}", e.meta.name, f.key, f.value);
+                    println!(
+                        "{}: stored {} = {}, bilin computes {v}",
+                        e.meta.name, f.key, f.value
+                    );
                 }
                 FactCheck::NotComputable(_) => not_comp += 1,
             }

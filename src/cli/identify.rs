@@ -30,7 +30,10 @@ pub fn run(args: IdentifyArgs) -> i32 {
             return EXIT_USAGE;
         }
     };
-    let mut params = IdentifyParams { search_isomorphism: !args.no_iso, ..Default::default() };
+    let mut params = IdentifyParams {
+        search_isomorphism: !args.no_iso,
+        ..Default::default()
+    };
     params.iso.coord_bound = args.bound;
     params.fingerprint.seed = args.seed;
     let id = match identify(&t, &params) {
@@ -48,14 +51,20 @@ pub fn run(args: IdentifyArgs) -> i32 {
     if id.matches.is_empty() {
         println!("no catalog entry has this fingerprint.");
     } else {
-        println!("catalog entries with the same fingerprint (evidence of isomorphism, not a proof):");
+        println!(
+            "catalog entries with the same fingerprint (evidence of isomorphism, not a proof):"
+        );
     }
     for m in &id.matches {
         match &m.iso {
             IsoOutcome::Found(mat) => {
-                println!("  {}: ISOMORPHIC, verified exactly: the input's basis vectors are, in the entry's basis,", m.name);
+                println!(
+                    "  {}: ISOMORPHIC, verified exactly: the input's basis vectors are, in the entry's basis,",
+                    m.name
+                );
                 for j in 0..mat.cols {
-                    let col: Vec<String> = (0..mat.rows).map(|i| q_to_string(&mat[(i, j)])).collect();
+                    let col: Vec<String> =
+                        (0..mat.rows).map(|i| q_to_string(&mat[(i, j)])).collect();
                     println!("      x{j} -> ({})", col.join(", "));
                 }
             }
@@ -64,13 +73,22 @@ pub fn run(args: IdentifyArgs) -> i32 {
                 m.name,
                 b = args.bound
             ),
-            IsoOutcome::NotAttempted(why) => println!("  {}: fingerprint matches; isomorphism search not attempted ({why})", m.name),
+            IsoOutcome::NotAttempted(why) => println!(
+                "  {}: fingerprint matches; isomorphism search not attempted ({why})",
+                m.name
+            ),
         }
     }
     if !id.near.is_empty() {
-        println!("\nnear matches (same kind, field and dimensions), and the invariants that separate them:");
+        println!(
+            "\nnear matches (same kind, field and dimensions), and the invariants that separate them:"
+        );
         for n in &id.near {
-            let d: Vec<String> = n.differences.iter().map(|(k, a, b)| format!("{k}: input {a}, entry {b}")).collect();
+            let d: Vec<String> = n
+                .differences
+                .iter()
+                .map(|(k, a, b)| format!("{k}: input {a}, entry {b}"))
+                .collect();
             println!("  {}: {}", n.name, d.join("; "));
         }
     }
