@@ -228,3 +228,15 @@ fn tables_agree_with_generators() {
     println!("entries cross-checked against a generator: {compared}");
     assert!(compared >= 30);
 }
+
+/// The input loader resolves catalog names once the catalog's resolver is registered
+/// (files first, then generators, then catalog names: docs/formats.md).
+#[test]
+fn catalog_names_are_inputs() {
+    catalog::register_input_resolver();
+    let t = bilin::input::load_input("Q8", None).unwrap();
+    assert_eq!(t.dims(), [8, 8, 8]);
+    let t = bilin::input::load_input("GF8", None).unwrap();
+    assert_eq!(t.field(), bilin::scalar::FieldSpec::Prime(2));
+    assert!(bilin::input::load_input("no-such-entry", None).is_err());
+}

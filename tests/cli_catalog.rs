@@ -65,5 +65,5 @@ fn identify_reports_matches_and_separating_invariants() {
     assert!(out.contains("not a proof"));
     let (code, _, err) = bilin(&["identify", "definitely-not-an-input"]);
     assert_eq!(code, 2);
-    assert!(err.contains("neither a file"));
+    assert!(err.contains("no file, generator or catalog entry"), "{err}");
 }

@@ -27,7 +27,9 @@ pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
-pub use store::{Entry, all_entries, catalog_tensor, find_entry};
+pub use store::{
+    Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
+};
 
 /// The embedded file names, for the test that compares them with the directory.
 pub fn embedded_files() -> Vec<&'static str> {

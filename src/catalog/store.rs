@@ -62,8 +62,21 @@ pub fn find_entry(name: &str) -> Option<&'static Entry> {
         .or_else(|| all.iter().find(|e| e.meta.is_named(name)))
 }
 
-/// The tensor of the catalog entry with this name or alias: the hook the input loader uses
-/// to resolve catalog names. `None` if there is no such entry or it cannot be built.
+/// The tensor of the catalog entry with this name or alias. `None` if there is no such
+/// entry or it cannot be built.
 pub fn catalog_tensor(name: &str) -> Option<Tensor> {
     find_entry(name)?.tensor().ok()
+}
+
+/// The input resolver for catalog names: `None` for an unknown name, otherwise the entry's
+/// tensor (or the error building it).
+pub fn resolve_catalog_name(name: &str) -> Option<Result<Tensor, Error>> {
+    find_entry(name).map(Entry::tensor)
+}
+
+/// Register [`resolve_catalog_name`] with the input loader, so that
+/// [`crate::input::load_input`] accepts catalog names (after files and generators).
+/// Idempotent.
+pub fn register_input_resolver() {
+    crate::input::register_resolver(resolve_catalog_name);
 }

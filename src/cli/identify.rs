@@ -10,6 +10,9 @@ use clap::Args;
 pub struct IdentifyArgs {
     /// A table file, a JSON file, a generator spec or a catalog name.
     input: String,
+    /// Read the input over this field (`Q`, `GF(p)`).
+    #[arg(long)]
+    field: Option<String>,
     /// Do not search for explicit isomorphisms.
     #[arg(long)]
     no_iso: bool,
@@ -23,12 +26,9 @@ pub struct IdentifyArgs {
 
 /// Run `bilin identify`; returns the exit code.
 pub fn run(args: IdentifyArgs) -> i32 {
-    let t = match super::catalog_input::load(&args.input) {
+    let t = match super::common::load(&args.input, args.field.as_deref()) {
         Ok(t) => t,
-        Err(e) => {
-            eprintln!("error: {e}");
-            return EXIT_USAGE;
-        }
+        Err(code) => return code,
     };
     let mut params = IdentifyParams {
         search_isomorphism: !args.no_iso,

@@ -5,7 +5,8 @@
 //! 2 bad input or usage.
 
 mod catalog;
-mod catalog_input;
+pub mod common;
+mod convert;
 mod identify;
 
 use clap::{Parser, Subcommand};
@@ -26,6 +27,8 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Print an input (file, generator or catalog name) as a table, grid or JSON.
+    Convert(convert::Args),
     /// Browse the catalog of known algebras and bilinear maps (list, show, check, doc).
     Catalog(catalog::CatalogArgs),
     /// Identify an input against the catalog by invariants (and explicit isomorphisms).
@@ -34,6 +37,8 @@ enum Command {
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
+    // catalog names resolve wherever an input is expected
+    bilin::catalog::register_input_resolver();
     let cli = match Cli::try_parse() {
         Ok(c) => c,
         Err(e) => {
@@ -43,6 +48,7 @@ pub fn run() -> i32 {
         }
     };
     match cli.command {
+        Command::Convert(a) => convert::run(a),
         Command::Catalog(a) => catalog::run(a),
         Command::Identify(a) => identify::run(a),
     }

@@ -28,7 +28,7 @@ pub use jordan::jordan_symmetric;
 pub use lie::{gl, heisenberg, sl, so};
 pub use matrix::{matmul, matrix_algebra};
 pub use polynomial::{poly_mult, quotient_ring};
-pub use spec::{generate, generator_names};
+pub use spec::{generate, generator_names, is_generator_family};
 
 use crate::error::{Error, Result};
 use crate::tensor::MAX_DIM;
@@ -126,6 +126,7 @@ mod tests {
             matrix_algebra(3).unwrap(),
             dihedral_group_algebra(3).unwrap(),
             symmetric_group_algebra(3).unwrap(),
+            permutation_group_algebra(&[vec![1, 2, 0, 3, 4, 5], vec![0, 1, 2, 4, 5, 3]]).unwrap(),
             clifford(2, 1).unwrap(),
             quotient_ring(&[
                 crate::scalar::q(1, 1),

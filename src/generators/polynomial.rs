@@ -34,7 +34,8 @@ pub fn poly_mult(m: usize, n: usize) -> Result<Tensor> {
 }
 
 /// The algebra Q[x]/(f), coefficients of f lowest degree first. Errors: degree below 1,
-/// zero leading coefficient, degree above the dimension limit. Cost: O(d^3).
+/// zero leading coefficient, degree above the dimension limit. Cost: O(d^3) for a dense f,
+/// O(d^2 w) when f has w nonzero lower coefficients and the powers stay sparse.
 pub fn quotient_ring(coeffs: &[Q]) -> Result<Tensor> {
     let Some(lead) = coeffs.last() else {
         return Err(Error::Invalid(
@@ -53,33 +54,49 @@ pub fn quotient_ring(coeffs: &[Q]) -> Result<Tensor> {
         ));
     }
     check_dim("the quotient ring Q[x]/(f)", Some(d))?;
-    // powers[s] = coordinates of x^s mod f, for s <= 2d-2.
-    let mut powers: Vec<Vec<Q>> = Vec::with_capacity(2 * d - 1);
-    let mut cur = vec![Q::zero(); d];
-    cur[0] = Q::one();
+    // powers[s] = sparse coordinates of x^s mod f, for s <= 2d-2 (sorted by degree).
+    let low: Vec<(usize, Q)> = coeffs[..d]
+        .iter()
+        .enumerate()
+        .filter(|(_, c)| !c.is_zero())
+        .map(|(k, c)| (k, c / lead))
+        .collect();
+    let mut powers: Vec<Vec<(usize, Q)>> = Vec::with_capacity(2 * d - 1);
+    let mut cur: Vec<(usize, Q)> = vec![(0, Q::one())];
     for _ in 0..(2 * d - 1) {
-        powers.push(cur.clone());
-        // multiply by x: shift up, reduce x^d = -(1/lead) sum_{k<d} f_k x^k.
-        let top = cur[d - 1].clone();
-        for k in (1..d).rev() {
-            cur[k] = cur[k - 1].clone();
-        }
-        cur[0] = Q::zero();
-        if !top.is_zero() {
-            let s = &top / lead;
-            for (k, fk) in coeffs[..d].iter().enumerate() {
-                cur[k] -= &s * fk;
+        // multiply by x: shift up, and reduce x^d = -sum_{k<d} (f_k / f_d) x^k.
+        let mut next: Vec<Q> = Vec::new();
+        let mut shifted: Vec<(usize, Q)> = Vec::with_capacity(cur.len() + low.len());
+        let mut top = None;
+        for (k, c) in &cur {
+            if k + 1 == d {
+                top = Some(c.clone());
+            } else {
+                shifted.push((k + 1, c.clone()));
             }
         }
+        if let Some(top) = top {
+            next.resize(d, Q::zero());
+            for (k, c) in shifted.drain(..) {
+                next[k] = c;
+            }
+            for (k, fk) in &low {
+                next[*k] -= &top * fk;
+            }
+            shifted = next
+                .into_iter()
+                .enumerate()
+                .filter(|(_, c)| !c.is_zero())
+                .collect();
+        }
+        powers.push(std::mem::replace(&mut cur, shifted));
     }
     let names = (0..d).map(|i| format!("x{i}")).collect();
     let mut t = Tensor::algebra(FieldSpec::Rational, names);
     for i in 0..d {
         for j in 0..d {
-            for (k, v) in powers[i + j].iter().enumerate() {
-                if !v.is_zero() {
-                    t.set(i, j, k, v.clone());
-                }
+            for (k, v) in &powers[i + j] {
+                t.set(i, j, *k, v.clone());
             }
         }
     }
@@ -107,6 +124,20 @@ mod tests {
         assert_eq!(t.dim(), 2);
         assert_eq!(t.product(1, 1), &[(0, q(2, 1))]);
         assert_eq!(t.product(0, 1), &[(1, q(1, 1))]);
+    }
+
+    #[test]
+    fn cyclotomic_is_cyclic_group() {
+        // Q[x]/(x^n - 1) is the group algebra of Z/n with x = g (common practice).
+        let mut f = vec![q(0, 1); 8];
+        f[0] = q(-1, 1);
+        f[7] = q(1, 1);
+        let mut t = quotient_ring(&f).unwrap();
+        t.set_names(0, (0..7).map(|i| format!("g{i}")).collect());
+        assert_eq!(t, crate::generators::cyclic_group_algebra(7).unwrap());
+        // degree 1: Q[x]/(2x + 6) = Q with x = -3, so x0 * x0 = x0.
+        let one = quotient_ring(&[q(6, 1), q(2, 1)]).unwrap();
+        assert_eq!(one.product(0, 0), &[(0, q(1, 1))]);
     }
 
     #[test]

@@ -74,6 +74,21 @@ pub fn generator_names() -> Vec<(&'static str, &'static str)> {
     ]
 }
 
+/// True when the family part of `spec` (before the first `:`) names a generator family,
+/// so that errors of [`generate`] concern its arguments rather than an unknown name.
+pub fn is_generator_family(spec: &str) -> bool {
+    let family = spec
+        .trim()
+        .split(':')
+        .next()
+        .unwrap_or("")
+        .trim()
+        .to_ascii_lowercase();
+    generator_names()
+        .iter()
+        .any(|(s, _)| s.split(':').next() == Some(family.as_str()))
+}
+
 fn family_list() -> String {
     generator_names()
         .iter()
@@ -127,6 +142,18 @@ fn no_args(spec: &str, args: Option<&str>) -> Result<()> {
 /// [`generator_names`]). Unknown names give [`Error::Invalid`] listing the families;
 /// sizes above the dimension limit are refused before allocation.
 pub fn generate(spec: &str) -> Result<Tensor> {
+    generate_nested(spec, 0)
+}
+
+/// `commutator:` and `anticommutator:` may be nested at most this deep.
+const MAX_NESTING: usize = 8;
+
+fn generate_nested(spec: &str, depth: usize) -> Result<Tensor> {
+    if depth > MAX_NESTING {
+        return Err(Error::Invalid(format!(
+            "generator spec nested more than {MAX_NESTING} levels deep"
+        )));
+    }
     let spec = spec.trim();
     let (name, args) = match spec.split_once(':') {
         Some((n, a)) => (n.trim(), Some(a)),
@@ -226,7 +253,7 @@ pub fn generate(spec: &str) -> Result<Tensor> {
                     "generator `{name}` needs another generator after a colon, e.g. `{name}:matrix:2`"
                 )));
             };
-            let t = generate(inner)?;
+            let t = generate_nested(inner, depth + 1)?;
             if lname == "commutator" {
                 commutator_algebra(&t)
             } else {
@@ -274,6 +301,8 @@ mod tests {
 
     #[test]
     fn spec_errors() {
+        assert!(is_generator_family("matmul:9") && is_generator_family("Quaternions"));
+        assert!(!is_generator_family("foo.bilin"));
         let e = generate("frobnicate:3").unwrap_err().to_string();
         assert!(
             e.contains("unknown generator") && e.contains("matmul:n,m,p"),
@@ -293,5 +322,7 @@ mod tests {
         assert!(generate("quotient:1,2,x").is_err());
         assert!(generate("commutator:matmul:2,2,2").is_err());
         assert!(generate("cd:99").is_err());
+        let deep = format!("{}matrix:1", "commutator:".repeat(100_000));
+        assert!(generate(&deep).unwrap_err().to_string().contains("nested"));
     }
 }

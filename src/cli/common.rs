@@ -1,0 +1,39 @@
+//! Helpers shared by subcommands: loading an input with error rendering.
+
+use super::EXIT_USAGE;
+use bilin::error::Error;
+use bilin::input::load_input;
+use bilin::scalar::FieldSpec;
+use bilin::tensor::Tensor;
+
+/// Print an error as `error: file:line:col: message` (or `error: message`) on stderr and
+/// return the exit code for bad input (2).
+pub fn report_error(e: &Error) -> i32 {
+    eprintln!("error: {e}");
+    EXIT_USAGE
+}
+
+/// Load an input (file, generator spec or catalog name), optionally over another field
+/// given as text (`Q`, `GF(7)`). Errors are printed; the `Err` holds the exit code (2).
+pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {
+    let field = match field {
+        None => None,
+        Some(f) => match FieldSpec::parse(f) {
+            Ok(f) => Some(f),
+            Err(m) => {
+                eprintln!("error: --field: {m}");
+                return Err(EXIT_USAGE);
+            }
+        },
+    };
+    load_input(spec, field).map_err(|e| report_error(&e))
+}
+
+/// The generator list for `--help` texts.
+pub fn generators_help() -> String {
+    let mut s = String::from("Built-in generators (usable wherever an input is expected):\n");
+    for (spec, what) in bilin::generators::generator_names() {
+        s.push_str(&format!("  {spec:<22} {what}\n"));
+    }
+    s
+}

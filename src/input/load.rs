@@ -1,0 +1,113 @@
+//! Resolving a command-line input: an existing file (JSON if its first non-space character
+//! is `{`, else the table format), then a generator spec, then the registered resolvers
+//! (the catalog hook in `resolve.rs`); finally an optional change of field.
+
+use super::{parse_json, parse_table, resolve_registered};
+use crate::error::{Error, Position, Result};
+use crate::generators::{generate, generator_names, is_generator_family};
+use crate::scalar::FieldSpec;
+use crate::tensor::Tensor;
+use std::io::Read;
+use std::path::Path;
+
+/// Files larger than this (64 MiB) are refused.
+pub const MAX_FILE_BYTES: u64 = 64 << 20;
+
+/// Read a text file: at most [`MAX_FILE_BYTES`], valid UTF-8 (a binary file gives an
+/// [`Error::Parse`] at the first invalid byte).
+pub fn read_text_file(path: &str) -> Result<String> {
+    let io = |message: String| Error::Io {
+        path: path.to_string(),
+        message,
+    };
+    let file = std::fs::File::open(path).map_err(|e| io(e.to_string()))?;
+    let too_big = || {
+        io(format!(
+            "the file is larger than the limit of {} MiB",
+            MAX_FILE_BYTES >> 20
+        ))
+    };
+    if file.metadata().map(|m| m.len()).unwrap_or(0) > MAX_FILE_BYTES {
+        return Err(too_big());
+    }
+    let mut bytes = Vec::new();
+    file.take(MAX_FILE_BYTES + 1)
+        .read_to_end(&mut bytes)
+        .map_err(|e| io(e.to_string()))?;
+    if bytes.len() as u64 > MAX_FILE_BYTES {
+        return Err(too_big());
+    }
+    String::from_utf8(bytes).map_err(|e| {
+        let good = e.utf8_error().valid_up_to();
+        let bytes = e.as_bytes();
+        let prefix = std::str::from_utf8(&bytes[..good]).unwrap_or("");
+        let line = prefix.matches('\n').count() + 1;
+        let column = prefix[prefix.rfind('\n').map_or(0, |p| p + 1)..]
+            .chars()
+            .count()
+            + 1;
+        Error::Parse {
+            at: Position {
+                source: path.to_string(),
+                line,
+                column,
+            },
+            message: format!(
+                "the input is not UTF-8 text (invalid byte 0x{:02X}): it looks like binary data, \
+                 expected a text file",
+                bytes[good]
+            ),
+        }
+    })
+}
+
+/// Parse a text, choosing JSON when its first non-space character is `{`.
+pub fn parse_any(text: &str, source: &str) -> Result<Tensor> {
+    if text
+        .trim_start_matches('\u{feff}')
+        .trim_start()
+        .starts_with('{')
+    {
+        parse_json(text, source)
+    } else {
+        parse_table(text, source)
+    }
+}
+
+/// Resolve `spec` (file path, generator spec or registered name) and, if `field` is given,
+/// read the tensor over that field. A tensor over GF(p) cannot be moved to another field;
+/// a rational tensor moves to GF(p) when no denominator is divisible by p.
+pub fn load_input(spec: &str, field: Option<FieldSpec>) -> Result<Tensor> {
+    let path = Path::new(spec);
+    let t = if path.is_file() {
+        parse_any(&read_text_file(spec)?, spec)?
+    } else if path.is_dir() {
+        return Err(Error::Invalid(format!(
+            "`{spec}` is a directory; expected a file, a generator or a catalog name"
+        )));
+    } else if is_generator_family(spec) {
+        generate(spec)?
+    } else if let Some(r) = resolve_registered(spec) {
+        r?
+    } else {
+        let families: Vec<&str> = generator_names().iter().map(|(s, _)| *s).collect();
+        return Err(Error::Invalid(format!(
+            "no file, generator or catalog entry named `{spec}` (generators: {})",
+            families.join(", ")
+        )));
+    };
+    match field {
+        None => Ok(t),
+        Some(f) if f == t.field() => Ok(t),
+        Some(f) => {
+            if let FieldSpec::Prime(_) = t.field() {
+                return Err(Error::Invalid(format!(
+                    "`{spec}` is defined over {}; it cannot be read over {f}",
+                    t.field()
+                )));
+            }
+            t.with_field(f)
+                .map_err(|m| Error::Invalid(format!("cannot read `{spec}` over {f}: {m}")))
+        }
+    }
+}

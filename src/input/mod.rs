@@ -1,0 +1,44 @@
+//! Reading and writing structure tensors in the formats of `docs/formats.md`.
+//!
+//! - [`parse_table`]: the plain-text table format (product lines, `unit`, grid blocks);
+//! - [`parse_json`]: the coordinate JSON form;
+//! - [`write_table`], [`write_grid`], [`write_json`]: the inverse writers, with
+//!   `parse(write(t)) == t` for every tensor whose names are valid basis names;
+//! - [`load_input`]: resolve a command-line input (file, generator, catalog hook).
+//!
+//! Invariants: parsers never panic; every refusal is an [`crate::error::Error::Parse`] with
+//! a 1-based line and column (in characters) and a message saying what was expected and
+//! what was found. Limits (documented): dimension 4096 per axis, 4096 digits per integer,
+//! 64 MiB per file.
+
+mod combination;
+mod cursor;
+mod grid;
+mod json;
+mod load;
+mod resolve;
+mod table;
+mod write;
+
+#[cfg(test)]
+mod proptests;
+#[cfg(test)]
+mod tests;
+
+pub use json::parse_json;
+pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file};
+pub use resolve::{Resolver, register_resolver, resolve_registered};
+pub use table::parse_table;
+pub use write::{format_combination, write_grid, write_json, write_table};
+
+/// Largest number of decimal digits accepted in a numerator or denominator.
+pub const MAX_DIGITS: usize = 4096;
+
+/// True when `s` is a valid basis name: a letter or `_`, then letters, digits, `_`, `'`, `.`.
+pub fn is_valid_name(s: &str) -> bool {
+    let mut it = s.chars();
+    match it.next() {
+        Some(c) if cursor::is_name_start(c) => it.all(cursor::is_name_char),
+        _ => false,
+    }
+}

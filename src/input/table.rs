@@ -1,0 +1,537 @@
+//! The table format (`docs/formats.md`, section 1): statements `field`, `basis`,
+//! `left`/`right`/`result`, `unit`, product lines `x*y = combination` and `grid ... end`
+//! blocks, with `#` comments.
+//!
+//! Parsing runs in two passes: statements are read line by line into a [`Builder`]
+//! (names resolved, coefficients parsed), then the products are reduced into the field,
+//! duplicates compared and the unit applied. Every error carries the line and column of the
+//! offending token. Cost: linear in the input size plus O(nnz log nnz).
+
+use super::combination::{Term, parse_combination};
+use super::cursor::{Cursor, LineRef, tokens};
+use super::is_valid_name;
+use crate::error::{Error, Position, Result};
+use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
+use crate::tensor::{Kind, MAX_DIM, Tensor};
+use num_traits::{One, Zero};
+use std::collections::{BTreeMap, HashMap};
+
+/// One product `x*y = terms` read from a line or a grid cell.
+pub(super) struct Pending {
+    pub i: usize,
+    pub j: usize,
+    pub terms: Vec<Term>,
+    /// Line index (0-based) and byte offset of the product's left factor.
+    pub line: usize,
+    pub byte: usize,
+}
+
+/// The statements read so far.
+pub(super) struct Builder<'a> {
+    pub source: &'a str,
+    pub lines: Vec<&'a str>,
+    pub field: Option<(FieldSpec, usize)>,
+    pub kind: Option<Kind>,
+    /// Names per axis (for an algebra all three are the basis) and the line declaring each.
+    pub names: [Option<(Vec<String>, usize)>; 3],
+    pub index: [HashMap<String, usize>; 3],
+    pub unit: Option<(usize, usize)>,
+    pub pending: Vec<Pending>,
+    pub statements: usize,
+}
+
+impl<'a> Builder<'a> {
+    pub fn line(&self, idx: usize) -> LineRef<'a> {
+        let raw = self.lines[idx];
+        let text = raw.find('#').map_or(raw, |c| &raw[..c]);
+        LineRef {
+            source: self.source,
+            text,
+            number: idx + 1,
+        }
+    }
+
+    pub fn pos(&self, idx: usize, byte: usize) -> Position {
+        self.line(idx).pos(byte)
+    }
+
+    fn err(&self, idx: usize, byte: usize, message: impl Into<String>) -> Error {
+        Error::Parse {
+            at: self.pos(idx, byte),
+            message: message.into(),
+        }
+    }
+
+    /// Look up a name on an axis, with an error listing the basis.
+    pub fn lookup(
+        &self,
+        axis: usize,
+        name: &str,
+        line: &LineRef<'_>,
+        byte: usize,
+    ) -> Result<usize> {
+        if let Some(&i) = self.index[axis].get(name) {
+            return Ok(i);
+        }
+        let names = self.names[axis]
+            .as_ref()
+            .map(|n| n.0.as_slice())
+            .unwrap_or(&[]);
+        let mut list = names
+            .iter()
+            .take(12)
+            .cloned()
+            .collect::<Vec<_>>()
+            .join(", ");
+        if names.len() > 12 {
+            list.push_str(", ...");
+        }
+        let what = match (self.kind, axis) {
+            (Some(Kind::Algebra), _) => "basis name",
+            (_, 0) => "left basis name",
+            (_, 1) => "right basis name",
+            _ => "result basis name",
+        };
+        Err(line.err(
+            byte,
+            format!("unknown {what} `{name}` (expected one of: {list})"),
+        ))
+    }
+
+    /// Check that every named term is a result basis name (errors in file order).
+    pub fn check_names(&self, terms: &[Term], line: &LineRef<'_>) -> Result<()> {
+        for t in terms {
+            if let Some(n) = &t.name {
+                self.lookup(2, n, line, t.pos)?;
+            }
+        }
+        Ok(())
+    }
+
+    fn declared(&self) -> bool {
+        match self.kind {
+            Some(Kind::Algebra) => true,
+            Some(Kind::Bilinear) => self.names.iter().all(Option::is_some),
+            None => false,
+        }
+    }
+}
+
+/// Check control characters (binary data) and return the first offending position.
+fn check_text(text: &str, source: &str) -> Result<()> {
+    let mut line = 1;
+    let mut col = 1;
+    for c in text.chars() {
+        if c == '\n' {
+            line += 1;
+            col = 1;
+            continue;
+        }
+        if c.is_control() && c != '\r' && c != '\t' {
+            return Err(Error::Parse {
+                at: Position {
+                    source: source.to_string(),
+                    line,
+                    column: col,
+                },
+                message: format!(
+                    "control character U+{:04X} found: the input looks like binary data, \
+                     expected a text file",
+                    c as u32
+                ),
+            });
+        }
+        col += 1;
+    }
+    Ok(())
+}
+
+/// Parse a text in the table format. `source` names it in error positions.
+pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
+    check_text(text, source)?;
+    let mut b = Builder {
+        source,
+        lines: text
+            .split('\n')
+            .map(|l| l.strip_suffix('\r').unwrap_or(l))
+            .collect(),
+        field: None,
+        kind: None,
+        names: [None, None, None],
+        index: [HashMap::new(), HashMap::new(), HashMap::new()],
+        unit: None,
+        pending: Vec::new(),
+        statements: 0,
+    };
+    let mut idx = 0;
+    while idx < b.lines.len() {
+        let line = b.line(idx);
+        idx += 1;
+        if line.text.trim().is_empty() {
+            continue;
+        }
+        b.statements += 1;
+        if line.text.contains('=') {
+            parse_product(&mut b, line, idx - 1)?;
+            continue;
+        }
+        let toks = tokens(line.text);
+        let (kpos, keyword) = toks[0];
+        match keyword {
+            "field" => parse_field(&mut b, line, idx - 1, kpos + keyword.len())?,
+            "basis" | "left" | "right" | "result" => parse_basis(&mut b, line, idx - 1, &toks)?,
+            "unit" => parse_unit(&mut b, line, idx - 1, &toks)?,
+            "grid" => {
+                if toks.len() > 1 {
+                    return Err(line.err(
+                        toks[1].0,
+                        format!("expected nothing after `grid`, found `{}`", toks[1].1),
+                    ));
+                }
+                idx = super::grid::parse_grid(&mut b, idx - 1)?;
+            }
+            "end" => return Err(line.err(kpos, "`end` without a matching `grid`")),
+            other => {
+                return Err(line.err(
+                    kpos,
+                    format!(
+                        "expected a statement (`field`, `basis`, `left`, `right`, `result`, \
+                         `unit`, `grid`) or a product `x*y = ...`, found `{other}`"
+                    ),
+                ));
+            }
+        }
+    }
+    finish(b)
+}
+
+fn parse_field(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, after: usize) -> Result<()> {
+    let rest = &line.text[after..];
+    let start = after + (rest.len() - rest.trim_start().len());
+    if let Some((_, first)) = b.field {
+        return Err(line.err(
+            0,
+            format!("the field is declared twice (first on line {})", first + 1),
+        ));
+    }
+    if !b.pending.is_empty() {
+        return Err(line.err(0, "the `field` statement must come before the products"));
+    }
+    let spec = FieldSpec::parse(rest.trim()).map_err(|m| line.err(start, m))?;
+    b.field = Some((spec, idx));
+    Ok(())
+}
+
+fn parse_basis(
+    b: &mut Builder<'_>,
+    line: LineRef<'_>,
+    idx: usize,
+    toks: &[(usize, &str)],
+) -> Result<()> {
+    let (kpos, kw) = toks[0];
+    let (kind, axis) = match kw {
+        "basis" => (Kind::Algebra, 0),
+        "left" => (Kind::Bilinear, 0),
+        "right" => (Kind::Bilinear, 1),
+        _ => (Kind::Bilinear, 2),
+    };
+    match b.kind {
+        Some(k) if k != kind => {
+            return Err(line.err(
+                kpos,
+                "an input declares either `basis` (an algebra) or `left`, `right` and \
+                 `result` (a bilinear map), not both",
+            ));
+        }
+        _ => {}
+    }
+    if let Some((_, first)) = &b.names[axis] {
+        return Err(line.err(
+            kpos,
+            format!("`{kw}` is declared twice (first on line {})", first + 1),
+        ));
+    }
+    if toks.len() == 1 {
+        return Err(line.err(
+            kpos + kw.len(),
+            format!("expected basis names after `{kw}`, found the end of the line"),
+        ));
+    }
+    if toks.len() - 1 > MAX_DIM {
+        return Err(line.err(
+            kpos,
+            format!(
+                "`{kw}` lists {} names: dimensions are at most {MAX_DIM}",
+                toks.len() - 1
+            ),
+        ));
+    }
+    let mut names = Vec::with_capacity(toks.len() - 1);
+    let mut index: HashMap<String, usize> = HashMap::new();
+    let mut columns: HashMap<&str, usize> = HashMap::new();
+    for &(pos, name) in &toks[1..] {
+        if !is_valid_name(name) {
+            return Err(line.err(
+                pos,
+                format!(
+                    "invalid basis name `{name}`: a name starts with a letter or `_` and \
+                     continues with letters, digits, `_`, `'` or `.`"
+                ),
+            ));
+        }
+        if let Some(c) = columns.get(name) {
+            return Err(line.err(
+                pos,
+                format!("duplicate basis name `{name}` (already at column {c})"),
+            ));
+        }
+        columns.insert(name, line.pos(pos).column);
+        index.insert(name.to_string(), names.len());
+        names.push(name.to_string());
+    }
+    b.kind = Some(kind);
+    if kind == Kind::Algebra {
+        for a in 0..3 {
+            b.names[a] = Some((names.clone(), idx));
+            b.index[a] = index.clone();
+        }
+    } else {
+        b.names[axis] = Some((names, idx));
+        b.index[axis] = index;
+    }
+    Ok(())
+}
+
+fn parse_unit(
+    b: &mut Builder<'_>,
+    line: LineRef<'_>,
+    idx: usize,
+    toks: &[(usize, &str)],
+) -> Result<()> {
+    let kpos = toks[0].0;
+    match b.kind {
+        None => return Err(line.err(kpos, "`unit` before the basis: declare `basis ...` first")),
+        Some(Kind::Bilinear) => {
+            return Err(line.err(
+                kpos,
+                "`unit` is only meaningful for an algebra (a `basis` statement)",
+            ));
+        }
+        _ => {}
+    }
+    if let Some((_, first)) = b.unit {
+        return Err(line.err(
+            kpos,
+            format!("`unit` is declared twice (first on line {})", first + 1),
+        ));
+    }
+    if toks.len() != 2 {
+        let at = toks.get(2).map_or(kpos + 4, |t| t.0);
+        return Err(line.err(at, "expected exactly one basis name after `unit`"));
+    }
+    let u = b.lookup(0, toks[1].1, &line, toks[1].0)?;
+    b.unit = Some((u, idx));
+    Ok(())
+}
+
+fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<()> {
+    let mut cur = Cursor::new(line, 0, line.text.len());
+    cur.skip_ws();
+    let start = cur.pos;
+    if !b.declared() {
+        return Err(cur.err(
+            "a product before the basis: declare `basis ...` (or `left`, `right` and `result`) first",
+        ));
+    }
+    let Some(x) = cur.name() else {
+        return Err(cur.expected("a product `x*y = combination`"));
+    };
+    let i = b.lookup(0, x, &line, start)?;
+    cur.skip_ws();
+    if cur.peek() != Some('*') {
+        return Err(cur.expected(&format!("`*` after `{x}`")));
+    }
+    cur.bump();
+    cur.skip_ws();
+    let ypos = cur.pos;
+    let Some(y) = cur.name() else {
+        return Err(cur.expected("a basis name after `*`"));
+    };
+    let j = b.lookup(1, y, &line, ypos)?;
+    cur.skip_ws();
+    if cur.peek() != Some('=') {
+        return Err(cur.expected("`=`"));
+    }
+    cur.bump();
+    let terms = parse_combination(&mut cur)?;
+    b.check_names(&terms, &line)?;
+    b.pending.push(Pending {
+        i,
+        j,
+        terms,
+        line: idx,
+        byte: start,
+    });
+    Ok(())
+}
+
+/// Reduce a product's terms into the field: sorted `(k, c)` without zeros.
+fn reduce_terms(
+    b: &Builder<'_>,
+    p: &Pending,
+    field: Option<&PrimeField>,
+) -> Result<Vec<(usize, Q)>> {
+    let line = b.line(p.line);
+    let mut acc: BTreeMap<usize, Q> = BTreeMap::new();
+    for t in &p.terms {
+        if let Some(n) = &t.name {
+            b.lookup(2, n, &line, t.pos)?;
+        }
+        if t.coef.is_zero() {
+            continue;
+        }
+        let k = match &t.name {
+            Some(n) => b.lookup(2, n, &line, t.pos)?,
+            None => match b.unit {
+                Some((u, _)) => u,
+                None => {
+                    return Err(line.err(
+                        t.pos,
+                        format!(
+                            "the bare number `{}` means a multiple of the unit, but no `unit` \
+                             statement declares one",
+                            q_to_string(&t.coef)
+                        ),
+                    ));
+                }
+            },
+        };
+        let c = match field {
+            None => t.coef.clone(),
+            Some(f) => {
+                if f.denominator_vanishes(&t.coef) {
+                    return Err(line.err(
+                        t.pos,
+                        format!(
+                            "the coefficient {} has a denominator divisible by {}, so it has no \
+                             value in GF({})",
+                            q_to_string(&t.coef),
+                            f.modulus(),
+                            f.modulus()
+                        ),
+                    ));
+                }
+                f.to_rational(&f.from_rational(&t.coef).unwrap_or_default())
+            }
+        };
+        *acc.entry(k).or_insert_with(Q::zero) += c;
+    }
+    Ok(acc
+        .into_iter()
+        .map(|(k, v)| match field {
+            None => (k, v),
+            Some(f) => (k, f.to_rational(&f.from_rational(&v).unwrap_or_default())),
+        })
+        .filter(|(_, v)| !v.is_zero())
+        .collect())
+}
+
+fn show(t: &Tensor, v: &[(usize, Q)]) -> String {
+    super::write::format_combination(v.iter().map(|(k, c)| (t.name(2, *k), c)), true)
+}
+
+/// A product already read: its reduced value and the line index where it was given.
+type Seen = (Vec<(usize, Q)>, usize);
+
+/// Second pass: build the tensor from the statements.
+fn finish(b: Builder<'_>) -> Result<Tensor> {
+    let kind = match b.kind {
+        Some(k) => k,
+        None => {
+            let message = if b.statements == 0 {
+                "empty input: expected a `basis` or `left/right/result` statement"
+            } else {
+                "no basis declared: expected a `basis` or `left/right/result` statement"
+            };
+            return Err(b.err(0, 0, message));
+        }
+    };
+    if kind == Kind::Bilinear {
+        for (a, kw) in ["left", "right", "result"].iter().enumerate() {
+            if b.names[a].is_none() {
+                let first = b.names.iter().flatten().map(|n| n.1).min().unwrap_or(0);
+                return Err(b.err(
+                    first,
+                    0,
+                    format!("a bilinear map needs `left`, `right` and `result`: `{kw}` is missing"),
+                ));
+            }
+        }
+    }
+    let names: [Vec<String>; 3] =
+        std::array::from_fn(|a| b.names[a].as_ref().map(|n| n.0.clone()).unwrap_or_default());
+    let dims = [names[0].len(), names[1].len(), names[2].len()];
+    let field = b.field.map_or(FieldSpec::Rational, |f| f.0);
+    let prime = match field {
+        FieldSpec::Prime(p) => PrimeField::new(p),
+        FieldSpec::Rational => None,
+    };
+    let mut t = Tensor::zero(field, kind, dims, Some(names));
+    let mut seen: HashMap<(usize, usize), Seen> = HashMap::new();
+    for p in &b.pending {
+        let v = reduce_terms(&b, p, prime.as_ref())?;
+        if let Some((old, line)) = seen.get(&(p.i, p.j)) {
+            if *old != v {
+                return Err(b.err(
+                    p.line,
+                    p.byte,
+                    format!(
+                        "conflicting duplicate product `{}*{}`: here `{}`, but line {} gave `{}`",
+                        t.name(0, p.i),
+                        t.name(1, p.j),
+                        show(&t, &v),
+                        line + 1,
+                        show(&t, old)
+                    ),
+                ));
+            }
+            continue;
+        }
+        for (k, c) in &v {
+            t.set(p.i, p.j, *k, c.clone());
+        }
+        seen.insert((p.i, p.j), (v, p.line));
+    }
+    if let Some((u, uline)) = b.unit {
+        for x in 0..dims[0] {
+            let expect = vec![(x, Q::one())];
+            for (i, j) in [(u, x), (x, u)] {
+                match seen.get(&(i, j)) {
+                    Some((v, line)) if *v != expect => {
+                        let p = b
+                            .pending
+                            .iter()
+                            .find(|p| (p.i, p.j) == (i, j) && p.line == *line);
+                        return Err(b.err(
+                            *line,
+                            p.map_or(0, |p| p.byte),
+                            format!(
+                                "`{}*{}` = `{}` contradicts `unit {}` (line {}): expected `{}`",
+                                t.name(0, i),
+                                t.name(1, j),
+                                show(&t, v),
+                                t.name(0, u),
+                                uline + 1,
+                                t.name(0, x)
+                            ),
+                        ));
+                    }
+                    Some(_) => {}
+                    None => t.set(i, j, x, Q::one()),
+                }
+            }
+        }
+    }
+    Ok(t)
+}
