@@ -40,6 +40,35 @@ impl Dense {
         }
     }
 
+    /// The dense form of the algebra with its product multiplied by the least common
+    /// denominator of the coefficients (over Q), so that all constants are integers. The
+    /// scaled algebra is isomorphic to the original (x -> l x maps one onto the other), so
+    /// every isomorphism invariant is unchanged, and integer arithmetic is much cheaper.
+    pub fn new_integral(t: &Tensor) -> Dense {
+        let mut d = Dense::new(t);
+        if d.field != FieldSpec::Rational {
+            return d;
+        }
+        let mut l = num_bigint::BigInt::from(1);
+        for x in &d.c {
+            if !x.is_integer() {
+                l = num_integer::Integer::lcm(&l, x.denom());
+            }
+        }
+        if l != num_bigint::BigInt::from(1) {
+            let lq = Q::from_integer(l);
+            for x in d.c.iter_mut() {
+                *x *= &lq;
+            }
+            for row in d.prods.iter_mut() {
+                for (_, x) in row.iter_mut() {
+                    *x *= &lq;
+                }
+            }
+        }
+        d
+    }
+
     /// The coefficient of `e_k` in `e_i e_j`.
     pub fn at(&self, i: usize, j: usize, k: usize) -> &Q {
         &self.c[(i * self.n + j) * self.n + k]

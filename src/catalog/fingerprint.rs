@@ -157,7 +157,7 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     if t.kind() != Kind::Algebra {
         return fp;
     }
-    let d = Dense::new(t);
+    let d = Dense::new_integral(t);
     let assoc = d.associators();
     fp.push("commutative", Value::Bool(checks::is_commutative(&d)));
     fp.push(
