@@ -281,3 +281,35 @@ fn backtrack(
     }
     None
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scalar::{FieldSpec, q};
+    use crate::tensor::random_invertible;
+
+    /// Q[x]/(x^2 - d) with basis 1, s (s^2 = d): Lang 2002, Algebra.
+    fn quadratic(d: i64) -> Tensor {
+        let mut t = Tensor::algebra(FieldSpec::Rational, vec!["one".into(), "s".into()]);
+        t.set(0, 0, 0, q(1, 1));
+        t.set(0, 1, 1, q(1, 1));
+        t.set(1, 0, 1, q(1, 1));
+        t.set(1, 1, 0, q(d, 1));
+        t
+    }
+
+    #[test]
+    fn finds_and_verifies_an_isomorphism() {
+        let t = quadratic(-1);
+        let x = change_basis_algebra(&t, &random_invertible(2, 1, 3)).unwrap();
+        let m = find_isomorphism(&x, &t, &IsoParams::default()).expect("isomorphic");
+        let y = change_basis_algebra(&t, &m).unwrap();
+        assert!(y.entries().eq(x.entries()));
+    }
+
+    #[test]
+    fn non_isomorphic_fields_give_none() {
+        // Q(sqrt 2) and Q(sqrt 3) are different fields (Lang 2002): no map exists at all.
+        assert!(find_isomorphism(&quadratic(2), &quadratic(3), &IsoParams::default()).is_none());
+    }
+}

@@ -198,3 +198,20 @@ pub fn square_class_text(a: &Q) -> String {
         format!("{sign}{} (mod squares)", a.numer() * a.denom())
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scalar::q;
+
+    #[test]
+    fn square_classes() {
+        // common practice: a b is a square iff a and b lie in one square class
+        assert!(same_square_class(&q(2, 1), &q(8, 1)));
+        assert!(same_square_class(&q(3, 4), &q(12, 1)));
+        assert!(!same_square_class(&q(2, 1), &q(3, 1)));
+        assert!(!same_square_class(&q(-1, 1), &q(1, 1)));
+        assert_eq!(square_class_text(&q(-12, 1)), "-3");
+        assert_eq!(square_class_text(&q(50, 9)), "2");
+    }
+}
