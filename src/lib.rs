@@ -9,6 +9,7 @@
 //!
 //! [`error`] holds the typed errors shared by all layers.
 
+pub mod catalog;
 pub mod error;
 pub mod generators;
 pub mod input;

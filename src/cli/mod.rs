@@ -18,6 +18,12 @@ mod scheme;
 mod scheme_io;
 mod verify;
 mod invariants;
+mod catalog;
+pub mod common;
+mod convert;
+mod identify;
+
+use clap::{Parser, Subcommand};
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -53,10 +59,16 @@ enum Command {
     Search(search::SearchArgs),
     /// Keep the lowest-rank verified scheme among result and checkpoint files.
     Merge(merge::MergeArgs),
+    /// Browse the catalog of known algebras and bilinear maps (list, show, check, doc).
+    Catalog(catalog::CatalogArgs),
+    /// Identify an input against the catalog by invariants (and explicit isomorphisms).
+    Identify(identify::IdentifyArgs),
 }
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
+    // catalog names resolve wherever an input is expected
+    bilin::catalog::register_input_resolver();
     let cli = match Cli::try_parse() {
         Ok(c) => c,
         Err(e) => {
@@ -75,5 +87,7 @@ pub fn run() -> i32 {
         Command::Invariants(a) => invariants::run(a),
         Command::Search(a) => search::run(a),
         Command::Merge(a) => merge::run(a),
+        Command::Catalog(a) => catalog::run(a),
+        Command::Identify(a) => identify::run(a),
     }
 }
