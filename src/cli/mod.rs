@@ -4,26 +4,21 @@
 //! Exit codes: 0 success, 1 a checked claim is false (e.g. a scheme fails verification),
 //! 2 bad input or usage.
 
-mod merge;
-mod search;
-
 use clap::{Parser, Subcommand};
 
 mod analyze;
 mod bounds;
-pub mod common;
-mod convert;
-mod emit;
-mod scheme;
-mod scheme_io;
-mod verify;
-mod invariants;
 mod catalog;
 pub mod common;
 mod convert;
+mod emit;
 mod identify;
-
-use clap::{Parser, Subcommand};
+mod invariants;
+mod merge;
+mod scheme;
+mod scheme_io;
+mod search;
+mod verify;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
