@@ -328,7 +328,7 @@ pub fn search_scheme(
         }
         let mut last = Instant::now();
         while workers_left.load(Ordering::SeqCst) > 0 {
-            std::thread::sleep(Duration::from_millis(20));
+            std::thread::sleep(Duration::from_millis(2));
             if last.elapsed() >= Duration::from_millis(500) {
                 last = Instant::now();
                 progress(&snapshot(&shared, t0, &run_of));
