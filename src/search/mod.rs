@@ -280,6 +280,11 @@ pub fn search_scheme(
                         }
                         Method::Flip => {
                             let startb = flip_start.as_ref().expect("flip start");
+                            // lifting costs one GF(2) elimination of the Jacobian; retries
+                            // at a rank already tried get at most a fifth of the walk's time
+                            let walk_t0 = Instant::now();
+                            let mut lift_secs = 0.0f64;
+                            let mut tried_rank = usize::MAX;
                             let mut ev = |e: WalkEvent<BitScheme>| -> bool {
                                 match e {
                                     WalkEvent::Moves(m) => {
@@ -294,7 +299,16 @@ pub fn search_scheme(
                                             return false;
                                         }
                                         let s = if field == FieldSpec::Rational {
-                                            hensel::lift_scheme(b, &goal, &params.hensel)
+                                            if r >= tried_rank
+                                                && lift_secs > 0.2 * walk_t0.elapsed().as_secs_f64()
+                                            {
+                                                return false;
+                                            }
+                                            tried_rank = tried_rank.min(r);
+                                            let l0 = Instant::now();
+                                            let s = hensel::lift_scheme(b, &goal, &params.hensel);
+                                            lift_secs += l0.elapsed().as_secs_f64();
+                                            s
                                         } else {
                                             let s = b.to_scheme(field);
                                             verify(&s, &goal).is_ok().then_some(s)
