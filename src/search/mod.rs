@@ -192,6 +192,19 @@ pub fn search_scheme(
         ));
     }
     let target = params.target_rank.unwrap_or(0);
+    // rank 0: only the zero tensor, decided at once
+    if params.target_rank == Some(0) || goal.nnz() == 0 {
+        let empty = Scheme::empty(field, goal.dims());
+        let ok = verify(&empty, &goal).is_ok();
+        let best = if ok { Some(empty) } else { start };
+        return Ok(Outcome {
+            reached: best.as_ref().is_some_and(|s| s.rank() <= target),
+            best,
+            moves: 0,
+            next_run: params.first_run,
+            elapsed: Duration::ZERO,
+        });
+    }
     let p_start = match (params.method, field) {
         (Method::Flip, FieldSpec::Prime(p)) if p != 2 => Some(flip_p::PScheme::standard(&goal)?),
         _ => None,

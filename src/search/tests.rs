@@ -209,3 +209,15 @@ fn shards_partition_runs() {
     assert_eq!(o.next_run, 7);
     assert_eq!(o.best.map(|s| s.rank()), Some(3));
 }
+
+/// The zero tensor has the empty scheme; rank 0 is refused at once for any other tensor.
+#[test]
+fn rank_zero_is_decided_at_once() {
+    let z = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [2, 2, 2], None);
+    for m in [Method::Als, Method::Flip] {
+        let o = run(&z, &params(m, 0, 0));
+        assert!(o.reached && o.best.unwrap().rank() == 0);
+        let o = run(&complex(), &params(m, 0, 0));
+        assert!(!o.reached && o.best.is_none());
+    }
+}
