@@ -225,13 +225,13 @@ fn eval_instance<F: Field>(
     free: &[usize],
 ) -> Sparse<F::Elem> {
     let mut acc = Vec::new();
-    let mut values: Vec<Sparse<F::Elem>> = Vec::with_capacity(id.nvars);
+    let mut values: Vec<&[(usize, F::Elem)]> = Vec::with_capacity(id.nvars);
     for ord in orderings {
         values.clear();
-        values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].clone()));
+        values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].as_slice()));
         for ((_, e), c) in id.terms.iter().zip(coefs) {
-            for (k, v) in eval(f, t, e, &values) {
-                acc.push((k, f.mul(&v, c)));
+            for (k, v) in eval(f, t, e, &values).iter() {
+                acc.push((*k, f.mul(v, c)));
             }
         }
     }
