@@ -8,6 +8,7 @@ use clap::{Parser, Subcommand};
 
 pub mod common;
 mod convert;
+mod transform;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -28,6 +29,8 @@ struct Cli {
 enum Command {
     /// Print an input (file, generator or catalog name) as a table, grid or JSON.
     Convert(convert::Args),
+    /// Apply a change of basis (a basis file or a seeded random one) and print the result.
+    Transform(transform::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -42,5 +45,6 @@ pub fn run() -> i32 {
     };
     match cli.command {
         Command::Convert(a) => convert::run(a),
+        Command::Transform(a) => transform::run(a),
     }
 }

@@ -74,6 +74,13 @@ impl<'a> Cursor<'a> {
     }
 
     pub fn peek(&self) -> Option<char> {
+        if self.pos >= self.end {
+            return None;
+        }
+        let b = self.line.text.as_bytes()[self.pos];
+        if b.is_ascii() {
+            return Some(b as char);
+        }
         self.rest().chars().next()
     }
 
@@ -138,7 +145,7 @@ impl<'a> Cursor<'a> {
     pub fn number(&mut self) -> Result<Q, Error> {
         let start = self.pos;
         let int = self.digits()?;
-        let int_val: BigInt = int.parse().unwrap_or_default();
+        let int_val = parse_digits(int);
         if self.peek() == Some('.') {
             self.bump();
             if !self.peek().is_some_and(|c| c.is_ascii_digit()) {
@@ -161,7 +168,7 @@ impl<'a> Cursor<'a> {
                 return Err(self.expected("a denominator (digits) after `/`"));
             }
             let den_pos = self.pos;
-            let den: BigInt = self.digits()?.parse().unwrap_or_default();
+            let den = parse_digits(self.digits()?);
             if den.is_zero() {
                 return Err(self.line.err(
                     den_pos,
@@ -172,6 +179,18 @@ impl<'a> Cursor<'a> {
         }
         Ok(Q::from_integer(int_val))
     }
+}
+
+/// The value of a string of ASCII digits (fast path without allocation of a temporary for
+/// up to 18 digits).
+fn parse_digits(d: &str) -> BigInt {
+    if d.len() <= 18 {
+        let v = d
+            .bytes()
+            .fold(0u64, |acc, c| acc * 10 + u64::from(c - b'0'));
+        return BigInt::from(v);
+    }
+    d.parse().unwrap_or_default()
 }
 
 /// Whitespace-separated tokens of a line with their byte offsets.

@@ -12,15 +12,23 @@ use super::cursor::{Cursor, LineRef, tokens};
 use super::is_valid_name;
 use crate::error::{Error, Position, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
-use crate::tensor::{Kind, MAX_DIM, Tensor};
+use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape};
 use num_traits::{One, Zero};
-use std::collections::{BTreeMap, HashMap};
+use std::collections::HashMap;
+
+/// One term of a product with its result index resolved: `k = None` for a bare number
+/// (a multiple of the unit), and the byte offset of the term in its line.
+pub(super) struct Resolved {
+    pub k: Option<usize>,
+    pub coef: Q,
+    pub pos: usize,
+}
 
 /// One product `x*y = terms` read from a line or a grid cell.
 pub(super) struct Pending {
     pub i: usize,
     pub j: usize,
-    pub terms: Vec<Term>,
+    pub terms: Vec<Resolved>,
     /// Line index (0-based) and byte offset of the product's left factor.
     pub line: usize,
     pub byte: usize,
@@ -98,14 +106,22 @@ impl<'a> Builder<'a> {
         ))
     }
 
-    /// Check that every named term is a result basis name (errors in file order).
-    pub fn check_names(&self, terms: &[Term], line: &LineRef<'_>) -> Result<()> {
-        for t in terms {
-            if let Some(n) = &t.name {
-                self.lookup(2, n, line, t.pos)?;
-            }
-        }
-        Ok(())
+    /// Resolve the names of the terms to result indices (errors in file order).
+    pub fn resolve_terms(&self, terms: Vec<Term<'_>>, line: &LineRef<'_>) -> Result<Vec<Resolved>> {
+        terms
+            .into_iter()
+            .map(|t| {
+                let k = match t.name {
+                    Some(n) => Some(self.lookup(2, n, line, t.pos)?),
+                    None => None,
+                };
+                Ok(Resolved {
+                    k,
+                    coef: t.coef,
+                    pos: t.pos,
+                })
+            })
+            .collect()
     }
 
     fn declared(&self) -> bool {
@@ -118,7 +134,18 @@ impl<'a> Builder<'a> {
 }
 
 /// Check control characters (binary data) and return the first offending position.
+/// Fast path: a byte scan (C0 controls other than tab, LF, CR; DEL; C1 controls, which are
+/// encoded as 0xC2 0x80..0x9F); only a text with a hit is walked by characters.
 fn check_text(text: &str, source: &str) -> Result<()> {
+    let bytes = text.as_bytes();
+    let suspicious = bytes.iter().enumerate().any(|(n, &c)| {
+        (c < 0x20 && c != b'\n' && c != b'\r' && c != b'\t')
+            || c == 0x7f
+            || (c == 0xc2 && bytes.get(n + 1).is_some_and(|d| (0x80..0xa0).contains(d)))
+    });
+    if !suspicious {
+        return Ok(());
+    }
     let mut line = 1;
     let mut col = 1;
     for c in text.chars() {
@@ -267,7 +294,27 @@ fn parse_basis(
             ),
         ));
     }
-    let mut names = Vec::with_capacity(toks.len() - 1);
+    let n = toks.len() - 1;
+    let other = match axis {
+        0 if kind == Kind::Bilinear => b.names[1].as_ref().map(|v| v.0.len()),
+        1 => b.names[0].as_ref().map(|v| v.0.len()),
+        _ => None,
+    };
+    let shape = match (kind, other) {
+        (Kind::Algebra, _) => Some([n, n, n]),
+        (_, Some(m)) if axis == 0 => Some([n, m, 1]),
+        (_, Some(m)) => Some([m, n, 1]),
+        _ => None,
+    };
+    if let Some(Err(m)) = shape.map(check_shape) {
+        let what = if kind == Kind::Algebra {
+            "this algebra"
+        } else {
+            "the left and right bases give"
+        };
+        return Err(line.err(kpos, format!("{what}: {m}")));
+    }
+    let mut names = Vec::with_capacity(n);
     let mut index: HashMap<String, usize> = HashMap::new();
     let mut columns: HashMap<&str, usize> = HashMap::new();
     for &(pos, name) in &toks[1..] {
@@ -364,8 +411,7 @@ fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<(
         return Err(cur.expected("`=`"));
     }
     cur.bump();
-    let terms = parse_combination(&mut cur)?;
-    b.check_names(&terms, &line)?;
+    let terms = b.resolve_terms(parse_combination(&mut cur)?, &line)?;
     b.pending.push(Pending {
         i,
         j,
@@ -383,16 +429,13 @@ fn reduce_terms(
     field: Option<&PrimeField>,
 ) -> Result<Vec<(usize, Q)>> {
     let line = b.line(p.line);
-    let mut acc: BTreeMap<usize, Q> = BTreeMap::new();
+    let mut acc: Vec<(usize, Q)> = Vec::with_capacity(p.terms.len());
     for t in &p.terms {
-        if let Some(n) = &t.name {
-            b.lookup(2, n, &line, t.pos)?;
-        }
         if t.coef.is_zero() {
             continue;
         }
-        let k = match &t.name {
-            Some(n) => b.lookup(2, n, &line, t.pos)?,
+        let k = match t.k {
+            Some(k) => k,
             None => match b.unit {
                 Some((u, _)) => u,
                 None => {
@@ -425,24 +468,32 @@ fn reduce_terms(
                 f.to_rational(&f.from_rational(&t.coef).unwrap_or_default())
             }
         };
-        *acc.entry(k).or_insert_with(Q::zero) += c;
+        acc.push((k, c));
     }
-    Ok(acc
-        .into_iter()
-        .map(|(k, v)| match field {
-            None => (k, v),
-            Some(f) => (k, f.to_rational(&f.from_rational(&v).unwrap_or_default())),
-        })
-        .filter(|(_, v)| !v.is_zero())
-        .collect())
+    if acc.len() > 1 {
+        // merge repeated names (coefficients add)
+        acc.sort_by_key(|e| e.0);
+        let mut merged: Vec<(usize, Q)> = Vec::with_capacity(acc.len());
+        for (k, c) in acc {
+            match merged.last_mut() {
+                Some(last) if last.0 == k => last.1 += c,
+                _ => merged.push((k, c)),
+            }
+        }
+        acc = merged;
+        if let Some(f) = field {
+            for e in &mut acc {
+                e.1 = f.to_rational(&f.from_rational(&e.1).unwrap_or_default());
+            }
+        }
+    }
+    acc.retain(|e| !e.1.is_zero());
+    Ok(acc)
 }
 
 fn show(t: &Tensor, v: &[(usize, Q)]) -> String {
     super::write::format_combination(v.iter().map(|(k, c)| (t.name(2, *k), c)), true)
 }
-
-/// A product already read: its reduced value and the line index where it was given.
-type Seen = (Vec<(usize, Q)>, usize);
 
 /// Second pass: build the tensor from the statements.
 fn finish(b: Builder<'_>) -> Result<Tensor> {
@@ -478,11 +529,18 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
         FieldSpec::Rational => None,
     };
     let mut t = Tensor::zero(field, kind, dims, Some(names));
-    let mut seen: HashMap<(usize, usize), Seen> = HashMap::new();
+    // first[i * dims[1] + j] = 1 + the line index where the product was first given, 0 if
+    // never; the tensor itself holds the value given there.
+    let mut first: Vec<u32> = vec![0; dims[0] * dims[1]];
+    let seen = |first: &[u32], i: usize, j: usize| match first[i * dims[1] + j] {
+        0 => None,
+        l => Some(l as usize - 1),
+    };
     for p in &b.pending {
         let v = reduce_terms(&b, p, prime.as_ref())?;
-        if let Some((old, line)) = seen.get(&(p.i, p.j)) {
-            if *old != v {
+        if let Some(line) = seen(&first, p.i, p.j) {
+            let old = t.product(p.i, p.j);
+            if old != v.as_slice() {
                 return Err(b.err(
                     p.line,
                     p.byte,
@@ -498,23 +556,22 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
             }
             continue;
         }
-        for (k, c) in &v {
-            t.set(p.i, p.j, *k, c.clone());
-        }
-        seen.insert((p.i, p.j), (v, p.line));
+        t.set_product(p.i, p.j, v);
+        first[p.i * dims[1] + p.j] = u32::try_from(p.line + 1).unwrap_or(u32::MAX);
     }
     if let Some((u, uline)) = b.unit {
         for x in 0..dims[0] {
             let expect = vec![(x, Q::one())];
             for (i, j) in [(u, x), (x, u)] {
-                match seen.get(&(i, j)) {
-                    Some((v, line)) if *v != expect => {
+                match seen(&first, i, j) {
+                    Some(line) if t.product(i, j) != expect.as_slice() => {
+                        let v = t.product(i, j);
                         let p = b
                             .pending
                             .iter()
-                            .find(|p| (p.i, p.j) == (i, j) && p.line == *line);
+                            .find(|p| (p.i, p.j) == (i, j) && p.line == line);
                         return Err(b.err(
-                            *line,
+                            line,
                             p.map_or(0, |p| p.byte),
                             format!(
                                 "`{}*{}` = `{}` contradicts `unit {}` (line {}): expected `{}`",
