@@ -2,9 +2,9 @@
 //! apply a change of basis (a file in the format of `docs/formats.md`, "Change of basis",
 //! or a seeded random invertible integer matrix per axis) and print the result.
 
-use super::{EXIT_OK, EXIT_USAGE};
 use super::common::{generators_help, load, report_error};
 use super::convert::Form;
+use super::{EXIT_OK, EXIT_USAGE};
 use bilin::input::{
     apply_basis_change, parse_basis_file, random_basis_change, read_text_file, write_grid,
     write_json, write_table,
@@ -17,7 +17,12 @@ pub struct Args {
     pub input: String,
     /// A change-of-basis file: columns of each matrix are the new basis vectors in old
     /// coordinates.
-    #[arg(long, value_name = "FILE", conflicts_with = "random", required_unless_present = "random")]
+    #[arg(
+        long,
+        value_name = "FILE",
+        conflicts_with = "random",
+        required_unless_present = "random"
+    )]
     pub basis: Option<String>,
     /// A random change of basis (entries in -2..2, invertible), one matrix per axis
     /// (one for an algebra), from this seed.

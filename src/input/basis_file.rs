@@ -171,7 +171,9 @@ pub fn parse_basis_file(text: &str, source: &str) -> Result<BasisChange> {
                     None => None,
                     Some(&(p, w)) => match axis_of(w) {
                         Some(a) if toks.len() == 2 => Some(a),
-                        Some(_) => return Err(line.err(toks[2].0, "expected nothing after the axis")),
+                        Some(_) => {
+                            return Err(line.err(toks[2].0, "expected nothing after the axis"));
+                        }
                         None => {
                             return Err(line.err(
                                 p,
@@ -190,7 +192,10 @@ pub fn parse_basis_file(text: &str, source: &str) -> Result<BasisChange> {
                 if let Some(first) = taken {
                     return Err(line.err(
                         kpos,
-                        format!("this matrix is given twice (first on line {})", first.at.line),
+                        format!(
+                            "this matrix is given twice (first on line {})",
+                            first.at.line
+                        ),
                     ));
                 }
                 let mixed = match axis {
@@ -297,7 +302,10 @@ fn parse_names(line: &LineRef<'_>, toks: &[(usize, &str)], out: &mut BasisChange
     let first = if axis.is_some() { 2 } else { 1 };
     if toks.len() <= first {
         let end = line.text.trim_end().len();
-        return Err(line.err(end, "expected the new basis names, found the end of the line"));
+        return Err(line.err(
+            end,
+            "expected the new basis names, found the end of the line",
+        ));
     }
     let slot = match axis {
         None => &mut out.single_names,
@@ -306,7 +314,10 @@ fn parse_names(line: &LineRef<'_>, toks: &[(usize, &str)], out: &mut BasisChange
     if let Some(prev) = slot {
         return Err(line.err(
             toks[0].0,
-            format!("these names are given twice (first on line {})", prev.at.line),
+            format!(
+                "these names are given twice (first on line {})",
+                prev.at.line
+            ),
         ));
     }
     let mut seen = HashSet::new();

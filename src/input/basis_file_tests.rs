@@ -65,12 +65,21 @@ fn application_errors() {
     let h = cayley_dickson(2).unwrap();
     let sing = parse_basis_file("matrix\n1 0 0 0\n0 1 1 0\n0 1 1 0\n0 0 0 1\nend\n", "b").unwrap();
     let e = apply_basis_change(&h, &sing).unwrap_err().to_string();
-    assert!(e.starts_with("b:1:1: the basis matrix is singular over Q"), "{e}");
+    assert!(
+        e.starts_with("b:1:1: the basis matrix is singular over Q"),
+        "{e}"
+    );
     let small = parse_basis_file("matrix\n1 0\n0 1\nend\n", "b").unwrap();
     let e = apply_basis_change(&h, &small).unwrap_err().to_string();
-    assert!(e.contains("is 2 x 2, but the basis space has dimension 4"), "{e}");
-    let names = parse_basis_file("names a b\nmatrix\n1 0 0 0\n0 1 0 0\n0 0 1 0\n0 0 0 1\nend\n", "b")
-        .unwrap();
+    assert!(
+        e.contains("is 2 x 2, but the basis space has dimension 4"),
+        "{e}"
+    );
+    let names = parse_basis_file(
+        "names a b\nmatrix\n1 0 0 0\n0 1 0 0\n0 0 1 0\n0 0 0 1\nend\n",
+        "b",
+    )
+    .unwrap();
     let e = apply_basis_change(&h, &names).unwrap_err().to_string();
     assert!(e.starts_with("b:1:7: 2 new names"), "{e}");
     // Invertible over Q (determinant 2) but singular over GF(2).
@@ -79,8 +88,14 @@ fn application_errors() {
     assert!(apply_basis_change(&h, &two).is_ok());
     let e = apply_basis_change(&h2, &two).unwrap_err().to_string();
     assert!(e.contains("singular over GF(2)"), "{e}");
-    let half = parse_basis_file("matrix\n1/2 0 0 0\n0 1 0 0\n0 0 1 0\n0 0 0 1\nend\n", "b").unwrap();
-    assert!(apply_basis_change(&h2, &half).unwrap_err().to_string().contains("denominator"));
+    let half =
+        parse_basis_file("matrix\n1/2 0 0 0\n0 1 0 0\n0 0 1 0\n0 0 0 1\nend\n", "b").unwrap();
+    assert!(
+        apply_basis_change(&h2, &half)
+            .unwrap_err()
+            .to_string()
+            .contains("denominator")
+    );
     // One matrix does not fit a map with unequal dimensions.
     let m = matmul(1, 2, 1).unwrap();
     let e = apply_basis_change(&m, &small).unwrap_err().to_string();

@@ -56,9 +56,7 @@ pub(crate) fn parse_combination<'a>(cur: &mut Cursor<'a>) -> Result<Vec<Term<'a>
                     None => (coef, None),
                 }
             }
-            Some(c) if is_name_start(c) => {
-                (Q::one(), cur.name())
-            }
+            Some(c) if is_name_start(c) => (Q::one(), cur.name()),
             _ => return Err(cur.expected("a coefficient or a basis name")),
         };
         terms.push(Term {

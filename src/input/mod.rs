@@ -23,6 +23,8 @@ mod table;
 mod write;
 
 #[cfg(test)]
+mod limits_tests;
+#[cfg(test)]
 mod proptests;
 #[cfg(test)]
 mod tests;

@@ -222,7 +222,10 @@ impl Tensor {
     /// zeros dropped. Cost: O(m log m) for m pairs, no copy of the values over Q.
     pub fn set_product(&mut self, i: usize, j: usize, mut row: Vec<(usize, Q)>) {
         if let FieldSpec::Prime(_) = self.field {
-            row = row.into_iter().map(|(k, v)| (k, self.normalise(v))).collect();
+            row = row
+                .into_iter()
+                .map(|(k, v)| (k, self.normalise(v)))
+                .collect();
         }
         row.retain(|(_, v)| !v.is_zero());
         row.sort_unstable_by_key(|e| e.0);
