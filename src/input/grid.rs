@@ -111,13 +111,13 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
         for (&(pos, cell), &j) in cells.iter().zip(&cols) {
             let mut cur = Cursor::new(line, pos, pos + cell.len());
             let terms = b.resolve_terms(parse_combination(&mut cur)?, &line)?;
-            b.pending.push(Pending {
+            b.add_product(Pending {
                 i,
                 j,
                 terms,
                 line: idx - 1,
                 byte: pos,
-            });
+            })?;
         }
     }
     Err(gline.err(

@@ -44,8 +44,30 @@ pub(super) struct Builder<'a> {
     pub names: [Option<(Vec<String>, usize)>; 3],
     pub index: [HashMap<String, usize>; 3],
     pub unit: Option<(usize, usize)>,
+    /// Products with a bare number, resolved once the `unit` is known (in `finish`).
     pub pending: Vec<Pending>,
+    /// Number of products read so far.
+    pub products: usize,
+    /// The tensor under construction, created at the first product.
+    pub built: Option<Built>,
     pub statements: usize,
+}
+
+/// The tensor being built and, per product `(i, j)`, where it was first given:
+/// `first[i * dims[1] + j] = (1 + line index, byte)`, line 0 for never.
+pub(super) struct Built {
+    t: Tensor,
+    first: Vec<(u32, u32)>,
+    prime: Option<PrimeField>,
+}
+
+impl Built {
+    fn seen(&self, i: usize, j: usize) -> Option<(usize, usize)> {
+        match self.first[i * self.t.dims()[1] + j] {
+            (0, _) => None,
+            (l, b) => Some((l as usize - 1, b as usize)),
+        }
+    }
 }
 
 impl<'a> Builder<'a> {
@@ -124,6 +146,80 @@ impl<'a> Builder<'a> {
             .collect()
     }
 
+    /// Create the tensor (the basis is complete and the field fixed from here on).
+    fn ensure_built(&mut self) {
+        if self.built.is_some() {
+            return;
+        }
+        let kind = self.kind.unwrap_or(Kind::Algebra);
+        let names: [Vec<String>; 3] = std::array::from_fn(|a| {
+            self.names[a]
+                .as_ref()
+                .map(|n| n.0.clone())
+                .unwrap_or_default()
+        });
+        let dims = [names[0].len(), names[1].len(), names[2].len()];
+        let field = self.field.map_or(FieldSpec::Rational, |f| f.0);
+        let prime = match field {
+            FieldSpec::Prime(p) => PrimeField::new(p),
+            FieldSpec::Rational => None,
+        };
+        self.built = Some(Built {
+            t: Tensor::zero(field, kind, dims, Some(names)),
+            first: vec![(0, 0); dims[0] * dims[1]],
+            prime,
+        });
+    }
+
+    /// Take one product: stored at once when every term names a basis vector, kept for
+    /// `finish` when a bare number needs the unit.
+    pub fn add_product(&mut self, p: Pending) -> Result<()> {
+        self.products += 1;
+        self.ensure_built();
+        if p.terms.iter().any(|t| t.k.is_none()) {
+            self.pending.push(p);
+            return Ok(());
+        }
+        self.insert(&p)
+    }
+
+    /// Store a product in the tensor, refusing a conflicting duplicate.
+    fn insert(&mut self, p: &Pending) -> Result<()> {
+        let Some(built) = self.built.as_ref() else {
+            return Ok(());
+        };
+        let v = reduce_terms(self, p, built.prime.as_ref())?;
+        if let Some((line, _)) = built.seen(p.i, p.j) {
+            let t = &built.t;
+            let old = t.product(p.i, p.j);
+            if old != v.as_slice() {
+                return Err(self.err(
+                    p.line,
+                    p.byte,
+                    format!(
+                        "conflicting duplicate product `{}*{}`: here `{}`, but line {} gave `{}`",
+                        t.name(0, p.i),
+                        t.name(1, p.j),
+                        show(t, &v),
+                        line + 1,
+                        show(t, old)
+                    ),
+                ));
+            }
+            return Ok(());
+        }
+        let Some(built) = self.built.as_mut() else {
+            return Ok(());
+        };
+        built.t.set_product(p.i, p.j, v);
+        let b = built.t.dims()[1];
+        built.first[p.i * b + p.j] = (
+            u32::try_from(p.line + 1).unwrap_or(u32::MAX),
+            u32::try_from(p.byte).unwrap_or(u32::MAX),
+        );
+        Ok(())
+    }
+
     fn declared(&self) -> bool {
         match self.kind {
             Some(Kind::Algebra) => true,
@@ -189,6 +285,8 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
         index: [HashMap::new(), HashMap::new(), HashMap::new()],
         unit: None,
         pending: Vec::new(),
+        products: 0,
+        built: None,
         statements: 0,
     };
     let mut idx = 0;
@@ -242,7 +340,7 @@ fn parse_field(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize, after: usize)
             format!("the field is declared twice (first on line {})", first + 1),
         ));
     }
-    if !b.pending.is_empty() {
+    if b.products > 0 {
         return Err(line.err(0, "the `field` statement must come before the products"));
     }
     let spec = FieldSpec::parse(rest.trim()).map_err(|m| line.err(start, m))?;
@@ -412,14 +510,13 @@ fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<(
     }
     cur.bump();
     let terms = b.resolve_terms(parse_combination(&mut cur)?, &line)?;
-    b.pending.push(Pending {
+    b.add_product(Pending {
         i,
         j,
         terms,
         line: idx,
         byte: start,
-    });
-    Ok(())
+    })
 }
 
 /// Reduce a product's terms into the field: sorted `(k, c)` without zeros.
@@ -496,7 +593,7 @@ fn show(t: &Tensor, v: &[(usize, Q)]) -> String {
 }
 
 /// Second pass: build the tensor from the statements.
-fn finish(b: Builder<'_>) -> Result<Tensor> {
+fn finish(mut b: Builder<'_>) -> Result<Tensor> {
     let kind = match b.kind {
         Some(k) => k,
         None => {
@@ -520,59 +617,27 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
             }
         }
     }
-    let names: [Vec<String>; 3] =
-        std::array::from_fn(|a| b.names[a].as_ref().map(|n| n.0.clone()).unwrap_or_default());
-    let dims = [names[0].len(), names[1].len(), names[2].len()];
-    let field = b.field.map_or(FieldSpec::Rational, |f| f.0);
-    let prime = match field {
-        FieldSpec::Prime(p) => PrimeField::new(p),
-        FieldSpec::Rational => None,
-    };
-    let mut t = Tensor::zero(field, kind, dims, Some(names));
-    // first[i * dims[1] + j] = 1 + the line index where the product was first given, 0 if
-    // never; the tensor itself holds the value given there.
-    let mut first: Vec<u32> = vec![0; dims[0] * dims[1]];
-    let seen = |first: &[u32], i: usize, j: usize| match first[i * dims[1] + j] {
-        0 => None,
-        l => Some(l as usize - 1),
-    };
-    for p in &b.pending {
-        let v = reduce_terms(&b, p, prime.as_ref())?;
-        if let Some(line) = seen(&first, p.i, p.j) {
-            let old = t.product(p.i, p.j);
-            if old != v.as_slice() {
-                return Err(b.err(
-                    p.line,
-                    p.byte,
-                    format!(
-                        "conflicting duplicate product `{}*{}`: here `{}`, but line {} gave `{}`",
-                        t.name(0, p.i),
-                        t.name(1, p.j),
-                        show(&t, &v),
-                        line + 1,
-                        show(&t, old)
-                    ),
-                ));
-            }
-            continue;
-        }
-        t.set_product(p.i, p.j, v);
-        first[p.i * dims[1] + p.j] = u32::try_from(p.line + 1).unwrap_or(u32::MAX);
+    b.ensure_built();
+    for p in std::mem::take(&mut b.pending) {
+        b.insert(&p)?;
     }
+    let Some(built) = b.built.take() else {
+        return Err(b.err(0, 0, "no basis declared"));
+    };
+    let dims = built.t.dims();
+    let mut t = built.t;
     if let Some((u, uline)) = b.unit {
         for x in 0..dims[0] {
             let expect = vec![(x, Q::one())];
             for (i, j) in [(u, x), (x, u)] {
-                match seen(&first, i, j) {
-                    Some(line) if t.product(i, j) != expect.as_slice() => {
+                match built.first[i * dims[1] + j] {
+                    (0, _) => t.set(i, j, x, Q::one()),
+                    (l, byte) if t.product(i, j) != expect.as_slice() => {
                         let v = t.product(i, j);
-                        let p = b
-                            .pending
-                            .iter()
-                            .find(|p| (p.i, p.j) == (i, j) && p.line == line);
+                        let line = l as usize - 1;
                         return Err(b.err(
                             line,
-                            p.map_or(0, |p| p.byte),
+                            byte as usize,
                             format!(
                                 "`{}*{}` = `{}` contradicts `unit {}` (line {}): expected `{}`",
                                 t.name(0, i),
@@ -584,8 +649,7 @@ fn finish(b: Builder<'_>) -> Result<Tensor> {
                             ),
                         ));
                     }
-                    Some(_) => {}
-                    None => t.set(i, j, x, Q::one()),
+                    _ => {}
                 }
             }
         }
