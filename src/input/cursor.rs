@@ -69,10 +69,12 @@ impl<'a> Cursor<'a> {
         Cursor { line, pos, end }
     }
 
+    #[inline]
     pub fn rest(&self) -> &'a str {
         &self.line.text[self.pos..self.end]
     }
 
+    #[inline]
     pub fn peek(&self) -> Option<char> {
         if self.pos >= self.end {
             return None;
@@ -84,18 +86,21 @@ impl<'a> Cursor<'a> {
         self.rest().chars().next()
     }
 
+    #[inline]
     pub fn bump(&mut self) -> Option<char> {
         let c = self.peek()?;
         self.pos += c.len_utf8();
         Some(c)
     }
 
+    #[inline]
     pub fn skip_ws(&mut self) {
         while self.peek().is_some_and(char::is_whitespace) {
             self.bump();
         }
     }
 
+    #[inline]
     pub fn at_end(&self) -> bool {
         self.pos >= self.end
     }
@@ -116,8 +121,19 @@ impl<'a> Cursor<'a> {
             return None;
         }
         self.bump();
-        while self.peek().is_some_and(is_name_char) {
-            self.bump();
+        // ASCII fast path, then characters for the rest.
+        let bytes = self.line.text.as_bytes();
+        while self.pos < self.end {
+            let c = bytes[self.pos];
+            if c.is_ascii_alphanumeric() || c == b'_' || c == b'\'' || c == b'.' {
+                self.pos += 1;
+            } else if c.is_ascii() {
+                break;
+            } else if self.peek().is_some_and(is_name_char) {
+                self.bump();
+            } else {
+                break;
+            }
         }
         Some(&self.line.text[start..self.pos])
     }

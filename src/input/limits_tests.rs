@@ -1,5 +1,6 @@
 //! The documented size limits (`docs/formats.md`, "Limits"): at most 2^22 products
-//! `dims[0] * dims[1]`, refused by the parsers and generators before allocating.
+//! `dims[0] * dims[1]`, refused by the parsers and generators before allocating; and the
+//! order of error reports of the table parser, which stores products as it reads them.
 
 use super::{parse_json, parse_table};
 use crate::generators::generate;
@@ -67,4 +68,24 @@ fn generators_refuse_too_many_products() {
     assert!(generate("poly:4096,4096").is_err());
     assert!(generate("poly:4096,1").is_ok());
     assert!(generate("cd:12").is_err());
+}
+
+#[test]
+fn duplicate_with_a_bare_number_is_reported_at_the_later_line() {
+    // Products with a bare number are stored after the others; the conflict is still
+    // reported at the later line of the file.
+    let e = parse_table("basis e i\nunit e\ni*i = -1\ni*i = i\n", "t")
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("t:4:1: conflicting duplicate product `i*i`: here `i`, but line 3 gave `-e`"),
+        "{e}"
+    );
+    let e = parse_table("basis e i\nunit e\ni*i = i\ni*i = -1\n", "t")
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("t:4:1: conflicting duplicate product `i*i`: here `-e`, but line 3 gave `i`"),
+        "{e}"
+    );
 }

@@ -16,6 +16,31 @@ use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape};
 use num_traits::{One, Zero};
 use std::collections::HashMap;
 
+/// FNV-1a: a fast hash for the basis-name index (names are short; the map is consulted
+/// three times per product line).
+#[derive(Default, Clone, Copy)]
+pub(super) struct Fnv(u64);
+
+impl std::hash::Hasher for Fnv {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        let mut h = if self.0 == 0 {
+            0xcbf2_9ce4_8422_2325
+        } else {
+            self.0
+        };
+        for &b in bytes {
+            h = (h ^ u64::from(b)).wrapping_mul(0x0100_0000_01b3);
+        }
+        self.0 = h;
+    }
+}
+
+/// The name index of one axis.
+pub(super) type NameIndex = HashMap<String, usize, std::hash::BuildHasherDefault<Fnv>>;
+
 /// One term of a product with its result index resolved: `k = None` for a bare number
 /// (a multiple of the unit), and the byte offset of the term in its line.
 pub(super) struct Resolved {
@@ -42,7 +67,7 @@ pub(super) struct Builder<'a> {
     pub kind: Option<Kind>,
     /// Names per axis (for an algebra all three are the basis) and the line declaring each.
     pub names: [Option<(Vec<String>, usize)>; 3],
-    pub index: [HashMap<String, usize>; 3],
+    pub index: [NameIndex; 3],
     pub unit: Option<(usize, usize)>,
     /// Products with a bare number, resolved once the `unit` is known (in `finish`).
     pub pending: Vec<Pending>,
@@ -176,7 +201,7 @@ impl<'a> Builder<'a> {
     pub fn add_product(&mut self, p: Pending) -> Result<()> {
         self.products += 1;
         self.ensure_built();
-        if p.terms.iter().any(|t| t.k.is_none()) {
+        if p.terms.iter().any(|t| t.k.is_none() && !t.coef.is_zero()) {
             self.pending.push(p);
             return Ok(());
         }
@@ -189,20 +214,27 @@ impl<'a> Builder<'a> {
             return Ok(());
         };
         let v = reduce_terms(self, p, built.prime.as_ref())?;
-        if let Some((line, _)) = built.seen(p.i, p.j) {
+        if let Some((line, byte)) = built.seen(p.i, p.j) {
             let t = &built.t;
             let old = t.product(p.i, p.j);
             if old != v.as_slice() {
+                // Report at the later of the two lines (products with a bare number are
+                // stored last, so the stored one may come later in the file).
+                let (here, there) = (show(t, &v), show(t, old));
+                let (at, at_byte, here, other, there) = if line > p.line {
+                    (line, byte, there, p.line, here)
+                } else {
+                    (p.line, p.byte, here, line, there)
+                };
                 return Err(self.err(
-                    p.line,
-                    p.byte,
+                    at,
+                    at_byte,
                     format!(
-                        "conflicting duplicate product `{}*{}`: here `{}`, but line {} gave `{}`",
+                        "conflicting duplicate product `{}*{}`: here `{here}`, but line {} gave \
+                         `{there}`",
                         t.name(0, p.i),
                         t.name(1, p.j),
-                        show(t, &v),
-                        line + 1,
-                        show(t, old)
+                        other + 1,
                     ),
                 ));
             }
@@ -282,7 +314,7 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
         field: None,
         kind: None,
         names: [None, None, None],
-        index: [HashMap::new(), HashMap::new(), HashMap::new()],
+        index: Default::default(),
         unit: None,
         pending: Vec::new(),
         products: 0,
@@ -413,7 +445,7 @@ fn parse_basis(
         return Err(line.err(kpos, format!("{what}: {m}")));
     }
     let mut names = Vec::with_capacity(n);
-    let mut index: HashMap<String, usize> = HashMap::new();
+    let mut index = NameIndex::default();
     let mut columns: HashMap<&str, usize> = HashMap::new();
     for &(pos, name) in &toks[1..] {
         if !is_valid_name(name) {
