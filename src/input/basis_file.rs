@@ -501,9 +501,7 @@ pub fn random_basis_change(t: &Tensor, seed: u64) -> BasisChange {
     if t.kind() == Kind::Algebra {
         c.single = Some(draw(0, d[0]));
     } else {
-        for a in 0..3 {
-            c.axes[a] = Some(draw(a, d[a]));
-        }
+        c.axes = std::array::from_fn(|a| Some(draw(a, d[a])));
     }
     c
 }
