@@ -18,6 +18,7 @@ mod cursor;
 mod grid;
 mod json;
 mod load;
+mod products;
 mod resolve;
 mod table;
 mod write;
