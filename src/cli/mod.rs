@@ -18,6 +18,7 @@ mod merge;
 mod scheme;
 mod scheme_io;
 mod search;
+mod transform;
 mod verify;
 
 /// Exit code: success.
@@ -58,6 +59,8 @@ enum Command {
     Catalog(catalog::CatalogArgs),
     /// Identify an input against the catalog by invariants (and explicit isomorphisms).
     Identify(identify::IdentifyArgs),
+    /// Apply a change of basis (a basis file or a seeded random one) and print the result.
+    Transform(transform::Args),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -84,5 +87,6 @@ pub fn run() -> i32 {
         Command::Merge(a) => merge::run(a),
         Command::Catalog(a) => catalog::run(a),
         Command::Identify(a) => identify::run(a),
+        Command::Transform(a) => transform::run(a),
     }
 }

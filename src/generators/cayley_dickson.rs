@@ -54,7 +54,7 @@ fn basis_product(i: usize, j: usize, level: usize, gammas: &[Q]) -> (Q, usize) {
 }
 
 /// The Cayley-Dickson algebra of dimension `2^level` doubled with the given `gammas`
-/// (`gammas.len() == level`, every gamma nonzero). Level at most 12 (dimension 4096).
+/// (`gammas.len() == level`, every gamma nonzero). Level at most 11 (dimension 2048, the algebra limit).
 /// Cost: O(4^level * level).
 pub fn cayley_dickson_with_signs(level: usize, gammas: &[Q]) -> Result<Tensor> {
     let what = format!("the Cayley-Dickson algebra of level {level}");

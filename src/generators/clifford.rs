@@ -38,7 +38,7 @@ fn blade_product(a: u32, b: u32, p: usize) -> (bool, u32) {
     (negative, a ^ b)
 }
 
-/// Cl(p, q): dimension `2^(p+q)`, at most 4096. Cost: O(4^n n).
+/// Cl(p, q): dimension `2^(p+q)`, at most 2048 (the algebra limit). Cost: O(4^n n).
 pub fn clifford(p: usize, q: usize) -> Result<Tensor> {
     let what = format!("the Clifford algebra Cl({p},{q})");
     let n = p

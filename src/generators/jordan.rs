@@ -13,7 +13,7 @@ use std::collections::BTreeMap;
 
 type Sparse = BTreeMap<(usize, usize), Q>;
 
-/// Sym_n with the Jordan product. Dimension n(n+1)/2 (at most 4096). Cost: O(n^4).
+/// Sym_n with the Jordan product. Dimension n(n+1)/2 (at most 2048, the algebra limit). Cost: O(n^4).
 pub fn jordan_symmetric(n: usize) -> Result<Tensor> {
     let what = format!("the Jordan algebra of symmetric {n}x{n} matrices");
     check_positive(&what, "n", n)?;

@@ -7,7 +7,7 @@
 //! `M_n` is the algebra of n x n matrices with basis the matrix units `E_ij` (names `e11`,
 //! `e12`, ...; row-major order) and `E_ij E_kl = delta_jk E_il`.
 
-use super::{check_dim, check_positive, index_name};
+use super::{check_dim, check_map_dims, check_positive, index_name};
 use crate::error::Result;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{Kind, Tensor};
@@ -31,9 +31,10 @@ pub fn matmul(n: usize, m: usize, p: usize) -> Result<Tensor> {
     for (v, name) in [(n, "n"), (m, "m"), (p, "p")] {
         check_positive(&what, name, v)?;
     }
-    let da = check_dim(&what, n.checked_mul(m))?;
-    let db = check_dim(&what, m.checked_mul(p))?;
-    let dc = check_dim(&what, n.checked_mul(p))?;
+    let [da, db, dc] = check_map_dims(
+        &what,
+        [n.checked_mul(m), m.checked_mul(p), n.checked_mul(p)],
+    )?;
     let names = [
         matrix_names("a", n, m),
         matrix_names("b", m, p),

@@ -3,8 +3,9 @@
 //!
 //! Every generator documents its basis order and product convention in its own file; the
 //! overview with the command-line spec syntax is in `docs/generators.md`. Invariants of
-//! every result: dimensions are at most [`crate::tensor::MAX_DIM`] (larger requests return
-//! [`Error::Invalid`] before anything is allocated), names are distinct and start with a
+//! every result: dimensions are at most [`crate::tensor::MAX_DIM`] per axis and at most
+//! [`crate::tensor::MAX_PRODUCTS`] products (an algebra of dimension at most 2048); larger
+//! requests return [`Error::Invalid`] before anything is allocated), names are distinct and start with a
 //! letter, and algebras have kind [`crate::tensor::Kind::Algebra`].
 
 mod cayley_dickson;
@@ -31,20 +32,36 @@ pub use polynomial::{poly_mult, quotient_ring};
 pub use spec::{generate, generator_names, is_generator_family};
 
 use crate::error::{Error, Result};
-use crate::tensor::MAX_DIM;
+use crate::tensor::{MAX_ALGEBRA_DIM, MAX_DIM, check_shape};
 
-/// Refuse a dimension above [`MAX_DIM`] (or an overflowing one, given as `None`) with a
-/// message naming the generator.
+/// Refuse an algebra dimension above [`MAX_ALGEBRA_DIM`] (at most 2^22 products; an
+/// overflowing dimension is given as `None`) with a message naming the generator.
 pub(crate) fn check_dim(what: &str, dim: Option<usize>) -> Result<usize> {
     match dim {
-        Some(d) if d <= MAX_DIM => Ok(d),
+        Some(d) if d <= MAX_ALGEBRA_DIM => Ok(d),
         Some(d) => Err(Error::Invalid(format!(
-            "{what} has dimension {d}, above the limit of {MAX_DIM}"
+            "{what} has dimension {d}, above the limit of {MAX_ALGEBRA_DIM} for an algebra \
+             ({MAX_ALGEBRA_DIM}^2 = 2^22 products; a bilinear map has at most {MAX_DIM} per axis)"
         ))),
         None => Err(Error::Invalid(format!(
-            "{what} has a dimension above the limit of {MAX_DIM}"
+            "{what} has a dimension above the limit of {MAX_ALGEBRA_DIM} for an algebra"
         ))),
     }
+}
+
+/// Refuse a bilinear map whose axis dimensions (`None`: overflow) break the limits of
+/// [`crate::tensor::check_shape`]; returns the dimensions.
+pub(crate) fn check_map_dims(what: &str, dims: [Option<usize>; 3]) -> Result<[usize; 3]> {
+    let mut out = [0; 3];
+    for (a, d) in dims.iter().enumerate() {
+        out[a] = d.ok_or_else(|| {
+            Error::Invalid(format!(
+                "{what} has a dimension above the limit of {MAX_DIM} per axis"
+            ))
+        })?;
+    }
+    check_shape(out).map_err(|m| Error::Invalid(format!("{what}: {m}")))?;
+    Ok(out)
 }
 
 /// Refuse a zero size parameter.

@@ -7,7 +7,7 @@
 //! (coefficients lowest degree first, `f_d != 0`, d >= 1), basis `x^0, ..., x^{d-1}` named
 //! `x0, ..., x{d-1}`; `x^i x^j` is the remainder of `x^{i+j}` modulo f. f need not be monic.
 
-use super::{check_dim, check_positive};
+use super::{check_dim, check_map_dims, check_positive};
 use crate::error::{Error, Result};
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{Kind, Tensor};
@@ -19,9 +19,7 @@ pub fn poly_mult(m: usize, n: usize) -> Result<Tensor> {
     let what = format!("polynomial multiplication ({m},{n})");
     check_positive(&what, "m", m)?;
     check_positive(&what, "n", n)?;
-    check_dim(&what, Some(m))?;
-    check_dim(&what, Some(n))?;
-    let c = check_dim(&what, (m + n).checked_sub(1))?;
+    let [m, n, c] = check_map_dims(&what, [Some(m), Some(n), (m + n).checked_sub(1)])?;
     let mk = |p: &str, k: usize| (0..k).map(|i| format!("{p}{i}")).collect::<Vec<_>>();
     let names = [mk("a", m), mk("b", n), mk("c", c)];
     let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [m, n, c], Some(names));

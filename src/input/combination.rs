@@ -9,17 +9,18 @@ use crate::error::Error;
 use crate::scalar::Q;
 use num_traits::One;
 
-/// One term of a combination, with the byte offset where it starts.
+/// One term of a combination, with the byte offset where it starts. The name borrows the
+/// input line (no allocation per term).
 #[derive(Clone, Debug)]
-pub(crate) struct Term {
+pub(crate) struct Term<'a> {
     /// The basis name, or `None` for a bare number (a multiple of the unit).
-    pub name: Option<String>,
+    pub name: Option<&'a str>,
     pub coef: Q,
     pub pos: usize,
 }
 
 /// Parse the combination at the cursor up to its end.
-pub(crate) fn parse_combination(cur: &mut Cursor<'_>) -> Result<Vec<Term>, Error> {
+pub(crate) fn parse_combination<'a>(cur: &mut Cursor<'a>) -> Result<Vec<Term<'a>>, Error> {
     let mut terms = Vec::new();
     cur.skip_ws();
     if cur.at_end() {
@@ -50,14 +51,12 @@ pub(crate) fn parse_combination(cur: &mut Cursor<'_>) -> Result<Vec<Term>, Error
                     star = true;
                 }
                 match cur.name() {
-                    Some(n) => (coef, Some(n.to_string())),
+                    Some(n) => (coef, Some(n)),
                     None if star => return Err(cur.expected("a basis name after `*`")),
                     None => (coef, None),
                 }
             }
-            Some(c) if is_name_start(c) => {
-                (Q::one(), Some(cur.name().unwrap_or_default().to_string()))
-            }
+            Some(c) if is_name_start(c) => (Q::one(), cur.name()),
             _ => return Err(cur.expected("a coefficient or a basis name")),
         };
         terms.push(Term {
@@ -93,7 +92,11 @@ mod tests {
         };
         let mut c = Cursor::new(line, 0, s.len());
         parse_combination(&mut c)
-            .map(|v| v.into_iter().map(|t| (t.name, t.coef)).collect())
+            .map(|v| {
+                v.into_iter()
+                    .map(|t| (t.name.map(str::to_string), t.coef))
+                    .collect()
+            })
             .map_err(|e| e.to_string())
     }
 

@@ -69,26 +69,38 @@ impl<'a> Cursor<'a> {
         Cursor { line, pos, end }
     }
 
+    #[inline]
     pub fn rest(&self) -> &'a str {
         &self.line.text[self.pos..self.end]
     }
 
+    #[inline]
     pub fn peek(&self) -> Option<char> {
+        if self.pos >= self.end {
+            return None;
+        }
+        let b = self.line.text.as_bytes()[self.pos];
+        if b.is_ascii() {
+            return Some(b as char);
+        }
         self.rest().chars().next()
     }
 
+    #[inline]
     pub fn bump(&mut self) -> Option<char> {
         let c = self.peek()?;
         self.pos += c.len_utf8();
         Some(c)
     }
 
+    #[inline]
     pub fn skip_ws(&mut self) {
         while self.peek().is_some_and(char::is_whitespace) {
             self.bump();
         }
     }
 
+    #[inline]
     pub fn at_end(&self) -> bool {
         self.pos >= self.end
     }
@@ -109,8 +121,19 @@ impl<'a> Cursor<'a> {
             return None;
         }
         self.bump();
-        while self.peek().is_some_and(is_name_char) {
-            self.bump();
+        // ASCII fast path, then characters for the rest.
+        let bytes = self.line.text.as_bytes();
+        while self.pos < self.end {
+            let c = bytes[self.pos];
+            if c.is_ascii_alphanumeric() || c == b'_' || c == b'\'' || c == b'.' {
+                self.pos += 1;
+            } else if c.is_ascii() {
+                break;
+            } else if self.peek().is_some_and(is_name_char) {
+                self.bump();
+            } else {
+                break;
+            }
         }
         Some(&self.line.text[start..self.pos])
     }
@@ -138,7 +161,7 @@ impl<'a> Cursor<'a> {
     pub fn number(&mut self) -> Result<Q, Error> {
         let start = self.pos;
         let int = self.digits()?;
-        let int_val: BigInt = int.parse().unwrap_or_default();
+        let int_val = parse_digits(int);
         if self.peek() == Some('.') {
             self.bump();
             if !self.peek().is_some_and(|c| c.is_ascii_digit()) {
@@ -161,7 +184,7 @@ impl<'a> Cursor<'a> {
                 return Err(self.expected("a denominator (digits) after `/`"));
             }
             let den_pos = self.pos;
-            let den: BigInt = self.digits()?.parse().unwrap_or_default();
+            let den = parse_digits(self.digits()?);
             if den.is_zero() {
                 return Err(self.line.err(
                     den_pos,
@@ -172,6 +195,18 @@ impl<'a> Cursor<'a> {
         }
         Ok(Q::from_integer(int_val))
     }
+}
+
+/// The value of a string of ASCII digits (fast path without allocation of a temporary for
+/// up to 18 digits).
+fn parse_digits(d: &str) -> BigInt {
+    if d.len() <= 18 {
+        let v = d
+            .bytes()
+            .fold(0u64, |acc, c| acc * 10 + u64::from(c - b'0'));
+        return BigInt::from(v);
+    }
+    d.parse().unwrap_or_default()
 }
 
 /// Whitespace-separated tokens of a line with their byte offsets.

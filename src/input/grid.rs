@@ -110,15 +110,14 @@ pub(super) fn parse_grid(b: &mut Builder<'_>, start: usize) -> Result<usize> {
         let cols = cols.clone();
         for (&(pos, cell), &j) in cells.iter().zip(&cols) {
             let mut cur = Cursor::new(line, pos, pos + cell.len());
-            let terms = parse_combination(&mut cur)?;
-            b.check_names(&terms, &line)?;
-            b.pending.push(Pending {
+            let terms = b.resolve_terms(parse_combination(&mut cur)?, &line)?;
+            b.add_product(Pending {
                 i,
                 j,
                 terms,
                 line: idx - 1,
                 byte: pos,
-            });
+            })?;
         }
     }
     Err(gline.err(

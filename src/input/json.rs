@@ -12,7 +12,7 @@ use super::cursor::{Cursor, LineRef};
 use super::is_valid_name;
 use crate::error::{Error, Position, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
-use crate::tensor::{Kind, MAX_DIM, Tensor, default_names};
+use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape, default_names};
 use num_bigint::BigInt;
 use serde_json::Value;
 use std::collections::{HashMap, HashSet};
@@ -210,6 +210,7 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
         ));
     }
     let dims = [dims[0] as usize, dims[1] as usize, dims[2] as usize];
+    check_shape(dims).map_err(|m| at_key("dims", m))?;
     if kind == Kind::Algebra && !(dims[0] == dims[1] && dims[1] == dims[2]) {
         return Err(at_key(
             "dims",

@@ -4,27 +4,35 @@
 //! - [`parse_json`]: the coordinate JSON form;
 //! - [`write_table`], [`write_grid`], [`write_json`]: the inverse writers, with
 //!   `parse(write(t)) == t` for every tensor whose names are valid basis names;
-//! - [`load_input`]: resolve a command-line input (file, generator, catalog hook).
+//! - [`load_input`]: resolve a command-line input (file, generator, catalog hook);
+//! - [`parse_basis_file`], [`apply_basis_change`]: change-of-basis files.
 //!
 //! Invariants: parsers never panic; every refusal is an [`crate::error::Error::Parse`] with
 //! a 1-based line and column (in characters) and a message saying what was expected and
-//! what was found. Limits (documented): dimension 4096 per axis, 4096 digits per integer,
-//! 64 MiB per file.
+//! what was found. Limits (documented): dimension 4096 per axis, 2^22 products
+//! (`dims[0] * dims[1]`), 4096 digits per integer, 64 MiB per file.
 
+mod basis_file;
 mod combination;
 mod cursor;
 mod grid;
 mod json;
 mod load;
+mod products;
 mod resolve;
 mod table;
 mod write;
 
 #[cfg(test)]
+mod limits_tests;
+#[cfg(test)]
 mod proptests;
 #[cfg(test)]
 mod tests;
 
+pub use basis_file::{
+    BasisChange, MatrixBlock, NamesLine, apply_basis_change, parse_basis_file, random_basis_change,
+};
 pub use json::parse_json;
 pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file};
 pub use resolve::{Resolver, register_resolver, resolve_registered};

@@ -7,7 +7,7 @@
 use crate::error::{Error, Result};
 use crate::scalar::{Q, q_to_string};
 use crate::tensor::{Kind, Tensor};
-use num_traits::{One, Signed};
+use num_traits::{One, Signed, ToPrimitive};
 
 /// A combination `2 z - 1/3 w` (`spaced`) or `2z-1/3w` (for grid cells); `0` when empty.
 pub fn format_combination<'a>(
@@ -145,17 +145,32 @@ pub fn write_json(t: &Tensor) -> String {
             )
         })
         .collect();
-    let entries: Vec<String> = t
-        .entries()
-        .map(|(i, j, k, v)| format!("  [{i}, {j}, {k}, {}]", json_str(&q_to_string(v))))
-        .collect();
-    format!(
-        "{{\"field\": {}, \"kind\": \"{kind}\", \"dims\": [{}, {}, {}],\n \"names\": [{}],\n \"entries\": [\n{}\n ]}}\n",
+    let mut out = format!(
+        "{{\"field\": {}, \"kind\": \"{kind}\", \"dims\": [{}, {}, {}],\n \"names\": [{}],\n \"entries\": [\n",
         json_str(&t.field().name()),
         d[0],
         d[1],
         d[2],
         names.join(",\n           "),
-        entries.join(",\n")
-    )
+    );
+    // One buffer, no temporary string per entry (small integers without big-number
+    // formatting): this writer is on the path of every large conversion.
+    out.reserve(t.nnz() * 20);
+    for (n, (i, j, k, v)) in t.entries().enumerate() {
+        use std::fmt::Write;
+        if n > 0 {
+            out.push_str(",\n");
+        }
+        let small = if v.denom().is_one() {
+            v.numer().to_i64()
+        } else {
+            None
+        };
+        let _ = match small {
+            Some(x) => write!(out, "  [{i}, {j}, {k}, \"{x}\"]"),
+            None => write!(out, "  [{i}, {j}, {k}, \"{}\"]", q_to_string(v)),
+        };
+    }
+    out.push_str("\n ]}\n");
+    out
 }

@@ -22,6 +22,33 @@ use num_traits::Zero;
 /// Dimensions above this are refused by the parsers and generators (documented limit).
 pub const MAX_DIM: usize = 4096;
 
+/// At most this many products `(i, j)`: `dims[0] * dims[1] <= 2^22` (the tensor keeps one
+/// vector per product, so this bounds the memory of an empty tensor to about 100 MB).
+pub const MAX_PRODUCTS: usize = 1 << 22;
+
+/// The largest algebra dimension allowed by [`MAX_PRODUCTS`]: `2048 * 2048 = 2^22`.
+pub const MAX_ALGEBRA_DIM: usize = 2048;
+
+/// Check a shape against the documented limits: each dimension in `1..=MAX_DIM` and
+/// `dims[0] * dims[1] <= MAX_PRODUCTS`. The `Err` is a message for the user. Cost: O(1).
+pub fn check_shape(dims: [usize; 3]) -> Result<(), String> {
+    if let Some(d) = dims.iter().find(|&&d| d > MAX_DIM) {
+        return Err(format!(
+            "dimension {d} is above the limit of {MAX_DIM} per axis"
+        ));
+    }
+    match dims[0].checked_mul(dims[1]) {
+        Some(n) if n <= MAX_PRODUCTS => Ok(()),
+        _ => Err(format!(
+            "{} x {} = {} products is above the limit of 2^22 = {MAX_PRODUCTS} products \
+             (an algebra has dimension at most {MAX_ALGEBRA_DIM}, a map at most {MAX_DIM} per axis)",
+            dims[0],
+            dims[1],
+            dims[0] as u128 * dims[1] as u128
+        )),
+    }
+}
+
 /// Whether a tensor is an algebra (one space) or a bilinear map between three spaces.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, serde::Serialize, serde::Deserialize)]
 #[serde(rename_all = "lowercase")]
@@ -188,6 +215,23 @@ impl Tensor {
                 }
             }
         }
+    }
+
+    /// Replace the whole product `u_i * v_j` by `sum c_k w_k` given as `(k, c_k)` pairs
+    /// (any order, distinct k, every k < dims[2]); values are reduced into the field and
+    /// zeros dropped. Cost: O(m log m) for m pairs, no copy of the values over Q.
+    pub fn set_product(&mut self, i: usize, j: usize, mut row: Vec<(usize, Q)>) {
+        if let FieldSpec::Prime(_) = self.field {
+            row = row
+                .into_iter()
+                .map(|(k, v)| (k, self.normalise(v)))
+                .collect();
+        }
+        row.retain(|(_, v)| !v.is_zero());
+        row.sort_unstable_by_key(|e| e.0);
+        debug_assert!(row.windows(2).all(|w| w[0].0 < w[1].0));
+        debug_assert!(row.last().is_none_or(|e| e.0 < self.dims[2]));
+        self.products[i * self.dims[1] + j] = row;
     }
 
     /// `c[i][j][k] += v`.
