@@ -48,11 +48,8 @@ pub fn kron_tensor(t1: &Tensor, t2: &Tensor) -> Result<Tensor, Error> {
     }
     let (d1, d2) = (t1.dims(), t2.dims());
     let dims = [d1[0] * d2[0], d1[1] * d2[1], d1[2] * d2[2]];
-    if dims.iter().any(|&d| d > crate::tensor::MAX_DIM) {
-        return Err(Error::Invalid(format!(
-            "the product is too large (limit {} per axis)",
-            crate::tensor::MAX_DIM
-        )));
+    if let Err(m) = crate::tensor::check_shape(dims) {
+        return Err(Error::Invalid(format!("the product is too large: {m}")));
     }
     let names = [0, 1, 2].map(|a| {
         let mut v = Vec::new();
