@@ -14,6 +14,7 @@ use clap::{Parser, Subcommand};
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
 /// Exit code: a checked claim is false.
+#[allow(dead_code)]
 pub const EXIT_FALSE: i32 = 1;
 /// Exit code: bad input or usage.
 pub const EXIT_USAGE: i32 = 2;

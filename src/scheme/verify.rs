@@ -22,6 +22,7 @@ pub struct Mismatch {
 /// Returns `Ok(())` or the first mismatch (lexicographic in (i, j, k)) with the total count.
 /// Shapes must agree (a shape mismatch is reported at index [0, 0, 0] with count = usize::MAX).
 /// Cost: O(r * d0 * d1 * d2) exact operations, skipping zero factors.
+#[allow(clippy::result_large_err)] // a failed check is rare and reported once
 pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
     let d = t.dims();
     if s.dims != d || s.v.len() != s.u.len() || s.w.len() != s.u.len() {
