@@ -1,6 +1,6 @@
 //! Dimensions of the linear invariant subspaces of an algebra, each the kernel of an exact
 //! linear system built from the structure constants: annihilator, commutant (commutative
-//! centre), nucleus, centre, derivations, and the unit element.
+//! centre), nucleus, centre, derivations, centroid, and the unit element.
 //!
 //! All are invariant under change of basis, so their dimensions are isomorphism invariants.
 
@@ -88,6 +88,31 @@ pub fn derivations_dim(d: &Dense) -> usize {
                     row[k * n + j] -= d.at(i, k, l);
                 }
                 rows.push(row);
+            }
+        }
+    }
+    n * n - d.rank_rows(rows, n * n)
+}
+
+/// dim of the centroid {X : X(xy) = X(x) y = x X(y)} (Jacobson 1962, Lie Algebras,
+/// ch. X). Unknowns as in [`derivations_dim`]; 2 n^3 equations in n^2 unknowns.
+pub fn centroid_dim(d: &Dense) -> usize {
+    let n = d.n;
+    let mut rows = Vec::with_capacity(2 * n * n * n);
+    for i in 0..n {
+        for j in 0..n {
+            for l in 0..n {
+                let mut left = vec![Q::zero(); n * n];
+                for m in 0..n {
+                    left[l * n + m] += d.at(i, j, m);
+                }
+                let mut right = left.clone();
+                for k in 0..n {
+                    left[k * n + i] -= d.at(k, j, l);
+                    right[k * n + j] -= d.at(i, k, l);
+                }
+                rows.push(left);
+                rows.push(right);
             }
         }
     }
