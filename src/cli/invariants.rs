@@ -1,0 +1,72 @@
+//! `bilin invariants INPUT [--json] [--only centre,centroid,...] [--field F] [--no-bases]`:
+//! the invariant algebras of a product (centre, nuclei, annihilators, unit, centroid,
+//! derivations, adjoint algebra, radical, Lie invariants; for a bilinear map: centroid and
+//! derivation triples, adjoint pairs, radicals), every basis proven exactly.
+
+use super::EXIT_OK;
+use super::common::{generators_help, load, report_error};
+use bilin::report::invariants::{InvariantParams, Part, invariants_report, render_text};
+use std::io::IsTerminal;
+
+#[derive(clap::Args, Debug)]
+#[command(after_help = generators_help())]
+pub struct Args {
+    /// A file (table format or JSON), a generator spec such as `octonions` or `matrix:3`,
+    /// or a catalog name.
+    pub input: String,
+    /// Print the report as JSON (schema `bilin.invariants/1`).
+    #[arg(long)]
+    pub json: bool,
+    /// Compute only these parts (comma-separated): centre, nuclei, annihilators, unit,
+    /// centroid, derivations, adjoint, radical, lie; for bilinear maps centroid-triples,
+    /// derivation-triples, adjoint-pairs, radicals.
+    #[arg(long)]
+    pub only: Option<String>,
+    /// Read the input over this field (`Q` or `GF(p)`).
+    #[arg(long)]
+    pub field: Option<String>,
+    /// Report dimensions and properties only, without bases.
+    #[arg(long)]
+    pub no_bases: bool,
+}
+
+/// Run the subcommand; returns the exit code.
+pub fn run(args: Args) -> i32 {
+    let t = match load(&args.input, args.field.as_deref()) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
+    let only = match args.only.as_deref().map(Part::parse_list) {
+        None => None,
+        Some(Ok(p)) => Some(p),
+        Some(Err(e)) => return report_error(&e),
+    };
+    let params = InvariantParams {
+        only,
+        omit_bases: args.no_bases,
+        ..Default::default()
+    };
+    let tty = std::io::stderr().is_terminal();
+    let mut progress = |msg: &str| {
+        if tty {
+            eprint!("\r\x1b[K{msg}");
+        }
+    };
+    let r = invariants_report(&t, &params, &mut progress);
+    if tty {
+        eprint!("\r\x1b[K");
+    }
+    let r = match r {
+        Ok(r) => r,
+        Err(e) => return report_error(&e),
+    };
+    if args.json {
+        println!(
+            "{}",
+            serde_json::to_string_pretty(&r).expect("a report serialises")
+        );
+    } else {
+        print!("{}", render_text(&r, &t.names()[0]));
+    }
+    EXIT_OK
+}

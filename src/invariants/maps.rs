@@ -1,0 +1,241 @@
+//! Algebras of linear maps attached to an algebra A of dimension n:
+//! - the centroid `C(A) = {X : X(ab) = X(a) b = a X(b)}`;
+//! - the derivation algebra `Der(A) = {D : D(ab) = D(a) b + a D(b)}`;
+//! - inner derivations (A associative: `ad_x = L_x - R_x`; A Lie: `ad_x = L_x`), a
+//!   subalgebra of Der(A) in both cases, with `dim Inn = n - dim ker(ad)`, where
+//!   `ker(ad)` is the commutative centre (associative) or the centre `{x : x A = 0}` (Lie);
+//! - the adjoint algebra `{(f, g) : f(a) b = a g(b)}`.
+//!
+//! A map X is the vector of its matrix entries: `X(e_i) = sum_l X[l][i] e_l` in
+//! coordinate `l n + i`. Bases are proven by [`solve_nullspace`].
+//! Cost: systems of 2 n^3 (centroid), n^3 (derivations, adjoint) equations with O(nnz n)
+//! terms in n^2 (2 n^2) unknowns; see [`super::solve`] for the elimination.
+
+use super::elements::{ElementSpace, element_space};
+use super::equations;
+use super::solve::{SolveParams, Space, solve_nullspace};
+use super::system::IntTable;
+use crate::error::Result;
+use crate::linalg::Matrix;
+use crate::scalar::Q;
+use crate::tensor::{Tensor, flattening, rank_over};
+use num_traits::Zero;
+
+/// The centroid and its properties.
+#[derive(Clone, Debug)]
+pub struct Centroid {
+    pub space: Space,
+    /// `Some(true)` when proven commutative, `Some(false)` when two basis maps do not
+    /// commute, `None` when not decided (large, with A^2 != A).
+    pub commutative: Option<bool>,
+    /// Why the commutativity verdict holds.
+    pub commutative_reason: String,
+    /// `Some(true)` when dimension 1 (the centroid is then the ground field).
+    pub field: Option<bool>,
+}
+
+/// The centroid of an algebra. Commutativity: when A^2 = A it is a theorem (for X, Y in
+/// C(A): XY(ab) = X(a Y(b)) = X(a) Y(b) = Y(X(a) b) = YX(ab); Jacobson 1962, Lie Algebras,
+/// ch. X); otherwise the basis maps are multiplied exactly (when n <= 32 and dim <= 32).
+pub fn centroid(t: &Tensor, it: &IntTable, params: &SolveParams) -> Result<Centroid> {
+    let n = it.dims[0];
+    let space = solve_nullspace(&equations::centroid(it)?, params)?;
+    let d = space.dim();
+    let square_full = rank_over(t.field(), &flattening(t, 2)) == n;
+    let (commutative, reason) = if d <= 1 {
+        (Some(true), "dimension at most 1".to_string())
+    } else if square_full {
+        (
+            Some(true),
+            "A^2 = A, so the centroid is commutative (theorem)".to_string(),
+        )
+    } else if n <= 32 && d <= 32 {
+        let c = maps_commute(t, &space, n);
+        (Some(c), "basis maps multiplied exactly".to_string())
+    } else {
+        (
+            None,
+            "not decided (A^2 != A and too large to multiply out)".to_string(),
+        )
+    };
+    let field = if d == 1 { Some(true) } else { None };
+    Ok(Centroid {
+        space,
+        commutative,
+        commutative_reason: reason,
+        field,
+    })
+}
+
+fn maps_commute(t: &Tensor, space: &Space, n: usize) -> bool {
+    crate::with_field!(t.field(), f => {
+        use crate::scalar::Field;
+        let mats: Vec<Matrix<_>> = space
+            .basis
+            .iter()
+            .map(|v| to_matrix(v, n, 0).map(|x| f.from_rational(x).expect("in field")))
+            .collect();
+        for a in 0..mats.len() {
+            for b in a + 1..mats.len() {
+                if mats[a].mul(f, &mats[b]) != mats[b].mul(f, &mats[a]) {
+                    return false;
+                }
+            }
+        }
+        true
+    })
+}
+
+/// The derivation algebra Der(A) (proven basis).
+pub fn derivations(it: &IntTable, params: &SolveParams) -> Result<Space> {
+    solve_nullspace(&equations::derivations(it)?, params)
+}
+
+/// The adjoint algebra: pairs (f, g) with `f(a) b = a g(b)`; a vector holds f (first n^2
+/// coordinates) then g.
+pub fn adjoint_algebra(it: &IntTable, params: &SolveParams) -> Result<Space> {
+    solve_nullspace(&equations::adjoint_pairs(it)?, params)
+}
+
+/// Inner derivations of an associative (`lie = false`) or Lie (`lie = true`) algebra:
+/// a basis `ad_{e_p}` for p outside the free coordinates of the kernel of `x -> ad_x`.
+pub fn inner_derivations(it: &IntTable, lie: bool, params: &SolveParams) -> Result<Space> {
+    let n = it.dims[0];
+    let which = if lie {
+        ElementSpace::LeftAnnihilator
+    } else {
+        ElementSpace::CommutativeCentre
+    };
+    let ker = element_space(it, which, params)?;
+    // free coordinate of each reduced kernel vector: its last nonzero entry is not enough;
+    // the engine's reduced form puts 1 at its own free coordinate and 0 at the others', so
+    // the coordinates where some kernel vector is 1 and all others are 0 are the free ones.
+    let mut free = vec![false; n];
+    for (k, v) in ker.basis.iter().enumerate() {
+        let f = (0..n)
+            .find(|&c| {
+                !v[c].is_zero()
+                    && ker
+                        .basis
+                        .iter()
+                        .enumerate()
+                        .all(|(k2, w)| k2 == k || w[c].is_zero())
+            })
+            .expect("reduced basis");
+        free[f] = true;
+    }
+    let scale = Q::from_integer(1.into()) / Q::from_integer(it.scale.clone());
+    let basis = (0..n)
+        .filter(|&p| !free[p])
+        .map(|p| ad_vector(it, p, lie, &scale))
+        .collect();
+    Ok(Space {
+        unknowns: n * n,
+        basis,
+    })
+}
+
+/// `ad_{e_p}` as a map vector (entries in the original constants: scaled back by 1/L).
+fn ad_vector(it: &IntTable, p: usize, lie: bool, scale: &Q) -> Vec<Q> {
+    let n = it.dims[0];
+    let mut v = vec![Q::zero(); n * n];
+    // ad_x(e_i) = x e_i - e_i x (associative) or x e_i (Lie): entry [l][i]
+    for i in 0..n {
+        for &(l, c) in it.product(p, i) {
+            v[l * n + i] += Q::from_integer(c.into()) * scale;
+        }
+        if !lie {
+            for &(l, c) in it.product(i, p) {
+                v[l * n + i] -= Q::from_integer(c.into()) * scale;
+            }
+        }
+    }
+    if let Some(m) = it.modulus {
+        let f = crate::scalar::PrimeField::new(m).expect("prime");
+        use crate::scalar::Field;
+        for x in v.iter_mut() {
+            *x = f.to_rational(&f.from_rational(x).expect("residue"));
+        }
+    }
+    v
+}
+
+/// The `n x n` matrix of a map stored at `offset` in a vector.
+pub fn to_matrix(v: &[Q], n: usize, offset: usize) -> Matrix<Q> {
+    Matrix {
+        rows: n,
+        cols: n,
+        data: v[offset..offset + n * n].to_vec(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::invariants::testing::*;
+
+    fn der_dim(t: &Tensor) -> usize {
+        derivations(&IntTable::from_tensor(t).unwrap(), &SolveParams::default())
+            .unwrap()
+            .dim()
+    }
+
+    #[test]
+    fn derivations_of_classical_algebras() {
+        // Der(O) = G2, dimension 14: Schafer 1966, An Introduction to Nonassociative
+        // Algebras, ch. III.8.
+        assert_eq!(der_dim(&octonions()), 14);
+        // Der(H) = inner = ad(H) ~ so(3), dimension 3: Schafer 1966, ch. III.
+        assert_eq!(der_dim(&quaternions()), 3);
+        // Der(M_n) = inner, dimension n^2 - 1: Jacobson 1962, Lie Algebras, ch. I
+        // (every derivation of a central simple associative algebra is inner).
+        for n in 2..=3 {
+            let t = matrix_algebra(n);
+            let it = IntTable::from_tensor(&t).unwrap();
+            let p = SolveParams::default();
+            assert_eq!(derivations(&it, &p).unwrap().dim(), n * n - 1);
+            assert_eq!(inner_derivations(&it, false, &p).unwrap().dim(), n * n - 1);
+        }
+    }
+
+    #[test]
+    fn heisenberg_derivations() {
+        // Computed by hand: for [x,y] = z, D(z) = D([x,y]) = [Dx,y] + [x,Dy]. Write
+        // D x = a x + b y + c z, D y = d x + e y + f z, D z = g x + h y + i z. Then
+        // [Dx, y] + [x, Dy] = (a + e) z, so D z = (a + e) z: g = h = 0, i = a + e; and
+        // [Dx, z] = 0 = [x, Dz], [Dy, z] = 0 = [y, Dz] hold. Free: a, b, c, d, e, f: dim 6.
+        assert_eq!(der_dim(&heisenberg3()), 6);
+    }
+
+    #[test]
+    fn centroids() {
+        // Central simple algebras have centroid = ground field: Jacobson 1980, Basic
+        // Algebra II, sect. 10.1 (from memory for the section number).
+        let p = SolveParams::default();
+        for t in [octonions(), quaternions(), matrix_algebra(2)] {
+            let it = IntTable::from_tensor(&t).unwrap();
+            let c = centroid(&t, &it, &p).unwrap();
+            assert_eq!(c.space.dim(), 1);
+            assert_eq!(c.field, Some(true));
+        }
+        // A field extension K of Q has centroid K (dimension [K:Q] = 2): Jacobson 1980.
+        for d in [2, -1] {
+            let t = quadratic_field(d);
+            let it = IntTable::from_tensor(&t).unwrap();
+            let c = centroid(&t, &it, &p).unwrap();
+            assert_eq!(c.space.dim(), 2);
+            assert_eq!(c.commutative, Some(true));
+        }
+    }
+
+    #[test]
+    fn adjoint_of_matrix_algebra() {
+        // For unital A, f(a) b = a g(b) forces f = R_c, g = L_c with c = g(1) (put a = 1
+        // and b = 1): dim = dim A. Common practice.
+        let it = IntTable::from_tensor(&matrix_algebra(2)).unwrap();
+        assert_eq!(
+            adjoint_algebra(&it, &SolveParams::default()).unwrap().dim(),
+            4
+        );
+    }
+}
