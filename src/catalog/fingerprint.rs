@@ -183,9 +183,27 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     fp.push("commutant", Value::Int(spaces::commutant_dim(&d)));
     fp.push("nucleus", Value::Int(spaces::nucleus_dim(&d, &assoc)));
     fp.push("centre", Value::Int(spaces::centre_dim(&d, &assoc)));
-    if d.n <= params.max_dim_derivations {
-        fp.push("derivations", Value::Int(spaces::derivations_dim(&d)));
-        fp.push("centroid", Value::Int(spaces::centroid_dim(&d)));
+    // derivations and centroid: from the invariants layer (proven bases, sparse integer
+    // systems) when the constants fit its integer tables, otherwise by the catalog's own
+    // dense systems (up to `max_dim_derivations`)
+    let it = crate::invariants::IntTable::from_tensor(t).ok();
+    let sp = crate::invariants::SolveParams::default();
+    let der = it
+        .as_ref()
+        .and_then(|it| crate::invariants::derivations(it, &sp).ok());
+    let cen = it
+        .as_ref()
+        .and_then(|it| crate::invariants::centroid(t, it, &sp).ok());
+    let small = d.n <= params.max_dim_derivations;
+    match der {
+        Some(s) => fp.push("derivations", Value::Int(s.dim())),
+        None if small => fp.push("derivations", Value::Int(spaces::derivations_dim(&d))),
+        None => {}
+    }
+    match cen {
+        Some(c) => fp.push("centroid", Value::Int(c.space.dim())),
+        None if small => fp.push("centroid", Value::Int(spaces::centroid_dim(&d))),
+        None => {}
     }
     fp.push("squares", Value::Int(spaces::squares_dim(&d)));
     fp.push("derived.series", Value::Ints(spaces::derived_series(&d)));

@@ -192,3 +192,40 @@ pub fn squares_dim(d: &Dense) -> usize {
     }
     d.rank_rows(rows, n)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::invariants::{IntTable, SolveParams, centroid, derivations};
+
+    /// Two independent computations of Der(A) and the centroid agree on every catalog
+    /// algebra of dimension <= 9 (the dense systems here, the sparse proven engine of the
+    /// invariants layer). common practice: both are kernels of the same linear conditions.
+    #[test]
+    fn derivations_and_centroid_agree_with_the_invariants_layer() {
+        let mut compared = 0;
+        for e in crate::catalog::all_entries().unwrap() {
+            let t = e.tensor().unwrap();
+            if t.kind() != crate::tensor::Kind::Algebra || t.dim() > 9 {
+                continue;
+            }
+            let d = Dense::new(&t);
+            let it = IntTable::from_tensor(&t).unwrap();
+            let sp = SolveParams::default();
+            assert_eq!(
+                derivations_dim(&d),
+                derivations(&it, &sp).unwrap().dim(),
+                "{}",
+                e.meta.name
+            );
+            assert_eq!(
+                centroid_dim(&d),
+                centroid(&t, &it, &sp).unwrap().space.dim(),
+                "{}",
+                e.meta.name
+            );
+            compared += 1;
+        }
+        assert!(compared > 40);
+    }
+}
