@@ -139,18 +139,57 @@ pub fn check_identity<F: Field>(
     notation: Notation,
     stop_first: bool,
 ) -> Check {
+    use rayon::prelude::*;
+    let n = t.dims[0];
+    if n == 0 || id.nvars == 0 {
+        return Check::default();
+    }
+    // the instances split by their first index; the parts run in parallel and are
+    // combined in order, so the result is the same as a sequential scan
+    let parts: Vec<Check> = (0..n)
+        .into_par_iter()
+        .map(|a| check_part(f, t, names, id, d, notation, stop_first, a))
+        .collect();
+    let mut out = Check::default();
+    for part in parts {
+        out.checked += part.checked;
+        out.failures += part.failures;
+        if out.witness.is_none() && part.witness.is_some() {
+            out.witness = part.witness;
+            out.first = part.first;
+            if stop_first {
+                break;
+            }
+        }
+    }
+    out
+}
+
+/// The instances whose first index (first multiset element, or first tuple entry when
+/// `d = 0`) is `a`.
+#[allow(clippy::too_many_arguments)]
+fn check_part<F: Field>(
+    f: &F,
+    t: &Table<F::Elem>,
+    names: &[String],
+    id: &Identity,
+    d: usize,
+    notation: Notation,
+    stop_first: bool,
+    a: usize,
+) -> Check {
     let n = t.dims[0];
     let mut out = Check::default();
-    if n == 0 {
-        return out;
-    }
     let m = id.nvars - d;
     let units: Vec<Sparse<F::Elem>> = (0..n).map(|i| vec![(i, f.one())]).collect();
     let coefs: Vec<F::Elem> = id.terms.iter().map(|(c, _)| f.from_i64(*c)).collect();
-    let mut ms = vec![0usize; d];
+    let mut ms = vec![a; d];
     loop {
         let orderings = distinct_orderings(&ms);
         let mut free = vec![0usize; m];
+        if d == 0 {
+            free[0] = a;
+        }
         loop {
             out.checked += 1;
             let value = eval_instance(f, t, id, &coefs, &units, &orderings, &free);
@@ -164,11 +203,11 @@ pub fn check_identity<F: Field>(
                     return out;
                 }
             }
-            if !next_tuple(&mut free, n) {
+            if !next_tuple(&mut free, n) || (d == 0 && free[0] != a) {
                 break;
             }
         }
-        if !next_multiset(&mut ms, n) {
+        if d == 0 || !next_multiset(&mut ms, n) || ms[0] != a {
             break;
         }
     }
@@ -186,13 +225,13 @@ fn eval_instance<F: Field>(
     free: &[usize],
 ) -> Sparse<F::Elem> {
     let mut acc = Vec::new();
-    let mut values: Vec<Sparse<F::Elem>> = Vec::with_capacity(id.nvars);
+    let mut values: Vec<&[(usize, F::Elem)]> = Vec::with_capacity(id.nvars);
     for ord in orderings {
         values.clear();
-        values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].clone()));
+        values.extend(ord.iter().chain(free.iter()).map(|&i| units[i].as_slice()));
         for ((_, e), c) in id.terms.iter().zip(coefs) {
-            for (k, v) in eval(f, t, e, &values) {
-                acc.push((k, f.mul(&v, c)));
+            for (k, v) in eval(f, t, e, &values).iter() {
+                acc.push((*k, f.mul(v, c)));
             }
         }
     }

@@ -10,6 +10,7 @@
 use crate::scalar::Field;
 use crate::tensor::Table;
 use num_traits::ToPrimitive;
+use std::borrow::Cow;
 
 /// A product tree whose leaves are variables `0, 1, ...`.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -68,8 +69,8 @@ pub fn normalise<F: Field>(f: &F, mut v: Vec<(usize, F::Elem)>) -> Sparse<F::Ele
 pub fn mul_sparse<F: Field>(
     f: &F,
     t: &Table<F::Elem>,
-    x: &Sparse<F::Elem>,
-    y: &Sparse<F::Elem>,
+    x: &[(usize, F::Elem)],
+    y: &[(usize, F::Elem)],
 ) -> Sparse<F::Elem> {
     // fast path: basis times basis with coefficient one
     if x.len() == 1 && y.len() == 1 && f.is_one(&x[0].1) && f.is_one(&y[0].1) {
@@ -87,25 +88,32 @@ pub fn mul_sparse<F: Field>(
     normalise(f, acc)
 }
 
-/// Evaluate a tree with variable `v` set to the sparse vector `values[v]`.
-pub fn eval<F: Field>(
+/// Evaluate a tree with variable `v` set to the sparse vector `values[v]` (leaves are
+/// borrowed, not copied).
+pub fn eval<'a, F: Field>(
     f: &F,
-    t: &Table<F::Elem>,
+    t: &'a Table<F::Elem>,
     e: &Expr,
-    values: &[Sparse<F::Elem>],
-) -> Sparse<F::Elem> {
+    values: &[&'a [(usize, F::Elem)]],
+) -> Cow<'a, [(usize, F::Elem)]> {
     match e {
-        Expr::Var(v) => values[*v].clone(),
+        Expr::Var(v) => Cow::Borrowed(values[*v]),
         Expr::Mul(a, b) => {
+            if let (Expr::Var(i), Expr::Var(j)) = (a.as_ref(), b.as_ref()) {
+                let (x, y) = (values[*i], values[*j]);
+                if x.len() == 1 && y.len() == 1 && f.is_one(&x[0].1) && f.is_one(&y[0].1) {
+                    return Cow::Borrowed(t.product(x[0].0, y[0].0));
+                }
+            }
             let x = eval(f, t, a, values);
             if x.is_empty() {
-                return x;
+                return Cow::Owned(Vec::new());
             }
             let y = eval(f, t, b, values);
             if y.is_empty() {
-                return y;
+                return Cow::Owned(Vec::new());
             }
-            mul_sparse(f, t, &x, &y)
+            Cow::Owned(mul_sparse(f, t, &x, &y))
         }
     }
 }

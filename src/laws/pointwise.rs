@@ -53,12 +53,13 @@ pub fn check_pointwise<F: Field>(
             .collect();
         let mut free = vec![0usize; m];
         loop {
-            let mut values: Vec<Sparse<F::Elem>> = vec![x.clone(); d];
-            values.extend(free.iter().map(|&i| vec![(i, f.one())]));
+            let units: Vec<Sparse<F::Elem>> = free.iter().map(|&i| vec![(i, f.one())]).collect();
+            let mut values: Vec<&[(usize, F::Elem)]> = vec![x.as_slice(); d];
+            values.extend(units.iter().map(|u| u.as_slice()));
             let mut acc = Vec::new();
             for ((_, e), c) in id.terms.iter().zip(&coefs) {
-                for (k, v) in eval(f, t, e, &values) {
-                    acc.push((k, f.mul(&v, c)));
+                for (k, v) in eval(f, t, e, &values).iter() {
+                    acc.push((*k, f.mul(v, c)));
                 }
             }
             let value = normalise(f, acc);

@@ -193,3 +193,44 @@ fn gf2_pointwise_versus_polynomial() {
     }
     assert!(found > 0);
 }
+
+/// The parallel split visits every instance once: on the zero algebra every identity
+/// holds and `checked` is the number of instances `C(n+d-1, d) n^m`.
+#[test]
+fn instance_counts() {
+    let t = Tensor::algebra(
+        FieldSpec::Rational,
+        (0..4).map(|i| format!("e{i}")).collect(),
+    );
+    let r = verdicts(&t);
+    let n = 4;
+    let expect = |d: usize, m: usize| check::instance_count(n, d, m) as u64;
+    assert_eq!(r.get(Law::Associative).unwrap().checked, expect(0, 3));
+    assert_eq!(r.get(Law::Anticommutative).unwrap().checked, expect(2, 0));
+    assert_eq!(r.get(Law::Flexible).unwrap().checked, expect(2, 1));
+    assert_eq!(
+        r.get(Law::PowerAssociative).unwrap().checked,
+        expect(3, 0) + expect(4, 0)
+    );
+    assert_eq!(
+        r.get(Law::Jordan).unwrap().checked,
+        expect(0, 2) + expect(3, 1)
+    );
+    assert!(
+        Law::ALL
+            .iter()
+            .all(|l| *l == Law::Unital || r.holds(*l) == Some(true))
+    );
+    // stop at the first failure
+    let o = cayley_dickson(3, FieldSpec::Rational);
+    let p = Params {
+        stop_first: true,
+        ..Params::default()
+    };
+    let s = check_laws(&o, &p).unwrap();
+    assert_eq!(s.get(Law::Associative).unwrap().failures, 1);
+    assert_eq!(
+        s.get(Law::Associative).unwrap().witness,
+        verdicts(&o).get(Law::Associative).unwrap().witness
+    );
+}

@@ -271,6 +271,19 @@ impl Walker {
                 continue;
             }
             let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
+            // branch-free pass first (vectorises): does any other term share two factors?
+            let (f0, f1, f2) = (&self.f[0], &self.f[1], &self.f[2]);
+            let hits = f0
+                .iter()
+                .zip(f1)
+                .zip(f2)
+                .map(|((&x, &y), &z)| {
+                    ((x == a) as u32 + (y == b) as u32 + (z == c) as u32 >= 2) as u32
+                })
+                .sum::<u32>();
+            if hits < 2 {
+                continue; // only term i itself
+            }
             let mut partner = None;
             for u in 0..self.rank() {
                 if u == i {

@@ -192,6 +192,19 @@ pub fn search_scheme(
         ));
     }
     let target = params.target_rank.unwrap_or(0);
+    // rank 0: only the zero tensor, decided at once
+    if params.target_rank == Some(0) || goal.nnz() == 0 {
+        let empty = Scheme::empty(field, goal.dims());
+        let ok = verify(&empty, &goal).is_ok();
+        let best = if ok { Some(empty) } else { start };
+        return Ok(Outcome {
+            reached: best.as_ref().is_some_and(|s| s.rank() <= target),
+            best,
+            moves: 0,
+            next_run: params.first_run,
+            elapsed: Duration::ZERO,
+        });
+    }
     let p_start = match (params.method, field) {
         (Method::Flip, FieldSpec::Prime(p)) if p != 2 => Some(flip_p::PScheme::standard(&goal)?),
         _ => None,
@@ -280,6 +293,11 @@ pub fn search_scheme(
                         }
                         Method::Flip => {
                             let startb = flip_start.as_ref().expect("flip start");
+                            // lifting costs one GF(2) elimination of the Jacobian; retries
+                            // at a rank already tried get at most a fifth of the walk's time
+                            let walk_t0 = Instant::now();
+                            let mut lift_secs = 0.0f64;
+                            let mut tried_rank = usize::MAX;
                             let mut ev = |e: WalkEvent<BitScheme>| -> bool {
                                 match e {
                                     WalkEvent::Moves(m) => {
@@ -294,7 +312,16 @@ pub fn search_scheme(
                                             return false;
                                         }
                                         let s = if field == FieldSpec::Rational {
-                                            hensel::lift_scheme(b, &goal, &params.hensel)
+                                            if r >= tried_rank
+                                                && lift_secs > 0.2 * walk_t0.elapsed().as_secs_f64()
+                                            {
+                                                return false;
+                                            }
+                                            tried_rank = tried_rank.min(r);
+                                            let l0 = Instant::now();
+                                            let s = hensel::lift_scheme(b, &goal, &params.hensel);
+                                            lift_secs += l0.elapsed().as_secs_f64();
+                                            s
                                         } else {
                                             let s = b.to_scheme(field);
                                             verify(&s, &goal).is_ok().then_some(s)
@@ -328,7 +355,7 @@ pub fn search_scheme(
         }
         let mut last = Instant::now();
         while workers_left.load(Ordering::SeqCst) > 0 {
-            std::thread::sleep(Duration::from_millis(20));
+            std::thread::sleep(Duration::from_millis(2));
             if last.elapsed() >= Duration::from_millis(500) {
                 last = Instant::now();
                 progress(&snapshot(&shared, t0, &run_of));

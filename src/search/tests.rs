@@ -173,3 +173,51 @@ fn strassen_rank_seven_over_gf3() {
     assert_eq!(s.field, FieldSpec::Prime(3));
     assert!(verify(&s, &t).is_ok());
 }
+
+/// A resumed search starts from the given scheme: at the target already, it returns it.
+#[test]
+fn resume_from_a_scheme() {
+    let t = poly(2, 2);
+    let good = run(&t, &params(Method::Flip, 3, 4)).best.unwrap();
+    let stop = Arc::new(AtomicBool::new(false));
+    let o = search_scheme(
+        &t,
+        &params(Method::Flip, 3, 99),
+        &stop,
+        Some(good.clone()),
+        &|_| {},
+    )
+    .unwrap();
+    assert!(o.reached);
+    assert_eq!(o.best, Some(good));
+    // a start scheme that does not verify is refused
+    let mut bad = Scheme::standard(&t);
+    bad.u[0][0] += Q::one();
+    assert!(search_scheme(&t, &params(Method::Flip, 3, 1), &stop, Some(bad), &|_| {}).is_err());
+}
+
+/// Shards split the run numbers: shard 1/3 starts at run 1 and steps by 3.
+#[test]
+fn shards_partition_runs() {
+    let t = poly(2, 2);
+    let mut p = params(Method::Flip, 0, 1);
+    p.target_rank = None;
+    p.restarts = Some(2);
+    p.walk_budget = 1000;
+    p.shard = (1, 3);
+    let o = run(&t, &p);
+    assert_eq!(o.next_run, 7);
+    assert_eq!(o.best.map(|s| s.rank()), Some(3));
+}
+
+/// The zero tensor has the empty scheme; rank 0 is refused at once for any other tensor.
+#[test]
+fn rank_zero_is_decided_at_once() {
+    let z = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [2, 2, 2], None);
+    for m in [Method::Als, Method::Flip] {
+        let o = run(&z, &params(m, 0, 0));
+        assert!(o.reached && o.best.unwrap().rank() == 0);
+        let o = run(&complex(), &params(m, 0, 0));
+        assert!(!o.reached && o.best.is_none());
+    }
+}
