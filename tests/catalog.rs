@@ -240,3 +240,43 @@ fn catalog_names_are_inputs() {
     assert_eq!(t.field(), bilin::scalar::FieldSpec::Prime(2));
     assert!(bilin::input::load_input("no-such-entry", None).is_err());
 }
+
+/// Rank facts cannot be recomputed here, but they must be consistent: in each domain every
+/// stored lower bound is at most every stored upper bound, and every upper bound is at
+/// least each flattening rank (the rank of a tensor bounds its flattening ranks from above;
+/// common practice, see Buergisser, Clausen and Shokrollahi 1997, Algebraic Complexity
+/// Theory).
+#[test]
+fn rank_facts_are_consistent() {
+    let mut checked = 0;
+    for e in catalog::all_entries().unwrap() {
+        let t = e.tensor().unwrap();
+        let fl = *bilin::tensor::flattening_ranks(&t).iter().max().unwrap();
+        let bound = |k: &str, dom: &str| -> Vec<usize> {
+            e.meta
+                .facts_with_key(k)
+                .filter(|f| f.domain.as_deref() == Some(dom))
+                .map(|f| f.value.parse().unwrap())
+                .collect()
+        };
+        for dom in ["Q", "GF(2)"] {
+            let (up, lo) = (bound("rank.upper", dom), bound("rank.lower", dom));
+            for u in &up {
+                assert!(
+                    *u >= fl,
+                    "{}: upper bound {u} below a flattening rank {fl}",
+                    e.meta.name
+                );
+                for l in &lo {
+                    assert!(
+                        l <= u,
+                        "{}: lower bound {l} above upper bound {u} over {dom}",
+                        e.meta.name
+                    );
+                }
+                checked += 1;
+            }
+        }
+    }
+    println!("rank upper bounds checked for consistency: {checked}");
+}

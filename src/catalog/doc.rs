@@ -42,10 +42,13 @@ A source marked `(from memory)` was recalled, not looked up; `common practice` m
 of the trade without a single source. `bilin catalog check` recomputes every fact bilin can \
 compute (laws, dimensions of the centre, nucleus, annihilator, derivations, trace-form \
 ranks, flattening ranks) and counts the ones it cannot (tensor rank bounds, division).\n\n\
+To add an entry: write `catalog/<name>.bilin`, add it to the list in \
+src/catalog/entries.rs (a test compares that list with the directory), then run \
+`bilin catalog check <name>` and regenerate this page.\n\n\
 Fact keys: `dimension`, `dims` (left, right, result), `flattening` (flattening ranks), \
 `commutative`, `anticommutative`, `associative`, `alternative`, `flexible`, `lie`, `jordan`, \
 `unital`, `annihilator`, `commutant`, `nucleus`, `centre` (commutant and nucleus), \
-`derivations`, `derived` (dim A^2), `radical`, `semisimple`, `nilpotent`, `solvable`, \
+`derivations`, `centroid`, `derived` (dim A^2), `radical`, `semisimple`, `nilpotent`, `solvable`, \
 `killing.rank`, `division`, `rank.upper`, `rank.lower` (tensor rank over the given domain).\n";
 
 fn entry_section(out: &mut String, e: &Entry) {

@@ -8,7 +8,7 @@
 //! combinations: a lower bound equal to the generic value with high probability).
 //! Algebras also get: `commutative`, `anticommutative`, `associative`, `alternative`,
 //! `flexible`, `lie`, `jordan` (characteristic 0 or > 3), `unital`, `annihilator`,
-//! `commutant`, `nucleus`, `centre`, `derivations`, `squares`, `derived.series`,
+//! `commutant`, `nucleus`, `centre`, `derivations`, `centroid`, `squares`, `derived.series`,
 //! `lower.central`, `trace.rank`, `trace.signature`, `trace.discriminant`, `rtrace.rank`.
 //! More keys can be appended without changing the comparison rules.
 
@@ -94,7 +94,8 @@ pub struct FingerprintParams {
     pub seed: u64,
     /// How many random combinations per axis for `slice.generic`.
     pub slice_trials: usize,
-    /// Skip the derivation algebra above this dimension (its system has n^3 rows, n^2 columns).
+    /// Skip the derivation and centroid algebras above this dimension (their systems have
+    /// n^3 and 2 n^3 rows, n^2 columns).
     pub max_dim_derivations: usize,
 }
 
@@ -182,8 +183,27 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     fp.push("commutant", Value::Int(spaces::commutant_dim(&d)));
     fp.push("nucleus", Value::Int(spaces::nucleus_dim(&d, &assoc)));
     fp.push("centre", Value::Int(spaces::centre_dim(&d, &assoc)));
-    if d.n <= params.max_dim_derivations {
-        fp.push("derivations", Value::Int(spaces::derivations_dim(&d)));
+    // derivations and centroid: from the invariants layer (proven bases, sparse integer
+    // systems) when the constants fit its integer tables, otherwise by the catalog's own
+    // dense systems (up to `max_dim_derivations`)
+    let it = crate::invariants::IntTable::from_tensor(t).ok();
+    let sp = crate::invariants::SolveParams::default();
+    let der = it
+        .as_ref()
+        .and_then(|it| crate::invariants::derivations(it, &sp).ok());
+    let cen = it
+        .as_ref()
+        .and_then(|it| crate::invariants::centroid(t, it, &sp).ok());
+    let small = d.n <= params.max_dim_derivations;
+    match der {
+        Some(s) => fp.push("derivations", Value::Int(s.dim())),
+        None if small => fp.push("derivations", Value::Int(spaces::derivations_dim(&d))),
+        None => {}
+    }
+    match cen {
+        Some(c) => fp.push("centroid", Value::Int(c.space.dim())),
+        None if small => fp.push("centroid", Value::Int(spaces::centroid_dim(&d))),
+        None => {}
     }
     fp.push("squares", Value::Int(spaces::squares_dim(&d)));
     fp.push("derived.series", Value::Ints(spaces::derived_series(&d)));

@@ -1,6 +1,6 @@
 //! Dimensions of the linear invariant subspaces of an algebra, each the kernel of an exact
 //! linear system built from the structure constants: annihilator, commutant (commutative
-//! centre), nucleus, centre, derivations, and the unit element.
+//! centre), nucleus, centre, derivations, centroid, and the unit element.
 //!
 //! All are invariant under change of basis, so their dimensions are isomorphism invariants.
 
@@ -94,6 +94,31 @@ pub fn derivations_dim(d: &Dense) -> usize {
     n * n - d.rank_rows(rows, n * n)
 }
 
+/// dim of the centroid {X : X(xy) = X(x) y = x X(y)} (Jacobson 1962, Lie Algebras,
+/// ch. X). Unknowns as in [`derivations_dim`]; 2 n^3 equations in n^2 unknowns.
+pub fn centroid_dim(d: &Dense) -> usize {
+    let n = d.n;
+    let mut rows = Vec::with_capacity(2 * n * n * n);
+    for i in 0..n {
+        for j in 0..n {
+            for l in 0..n {
+                let mut left = vec![Q::zero(); n * n];
+                for m in 0..n {
+                    left[l * n + m] += d.at(i, j, m);
+                }
+                let mut right = left.clone();
+                for k in 0..n {
+                    left[k * n + i] -= d.at(k, j, l);
+                    right[k * n + j] -= d.at(i, k, l);
+                }
+                rows.push(left);
+                rows.push(right);
+            }
+        }
+    }
+    n * n - d.rank_rows(rows, n * n)
+}
+
 /// The two-sided unit, if any: the solution u of `u e_j = e_j = e_j u` for all j
 /// (unique when it exists). Cost: one solve of 2 n^2 equations in n unknowns.
 pub fn unit_element(d: &Dense) -> Option<Vec<Q>> {
@@ -166,4 +191,41 @@ pub fn squares_dim(d: &Dense) -> usize {
         }
     }
     d.rank_rows(rows, n)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::invariants::{IntTable, SolveParams, centroid, derivations};
+
+    /// Two independent computations of Der(A) and the centroid agree on every catalog
+    /// algebra of dimension <= 9 (the dense systems here, the sparse proven engine of the
+    /// invariants layer). common practice: both are kernels of the same linear conditions.
+    #[test]
+    fn derivations_and_centroid_agree_with_the_invariants_layer() {
+        let mut compared = 0;
+        for e in crate::catalog::all_entries().unwrap() {
+            let t = e.tensor().unwrap();
+            if t.kind() != crate::tensor::Kind::Algebra || t.dim() > 9 {
+                continue;
+            }
+            let d = Dense::new(&t);
+            let it = IntTable::from_tensor(&t).unwrap();
+            let sp = SolveParams::default();
+            assert_eq!(
+                derivations_dim(&d),
+                derivations(&it, &sp).unwrap().dim(),
+                "{}",
+                e.meta.name
+            );
+            assert_eq!(
+                centroid_dim(&d),
+                centroid(&t, &it, &sp).unwrap().space.dim(),
+                "{}",
+                e.meta.name
+            );
+            compared += 1;
+        }
+        assert!(compared > 40);
+    }
 }
