@@ -196,7 +196,9 @@ mod tests {
                     let mut cols: Vec<u32> = (0..3).map(|_| rng.gen_range(0..m as u32)).collect();
                     cols.sort_unstable();
                     cols.dedup();
-                    cols.into_iter().map(|c| (c, rng.gen_range(0..3u64))).collect()
+                    cols.into_iter()
+                        .map(|c| (c, rng.gen_range(0..3u64)))
+                        .collect()
                 })
                 .collect();
             let mut e = SparseEchelon::new(p, m);

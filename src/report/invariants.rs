@@ -243,7 +243,7 @@ fn map_space(sp: &Space, sizes: &[usize], omit: bool) -> MapSpaceReport {
                         let m = to_matrix(v, n, off);
                         off += n * n;
                         (0..n)
-                            .map(|r| m.row(r).iter().map(q_to_string).collect())
+                            .map(|r| m.row(r).iter().map(entry_string).collect())
                             .collect()
                     })
                     .collect()
