@@ -470,10 +470,17 @@ fn yes_no(b: Option<bool>) -> &'static str {
 
 /// Render the report as text sections.
 pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
-    let mut s = format!(
-        "invariants over {} of a {} of dims {:?}\n",
-        r.field, r.kind, r.dims
-    );
+    let mut s = if r.kind == "algebra" {
+        format!(
+            "invariants over {} of an algebra of dimension {}\n",
+            r.field, r.dims[0]
+        )
+    } else {
+        format!(
+            "invariants over {} of a bilinear map of dims {:?}\n",
+            r.field, r.dims
+        )
+    };
     if let Some(a) = r.associative {
         s += &format!(
             "associative: {}   Lie algebra: {}\n",
