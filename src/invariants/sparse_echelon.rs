@@ -24,7 +24,11 @@ pub struct SparseEchelon {
 
 #[inline]
 fn mulm(a: u64, b: u64, p: u64) -> u64 {
-    ((a as u128 * b as u128) % p as u128) as u64
+    if p < (1 << 32) {
+        a * b % p
+    } else {
+        ((a as u128 * b as u128) % p as u128) as u64
+    }
 }
 
 fn inv(a: u64, p: u64) -> u64 {
