@@ -4,18 +4,23 @@
 //! 1. [`scalar`]: the fields Q and GF(p);
 //! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
 //! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
-//! 4. [`scheme`]: bilinear algorithms and their exact verification.
+//! 4. [`scheme`]: bilinear algorithms and their exact verification;
+//!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
 //! [`error`] holds the typed errors shared by all layers.
 
+pub mod catalog;
 pub mod error;
 pub mod generators;
 pub mod input;
 pub mod invariants;
+pub mod laws;
 pub mod linalg;
+pub mod ranks;
 pub mod report;
 pub mod scalar;
 pub mod scheme;
+pub mod search;
 pub mod tensor;
 
 pub use error::{Error, Result};

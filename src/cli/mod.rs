@@ -6,9 +6,19 @@
 
 use clap::{Parser, Subcommand};
 
+mod analyze;
+mod bounds;
+mod catalog;
 pub mod common;
 mod convert;
+mod emit;
+mod identify;
 mod invariants;
+mod merge;
+mod scheme;
+mod scheme_io;
+mod search;
+mod verify;
 
 /// Exit code: success.
 pub const EXIT_OK: i32 = 0;
@@ -26,14 +36,34 @@ struct Cli {
 
 #[derive(Subcommand)]
 enum Command {
+    /// Laws, ranks and the full analysis of a product.
+    Analyze(analyze::Args),
     /// Print an input (file, generator or catalog name) as a table, grid or JSON.
     Convert(convert::Args),
+    /// Verify a scheme (bilinear algorithm) exactly against a tensor.
+    Verify(verify::Args),
+    /// Proven lower bounds for the tensor rank, each with its theorem.
+    Bounds(bounds::Args),
+    /// Emit a verified scheme as C, Rust, Python or LaTeX.
+    Emit(emit::Args),
+    /// Schemes as data: convert, cost, polish, kron, sum, permute, cyclic, transpose, restrict.
+    Scheme(scheme::Args),
     /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
     Invariants(invariants::Args),
+    /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
+    Search(search::SearchArgs),
+    /// Keep the lowest-rank verified scheme among result and checkpoint files.
+    Merge(merge::MergeArgs),
+    /// Browse the catalog of known algebras and bilinear maps (list, show, check, doc).
+    Catalog(catalog::CatalogArgs),
+    /// Identify an input against the catalog by invariants (and explicit isomorphisms).
+    Identify(identify::IdentifyArgs),
 }
 
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
+    // catalog names resolve wherever an input is expected
+    bilin::catalog::register_input_resolver();
     let cli = match Cli::try_parse() {
         Ok(c) => c,
         Err(e) => {
@@ -43,7 +73,16 @@ pub fn run() -> i32 {
         }
     };
     match cli.command {
+        Command::Analyze(a) => analyze::run(a),
         Command::Convert(a) => convert::run(a),
+        Command::Verify(a) => verify::run(&a),
+        Command::Bounds(a) => bounds::run(&a),
+        Command::Emit(a) => emit::run(&a),
+        Command::Scheme(a) => scheme::run(&a),
         Command::Invariants(a) => invariants::run(a),
+        Command::Search(a) => search::run(a),
+        Command::Merge(a) => merge::run(a),
+        Command::Catalog(a) => catalog::run(a),
+        Command::Identify(a) => identify::run(a),
     }
 }

@@ -22,6 +22,7 @@ use std::fmt::Debug;
 ///
 /// Invariant: elements handed to a field's operations were produced by that same field
 /// (for GF(p), they lie in `0..p`).
+#[allow(clippy::wrong_self_convention)] // `from_*` here are conversions *into* this field
 pub trait Field: Clone + Debug + Send + Sync {
     /// The element type.
     type Elem: Clone + PartialEq + Debug + Send + Sync;

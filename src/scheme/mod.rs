@@ -8,6 +8,17 @@
 //! Invariants: every factor vector has the length of its axis; over GF(p) the entries are
 //! integers in `0..p`.
 
+pub mod bounds;
+pub mod construct;
+pub mod cost;
+pub mod emit;
+pub mod json;
+mod latex;
+pub mod polish;
+pub mod sandwich;
+#[cfg(test)]
+pub(crate) mod testkit;
+pub mod text;
 mod verify;
 
 pub use verify::{Mismatch, verify};
@@ -56,6 +67,44 @@ impl Scheme {
         self.w.push(w);
     }
 
+    /// The same scheme over another field: over GF(p) every coefficient is reduced to
+    /// `0..p`; a rational coefficient whose denominator vanishes mod p is an error, and so
+    /// is turning a GF(p) scheme into a scheme over another field.
+    pub fn with_field(&self, field: FieldSpec) -> crate::Result<Scheme> {
+        if self.field == field {
+            return Ok(self.clone());
+        }
+        if self.field != FieldSpec::Rational {
+            return Err(crate::Error::Invalid(format!(
+                "a scheme over {} cannot be read over {}",
+                self.field.name(),
+                field.name()
+            )));
+        }
+        let conv = |rows: &[Vec<Q>]| -> crate::Result<Vec<Vec<Q>>> {
+            rows.iter()
+                .map(|r| r.iter().map(|x| reduce_into(field, x)).collect())
+                .collect()
+        };
+        Ok(Scheme {
+            field,
+            dims: self.dims,
+            u: conv(&self.u)?,
+            v: conv(&self.v)?,
+            w: conv(&self.w)?,
+        })
+    }
+
+    /// Total number of nonzero coefficients in the three factor matrices.
+    pub fn nnz(&self) -> usize {
+        use num_traits::Zero;
+        [&self.u, &self.v, &self.w]
+            .iter()
+            .flat_map(|m| m.iter().flatten())
+            .filter(|x| !x.is_zero())
+            .count()
+    }
+
     /// The standard scheme: one multiplication per nonzero structure constant
     /// (`u = e_i`, `v = e_j`, `w = c[i][j][k] e_k`); for matrix multiplication this is the
     /// schoolbook algorithm.
@@ -75,4 +124,47 @@ impl Scheme {
         }
         s
     }
+}
+
+/// A rational number as an element of `field`, written as a rational (over GF(p): the
+/// integer in `0..p`). Errors when the denominator vanishes mod p.
+pub fn reduce_into(field: FieldSpec, x: &Q) -> crate::Result<Q> {
+    use crate::scalar::{Field, PrimeField};
+    match field {
+        FieldSpec::Rational => Ok(x.clone()),
+        FieldSpec::Prime(p) => {
+            let f = PrimeField::new(p)
+                .ok_or_else(|| crate::Error::Invalid(format!("{p} is not a prime")))?;
+            f.from_rational(x)
+                .map(|e| f.to_rational(&e))
+                .ok_or_else(|| {
+                    crate::Error::Invalid(format!(
+                        "the coefficient {} has a denominator divisible by {p}",
+                        crate::scalar::q_to_string(x)
+                    ))
+                })
+        }
+    }
+}
+
+/// Read a scheme file in either documented form (JSON when the text starts with `{`,
+/// the text form otherwise), resolve it against `t` and bring it to the tensor's field.
+pub fn parse_scheme(text: &str, source: &str, t: &crate::tensor::Tensor) -> crate::Result<Scheme> {
+    let s = if text.trim_start().starts_with('{') {
+        json::parse_json(text, source)?
+    } else {
+        text::parse_text(text, source, t)?
+    };
+    if s.dims != t.dims() {
+        return Err(crate::Error::Invalid(format!(
+            "the scheme has format {}x{}x{} but the tensor has {}x{}x{}",
+            s.dims[0],
+            s.dims[1],
+            s.dims[2],
+            t.dims()[0],
+            t.dims()[1],
+            t.dims()[2]
+        )));
+    }
+    s.with_field(t.field())
 }

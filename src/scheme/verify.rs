@@ -22,6 +22,7 @@ pub struct Mismatch {
 /// Returns `Ok(())` or the first mismatch (lexicographic in (i, j, k)) with the total count.
 /// Shapes must agree (a shape mismatch is reported at index [0, 0, 0] with count = usize::MAX).
 /// Cost: O(r * d0 * d1 * d2) exact operations, skipping zero factors.
+#[allow(clippy::result_large_err)] // a failed check is rare and reported once
 pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
     let d = t.dims();
     if s.dims != d || s.v.len() != s.u.len() || s.w.len() != s.u.len() {
@@ -80,5 +81,58 @@ pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
             got,
             count,
         }),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scheme::testkit::*;
+    use proptest::prelude::*;
+
+    #[test]
+    fn classical_schemes_verify() {
+        let t = matmul(2, 2, 2);
+        // Strassen 1969, "Gaussian elimination is not optimal" (from memory)
+        assert!(verify(&scheme(STRASSEN, &t), &t).is_ok());
+        // Winograd's variant (Probert 1976) (from memory)
+        assert!(verify(&scheme(WINOGRAD, &t), &t).is_ok());
+        // Karatsuba and Ofman 1962: 3 multiplications for two 2-term polynomials
+        let p = polymul(2);
+        let k = scheme(KARATSUBA, &p);
+        assert_eq!(k.rank(), 3);
+        assert!(verify(&k, &p).is_ok());
+        // Gauss's complex product with 3 real multiplications (common practice)
+        let c = complex();
+        let g = scheme(GAUSS, &c);
+        assert_eq!(g.rank(), 3);
+        assert!(verify(&g, &c).is_ok());
+        // the standard scheme verifies
+        assert!(verify(&Scheme::standard(&matmul(2, 3, 2)), &matmul(2, 3, 2)).is_ok());
+    }
+
+    #[test]
+    fn mismatch_report() {
+        let t = matmul(2, 2, 2);
+        let mut s = scheme(STRASSEN, &t);
+        s.w[1][2] = Q::zero(); // c21 loses m2 = (a21 + a22) b11
+        let m = verify(&s, &t).unwrap_err();
+        assert_eq!(m.index, [2, 0, 2]); // a21 * b11 -> c21
+        assert_eq!(m.count, 2);
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
+        /// Changing one coefficient u_t[i] by delta changes the tensor by
+        /// delta e_i (x) v_t (x) w_t, which is nonzero because no factor of Strassen's scheme
+        /// is zero; so every tampered scheme must fail verification.
+        #[test]
+        fn tampered_scheme_fails(side in 0usize..3, t in 0usize..7, i in 0usize..4, delta in 1i64..5) {
+            let tt = matmul(2, 2, 2);
+            let mut s = scheme(STRASSEN, &tt);
+            let m = match side { 0 => &mut s.u, 1 => &mut s.v, _ => &mut s.w };
+            m[t][i] += Q::from_integer(delta.into());
+            prop_assert!(verify(&s, &tt).is_err());
+        }
     }
 }

@@ -1,0 +1,247 @@
+//! Search benchmarks: medians over seeds of the time to an exactly verified scheme, and the
+//! flip-walk throughput. A plain `main` (harness = false): each case is a whole search, far
+//! too long for statistical repetition.
+//!
+//! Run: `cargo bench --bench search -- [CASE...]` with CASE among strassen, small, m333,
+//! als, gf4, throughput (default: all but m333). `SEEDS=n` sets the seeds per case.
+
+use bilin::scalar::{FieldSpec, Q, q};
+use bilin::scheme::verify;
+use bilin::search::flip::{BitScheme, Walker};
+use bilin::search::{Method, Params, search_scheme};
+use bilin::tensor::{Kind, Tensor};
+use num_traits::One;
+use std::sync::Arc;
+use std::sync::atomic::AtomicBool;
+use std::time::{Duration, Instant};
+
+fn matmul(n: usize, m: usize, p: usize) -> Tensor {
+    let mut t = Tensor::zero(
+        FieldSpec::Rational,
+        Kind::Bilinear,
+        [n * m, m * p, n * p],
+        None,
+    );
+    for i in 0..n {
+        for l in 0..m {
+            for j in 0..p {
+                t.set(i * m + l, l * p + j, i * p + j, Q::one());
+            }
+        }
+    }
+    t
+}
+
+fn poly(m: usize, n: usize) -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [m, n, m + n - 1], None);
+    for i in 0..m {
+        for j in 0..n {
+            t.set(i, j, i + j, Q::one());
+        }
+    }
+    t
+}
+
+fn complex() -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [2, 2, 2], None);
+    t.set(0, 0, 0, q(1, 1));
+    t.set(1, 1, 0, q(-1, 1));
+    t.set(0, 1, 1, q(1, 1));
+    t.set(1, 0, 1, q(1, 1));
+    t
+}
+
+fn gf4() -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Prime(2), Kind::Bilinear, [2, 2, 2], None);
+    for (i, j, k) in [(0, 0, 0), (0, 1, 1), (1, 0, 1), (1, 1, 0), (1, 1, 1)] {
+        t.set(i, j, k, q(1, 1));
+    }
+    t
+}
+
+fn median(mut v: Vec<f64>) -> f64 {
+    v.sort_by(f64::total_cmp);
+    if v.is_empty() {
+        f64::NAN
+    } else {
+        v[v.len() / 2]
+    }
+}
+
+/// Time to a verified scheme of rank `r` for each seed; prints median and success count.
+fn case(name: &str, t: &Tensor, method: Method, r: usize, seeds: u64, threads: usize, limit: f64) {
+    let mut times = Vec::new();
+    let mut ok = 0;
+    for seed in 0..seeds {
+        let p = Params {
+            target_rank: Some(r),
+            method,
+            seed,
+            threads,
+            time_limit: Some(Duration::from_secs_f64(limit)),
+            ..Params::default()
+        };
+        let stop = Arc::new(AtomicBool::new(false));
+        let t0 = Instant::now();
+        let o = search_scheme(t, &p, &stop, None, &|_| {}).expect("search");
+        let dt = t0.elapsed().as_secs_f64();
+        let good = o.best.as_ref().is_some_and(|s| {
+            s.rank() <= r && {
+                let g = if s.field == t.field() {
+                    t.clone()
+                } else {
+                    t.with_field(s.field).unwrap()
+                };
+                verify(s, &g).is_ok()
+            }
+        });
+        if good {
+            ok += 1;
+            times.push(dt);
+        }
+    }
+    println!(
+        "{name:<34} rank {r:>2} {:<5} threads {threads}  success {ok}/{seeds}  median {:.4} s  (limit {limit} s)",
+        format!("{method:?}"),
+        median(times)
+    );
+}
+
+/// CPU time of this thread in seconds (Linux: /proc/thread-self/stat, utime + stime in
+/// clock ticks of 1/100 s); `None` elsewhere.
+fn thread_cpu_seconds() -> Option<f64> {
+    let st = std::fs::read_to_string("/proc/thread-self/stat").ok()?;
+    let rest = &st[st.rfind(')')? + 2..];
+    let f: Vec<&str> = rest.split_whitespace().collect();
+    let ut: f64 = f.get(11)?.parse().ok()?;
+    let stt: f64 = f.get(12)?.parse().ok()?;
+    Some((ut + stt) / 100.0)
+}
+
+fn throughput() {
+    let t = matmul(4, 4, 4);
+    let s = BitScheme::standard(&t).expect("bits");
+    let mut w = Walker::new(&s, 1);
+    let t0 = Instant::now();
+    let c0 = thread_cpu_seconds();
+    let mut moves = 0u64;
+    while t0.elapsed() < Duration::from_secs(5) {
+        for _ in 0..100_000 {
+            w.flip();
+        }
+        moves += 100_000;
+        // stay on the plateau near the start rank: reload if the walk reduced far
+        if w.rank() < 56 {
+            w.load(&s);
+        }
+    }
+    let dt = t0.elapsed().as_secs_f64();
+    let cpu = c0.zip(thread_cpu_seconds()).map(|(a, b)| b - a);
+    let per_cpu = cpu.map_or("no CPU clock".into(), |c| {
+        format!(
+            "{:.2e} moves per CPU second ({c:.2} CPU s in {dt:.2} s)",
+            moves as f64 / c
+        )
+    });
+    println!(
+        "flip throughput <4,4,4> GF(2), 1 thread: {:.2e} moves per wall second, {per_cpu} (rank now {})",
+        moves as f64 / dt,
+        w.rank()
+    );
+}
+
+fn main() {
+    let args: Vec<String> = std::env::args()
+        .skip(1)
+        .filter(|a| !a.starts_with('-'))
+        .collect();
+    let want = |c: &str| {
+        if args.is_empty() {
+            c != "m333"
+        } else {
+            args.iter().any(|a| a == c)
+        }
+    };
+    let seeds: u64 = std::env::var("SEEDS")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(10);
+    if want("strassen") {
+        case(
+            "<2,2,2> flip GF(2) + lift to Q",
+            &matmul(2, 2, 2),
+            Method::Flip,
+            7,
+            seeds,
+            1,
+            10.0,
+        );
+        case(
+            "<2,2,2> ALS + rounding",
+            &matmul(2, 2, 2),
+            Method::Als,
+            7,
+            seeds,
+            1,
+            60.0,
+        );
+    }
+    if want("small") {
+        case(
+            "<2,2,3> flip + lift",
+            &matmul(2, 2, 3),
+            Method::Flip,
+            11,
+            seeds,
+            1,
+            60.0,
+        );
+        case(
+            "<2,3,3> flip + lift",
+            &matmul(2, 3, 3),
+            Method::Flip,
+            15,
+            seeds,
+            1,
+            60.0,
+        );
+        case(
+            "<2,2,4> flip + lift",
+            &matmul(2, 2, 4),
+            Method::Flip,
+            14,
+            seeds,
+            1,
+            60.0,
+        );
+    }
+    if want("als") {
+        case("complex ALS", &complex(), Method::Als, 3, seeds, 1, 10.0);
+        case("poly 3x3 ALS", &poly(3, 3), Method::Als, 5, seeds, 1, 30.0);
+    }
+    if want("gf4") {
+        case(
+            "GF(4) over GF(2) flip",
+            &gf4(),
+            Method::Flip,
+            3,
+            seeds,
+            1,
+            10.0,
+        );
+    }
+    if want("m333") {
+        case(
+            "<3,3,3> flip + lift",
+            &matmul(3, 3, 3),
+            Method::Flip,
+            23,
+            seeds,
+            2,
+            300.0,
+        );
+    }
+    if want("throughput") {
+        throughput();
+    }
+}

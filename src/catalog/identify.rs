@@ -1,0 +1,152 @@
+//! Identification of an input against the catalog: compare invariant fingerprints, list
+//! the entries that match, the ones that nearly match and the invariants that separate
+//! them, and for small algebras look for an explicit isomorphism, verified exactly.
+//!
+//! A matching fingerprint is evidence of isomorphism, never a proof; only an isomorphism
+//! that has been found and checked proves it.
+
+use super::fingerprint::{Fingerprint, FingerprintParams, compute_fingerprint};
+use super::iso::{IsoParams, find_isomorphism};
+use super::store::{Entry, all_entries};
+use crate::error::Error;
+use crate::linalg::Matrix;
+use crate::scalar::Q;
+use crate::tensor::Tensor;
+use std::collections::HashMap;
+use std::sync::{Mutex, OnceLock};
+
+/// Parameters of [`identify`].
+#[derive(Clone, Debug)]
+pub struct IdentifyParams {
+    pub fingerprint: FingerprintParams,
+    pub iso: IsoParams,
+    /// Look for explicit isomorphisms with the matching entries.
+    pub search_isomorphism: bool,
+    /// A near match differs in at most this many fingerprint keys.
+    pub max_near_differences: usize,
+}
+
+impl Default for IdentifyParams {
+    fn default() -> Self {
+        IdentifyParams {
+            fingerprint: FingerprintParams::default(),
+            iso: IsoParams::default(),
+            search_isomorphism: true,
+            max_near_differences: 3,
+        }
+    }
+}
+
+/// The outcome of the isomorphism search for one matching entry.
+#[derive(Clone, Debug)]
+pub enum IsoOutcome {
+    /// M: the columns are the images of the input's basis vectors in the entry's basis;
+    /// `change_basis_algebra(entry, M)` equals the input exactly.
+    Found(Matrix<Q>),
+    /// Searched within the parameters and found none (not a proof of non-isomorphism).
+    NotFound,
+    /// Not attempted (the reason is given).
+    NotAttempted(String),
+}
+
+/// A catalog entry whose fingerprint equals the input's.
+#[derive(Clone, Debug)]
+pub struct Match {
+    pub name: String,
+    pub iso: IsoOutcome,
+}
+
+/// A catalog entry of the same kind, field and dimensions that differs in a few keys.
+#[derive(Clone, Debug)]
+pub struct NearMatch {
+    pub name: String,
+    /// (key, the input's value, the entry's value).
+    pub differences: Vec<(String, String, String)>,
+}
+
+/// The result of [`identify`].
+#[derive(Clone, Debug)]
+pub struct Identification {
+    pub fingerprint: Fingerprint,
+    pub matches: Vec<Match>,
+    pub near: Vec<NearMatch>,
+}
+
+type Cache = Mutex<HashMap<(String, u64), Fingerprint>>;
+static CACHE: OnceLock<Cache> = OnceLock::new();
+
+/// The fingerprint of a catalog entry (cached per process and seed).
+pub fn entry_fingerprint(e: &Entry, params: &FingerprintParams) -> Result<Fingerprint, Error> {
+    let cache = CACHE.get_or_init(Default::default);
+    let key = (e.meta.name.clone(), params.seed);
+    if let Some(fp) = cache.lock().ok().and_then(|c| c.get(&key).cloned()) {
+        return Ok(fp);
+    }
+    let fp = compute_fingerprint(&e.tensor()?, params);
+    if let Ok(mut c) = cache.lock() {
+        c.insert(key, fp.clone());
+    }
+    Ok(fp)
+}
+
+fn same_shape(t: &Tensor, u: &Tensor) -> bool {
+    t.kind() == u.kind() && t.field() == u.field() && t.dims() == u.dims()
+}
+
+/// Identify a tensor against the catalog. Only entries with the same kind, field and
+/// dimensions are compared (their fingerprints are computed on demand). Cost: one
+/// fingerprint per such entry plus, per match, one bounded isomorphism search.
+pub fn identify(t: &Tensor, params: &IdentifyParams) -> Result<Identification, Error> {
+    let fp = compute_fingerprint(t, &params.fingerprint);
+    let mut matches = Vec::new();
+    let mut near = Vec::new();
+    for e in all_entries()? {
+        let et = e.tensor()?;
+        if !same_shape(t, &et) {
+            continue;
+        }
+        let efp = entry_fingerprint(e, &params.fingerprint)?;
+        let diff = fp.differences(&efp);
+        if diff.is_empty() {
+            let iso = if !params.search_isomorphism {
+                IsoOutcome::NotAttempted("the search was switched off".into())
+            } else if t.kind() != crate::tensor::Kind::Algebra {
+                IsoOutcome::NotAttempted("the search handles algebras only".into())
+            } else if t.dim() > params.iso.max_dim {
+                IsoOutcome::NotAttempted(format!(
+                    "dimension {} is above the search limit {}",
+                    t.dim(),
+                    params.iso.max_dim
+                ))
+            } else {
+                match find_isomorphism(t, &et, &params.iso) {
+                    Some(m) => IsoOutcome::Found(m),
+                    None => IsoOutcome::NotFound,
+                }
+            };
+            matches.push(Match {
+                name: e.meta.name.clone(),
+                iso,
+            });
+        } else if diff.len() <= params.max_near_differences {
+            let differences = diff
+                .into_iter()
+                .map(|k| {
+                    let a = fp.get(&k).map(|v| v.to_string()).unwrap_or_default();
+                    let b = efp.get(&k).map(|v| v.to_string()).unwrap_or_default();
+                    (k, a, b)
+                })
+                .collect();
+            near.push(NearMatch {
+                name: e.meta.name.clone(),
+                differences,
+            });
+        }
+    }
+    near.sort_by_key(|n| n.differences.len());
+    Ok(Identification {
+        fingerprint: fp,
+        matches,
+        near,
+    })
+}

@@ -1,0 +1,222 @@
+//! `bilin catalog`: list, show, check and document the embedded catalog.
+
+use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
+use bilin::catalog::{self, Entry, FactCheck, FingerprintParams};
+use clap::{Args, Subcommand};
+
+#[derive(Args)]
+pub struct CatalogArgs {
+    #[command(subcommand)]
+    action: Action,
+}
+
+#[derive(Subcommand)]
+enum Action {
+    /// List the entries, optionally filtered.
+    List {
+        /// Only entries of this family (e.g. lie, matmul, cayley-dickson).
+        #[arg(long)]
+        family: Option<String>,
+        /// Only entries of this dimension (algebras) or with this left dimension.
+        #[arg(long)]
+        dim: Option<usize>,
+        /// Only entries with the stored fact `LAW = yes` (e.g. associative, lie, jordan).
+        #[arg(long)]
+        law: Option<String>,
+    },
+    /// Show one entry: description, sources, facts and table.
+    Show {
+        /// Entry name or alias.
+        name: String,
+        /// Also recompute the facts bilin can compute.
+        #[arg(long)]
+        check: bool,
+    },
+    /// Recompute every stored fact that bilin can compute (all entries, or one).
+    Check {
+        /// Entry name or alias (default: all entries).
+        name: Option<String>,
+    },
+    /// Print the reference page docs/catalog.md.
+    Doc,
+}
+
+/// Run `bilin catalog ...`; returns the exit code.
+pub fn run(args: CatalogArgs) -> i32 {
+    let all = match catalog::all_entries() {
+        Ok(a) => a,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return EXIT_FALSE;
+        }
+    };
+    match args.action {
+        Action::List { family, dim, law } => list(all, family, dim, law),
+        Action::Show { name, check } => match catalog::find_entry(&name) {
+            Some(e) => show(e, check),
+            None => unknown(&name),
+        },
+        Action::Check { name } => {
+            let chosen: Vec<&Entry> = match &name {
+                Some(n) => match catalog::find_entry(n) {
+                    Some(e) => vec![e],
+                    None => return unknown(n),
+                },
+                None => all.iter().collect(),
+            };
+            check(&chosen)
+        }
+        Action::Doc => match catalog::doc::render_markdown() {
+            Ok(s) => {
+                print!("{s}");
+                EXIT_OK
+            }
+            Err(e) => {
+                eprintln!("error: {e}");
+                EXIT_FALSE
+            }
+        },
+    }
+}
+
+fn unknown(name: &str) -> i32 {
+    eprintln!("error: no catalog entry named `{name}` (see `bilin catalog list`)");
+    EXIT_USAGE
+}
+
+fn list(all: &[Entry], family: Option<String>, dim: Option<usize>, law: Option<String>) -> i32 {
+    println!(
+        "{:<20} {:<26} {:<7} {:<10} aliases",
+        "name", "family", "field", "dims"
+    );
+    for e in all {
+        let m = &e.meta;
+        if family
+            .as_ref()
+            .is_some_and(|f| !m.family.eq_ignore_ascii_case(f))
+        {
+            continue;
+        }
+        if let Some(l) = &law
+            && !m
+                .facts
+                .iter()
+                .any(|f| f.key.eq_ignore_ascii_case(l) && f.value == "yes")
+        {
+            continue;
+        }
+        let Ok(t) = e.tensor() else {
+            eprintln!("warning: the entry {} cannot be built", m.name);
+            continue;
+        };
+        if dim.is_some_and(|d| t.dims()[0] != d) {
+            continue;
+        }
+        let d = t.dims();
+        let dims = if t.kind() == bilin::tensor::Kind::Algebra {
+            d[0].to_string()
+        } else {
+            format!("{}x{}->{}", d[0], d[1], d[2])
+        };
+        println!(
+            "{:<20} {:<26} {:<7} {:<10} {}",
+            m.name,
+            m.family,
+            t.field().name(),
+            dims,
+            m.aliases.join(", ")
+        );
+    }
+    EXIT_OK
+}
+
+fn show(e: &Entry, recompute: bool) -> i32 {
+    let m = &e.meta;
+    println!("{} ({})", m.name, m.family);
+    println!("{}", m.about);
+    if !m.aliases.is_empty() {
+        println!("aliases: {}", m.aliases.join(", "));
+    }
+    for s in &m.sources {
+        println!("source: {s}");
+    }
+    let t = match e.tensor() {
+        Ok(t) => t,
+        Err(err) => {
+            eprintln!("error: {err}");
+            return EXIT_FALSE;
+        }
+    };
+    let fp = recompute.then(|| catalog::compute_fingerprint(&t, &FingerprintParams::default()));
+    println!("\nfacts:");
+    let mut bad = false;
+    for f in &m.facts {
+        let dom = f
+            .domain
+            .as_ref()
+            .map(|d| format!(" over {d}"))
+            .unwrap_or_default();
+        let status = match &fp {
+            Some(fp) => match catalog::check_fact(f, fp, &t) {
+                FactCheck::Agrees => "  [recomputed: agrees]".to_string(),
+                FactCheck::Disagrees(v) => {
+                    bad = true;
+                    format!("  [recomputed: DISAGREES, bilin finds {v}]")
+                }
+                FactCheck::NotComputable(_) => "  [not recomputed]".to_string(),
+            },
+            None => String::new(),
+        };
+        println!(
+            "  {} = {}{dom}{status}\n      source: {}",
+            f.key, f.value, f.source
+        );
+    }
+    match &m.generate {
+        Some(g) => {
+            let d = t.dims();
+            println!(
+                "\nbuilt by the generator `{g}`: dims {} x {} -> {}, {} nonzero coefficients",
+                d[0],
+                d[1],
+                d[2],
+                t.nnz()
+            );
+        }
+        None => println!("\ntable:\n{}", e.table_text()),
+    }
+    if bad { EXIT_FALSE } else { EXIT_OK }
+}
+
+fn check(entries: &[&Entry]) -> i32 {
+    let (mut agree, mut disagree, mut not_comp) = (0usize, 0usize, 0usize);
+    for e in entries {
+        let t = match e.tensor() {
+            Ok(t) => t,
+            Err(err) => {
+                eprintln!("{}: cannot build: {err}", e.meta.name);
+                disagree += 1;
+                continue;
+            }
+        };
+        let fp = catalog::compute_fingerprint(&t, &FingerprintParams::default());
+        for f in &e.meta.facts {
+            match catalog::check_fact(f, &fp, &t) {
+                FactCheck::Agrees => agree += 1,
+                FactCheck::Disagrees(v) => {
+                    disagree += 1;
+                    println!(
+                        "{}: stored {} = {}, bilin computes {v}",
+                        e.meta.name, f.key, f.value
+                    );
+                }
+                FactCheck::NotComputable(_) => not_comp += 1,
+            }
+        }
+    }
+    println!(
+        "{} entries: {agree} facts recomputed and agree, {disagree} disagree, {not_comp} not computable by bilin",
+        entries.len()
+    );
+    if disagree > 0 { EXIT_FALSE } else { EXIT_OK }
+}

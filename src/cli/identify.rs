@@ -1,0 +1,96 @@
+//! `bilin identify INPUT`: the invariant fingerprint of an input and the catalog entries
+//! it matches, nearly matches, and explicit isomorphisms where found.
+
+use super::{EXIT_OK, EXIT_USAGE};
+use bilin::catalog::{IdentifyParams, IsoOutcome, identify};
+use bilin::scalar::q_to_string;
+use clap::Args;
+
+#[derive(Args)]
+pub struct IdentifyArgs {
+    /// A table file, a JSON file, a generator spec or a catalog name.
+    input: String,
+    /// Read the input over this field (`Q`, `GF(p)`).
+    #[arg(long)]
+    field: Option<String>,
+    /// Do not search for explicit isomorphisms.
+    #[arg(long)]
+    no_iso: bool,
+    /// Integer coordinate bound of the isomorphism search.
+    #[arg(long, default_value_t = 1)]
+    bound: i64,
+    /// Seed of the randomized fingerprint keys.
+    #[arg(long, default_value_t = 1)]
+    seed: u64,
+}
+
+/// Run `bilin identify`; returns the exit code.
+pub fn run(args: IdentifyArgs) -> i32 {
+    let t = match super::common::load(&args.input, args.field.as_deref()) {
+        Ok(t) => t,
+        Err(code) => return code,
+    };
+    let mut params = IdentifyParams {
+        search_isomorphism: !args.no_iso,
+        ..Default::default()
+    };
+    params.iso.coord_bound = args.bound;
+    params.fingerprint.seed = args.seed;
+    let id = match identify(&t, &params) {
+        Ok(id) => id,
+        Err(e) => {
+            eprintln!("error: {e}");
+            return EXIT_USAGE;
+        }
+    };
+    println!("fingerprint of {}:", args.input);
+    for (k, v) in &id.fingerprint.entries {
+        println!("  {k:<20} {v}");
+    }
+    println!();
+    if id.matches.is_empty() {
+        println!("no catalog entry has this fingerprint.");
+    } else {
+        println!(
+            "catalog entries with the same fingerprint (evidence of isomorphism, not a proof):"
+        );
+    }
+    for m in &id.matches {
+        match &m.iso {
+            IsoOutcome::Found(mat) => {
+                println!(
+                    "  {}: ISOMORPHIC, verified exactly: the input's basis vectors are, in the entry's basis,",
+                    m.name
+                );
+                for j in 0..mat.cols {
+                    let col: Vec<String> =
+                        (0..mat.rows).map(|i| q_to_string(&mat[(i, j)])).collect();
+                    println!("      x{j} -> ({})", col.join(", "));
+                }
+            }
+            IsoOutcome::NotFound => println!(
+                "  {}: fingerprint matches; no isomorphism with coordinates in -{b}..{b} found (not a proof either way)",
+                m.name,
+                b = args.bound
+            ),
+            IsoOutcome::NotAttempted(why) => println!(
+                "  {}: fingerprint matches; isomorphism search not attempted ({why})",
+                m.name
+            ),
+        }
+    }
+    if !id.near.is_empty() {
+        println!(
+            "\nnear matches (same kind, field and dimensions), and the invariants that separate them:"
+        );
+        for n in &id.near {
+            let d: Vec<String> = n
+                .differences
+                .iter()
+                .map(|(k, a, b)| format!("{k}: input {a}, entry {b}"))
+                .collect();
+            println!("  {}: {}", n.name, d.join("; "));
+        }
+    }
+    EXIT_OK
+}

@@ -1,0 +1,46 @@
+//! Shared helpers of the scheme subcommands: loading an input tensor and a scheme file.
+//!
+//! `load_tensor` resolves an input (file, generator spec such as `matmul:2,2,2`, or catalog
+//! name) through the shared loader `bilin::input::load_input`.
+
+use bilin::error::Error;
+use bilin::scalar::FieldSpec;
+use bilin::scheme::Scheme;
+use bilin::tensor::Tensor;
+
+/// Load an input (file, generator spec or catalog name), over `field` if given.
+pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
+    let field = match field {
+        None => None,
+        Some(f) => Some(FieldSpec::parse(f).map_err(|m| Error::Invalid(format!("--field: {m}")))?),
+    };
+    bilin::input::load_input(spec, field)
+}
+
+/// Read a scheme file (text or JSON form) against a tensor.
+pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
+    let text = std::fs::read_to_string(path).map_err(|e| Error::Io {
+        path: path.to_string(),
+        message: e.to_string(),
+    })?;
+    bilin::scheme::parse_scheme(&text, path, t)
+}
+
+/// `<n,m,p>` from a spec `matmul:n,m,p`, or from an explicit `n,m,p`.
+pub fn matmul_format(spec: &str, explicit: Option<&str>) -> Option<[usize; 3]> {
+    let s = match explicit {
+        Some(e) => e,
+        None => spec.trim().strip_prefix("matmul:")?,
+    };
+    let v: Vec<usize> = s
+        .split(',')
+        .map(|x| x.trim().parse().ok())
+        .collect::<Option<Vec<_>>>()?;
+    (v.len() == 3).then(|| [v[0], v[1], v[2]])
+}
+
+/// Print an error and return the usage exit code.
+pub fn fail(e: &Error) -> i32 {
+    eprintln!("error: {e}");
+    super::EXIT_USAGE
+}

@@ -1,0 +1,619 @@
+//! Proven lower bounds for the tensor rank R(T) (the least number of multiplications of a
+//! bilinear algorithm), each labelled with the theorem it rests on.
+//!
+//! - *Flattening*: a rank-one tensor has flattenings of rank <= 1, so R(T) >= rank of every
+//!   flattening (common practice; Buergisser, Clausen and Shokrollahi 1997, "Algebraic
+//!   Complexity Theory", ch. 14). Along the result axis this is the number of independent
+//!   result coordinates.
+//! - *Slice span*: contracting one axis of a rank-r decomposition with a linear form gives
+//!   a matrix of rank <= r, so the exact rank of one specific (seeded random) combination of
+//!   slices is a lower bound (same source).
+//! - *Alder-Strassen*: for an associative algebra A with unit, R(A) >= 2 dim A - t(A), where
+//!   t(A) is the number of maximal two-sided ideals (Alder and Strassen 1981, "On the
+//!   algorithmic complexity of associative algebras", Theoret. Comput. Sci. 15).
+//!   t(A) = number of simple components of A/rad A. We compute rad A as the radical of the
+//!   trace form {x : Tr(L_{xy}) = 0 for all y}, which contains rad A in every characteristic,
+//!   and accept it only after checking exactly that it is a nilpotent ideal (then it equals
+//!   rad A). The simple components of S = A/rad A correspond to those of its centre Z(S), a
+//!   commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
+//!   z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
+//!   polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
+//!   number of factors of f mod p for any prime p where f stays squarefree of full degree
+//!   (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
+//!   used on t is stated in the result.
+//!
+//! This file is self-contained on purpose (radical, centre, factor counts) so that it can
+//! later be pointed at shared invariant code.
+
+use crate::linalg::{Matrix, nullspace, rank, rref, solve};
+use crate::scalar::{Field, PrimeField, Q};
+use crate::tensor::{Kind, Tensor, flattening_ranks, rank_over, slices};
+use num_traits::{One, Zero};
+use rand::{Rng, SeedableRng};
+
+/// Parameters of [`lower_bounds`].
+#[derive(Clone, Debug)]
+pub struct BoundsParams {
+    /// Seed of the random slice combinations and primitive elements.
+    pub seed: u64,
+    /// Random slice combinations tried per axis.
+    pub slice_trials: usize,
+    /// Algebras above this dimension skip the Alder-Strassen computation (cost O(n^4)).
+    pub max_algebra_dim: usize,
+}
+
+impl Default for BoundsParams {
+    fn default() -> Self {
+        BoundsParams {
+            seed: 1,
+            slice_trials: 3,
+            max_algebra_dim: 64,
+        }
+    }
+}
+
+/// One proven lower bound.
+#[derive(Clone, Debug, PartialEq, Eq, serde::Serialize)]
+pub struct Bound {
+    /// R(T) >= value.
+    pub value: usize,
+    /// Short name: `flattening`, `slice span`, `Alder-Strassen`.
+    pub name: String,
+    /// The theorem and its source.
+    pub theorem: String,
+    /// How the value was obtained.
+    pub detail: String,
+}
+
+/// All bounds that apply, plus notes on those that do not (and why).
+#[derive(Clone, Debug, serde::Serialize)]
+pub struct Bounds {
+    pub bounds: Vec<Bound>,
+    pub notes: Vec<String>,
+}
+
+impl Bounds {
+    /// The best (largest) bound.
+    pub fn best(&self) -> usize {
+        self.bounds.iter().map(|b| b.value).max().unwrap_or(0)
+    }
+}
+
+/// Compute every applicable lower bound. Cost: three exact flattening ranks, a few slice
+/// ranks, and for algebras of dimension n at most `max_algebra_dim` O(n^4) field operations.
+pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
+    let mut bounds = Vec::new();
+    let mut notes = Vec::new();
+    let fr = flattening_ranks(t);
+    let src = "Buergisser, Clausen, Shokrollahi 1997, Algebraic Complexity Theory; common practice";
+    bounds.push(Bound {
+        value: *fr.iter().max().unwrap_or(&0),
+        name: "flattening".into(),
+        theorem: format!("R(T) >= rank of each flattening ({src})"),
+        detail: format!(
+            "flattening ranks: left {}, right {}, result {} (result: independent result coordinates)",
+            fr[0], fr[1], fr[2]
+        ),
+    });
+    let (val, axis) = slice_span_rank(t, params);
+    bounds.push(Bound {
+        value: val,
+        name: "slice span".into(),
+        theorem: format!(
+            "R(T) >= rank of any matrix in the span of the slices along one axis ({src})"
+        ),
+        detail: format!(
+            "exact rank of a seeded random combination of the {} slices (seed {})",
+            crate::tensor::AXES[axis],
+            params.seed
+        ),
+    });
+    match alder_strassen(t, params) {
+        Ok(b) => bounds.push(b),
+        Err(why) => notes.push(format!("Alder-Strassen bound not applied: {why}")),
+    }
+    Bounds { bounds, notes }
+}
+
+/// The largest exact rank among seeded random combinations of the slices along each axis;
+/// returns (rank, axis).
+pub fn slice_span_rank(t: &Tensor, params: &BoundsParams) -> (usize, usize) {
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
+    let mut best = (0, 0);
+    for axis in 0..3 {
+        let sl = slices(t, axis);
+        if sl.is_empty() {
+            continue;
+        }
+        for _ in 0..params.slice_trials.max(1) {
+            let mut m = Matrix::filled(sl[0].rows, sl[0].cols, Q::zero());
+            for s in &sl {
+                let c = Q::from_integer(rng.gen_range(-1000i64..=1000).into());
+                for (x, y) in m.data.iter_mut().zip(&s.data) {
+                    if !y.is_zero() {
+                        *x += &c * y;
+                    }
+                }
+            }
+            let m = m.map(|x| super::reduce_into(t.field(), x).unwrap_or_else(|_| x.clone()));
+            let r = rank_over(t.field(), &m);
+            if r > best.0 {
+                best = (r, axis);
+            }
+        }
+    }
+    best
+}
+
+/// The Alder-Strassen bound for an associative algebra with unit, or why it does not apply.
+pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String> {
+    if t.kind() != Kind::Algebra {
+        return Err(
+            "the input is not an algebra (one basis for both factors and the result)".into(),
+        );
+    }
+    let n = t.dim();
+    if n > params.max_algebra_dim {
+        return Err(format!(
+            "dimension {n} is above the limit {}",
+            params.max_algebra_dim
+        ));
+    }
+    let (t_bound, how) = crate::with_field!(t.field(), f => count_components(f, t, params.seed))?;
+    let value = (2 * n).saturating_sub(t_bound);
+    Ok(Bound {
+        value,
+        name: "Alder-Strassen".into(),
+        theorem: "R(A) >= 2 dim A - t(A), t(A) = number of maximal two-sided ideals (Alder and Strassen 1981, On the algorithmic complexity of associative algebras)".into(),
+        detail: format!("dim A = {n}, {how}"),
+    })
+}
+
+/// Structure constants as a dense cube over a field: `c[(i*n + j)*n + k]`.
+struct Alg<E> {
+    n: usize,
+    c: Vec<E>,
+}
+
+impl<E: Clone> Alg<E> {
+    fn mul<F: Field<Elem = E>>(&self, f: &F, x: &[E], y: &[E]) -> Vec<E> {
+        let n = self.n;
+        let mut out = vec![f.zero(); n];
+        for (i, xi) in x.iter().enumerate().filter(|(_, v)| !f.is_zero(v)) {
+            for (j, yj) in y.iter().enumerate().filter(|(_, v)| !f.is_zero(v)) {
+                let s = f.mul(xi, yj);
+                for (k, o) in out.iter_mut().enumerate() {
+                    let c = &self.c[(i * n + j) * n + k];
+                    if !f.is_zero(c) {
+                        f.add_mul_assign(o, &s, c);
+                    }
+                }
+            }
+        }
+        out
+    }
+    fn unit_vec<F: Field<Elem = E>>(f: &F, n: usize, i: usize) -> Vec<E> {
+        let mut v = vec![f.zero(); n];
+        v[i] = f.one();
+        v
+    }
+}
+
+/// Returns (upper bound on t, explanation).
+fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, String), String> {
+    let n = t.dim();
+    let tab = t.table(f);
+    let mut c = vec![f.zero(); n * n * n];
+    for i in 0..n {
+        for j in 0..n {
+            for (k, v) in tab.product(i, j) {
+                c[(i * n + j) * n + k] = v.clone();
+            }
+        }
+    }
+    let a = Alg { n, c };
+    let e = |i: usize| Alg::<F::Elem>::unit_vec(f, n, i);
+    // associativity, exactly
+    for i in 0..n {
+        for j in 0..n {
+            let ij = a.mul(f, &e(i), &e(j));
+            for k in 0..n {
+                if a.mul(f, &ij, &e(k)) != a.mul(f, &e(i), &a.mul(f, &e(j), &e(k))) {
+                    return Err(format!(
+                        "the algebra is not associative: ({} {}) {} != {} ({} {})",
+                        t.name(0, i),
+                        t.name(0, j),
+                        t.name(0, k),
+                        t.name(0, i),
+                        t.name(0, j),
+                        t.name(0, k)
+                    ));
+                }
+            }
+        }
+    }
+    // unit: sum_a x_a c[a][j][k] = delta_jk and sum_a x_a c[j][a][k] = delta_jk
+    let mut m = Matrix::zeros(f, 2 * n * n, n);
+    let mut rhs = vec![f.zero(); 2 * n * n];
+    for j in 0..n {
+        for k in 0..n {
+            for aa in 0..n {
+                m[(j * n + k, aa)] = a.c[(aa * n + j) * n + k].clone();
+                m[(n * n + j * n + k, aa)] = a.c[(j * n + aa) * n + k].clone();
+            }
+            if j == k {
+                rhs[j * n + k] = f.one();
+                rhs[n * n + j * n + k] = f.one();
+            }
+        }
+    }
+    let one = solve(f, &m, &rhs).ok_or("the algebra has no unit element")?;
+    // trace form G[i][j] = Tr(L_{e_i e_j}) = sum_k c[i][j][k] tau_k, tau_k = Tr L_{e_k}
+    let tau: Vec<F::Elem> = (0..n)
+        .map(|k| {
+            let mut s = f.zero();
+            for j in 0..n {
+                s = f.add(&s, &a.c[(k * n + j) * n + j]);
+            }
+            s
+        })
+        .collect();
+    let mut g = Matrix::zeros(f, n, n);
+    for i in 0..n {
+        for j in 0..n {
+            let mut s = f.zero();
+            for (k, tk) in tau.iter().enumerate() {
+                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], tk);
+            }
+            g[(j, i)] = s; // row j: the condition sum_i x_i G[i][j] = 0
+        }
+    }
+    let rad = nullspace(f, &g);
+    // check: rad is a nilpotent two-sided ideal
+    let mut power = rad.clone();
+    let mut steps = 0;
+    while !power.is_empty() {
+        let mut prods = Vec::new();
+        for x in &power {
+            for y in &rad {
+                prods.push(a.mul(f, x, y));
+            }
+        }
+        let next = span_basis(f, prods, n);
+        if next.len() >= power.len() {
+            return Err("the trace-form radical is not nilpotent (cannot certify rad A)".into());
+        }
+        power = next;
+        steps += 1;
+        if steps > n + 1 {
+            return Err("nilpotency check did not terminate".into());
+        }
+    }
+    for x in &rad {
+        for i in 0..n {
+            for p in [a.mul(f, x, &e(i)), a.mul(f, &e(i), x)] {
+                if !in_span(f, &rad, &p, n) {
+                    return Err("the trace-form radical is not an ideal".into());
+                }
+            }
+        }
+    }
+    // quotient S = A / rad: coordinates on the non-pivot columns of rref(rad)
+    let mut rm = Matrix::from_rows(rad.clone(), n);
+    let pivots = rref(f, &mut rm);
+    let keep: Vec<usize> = (0..n).filter(|c| !pivots.contains(c)).collect();
+    let ds = keep.len();
+    let reduce = |x: &[F::Elem]| -> Vec<F::Elem> {
+        let mut x = x.to_vec();
+        for (r, &p) in pivots.iter().enumerate() {
+            let c = x[p].clone();
+            if !f.is_zero(&c) {
+                for col in 0..n {
+                    f.sub_mul_assign(&mut x[col], &c, &rm[(r, col)]);
+                }
+            }
+        }
+        keep.iter().map(|&i| x[i].clone()).collect()
+    };
+    let lift = |y: &[F::Elem]| -> Vec<F::Elem> {
+        let mut x = vec![f.zero(); n];
+        for (pos, &i) in keep.iter().enumerate() {
+            x[i] = y[pos].clone();
+        }
+        x
+    };
+    let smul = |x: &[F::Elem], y: &[F::Elem]| reduce(&a.mul(f, &lift(x), &lift(y)));
+    let s_one = reduce(&one);
+    // centre of S: z with z s_j - s_j z = 0 for all j
+    let mut cm = Matrix::zeros(f, ds * ds, ds);
+    for zi in 0..ds {
+        let ez = Alg::<F::Elem>::unit_vec(f, ds, zi);
+        for j in 0..ds {
+            let sj = Alg::<F::Elem>::unit_vec(f, ds, j);
+            let l = smul(&ez, &sj);
+            let r = smul(&sj, &ez);
+            for k in 0..ds {
+                cm[(j * ds + k, zi)] = f.sub(&l[k], &r[k]);
+            }
+        }
+    }
+    let centre = nullspace(f, &cm);
+    let dz = centre.len();
+    let head = format!(
+        "dim rad A = {}, dim A/rad A = {ds}, dim Z(A/rad A) = {dz}",
+        rad.len()
+    );
+    if dz <= 1 {
+        return Ok((dz.max(1), format!("{head}, so t = 1 (A/rad A is simple)")));
+    }
+    let p = f.characteristic();
+    if p != 0 {
+        // Frobenius fixed points on the centre: t = dim ker(F - I)
+        let zmat = Matrix::from_rows(centre.clone(), ds).transpose(); // ds x dz
+        let mut fm = Matrix::zeros(f, dz, dz);
+        for (col, z) in centre.iter().enumerate() {
+            let zp = pow_in(z, p, &s_one, &smul);
+            let coords = solve(f, &zmat, &zp).ok_or("Frobenius left the centre")?;
+            for r in 0..dz {
+                fm[(r, col)] = coords[r].clone();
+            }
+        }
+        for i in 0..dz {
+            fm[(i, i)] = f.sub(&fm[(i, i)], &f.one());
+        }
+        let tt = dz - rank(f, &fm);
+        return Ok((
+            tt,
+            format!("{head}, t = {tt} (fixed points of Frobenius on the centre, exact)"),
+        ));
+    }
+    // characteristic 0: a primitive element of the centre and its minimal polynomial
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+    for _ in 0..8 {
+        let mut z = vec![f.zero(); ds];
+        for b in &centre {
+            let c = f.from_i64(rng.gen_range(-50..=50));
+            for (zi, bi) in z.iter_mut().zip(b) {
+                f.add_mul_assign(zi, &c, bi);
+            }
+        }
+        let mut powers = vec![s_one.clone()];
+        for _ in 0..dz {
+            let next = smul(powers.last().expect("nonempty"), &z);
+            powers.push(next);
+        }
+        let pm = Matrix::from_rows(powers.clone(), ds).transpose(); // ds x (dz+1)
+        let ker = nullspace(f, &pm);
+        // minimal polynomial has degree dz iff z^0..z^{dz-1} are independent
+        if ker.len() != 1 || rank(f, &Matrix::from_rows(powers[..dz].to_vec(), ds)) != dz {
+            continue;
+        }
+        let coeffs: Vec<Q> = ker[0].iter().map(|x| f.to_rational(x)).collect();
+        if let Some((r, prime)) = min_factor_count(&coeffs) {
+            return Ok((
+                r,
+                format!(
+                    "{head}, t <= {r} (factors mod {prime} of the minimal polynomial of a primitive element of the centre)"
+                ),
+            ));
+        }
+    }
+    Ok((dz, format!("{head}, t <= dim Z(A/rad A) = {dz}")))
+}
+
+/// A product on coordinate vectors.
+type Product<'a, E> = &'a dyn Fn(&[E], &[E]) -> Vec<E>;
+
+/// `z^e` in an algebra with unit `one` and product `mul`, by repeated squaring.
+fn pow_in<E: Clone>(z: &[E], mut e: u64, one: &[E], mul: Product<'_, E>) -> Vec<E> {
+    let mut r = one.to_vec();
+    let mut b = z.to_vec();
+    while e > 0 {
+        if e & 1 == 1 {
+            r = mul(&r, &b);
+        }
+        e >>= 1;
+        if e > 0 {
+            b = mul(&b, &b);
+        }
+    }
+    r
+}
+
+fn span_basis<F: Field>(f: &F, vecs: Vec<Vec<F::Elem>>, n: usize) -> Vec<Vec<F::Elem>> {
+    if vecs.is_empty() {
+        return vecs;
+    }
+    let mut m = Matrix::from_rows(vecs, n);
+    let r = rref(f, &mut m).len();
+    (0..r).map(|i| m.row(i).to_vec()).collect()
+}
+
+fn in_span<F: Field>(f: &F, basis: &[Vec<F::Elem>], x: &[F::Elem], n: usize) -> bool {
+    let mut rows = basis.to_vec();
+    let r0 = span_basis(f, rows.clone(), n).len();
+    rows.push(x.to_vec());
+    span_basis(f, rows, n).len() == r0
+}
+
+/// The least number of irreducible factors of the integer polynomial proportional to
+/// `coeffs` (low degree first) modulo primes where it keeps its degree and stays
+/// squarefree: an upper bound for the number of its irreducible factors over Q.
+/// Returns (count, prime) or `None` if no prime among the first few qualifies.
+fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
+    use num_integer::Integer;
+    let lcm = coeffs
+        .iter()
+        .fold(num_bigint::BigInt::one(), |l, c| l.lcm(c.denom()));
+    let ints: Vec<num_bigint::BigInt> = coeffs
+        .iter()
+        .map(|c| (c * Q::from_integer(lcm.clone())).to_integer())
+        .collect();
+    let d = ints.len() - 1;
+    let mut best: Option<(usize, u64)> = None;
+    for p in crate::scalar::word_primes(40)
+        .into_iter()
+        .chain([3u64, 5, 7, 11, 13, 17, 19, 23, 29, 31])
+    {
+        let Some(fp) = PrimeField::new(p) else {
+            continue;
+        };
+        let poly: Vec<u64> = ints.iter().map(|x| fp.reduce_big(x)).collect();
+        if poly[d] == 0 {
+            continue;
+        }
+        let inv = fp.inv(&poly[d]).expect("nonzero");
+        let poly: Vec<u64> = poly.iter().map(|c| fp.mul(c, &inv)).collect();
+        if !squarefree(&fp, &poly) {
+            continue;
+        }
+        let r = berlekamp_count(&fp, &poly);
+        if best.is_none_or(|b| r < b.0) {
+            best = Some((r, p));
+        }
+        if r == 1 {
+            break;
+        }
+    }
+    best
+}
+
+/// Reduce `a` modulo the monic polynomial `m` (coefficients low first).
+fn poly_rem(fp: &PrimeField, mut a: Vec<u64>, m: &[u64]) -> Vec<u64> {
+    let d = m.len() - 1;
+    while a.len() > d {
+        let lead = a.pop().expect("nonempty");
+        if lead != 0 {
+            let off = a.len() - d;
+            for i in 0..d {
+                a[off + i] = fp.sub(&a[off + i], &fp.mul(&lead, &m[i]));
+            }
+        }
+    }
+    a
+}
+
+fn poly_mulmod(fp: &PrimeField, a: &[u64], b: &[u64], m: &[u64]) -> Vec<u64> {
+    let mut out = vec![0u64; a.len() + b.len()];
+    for (i, x) in a.iter().enumerate().filter(|(_, x)| **x != 0) {
+        for (j, y) in b.iter().enumerate() {
+            fp.add_mul_assign(&mut out[i + j], x, y);
+        }
+    }
+    poly_rem(fp, out, m)
+}
+
+fn trim(mut a: Vec<u64>) -> Vec<u64> {
+    while a.last() == Some(&0) {
+        a.pop();
+    }
+    a
+}
+
+/// gcd(f, f') == 1 over GF(p) (f monic).
+fn squarefree(fp: &PrimeField, f: &[u64]) -> bool {
+    let der: Vec<u64> = (1..f.len())
+        .map(|i| fp.mul(&f[i], &fp.from_i64(i as i64)))
+        .collect();
+    let mut a = trim(f.to_vec());
+    let mut b = trim(der);
+    if b.is_empty() {
+        return false;
+    }
+    while !b.is_empty() {
+        let inv = fp.inv(b.last().expect("nonempty")).expect("nonzero lead");
+        let bm: Vec<u64> = b.iter().map(|c| fp.mul(c, &inv)).collect();
+        let r = trim(poly_rem(fp, a, &bm));
+        a = bm;
+        b = r;
+    }
+    a.len() == 1
+}
+
+/// Number of irreducible factors of a squarefree monic f over GF(p): d - rank(Q - I),
+/// Q the matrix of x^i -> x^{ip} mod f (Berlekamp 1967).
+fn berlekamp_count(fp: &PrimeField, f: &[u64]) -> usize {
+    let d = f.len() - 1;
+    let mut xp = vec![1u64];
+    let mut base = poly_rem(fp, vec![0, 1], f);
+    let mut e = fp.modulus();
+    while e > 0 {
+        if e & 1 == 1 {
+            xp = poly_mulmod(fp, &xp, &base, f);
+        }
+        base = poly_mulmod(fp, &base, &base, f);
+        e >>= 1;
+    }
+    let mut m = Matrix::zeros(fp, d, d);
+    let mut cur = poly_rem(fp, vec![1], f);
+    for i in 0..d {
+        for (j, c) in cur.iter().enumerate() {
+            m[(i, j)] = *c;
+        }
+        m[(i, i)] = fp.sub(&m[(i, i)], &1);
+        cur = poly_mulmod(fp, &cur, &xp, f);
+    }
+    d - rank(fp, &m)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scalar::FieldSpec;
+    use crate::scheme::testkit::*;
+
+    #[test]
+    fn flattening_bounds_of_matmul() {
+        // flattening ranks of <n,n,n> are n^2 (common practice)
+        let p = BoundsParams::default();
+        assert_eq!(lower_bounds(&matmul(2, 2, 2), &p).bounds[0].value, 4);
+        assert_eq!(lower_bounds(&matmul(3, 3, 3), &p).bounds[0].value, 9);
+        assert_eq!(slice_span_rank(&matmul(2, 2, 2), &p).0, 4);
+    }
+
+    #[test]
+    fn alder_strassen_complex_and_m2() {
+        // Alder and Strassen 1981: R(C over Q) >= 2*2 - 1 = 3, R(M_2) >= 2*4 - 1 = 7.
+        let p = BoundsParams::default();
+        let b = alder_strassen(&complex(), &p).unwrap();
+        assert_eq!(b.value, 3, "{}", b.detail);
+        let b = alder_strassen(&m2_algebra(), &p).unwrap();
+        assert_eq!(b.value, 7, "{}", b.detail);
+        // Q x Q (two components): 2*2 - 2 = 2
+        let mut qq = Tensor::algebra(FieldSpec::Rational, vec!["e1".into(), "e2".into()]);
+        qq.set(0, 0, 0, Q::one());
+        qq.set(1, 1, 1, Q::one());
+        assert_eq!(alder_strassen(&qq, &p).unwrap().value, 2);
+        // over GF(5), i^2 = -1 splits (2^2 = -1): two components, bound 2; over GF(7) a field: 3
+        let c5 = complex().with_field(FieldSpec::Prime(5)).unwrap();
+        assert_eq!(alder_strassen(&c5, &p).unwrap().value, 2);
+        let c7 = complex().with_field(FieldSpec::Prime(7)).unwrap();
+        assert_eq!(alder_strassen(&c7, &p).unwrap().value, 3);
+        // dual numbers Q[e]/(e^2): rad = (e), t = 1, bound 3
+        let mut dual = Tensor::algebra(FieldSpec::Rational, vec!["one".into(), "e".into()]);
+        dual.set(0, 0, 0, Q::one());
+        dual.set(0, 1, 1, Q::one());
+        dual.set(1, 0, 1, Q::one());
+        assert_eq!(alder_strassen(&dual, &p).unwrap().value, 3);
+        // the built-in generators: complex numbers (t = 1) and Hamilton's quaternions, a
+        // division algebra with centre Q (t = 1): 2*4 - 1 = 7 (Alder and Strassen 1981)
+        let c = crate::generators::generate("complex").unwrap();
+        assert_eq!(alder_strassen(&c, &p).unwrap().value, 3);
+        let h = crate::generators::generate("quaternions").unwrap();
+        assert_eq!(alder_strassen(&h, &p).unwrap().value, 7);
+        // group algebras by their Wedderburn decompositions (common practice):
+        // QS_3 = Q + Q + M_2(Q) (t = 3), QC_3 = Q + Q(w) (t = 2), QC_5 = Q + Q(z_5) (t = 2),
+        // QD_4 = Q^4 + M_2(Q) (t = 5)
+        for (spec, want) in [
+            ("symmetric:3", 9),
+            ("cyclic:3", 4),
+            ("cyclic:5", 8),
+            ("dihedral:4", 11),
+        ] {
+            let a = crate::generators::generate(spec).unwrap();
+            assert_eq!(alder_strassen(&a, &p).unwrap().value, want, "{spec}");
+        }
+        // not an algebra
+        assert!(alder_strassen(&matmul(2, 2, 2), &p).is_err());
+    }
+}

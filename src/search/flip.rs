@@ -1,0 +1,585 @@
+//! Flip-graph random walk over GF(2) (Kauers and Moosbauer 2022, "Flip graphs for matrix
+//! multiplication"), with rank-raising escapes (plus transitions; Arai, Ichikawa and
+//! Hukushima 2024, "Adaptive flip graph algorithm for matrix multiplication").
+//!
+//! A scheme over GF(2) is stored bit-packed: bit `i` of `f[a][t]` is the coefficient of basis
+//! vector `i` on axis `a` (0 left, 1 right, 2 result) in term `t`, so each axis needs at
+//! most 64 basis vectors. The three axes are kept as separate contiguous arrays; for the
+//! ranks of interest (up to a few hundred terms) a linear scan of one array finds every
+//! term sharing a factor faster than a hash index can be kept up to date.
+//!
+//! Moves (each preserves `sum_t u_t (x) v_t (x) w_t`):
+//! - flip: two terms sharing the factor on axis x, `(a, b, c) + (a, b', c')` becomes
+//!   `(a, b + b', c) + (a, b', c' - c)` (with the roles of the two other axes chosen at
+//!   random);
+//! - reduction, applied after every move: two terms sharing two factors merge into one
+//!   (`(a, b, c) + (a, b, c') = (a, b, c + c')`), a term with a zero factor is dropped;
+//! - plus transition (rank + 1): `(a, b, c) + (a', b', c')` becomes
+//!   `(a + a', b, c) + (a', b + b', c) + (a', b', c + c')`.
+//!
+//! Invariant: after every public method returns, no term has a zero factor and no two
+//! terms share two factors.
+
+use crate::error::{Error, Result};
+use crate::scalar::{FieldSpec, Q};
+use crate::scheme::Scheme;
+use crate::tensor::Tensor;
+use num_traits::{One, Zero};
+
+/// A scheme over GF(2) with bit-packed factors: `terms[t][a]` is the factor on axis `a`.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct BitScheme {
+    pub dims: [usize; 3],
+    pub terms: Vec<[u64; 3]>,
+}
+
+/// The residue mod 2 of a rational with odd denominator; `None` for an even denominator.
+fn parity(x: &Q) -> Option<bool> {
+    use num_integer::Integer;
+    if x.denom().is_even() {
+        return None;
+    }
+    Some(x.numer().is_odd())
+}
+
+fn check_dims(dims: [usize; 3]) -> Result<()> {
+    if dims.iter().any(|&d| d > 64 || d == 0) {
+        return Err(Error::Invalid(format!(
+            "the flip walk packs factors in 64-bit words: dimensions {dims:?} must be 1..=64"
+        )));
+    }
+    Ok(())
+}
+
+/// The tensor reduced mod 2 as bit masks: `out[i * dims[1] + j]` has bit k set when
+/// `c[i][j][k]` is odd. Fails for a tensor over GF(p), p != 2, or with an even denominator.
+pub fn tensor_bits(t: &Tensor) -> Result<Vec<u64>> {
+    check_dims(t.dims())?;
+    if let FieldSpec::Prime(p) = t.field()
+        && p != 2
+    {
+        return Err(Error::Invalid(format!(
+            "the flip walk works over GF(2); this tensor is over GF({p})"
+        )));
+    }
+    let d = t.dims();
+    let mut out = vec![0u64; d[0] * d[1]];
+    for (i, j, k, c) in t.entries() {
+        let odd = parity(c).ok_or_else(|| {
+            Error::Invalid(format!(
+                "coefficient {c} of the tensor has an even denominator: no reduction mod 2"
+            ))
+        })?;
+        if odd {
+            out[i * d[1] + j] ^= 1 << k;
+        }
+    }
+    Ok(out)
+}
+
+impl BitScheme {
+    /// The standard scheme of the tensor mod 2 (one term per odd structure constant).
+    pub fn standard(t: &Tensor) -> Result<BitScheme> {
+        let bits = tensor_bits(t)?;
+        let d = t.dims();
+        let mut terms = Vec::new();
+        for (ij, &m) in bits.iter().enumerate() {
+            let (i, j) = (ij / d[1], ij % d[1]);
+            for k in 0..d[2] {
+                if m >> k & 1 == 1 {
+                    terms.push([1 << i, 1 << j, 1 << k]);
+                }
+            }
+        }
+        Ok(BitScheme { dims: d, terms })
+    }
+
+    /// Reduce a scheme mod 2 (every denominator must be odd).
+    pub fn from_scheme(s: &Scheme) -> Result<BitScheme> {
+        check_dims(s.dims)?;
+        let pack = |v: &[Q]| -> Result<u64> {
+            let mut m = 0u64;
+            for (i, x) in v.iter().enumerate() {
+                if parity(x).ok_or_else(|| {
+                    Error::Invalid(format!("scheme entry {x} has an even denominator"))
+                })? {
+                    m |= 1 << i;
+                }
+            }
+            Ok(m)
+        };
+        let mut terms = Vec::with_capacity(s.rank());
+        for t in 0..s.rank() {
+            let tr = [pack(&s.u[t])?, pack(&s.v[t])?, pack(&s.w[t])?];
+            if tr.iter().all(|&x| x != 0) {
+                terms.push(tr);
+            }
+        }
+        Ok(BitScheme {
+            dims: s.dims,
+            terms,
+        })
+    }
+
+    /// The number of terms.
+    pub fn rank(&self) -> usize {
+        self.terms.len()
+    }
+
+    /// The scheme with 0/1 entries, labelled with `field`.
+    pub fn to_scheme(&self, field: FieldSpec) -> Scheme {
+        let unpack = |m: u64, n: usize| -> Vec<Q> {
+            (0..n)
+                .map(|i| if m >> i & 1 == 1 { Q::one() } else { Q::zero() })
+                .collect()
+        };
+        let mut s = Scheme::empty(field, self.dims);
+        for tr in &self.terms {
+            s.push(
+                unpack(tr[0], self.dims[0]),
+                unpack(tr[1], self.dims[1]),
+                unpack(tr[2], self.dims[2]),
+            );
+        }
+        s
+    }
+
+    /// `sum_t u_t (x) v_t (x) w_t` over GF(2), in the layout of [`tensor_bits`].
+    /// Cost: O(r d0 d1).
+    pub fn evaluate(&self) -> Vec<u64> {
+        let d = self.dims;
+        let mut out = vec![0u64; d[0] * d[1]];
+        for tr in &self.terms {
+            for i in bits_of(tr[0]) {
+                for j in bits_of(tr[1]) {
+                    out[i * d[1] + j] ^= tr[2];
+                }
+            }
+        }
+        out
+    }
+}
+
+/// Indices of the set bits of a word.
+pub fn bits_of(mut m: u64) -> impl Iterator<Item = usize> {
+    std::iter::from_fn(move || {
+        if m == 0 {
+            None
+        } else {
+            let i = m.trailing_zeros() as usize;
+            m &= m - 1;
+            Some(i)
+        }
+    })
+}
+
+/// A small fast generator (SplitMix64) for the inner loop; seeded from the worker's RNG.
+#[derive(Clone, Debug)]
+pub struct FastRng(u64);
+
+impl FastRng {
+    pub fn new(seed: u64) -> Self {
+        FastRng(seed)
+    }
+    #[inline(always)]
+    pub fn next_u64(&mut self) -> u64 {
+        self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
+        let mut z = self.0;
+        z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+        z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+        z ^ (z >> 31)
+    }
+    /// Uniform in `0..n` (n > 0), by the multiply-shift method.
+    #[inline(always)]
+    pub fn below(&mut self, n: usize) -> usize {
+        (((self.next_u64() >> 32) * n as u64) >> 32) as usize
+    }
+}
+
+/// The state of one walk: the current scheme and the move machinery.
+#[derive(Clone, Debug)]
+pub struct Walker {
+    dims: [usize; 3],
+    f: [Vec<u64>; 3],
+    rng: FastRng,
+    work: Vec<usize>,
+}
+
+impl Walker {
+    /// Start a walk at `start` (reductions are applied at once).
+    pub fn new(start: &BitScheme, seed: u64) -> Walker {
+        let mut w = Walker {
+            dims: start.dims,
+            f: [Vec::new(), Vec::new(), Vec::new()],
+            rng: FastRng::new(seed),
+            work: Vec::new(),
+        };
+        w.load(start);
+        w
+    }
+
+    /// Replace the current scheme (reductions are applied at once).
+    pub fn load(&mut self, s: &BitScheme) {
+        for a in 0..3 {
+            self.f[a] = s.terms.iter().map(|t| t[a]).collect();
+        }
+        self.work.clear();
+        self.work.extend(0..self.f[0].len());
+        self.settle();
+    }
+
+    /// The current rank.
+    #[inline]
+    pub fn rank(&self) -> usize {
+        self.f[0].len()
+    }
+
+    /// A copy of the current scheme.
+    pub fn scheme(&self) -> BitScheme {
+        let terms = (0..self.rank())
+            .map(|t| [self.f[0][t], self.f[1][t], self.f[2][t]])
+            .collect();
+        BitScheme {
+            dims: self.dims,
+            terms,
+        }
+    }
+
+    /// Remove term i (swap with the last); fix the indices on the work list.
+    fn remove(&mut self, i: usize) {
+        let last = self.rank() - 1;
+        for a in 0..3 {
+            self.f[a].swap_remove(i);
+        }
+        for w in self.work.iter_mut() {
+            if *w == i {
+                *w = usize::MAX;
+            } else if *w == last {
+                *w = i;
+            }
+        }
+    }
+
+    /// Apply reductions to the terms on the work list until none applies.
+    fn settle(&mut self) {
+        while let Some(i) = self.work.pop() {
+            if i >= self.rank() {
+                continue;
+            }
+            if self.f[0][i] == 0 || self.f[1][i] == 0 || self.f[2][i] == 0 {
+                self.remove(i);
+                continue;
+            }
+            let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
+            // branch-free pass first (vectorises): does any other term share two factors?
+            let (f0, f1, f2) = (&self.f[0], &self.f[1], &self.f[2]);
+            let hits = f0
+                .iter()
+                .zip(f1)
+                .zip(f2)
+                .map(|((&x, &y), &z)| {
+                    ((x == a) as u32 + (y == b) as u32 + (z == c) as u32 >= 2) as u32
+                })
+                .sum::<u32>();
+            if hits < 2 {
+                continue; // only term i itself
+            }
+            let mut partner = None;
+            for u in 0..self.rank() {
+                if u == i {
+                    continue;
+                }
+                let e = [self.f[0][u] == a, self.f[1][u] == b, self.f[2][u] == c];
+                let n = e.iter().filter(|&&x| x).count();
+                if n >= 2 {
+                    partner = Some((u, e));
+                    break;
+                }
+            }
+            let Some((u, e)) = partner else { continue };
+            match e.iter().position(|&x| !x) {
+                None => {
+                    // identical terms cancel over GF(2)
+                    let (hi, lo) = if u > i { (u, i) } else { (i, u) };
+                    self.remove(hi);
+                    self.remove(lo);
+                }
+                Some(m) => {
+                    self.f[m][u] ^= self.f[m][i];
+                    let last = self.rank() - 1;
+                    self.remove(i);
+                    let u2 = if u == last { i } else { u };
+                    self.work.push(u2);
+                }
+            }
+        }
+    }
+
+    /// Attempt one random flip: pick a term and an axis, and a random partner sharing that
+    /// factor. Returns false when the chosen term has no partner on that axis.
+    /// Cost: O(r) word comparisons.
+    #[inline]
+    pub fn flip(&mut self) -> bool {
+        let r = self.rank();
+        if r < 2 {
+            return false;
+        }
+        let s = self.rng.below(r);
+        let x = self.rng.below(3);
+        let key = self.f[x][s];
+        let col = &self.f[x];
+        let cnt = col.iter().filter(|&&v| v == key).count() - 1;
+        if cnt == 0 {
+            return false;
+        }
+        let mut k = self.rng.below(cnt);
+        let mut t = usize::MAX;
+        for (i, &v) in col.iter().enumerate() {
+            if v == key && i != s {
+                if k == 0 {
+                    t = i;
+                    break;
+                }
+                k -= 1;
+            }
+        }
+        let (y, z) = if self.rng.next_u64() & 1 == 0 {
+            ((x + 1) % 3, (x + 2) % 3)
+        } else {
+            ((x + 2) % 3, (x + 1) % 3)
+        };
+        let ty = self.f[y][t];
+        self.f[y][s] ^= ty;
+        let sz = self.f[z][s];
+        self.f[z][t] ^= sz;
+        self.work.push(s);
+        self.work.push(t);
+        self.settle();
+        true
+    }
+
+    /// Plus transition (rank + 1): two random terms not sharing the factor on a random axis
+    /// x become three terms. Returns false if the chosen pair shares that factor.
+    pub fn plus(&mut self) -> bool {
+        let r = self.rank();
+        if r < 2 {
+            return false;
+        }
+        let s = self.rng.below(r);
+        let mut t = self.rng.below(r - 1);
+        if t >= s {
+            t += 1;
+        }
+        let x = self.rng.below(3);
+        if self.f[x][s] == self.f[x][t] {
+            return false;
+        }
+        let (y, z) = if self.rng.next_u64() & 1 == 0 {
+            ((x + 1) % 3, (x + 2) % 3)
+        } else {
+            ((x + 2) % 3, (x + 1) % 3)
+        };
+        // (a,b,c) + (a',b',c') = (a+a',b,c) + (a',b+b',c) + (a',b',c+c')
+        let mut new = [0u64; 3];
+        new[x] = self.f[x][t];
+        new[y] = self.f[y][s] ^ self.f[y][t];
+        new[z] = self.f[z][s];
+        let at = self.f[x][t];
+        self.f[x][s] ^= at;
+        let cs = self.f[z][s];
+        self.f[z][t] ^= cs;
+        for (a, v) in new.iter().enumerate() {
+            self.f[a].push(*v);
+        }
+        self.work.extend([s, t, r]);
+        self.settle();
+        true
+    }
+}
+
+/// Settings of a flip walk.
+#[derive(Clone, Debug)]
+pub struct FlipParams {
+    /// Moves without a new lowest rank before a plus transition (or a reset).
+    pub plateau: u64,
+    /// Plus transitions may raise the rank to at most (lowest rank of this walk) + this.
+    pub max_excess: usize,
+    /// While at or below the target, offer the current scheme again every this many moves
+    /// (e.g. to retry a failed Hensel lift with another scheme of the same rank).
+    pub retry_every: u64,
+}
+
+impl Default for FlipParams {
+    fn default() -> Self {
+        FlipParams {
+            plateau: 200_000,
+            max_excess: 2,
+            retry_every: 20_000,
+        }
+    }
+}
+
+/// What the walk reports to its caller.
+pub enum WalkEvent<'a, S> {
+    /// A scheme of a rank lower than any before in this walk, or (at or below the target)
+    /// another scheme offered for acceptance. Return true to end the walk with it.
+    Candidate(&'a S),
+    /// Moves done since the last report (for throughput); return true to stop.
+    Moves(u64),
+}
+
+/// A walk state on a flip graph (over GF(2) bit-packed, or over GF(p)).
+pub trait WalkState {
+    /// A copy of the current scheme.
+    type Snap: Clone;
+    /// One attempted flip; false when the random choice had no partner.
+    fn flip(&mut self) -> bool;
+    /// One attempted plus transition (rank + 1).
+    fn plus(&mut self) -> bool;
+    fn rank(&self) -> usize;
+    fn snap(&self) -> Self::Snap;
+    fn restore(&mut self, s: &Self::Snap);
+}
+
+impl WalkState for Walker {
+    type Snap = BitScheme;
+    fn flip(&mut self) -> bool {
+        Walker::flip(self)
+    }
+    fn plus(&mut self) -> bool {
+        Walker::plus(self)
+    }
+    fn rank(&self) -> usize {
+        Walker::rank(self)
+    }
+    fn snap(&self) -> BitScheme {
+        self.scheme()
+    }
+    fn restore(&mut self, s: &BitScheme) {
+        self.load(s)
+    }
+}
+
+/// Walk from `start` over GF(2) for at most `budget` attempted moves; see [`walk_state`].
+pub fn walk(
+    start: &BitScheme,
+    target: usize,
+    params: &FlipParams,
+    seed: u64,
+    budget: u64,
+    event: &mut dyn FnMut(WalkEvent<BitScheme>) -> bool,
+) -> Option<BitScheme> {
+    let mut w = Walker::new(start, seed);
+    walk_state(&mut w, target, params, budget, event)
+}
+
+/// Walk for at most `budget` attempted moves. `event` sees each new lowest rank and, at or
+/// below `target`, a candidate every `retry_every` moves; the walk ends when it returns
+/// true for a candidate (returned) or for a `Moves` report (stop). After `plateau` moves
+/// without a new lowest rank the walk makes a plus transition, or returns to its best
+/// scheme when already `max_excess` above it.
+/// Cost: O(r) per move over GF(2), O(r (d0 + d1 + d2)) over GF(p).
+pub fn walk_state<W: WalkState>(
+    w: &mut W,
+    target: usize,
+    params: &FlipParams,
+    budget: u64,
+    event: &mut dyn FnMut(WalkEvent<W::Snap>) -> bool,
+) -> Option<W::Snap> {
+    let mut best = w.snap();
+    let mut best_rank = w.rank();
+    if best_rank <= target && event(WalkEvent::Candidate(&best)) {
+        return Some(best);
+    }
+    let mut since = 0u64;
+    let mut last_try = 0u64;
+    let mut unreported = 0u64;
+    let mut moves = 0u64;
+    while moves < budget {
+        w.flip();
+        moves += 1;
+        since += 1;
+        unreported += 1;
+        let r = w.rank();
+        if r < best_rank {
+            best_rank = r;
+            best = w.snap();
+            since = 0;
+            last_try = moves;
+            if event(WalkEvent::Candidate(&best)) {
+                event(WalkEvent::Moves(unreported));
+                return Some(best);
+            }
+        } else if r <= target && moves - last_try >= params.retry_every {
+            last_try = moves;
+            let s = w.snap();
+            if event(WalkEvent::Candidate(&s)) {
+                event(WalkEvent::Moves(unreported));
+                return Some(s);
+            }
+        }
+        if since >= params.plateau {
+            since = 0;
+            if r < best_rank + params.max_excess {
+                for _ in 0..8 {
+                    if w.plus() {
+                        break;
+                    }
+                }
+            } else {
+                w.restore(&best);
+            }
+        }
+        if unreported >= 1 << 16 {
+            if event(WalkEvent::Moves(unreported)) {
+                return None;
+            }
+            unreported = 0;
+        }
+    }
+    event(WalkEvent::Moves(unreported));
+    None
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// <n,m,p> matrix multiplication tensor (local builder until the generators land):
+    /// a_{il} b_{lj} -> c_{ij}.
+    pub(crate) fn matmul(n: usize, m: usize, p: usize) -> Tensor {
+        let mut t = Tensor::zero(
+            FieldSpec::Rational,
+            crate::tensor::Kind::Bilinear,
+            [n * m, m * p, n * p],
+            None,
+        );
+        for i in 0..n {
+            for l in 0..m {
+                for j in 0..p {
+                    t.set(i * m + l, l * p + j, i * p + j, Q::one());
+                }
+            }
+        }
+        t
+    }
+
+    #[test]
+    fn moves_preserve_the_tensor() {
+        let t = matmul(3, 3, 3);
+        let s = BitScheme::standard(&t).unwrap();
+        let want = tensor_bits(&t).unwrap();
+        let mut w = Walker::new(&s, 7);
+        for step in 0..20_000 {
+            if step % 997 == 0 {
+                w.plus();
+            } else {
+                w.flip();
+            }
+            if step % 1000 == 0 {
+                assert_eq!(w.scheme().evaluate(), want);
+            }
+        }
+        assert_eq!(w.scheme().evaluate(), want);
+    }
+}

@@ -1,0 +1,223 @@
+//! Seeded end-to-end searches; the heavy ones run only in release builds.
+
+use super::*;
+use crate::scalar::{Q, q};
+use crate::tensor::Kind;
+use num_traits::One;
+
+/// <n,m,p> matrix multiplication (a_{il} b_{lj} -> c_{ij}); local builder.
+pub(crate) fn matmul(n: usize, m: usize, p: usize) -> Tensor {
+    let mut t = Tensor::zero(
+        FieldSpec::Rational,
+        Kind::Bilinear,
+        [n * m, m * p, n * p],
+        None,
+    );
+    for i in 0..n {
+        for l in 0..m {
+            for j in 0..p {
+                t.set(i * m + l, l * p + j, i * p + j, Q::one());
+            }
+        }
+    }
+    t
+}
+
+/// Product of polynomials of degrees < m and < n (coefficients a_i b_j -> c_{i+j}).
+pub(crate) fn poly(m: usize, n: usize) -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [m, n, m + n - 1], None);
+    for i in 0..m {
+        for j in 0..n {
+            t.set(i, j, i + j, Q::one());
+        }
+    }
+    t
+}
+
+/// C as a 2-dimensional algebra over Q, basis (1, i).
+pub(crate) fn complex() -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [2, 2, 2], None);
+    t.set(0, 0, 0, q(1, 1));
+    t.set(1, 1, 0, q(-1, 1));
+    t.set(0, 1, 1, q(1, 1));
+    t.set(1, 0, 1, q(1, 1));
+    t
+}
+
+/// GF(4) = GF(2)[x]/(x^2 + x + 1) over GF(2), basis (1, x): x*x = 1 + x.
+pub(crate) fn gf4() -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Prime(2), Kind::Bilinear, [2, 2, 2], None);
+    t.set(0, 0, 0, q(1, 1));
+    t.set(0, 1, 1, q(1, 1));
+    t.set(1, 0, 1, q(1, 1));
+    t.set(1, 1, 0, q(1, 1));
+    t.set(1, 1, 1, q(1, 1));
+    t
+}
+
+fn params(method: Method, rank: usize, seed: u64) -> Params {
+    Params {
+        target_rank: Some(rank),
+        method,
+        seed,
+        threads: 1,
+        time_limit: Some(Duration::from_secs(120)),
+        ..Params::default()
+    }
+}
+
+fn run(t: &Tensor, p: &Params) -> Outcome {
+    let stop = Arc::new(AtomicBool::new(false));
+    search_scheme(t, p, &stop, None, &|_| {}).unwrap()
+}
+
+/// Karatsuba: two 2-term polynomials multiply with 3 multiplications
+/// (Karatsuba and Ofman 1962, "Multiplication of many-digital numbers by automatic computers").
+#[test]
+fn karatsuba_rank_three_by_flip_and_lift() {
+    let t = poly(2, 2);
+    let o = run(&t, &params(Method::Flip, 3, 1));
+    let s = o.best.expect("found");
+    assert!(o.reached && s.rank() == 3);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// Multiplication in GF(4) over GF(2) has rank 3 (Karatsuba-style; common practice).
+#[test]
+fn gf4_rank_three_by_flip() {
+    let t = gf4();
+    let o = run(&t, &params(Method::Flip, 3, 2));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 3);
+    assert_eq!(s.field, FieldSpec::Prime(2));
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// Complex multiplication has rank 3 over Q (Gauss's three-multiplication trick; common
+/// practice).
+#[test]
+fn complex_rank_three_by_als() {
+    let t = complex();
+    let o = run(&t, &params(Method::Als, 3, 3));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 3);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// <2,2,2> has rank 7 (Strassen 1969, "Gaussian elimination is not optimal"): the flip walk
+/// from the schoolbook 8 over GF(2), lifted to Q.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn strassen_rank_seven_by_flip() {
+    let t = matmul(2, 2, 2);
+    for seed in 0..3 {
+        let o = run(&t, &params(Method::Flip, 7, seed));
+        let s = o.best.expect("found");
+        assert_eq!(s.rank(), 7);
+        assert_eq!(s.field, FieldSpec::Rational);
+        assert!(verify(&s, &t).is_ok());
+    }
+}
+
+/// <2,2,2> rank 7 by ALS and rounding (Strassen 1969).
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn strassen_rank_seven_by_als() {
+    let t = matmul(2, 2, 2);
+    let o = run(&t, &params(Method::Als, 7, 5));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 7);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// Toom-Cook: polynomials with 3 coefficients each multiply with 5 multiplications, which
+/// needs fractions (Toom 1963; Cook 1966, "On the minimum computation time of functions").
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn toom_three_rank_five_by_als() {
+    let t = poly(3, 3);
+    let o = run(&t, &params(Method::Als, 5, 7));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 5);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// The same run numbers give the same result for a fixed thread count.
+#[test]
+fn deterministic_per_seed() {
+    let t = poly(2, 2);
+    let a = run(&t, &params(Method::Flip, 3, 9)).best;
+    let b = run(&t, &params(Method::Flip, 3, 9)).best;
+    assert_eq!(a, b);
+}
+
+#[test]
+fn merge_keeps_lowest_verified() {
+    let t = poly(2, 2);
+    let std = Scheme::standard(&t);
+    let good = run(&t, &params(Method::Flip, 3, 4)).best.unwrap();
+    let mut bad = good.clone();
+    bad.w[0][0] += Q::one();
+    let m = merge_schemes(&t, &[std.clone(), bad, good.clone()]).unwrap();
+    assert_eq!(m, good);
+}
+
+/// <2,2,2> over GF(3) has rank 7 (Strassen 1969 works over any field; Winograd 1971,
+/// "On multiplication of 2x2 matrices", shows 7 is optimal): the GF(p) walk finds it.
+#[test]
+fn strassen_rank_seven_over_gf3() {
+    let t = matmul(2, 2, 2).with_field(FieldSpec::Prime(3)).unwrap();
+    let o = run(&t, &params(Method::Flip, 7, 1));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 7);
+    assert_eq!(s.field, FieldSpec::Prime(3));
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// A resumed search starts from the given scheme: at the target already, it returns it.
+#[test]
+fn resume_from_a_scheme() {
+    let t = poly(2, 2);
+    let good = run(&t, &params(Method::Flip, 3, 4)).best.unwrap();
+    let stop = Arc::new(AtomicBool::new(false));
+    let o = search_scheme(
+        &t,
+        &params(Method::Flip, 3, 99),
+        &stop,
+        Some(good.clone()),
+        &|_| {},
+    )
+    .unwrap();
+    assert!(o.reached);
+    assert_eq!(o.best, Some(good));
+    // a start scheme that does not verify is refused
+    let mut bad = Scheme::standard(&t);
+    bad.u[0][0] += Q::one();
+    assert!(search_scheme(&t, &params(Method::Flip, 3, 1), &stop, Some(bad), &|_| {}).is_err());
+}
+
+/// Shards split the run numbers: shard 1/3 starts at run 1 and steps by 3.
+#[test]
+fn shards_partition_runs() {
+    let t = poly(2, 2);
+    let mut p = params(Method::Flip, 0, 1);
+    p.target_rank = None;
+    p.restarts = Some(2);
+    p.walk_budget = 1000;
+    p.shard = (1, 3);
+    let o = run(&t, &p);
+    assert_eq!(o.next_run, 7);
+    assert_eq!(o.best.map(|s| s.rank()), Some(3));
+}
+
+/// The zero tensor has the empty scheme; rank 0 is refused at once for any other tensor.
+#[test]
+fn rank_zero_is_decided_at_once() {
+    let z = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [2, 2, 2], None);
+    for m in [Method::Als, Method::Flip] {
+        let o = run(&z, &params(m, 0, 0));
+        assert!(o.reached && o.best.unwrap().rank() == 0);
+        let o = run(&complex(), &params(m, 0, 0));
+        assert!(!o.reached && o.best.is_none());
+    }
+}

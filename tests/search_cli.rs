@@ -1,0 +1,81 @@
+//! The `bilin search` and `bilin merge` command lines: exit codes and output files.
+
+use std::process::Command;
+
+fn bilin(args: &[&str]) -> (i32, String, String) {
+    let o = Command::new(env!("CARGO_BIN_EXE_bilin"))
+        .args(args)
+        .output()
+        .expect("run bilin");
+    (
+        o.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&o.stdout).into_owned(),
+        String::from_utf8_lossy(&o.stderr).into_owned(),
+    )
+}
+
+/// Karatsuba: 2-term polynomials multiply with 3 multiplications (Karatsuba and Ofman 1962,
+/// "Multiplication of many-digital numbers by automatic computers").
+#[test]
+fn search_writes_a_verified_scheme_and_merge_keeps_it() {
+    let dir = std::env::temp_dir().join(format!("bilin-search-cli-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let out = dir.join("k.json");
+    let out_s = out.to_str().unwrap();
+    let (code, _, err) = bilin(&[
+        "search",
+        "poly:2,2",
+        "--rank",
+        "3",
+        "--threads",
+        "1",
+        "--out",
+        out_s,
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let text = std::fs::read_to_string(&out).unwrap();
+    assert!(text.contains("\"schema\":\"bilin.scheme/1\"") && text.contains("\"rank\":3"));
+    assert!(dir.join("k.json.checkpoint.json").exists());
+    let (code, stdout, err) = bilin(&["merge", "--tensor", "poly:2,2", out_s]);
+    assert_eq!(code, 0, "{err}");
+    assert!(stdout.contains("\"rank\":3"));
+    // a scheme for another tensor does not verify: nothing to keep
+    let (code, _, _) = bilin(&["merge", "--tensor", "poly:2,3", out_s]);
+    assert_eq!(code, 1);
+    std::fs::remove_dir_all(&dir).ok();
+}
+
+#[test]
+fn unreachable_rank_exits_1_and_bad_input_exits_2() {
+    // rank 2 is impossible: the result flattening of this tensor has rank 3, a lower bound
+    // for the tensor rank (common practice)
+    let (code, stdout, _) = bilin(&[
+        "search",
+        "poly:2,2",
+        "--rank",
+        "2",
+        "--threads",
+        "1",
+        "--time",
+        "0.3",
+    ]);
+    assert_eq!(code, 1);
+    assert!(
+        stdout.contains("\"rank\":3"),
+        "the best scheme is still written"
+    );
+    assert_eq!(
+        bilin(&["search", "poly:2,2", "--method", "nope", "--rank", "3"]).0,
+        2
+    );
+    assert_eq!(
+        bilin(&["search", "poly:2,2", "--shard", "5/2", "--rank", "3"]).0,
+        2
+    );
+    assert_eq!(bilin(&["search", "no-such-input", "--rank", "3"]).0, 2);
+    assert_eq!(
+        bilin(&["search", "poly:2,2"]).0,
+        2,
+        "no rank, no time: refused"
+    );
+}
