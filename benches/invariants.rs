@@ -12,11 +12,18 @@ fn bench(c: &mut Criterion) {
     for spec in ["matrix:4", "octonions", "matrix:8", "clifford:0,6"] {
         let t = load_input(spec, None).expect("generator");
         let it = IntTable::from_tensor(&t).expect("table");
-        g.bench_function(format!("derivations {spec}"), |b| b.iter(|| derivations(&it, &p)));
-        g.bench_function(format!("centroid {spec}"), |b| b.iter(|| centroid(&t, &it, &p)));
+        g.bench_function(format!("derivations {spec}"), |b| {
+            b.iter(|| derivations(&it, &p))
+        });
+        g.bench_function(format!("centroid {spec}"), |b| {
+            b.iter(|| centroid(&t, &it, &p))
+        });
     }
     let t = load_input("matrix:4", None).expect("generator");
-    let params = InvariantParams { omit_bases: true, ..Default::default() };
+    let params = InvariantParams {
+        omit_bases: true,
+        ..Default::default()
+    };
     g.bench_function("all invariants matrix:4", |b| {
         b.iter(|| invariants_report(&t, &params, &mut |_| {}))
     });

@@ -13,17 +13,29 @@ fn main() {
     }
     for spec in args {
         let t = load_input(&spec, None).expect("input");
-        let params = InvariantParams { only: only.clone(), omit_bases: true, ..Default::default() };
+        let params = InvariantParams {
+            only: only.clone(),
+            omit_bases: true,
+            ..Default::default()
+        };
         let start = std::time::Instant::now();
         let r = invariants_report(&t, &params, &mut |_| {}).expect("invariants");
         let total = start.elapsed().as_secs_f64();
-        let parts: Vec<String> = r.seconds.iter().map(|(l, s)| format!("{l} {s:.3}")).collect();
+        let parts: Vec<String> = r
+            .seconds
+            .iter()
+            .map(|(l, s)| format!("{l} {s:.3}"))
+            .collect();
         let dims = format!(
             "der {:?} centroid {:?} centre {:?}",
             r.derivations.as_ref().map(|d| d.space.dim),
             r.centroid.as_ref().map(|c| c.space.dim),
             r.centre.as_ref().map(|c| c.dim)
         );
-        println!("{spec} (dim {}): total {total:.3} s | {} | {dims}", t.dim(), parts.join(", "));
+        println!(
+            "{spec} (dim {}): total {total:.3} s | {} | {dims}",
+            t.dim(),
+            parts.join(", ")
+        );
     }
 }

@@ -127,9 +127,7 @@ pub fn lie_invariants(t: &Tensor) -> LieInvariants {
                     for j in 0..n {
                         for (bb, c2) in tab.product(j, *a) {
                             if *bb == b {
-                                let mut v = k[(i, j)].clone();
-                                f.add_mul_assign(&mut v, c1, c2);
-                                k[(i, j)] = v;
+                                f.add_mul_assign(&mut k[(i, j)], c1, c2);
                             }
                         }
                     }

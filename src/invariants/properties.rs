@@ -226,3 +226,23 @@ fn timing_probe() {
         );
     }
 }
+
+#[test]
+fn over_prime_fields() {
+    // M_2 over GF(5) and GF(2^31 - 1): central simple, so Der = inner of dim 3 (every
+    // derivation of a central simple algebra is inner, over any field: Jacobson 1962, Lie
+    // Algebras, ch. I (from memory)); the centre is the ground field.
+    for p in [5u64, 2147483647] {
+        let t = matrix_algebra(2)
+            .with_field(crate::scalar::FieldSpec::Prime(p))
+            .unwrap();
+        let it = IntTable::from_tensor(&t).unwrap();
+        let sp = SolveParams::default();
+        assert_eq!(derivations(&it, &sp).unwrap().dim(), 3, "p = {p}");
+        assert_eq!(
+            element_space(&it, ElementSpace::Centre, &sp).unwrap().dim(),
+            1
+        );
+        assert!(radical(&t, &it, &sp).unwrap().is_none());
+    }
+}

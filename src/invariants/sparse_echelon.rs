@@ -24,7 +24,11 @@ pub struct SparseEchelon {
 
 #[inline]
 fn mulm(a: u64, b: u64, p: u64) -> u64 {
-    ((a as u128 * b as u128) % p as u128) as u64
+    if p < (1 << 32) {
+        a * b % p
+    } else {
+        ((a as u128 * b as u128) % p as u128) as u64
+    }
 }
 
 fn inv(a: u64, p: u64) -> u64 {
@@ -196,7 +200,9 @@ mod tests {
                     let mut cols: Vec<u32> = (0..3).map(|_| rng.gen_range(0..m as u32)).collect();
                     cols.sort_unstable();
                     cols.dedup();
-                    cols.into_iter().map(|c| (c, rng.gen_range(0..3u64))).collect()
+                    cols.into_iter()
+                        .map(|c| (c, rng.gen_range(0..3u64)))
+                        .collect()
                 })
                 .collect();
             let mut e = SparseEchelon::new(p, m);

@@ -9,6 +9,7 @@
 //! the JSON carries them under `"extra"`. Adding a section never changes existing fields.
 
 pub mod invariants;
+mod invariants_text;
 mod text;
 
 pub use text::render_text;
