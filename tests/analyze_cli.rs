@@ -136,3 +136,31 @@ fn expect_claims() {
     assert!(err.contains("associative"), "{err}");
     assert_eq!(run(&["analyze", "octonions", "--expect", "!nonsense"]).0, 2);
 }
+
+/// The invariants and lower-bounds sections of `analyze`.
+/// Der(octonions) is the exceptional Lie algebra G2, dimension 14 (Schafer 1966, An
+/// Introduction to Nonassociative Algebras, ch. III); the Alder-Strassen bound for M_2 is
+/// 2 * 4 - 1 = 7 (Alder and Strassen 1981, On the algorithmic complexity of associative
+/// algebras).
+#[test]
+fn invariants_and_bounds_sections() {
+    let j = json(&["analyze", "octonions", "--invariants", "derivations,centre"]);
+    let extra = j["extra"].as_array().unwrap();
+    let inv = extra
+        .iter()
+        .find(|s| s["id"] == "invariants")
+        .expect("invariants section");
+    assert_eq!(inv["data"]["derivations"]["dim"], 14);
+    assert_eq!(inv["data"]["centre"]["dim"], 1);
+    let j = json(&["analyze", "matrix:2"]);
+    let extra = j["extra"].as_array().unwrap();
+    let lb = extra
+        .iter()
+        .find(|s| s["id"] == "lower-bounds")
+        .expect("bounds section");
+    assert_eq!(lb["data"]["best"], 7);
+    let j = json(&["analyze", "quaternions", "--no-invariants", "--no-bounds"]);
+    assert!(j["extra"].as_array().unwrap().is_empty());
+    let (code, _, err) = run(&["analyze", "quaternions", "--invariants", "nonsense"]);
+    assert_eq!(code, 2, "{err}");
+}

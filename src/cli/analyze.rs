@@ -5,7 +5,10 @@
 use super::common::{generators_help, load, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::laws::Law;
-use bilin::report::{Params, analyze, render_json, render_text};
+use bilin::report::invariants::{InvariantParams, Part};
+use bilin::report::{Params, analyze_with_progress, render_json, render_text};
+use bilin::scheme::bounds::BoundsParams;
+use std::io::IsTerminal;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -26,9 +29,19 @@ pub struct Args {
     /// (e.g. `alternative,!associative`). Exit code 1 if a claim is false or undecided.
     #[arg(long)]
     pub expect: Option<String>,
-    /// Seed of the random elements used for the slice-span ranks.
+    /// Seed of the random elements used for the slice-span ranks and lower bounds.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Only these invariants, comma-separated (e.g. `centre,derivations`; see
+    /// `bilin invariants --help`); default all that apply.
+    #[arg(long)]
+    pub invariants: Option<String>,
+    /// Leave out the invariants section.
+    #[arg(long)]
+    pub no_invariants: bool,
+    /// Leave out the lower bounds for the tensor rank.
+    #[arg(long)]
+    pub no_bounds: bool,
 }
 
 /// Run the subcommand; returns the exit code.
@@ -75,7 +88,33 @@ pub fn run(args: Args) -> i32 {
             params.laws.laws.push(*l);
         }
     }
-    let r = match analyze(&t, &args.input, &params) {
+    if !args.no_invariants {
+        let only = match args.invariants.as_deref().map(Part::parse_list).transpose() {
+            Ok(o) => o,
+            Err(e) => return report_error(&e),
+        };
+        params.invariants = Some(InvariantParams {
+            only,
+            ..InvariantParams::default()
+        });
+    }
+    if !args.no_bounds {
+        params.bounds = Some(BoundsParams {
+            seed: args.seed,
+            ..BoundsParams::default()
+        });
+    }
+    let on_terminal = std::io::stderr().is_terminal();
+    let mut progress = |msg: &str| {
+        if on_terminal {
+            eprint!("\r\x1b[2K{msg} ...");
+        }
+    };
+    let r = analyze_with_progress(&t, &args.input, &params, &mut progress);
+    if on_terminal {
+        eprint!("\r\x1b[2K");
+    }
+    let r = match r {
         Ok(r) => r,
         Err(e) => return report_error(&e),
     };

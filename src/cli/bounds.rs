@@ -52,13 +52,8 @@ pub fn run(a: &Args) -> i32 {
         d[2],
         t.field().name()
     );
-    for x in &b.bounds {
-        println!("  R >= {:<4} {}: {}", x.value, x.name, x.detail);
-        println!("           theorem: {}", x.theorem);
+    for line in bilin::report::sections::bounds_lines(&b) {
+        println!("  {line}");
     }
-    for n in &b.notes {
-        println!("  note: {n}");
-    }
-    println!("best lower bound: {}", b.best());
     EXIT_OK
 }

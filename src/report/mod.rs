@@ -10,6 +10,7 @@
 
 pub mod invariants;
 mod invariants_text;
+pub mod sections;
 mod text;
 
 pub use text::render_text;
@@ -28,6 +29,10 @@ pub const SCHEMA: &str = "bilin.analyze/1";
 pub struct Params {
     pub laws: laws::Params,
     pub ranks: ranks::Params,
+    /// The invariants section; `None` leaves it out.
+    pub invariants: Option<invariants::InvariantParams>,
+    /// The lower-bounds section; `None` leaves it out.
+    pub bounds: Option<crate::scheme::bounds::BoundsParams>,
 }
 
 /// What was analysed.
@@ -93,6 +98,26 @@ pub fn summarize_input(t: &Tensor, source: &str) -> InputSummary {
 /// Analyse a product: input summary, laws (algebras and square maps) and ranks.
 /// Cost: that of [`laws::check_laws`] plus [`ranks::compute_ranks`].
 pub fn analyze(t: &Tensor, source: &str, params: &Params) -> Result<AnalyzeReport> {
+    analyze_with_progress(t, source, params, &mut |_| {})
+}
+
+/// [`analyze`], reporting the steps of long computations to `progress` (the command line
+/// shows them on a terminal). Cost: laws and ranks, plus the invariants and bounds
+/// sections when `params` asks for them.
+pub fn analyze_with_progress(
+    t: &Tensor,
+    source: &str,
+    params: &Params,
+    progress: &mut dyn FnMut(&str),
+) -> Result<AnalyzeReport> {
+    let mut extra = Vec::new();
+    if let Some(ip) = &params.invariants {
+        extra.push(sections::invariants_section(t, ip, progress)?);
+    }
+    if let Some(bp) = &params.bounds {
+        progress("lower bounds");
+        extra.push(sections::bounds_section(t, bp));
+    }
     let mut notes = Vec::new();
     let laws = if t.is_square() {
         if t.kind() == Kind::Bilinear {
@@ -133,7 +158,7 @@ pub fn analyze(t: &Tensor, source: &str, params: &Params) -> Result<AnalyzeRepor
         input: summarize_input(t, source),
         laws,
         ranks,
-        extra: Vec::new(),
+        extra,
         notes,
     })
 }

@@ -25,7 +25,11 @@ pub fn render_text(r: &AnalyzeReport) -> String {
     for sec in &r.extra {
         let _ = writeln!(s, "\n== {} ==", sec.title);
         for l in &sec.lines {
-            let _ = writeln!(s, "  {l}");
+            if l.is_empty() {
+                s.push('\n');
+            } else {
+                let _ = writeln!(s, "  {l}");
+            }
         }
     }
     if !r.notes.is_empty() {
