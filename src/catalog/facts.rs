@@ -1,6 +1,6 @@
 //! Recomputing stored facts: each fact key that bilin can compute is mapped to the
-//! fingerprint value it must equal; the others (ranks, division, ...) are reported as not
-//! computable so that the test suite can count them.
+//! fingerprint value it must equal; rank bounds are re-derived by [`super::rank_facts`]; the
+//! others are reported as not computable so that the test suite can count them.
 
 use super::fingerprint::{Fingerprint, Value};
 use super::meta::Fact;
@@ -73,7 +73,7 @@ pub fn computed_value(key: &str, fp: &Fingerprint, t: &Tensor) -> Result<String,
             "`{key}` is computed only for Lie (or, for radical/semisimple, associative) algebras over Q"
         )),
         "rank.upper" | "rank.lower" => {
-            Err("tensor rank bounds are not recomputed by the catalog".into())
+            Err("tensor rank bounds are checked by `rank_facts::check_rank_fact`".into())
         }
         _ => Err(format!("no computation for the fact key `{key}`")),
     }
@@ -89,6 +89,15 @@ pub fn check_fact(fact: &Fact, fp: &Fingerprint, t: &Tensor) -> FactCheck {
             "the fact refers to {d}, the table is over {}",
             t.field()
         ));
+    }
+    if fact.key.starts_with("rank.") {
+        return super::rank_facts::check_rank_fact(
+            &fact.key,
+            &fact.value,
+            fact.domain.as_deref(),
+            t,
+            &super::rank_facts::RankCheckParams::default(),
+        );
     }
     match computed_value(&fact.key, fp, t) {
         Ok(v) if v == fact.value => FactCheck::Agrees,

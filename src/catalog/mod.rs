@@ -18,6 +18,7 @@ pub mod fingerprint;
 pub mod identify;
 pub mod iso;
 pub mod meta;
+pub mod rank_facts;
 mod spaces;
 pub mod store;
 mod traceform;
