@@ -121,14 +121,16 @@ pub fn matmul_kron_order(f1: [usize; 3], f2: [usize; 3]) -> [Vec<usize>; 3] {
     ]
 }
 
+/// True when `list` holds an index `>= dim` or the same index twice. Cost O(dim + len).
+fn has_bad_index(list: &[usize], dim: usize) -> bool {
+    let mut seen = vec![false; dim];
+    list.iter()
+        .any(|&x| x >= dim || std::mem::replace(&mut seen[x], true))
+}
+
 fn check_perm(perm: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
-        let mut seen = vec![false; dims[a]];
-        if perm[a].len() != dims[a]
-            || perm[a]
-                .iter()
-                .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
-        {
+        if perm[a].len() != dims[a] || has_bad_index(&perm[a], dims[a]) {
             return Err(Error::Invalid(format!(
                 "not a permutation of the {} basis",
                 crate::tensor::AXES[a]
@@ -329,11 +331,7 @@ pub fn matmul_transpose(s: &Scheme, nmp: [usize; 3]) -> Result<Scheme, Error> {
 
 fn check_keep(keep: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
-        let mut seen = vec![false; dims[a]];
-        if keep[a]
-            .iter()
-            .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
-        {
+        if has_bad_index(&keep[a], dims[a]) {
             return Err(Error::Invalid(format!(
                 "bad index list for the {} axis",
                 crate::tensor::AXES[a]
