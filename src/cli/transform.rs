@@ -2,8 +2,8 @@
 //! apply a change of basis (a file in the format of `docs/formats.md`, "Change of basis",
 //! or a seeded random invertible integer matrix per axis) and print the result.
 
-use super::common::{generators_help, load, report_error};
 use super::EXIT_USAGE;
+use super::common::{generators_help, load, report_error};
 use super::convert::{Form, print_as};
 use bilin::input::{apply_basis_change, parse_basis_file, random_basis_change, read_text_file};
 
