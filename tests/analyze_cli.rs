@@ -1,20 +1,9 @@
 //! Integration tests of `bilin analyze`: the real binary on built-in generators and on
 //! files under tests/data/, text and JSON output, exit codes.
 
-use std::process::Command;
+mod common;
 
-fn run(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("the binary runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::run;
 
 fn json(args: &[&str]) -> serde_json::Value {
     let mut a = args.to_vec();

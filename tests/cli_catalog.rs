@@ -1,19 +1,9 @@
 //! The `catalog` and `identify` commands end to end: output and exit codes
 //! (0 success, 1 a checked claim is false, 2 bad input).
 
-use std::process::Command;
+mod common;
 
-fn bilin(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .output()
-        .expect("runs");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into_owned(),
-        String::from_utf8_lossy(&out.stderr).into_owned(),
-    )
-}
+use common::run as bilin;
 
 #[test]
 fn list_filters_by_law_family_and_dimension() {

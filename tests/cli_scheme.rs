@@ -1,20 +1,9 @@
 //! Command-line tests of `verify`, `bounds`, `emit` and `scheme`: exit codes and key lines,
 //! on the example schemes in examples/schemes/.
 
-use std::process::Command;
+mod common;
 
-fn bilin(args: &[&str]) -> (i32, String, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .args(args)
-        .output()
-        .expect("run bilin");
-    (
-        o.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&o.stdout).into_owned(),
-        String::from_utf8_lossy(&o.stderr).into_owned(),
-    )
-}
+use common::run as bilin;
 
 fn tmp(name: &str, content: &str) -> String {
     let p = std::env::temp_dir().join(format!("bilin-cli-{}-{name}", std::process::id()));

@@ -1,23 +1,9 @@
 //! Runs the real binary's `convert` subcommand on the files in tests/data: valid inputs
 //! convert with exit code 0, bad inputs exit with 2 and an `error: file:line:col:` message.
 
-use std::process::{Command, Output};
+mod common;
 
-fn bilin(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("run bilin")
-}
-
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
+use common::{bilin, stderr, stdout};
 
 #[test]
 fn good_files_convert() {

@@ -1,14 +1,9 @@
 //! Runs the real binary's `invariants` subcommand on built-in generators: published
 //! dimensions appear in the JSON report, bad requests exit with code 2.
 
-use std::process::{Command, Output};
+mod common;
 
-fn bilin(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .output()
-        .expect("runs")
-}
+use common::bilin;
 
 #[test]
 fn octonion_derivations_json() {

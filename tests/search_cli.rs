@@ -1,18 +1,8 @@
 //! The `bilin search` and `bilin merge` command lines: exit codes and output files.
 
-use std::process::Command;
+mod common;
 
-fn bilin(args: &[&str]) -> (i32, String, String) {
-    let o = Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .output()
-        .expect("run bilin");
-    (
-        o.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&o.stdout).into_owned(),
-        String::from_utf8_lossy(&o.stderr).into_owned(),
-    )
-}
+use common::run as bilin;
 
 /// Karatsuba: 2-term polynomials multiply with 3 multiplications (Karatsuba and Ofman 1962,
 /// "Multiplication of many-digital numbers by automatic computers").

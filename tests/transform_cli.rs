@@ -2,23 +2,9 @@
 //! checked against a hand computation, a round trip through the inverse matrix, a seeded
 //! random change, and the exit code 2 with a position for bad basis files.
 
-use std::process::{Command, Output};
+mod common;
 
-fn bilin(args: &[&str]) -> Output {
-    Command::new(env!("CARGO_BIN_EXE_bilin"))
-        .args(args)
-        .current_dir(env!("CARGO_MANIFEST_DIR"))
-        .output()
-        .expect("run bilin")
-}
-
-fn stdout(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn stderr(o: &Output) -> String {
-    String::from_utf8_lossy(&o.stderr).into_owned()
-}
+use common::{bilin, stderr, stdout};
 
 const Q: &str = "tests/data/quaternions.bilin";
 

@@ -4,6 +4,7 @@
 use super::EXIT_OK;
 use super::common::{generators_help, load, report_error};
 use bilin::input::{write_grid, write_json, write_table};
+use bilin::tensor::Tensor;
 
 /// The output forms.
 #[derive(clap::ValueEnum, Clone, Copy, Debug)]
@@ -36,10 +37,16 @@ pub fn run(args: Args) -> i32 {
         Ok(t) => t,
         Err(code) => return code,
     };
-    let out = match args.to {
-        Form::Table => write_table(&t),
-        Form::Json => write_json(&t),
-        Form::Grid => match write_grid(&t) {
+    print_as(&t, args.to)
+}
+
+/// Print `t` on stdout in the given form; returns the exit code (a Cayley table of a
+/// non-algebra is an error).
+pub fn print_as(t: &Tensor, form: Form) -> i32 {
+    let out = match form {
+        Form::Table => write_table(t),
+        Form::Json => write_json(t),
+        Form::Grid => match write_grid(t) {
             Ok(s) => s,
             Err(e) => return report_error(&e),
         },

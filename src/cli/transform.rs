@@ -2,13 +2,10 @@
 //! apply a change of basis (a file in the format of `docs/formats.md`, "Change of basis",
 //! or a seeded random invertible integer matrix per axis) and print the result.
 
+use super::EXIT_USAGE;
 use super::common::{generators_help, load, report_error};
-use super::convert::Form;
-use super::{EXIT_OK, EXIT_USAGE};
-use bilin::input::{
-    apply_basis_change, parse_basis_file, random_basis_change, read_text_file, write_grid,
-    write_json, write_table,
-};
+use super::convert::{Form, print_as};
+use bilin::input::{apply_basis_change, parse_basis_file, random_basis_change, read_text_file};
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -57,14 +54,5 @@ pub fn run(args: Args) -> i32 {
         Ok(t) => t,
         Err(e) => return report_error(&e),
     };
-    let text = match args.to {
-        Form::Table => write_table(&out),
-        Form::Json => write_json(&out),
-        Form::Grid => match write_grid(&out) {
-            Ok(s) => s,
-            Err(e) => return report_error(&e),
-        },
-    };
-    print!("{text}");
-    EXIT_OK
+    print_as(&out, args.to)
 }

@@ -56,17 +56,7 @@ fn axis_of(word: &str) -> Option<usize> {
 /// A signed rational token (`3`, `-1/2`, `+0.25`) spanning `line.text[start..end]`.
 fn parse_entry(line: LineRef<'_>, start: usize, end: usize) -> Result<Q> {
     let mut cur = Cursor::new(line, start, end);
-    let neg = match cur.peek() {
-        Some('-') => {
-            cur.bump();
-            true
-        }
-        Some('+') => {
-            cur.bump();
-            false
-        }
-        _ => false,
-    };
+    let neg = cur.take_sign();
     if !cur.peek().is_some_and(|c| c.is_ascii_digit()) {
         return Err(cur.expected("a rational number such as `2`, `-1/3` or `0.5`"));
     }

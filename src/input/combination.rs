@@ -26,17 +26,7 @@ pub(crate) fn parse_combination<'a>(cur: &mut Cursor<'a>) -> Result<Vec<Term<'a>
     if cur.at_end() {
         return Err(cur.expected("a combination such as `2 x - y` or `0`"));
     }
-    let mut negative = match cur.peek() {
-        Some('-') => {
-            cur.bump();
-            true
-        }
-        Some('+') => {
-            cur.bump();
-            false
-        }
-        _ => false,
-    };
+    let mut negative = cur.take_sign();
     loop {
         cur.skip_ws();
         let pos = cur.pos;

@@ -93,6 +93,21 @@ impl<'a> Cursor<'a> {
         Some(c)
     }
 
+    /// Consume an optional leading sign `+` or `-`; true when it was `-`.
+    pub fn take_sign(&mut self) -> bool {
+        match self.peek() {
+            Some('-') => {
+                self.bump();
+                true
+            }
+            Some('+') => {
+                self.bump();
+                false
+            }
+            _ => false,
+        }
+    }
+
     #[inline]
     pub fn skip_ws(&mut self) {
         while self.peek().is_some_and(char::is_whitespace) {

@@ -102,17 +102,7 @@ fn parse_coef(s: &str) -> std::result::Result<Q, String> {
         number: 1,
     };
     let mut cur = Cursor::new(line, 0, t.len());
-    let neg = match cur.peek() {
-        Some('-') => {
-            cur.bump();
-            true
-        }
-        Some('+') => {
-            cur.bump();
-            false
-        }
-        _ => false,
-    };
+    let neg = cur.take_sign();
     if !cur.peek().is_some_and(|c| c.is_ascii_digit()) {
         return Err(format!(
             "expected a coefficient such as \"3\" or \"-1/2\", found \"{s}\""
@@ -128,6 +118,19 @@ fn parse_coef(s: &str) -> std::result::Result<Q, String> {
         ));
     }
     Ok(if neg { -v } else { v })
+}
+
+/// A parse error at element `n` of the `"entries"` array (at the key when the element
+/// cannot be located). Cost: one scan of `text`.
+fn entry_error(text: &str, source: &str, n: usize, message: String) -> Error {
+    let b = array_element_bytes(text, "entries")
+        .get(n)
+        .copied()
+        .unwrap_or_else(|| key_byte(text, "entries"));
+    Error::Parse {
+        at: byte_pos(text, source, b),
+        message,
+    }
 }
 
 /// Parse the coordinate JSON form. `source` names the input in error positions.
@@ -237,41 +240,30 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
     };
     let mut t = Tensor::zero(field, kind, dims, Some(names));
     let mut seen: HashMap<(usize, usize, usize), (Q, usize)> = HashMap::new();
-    let mut positions: Option<Vec<usize>> = None;
     for (n, e) in entries.iter().enumerate() {
         let check = entry(e, dims, prime.as_ref());
         let (idx, val) = match check {
             Ok(x) => x,
             Err(m) => {
-                let pos = positions.get_or_insert_with(|| array_element_bytes(text, "entries"));
-                let b = pos
-                    .get(n)
-                    .copied()
-                    .unwrap_or_else(|| key_byte(text, "entries"));
-                return Err(Error::Parse {
-                    at: byte_pos(text, source, b),
-                    message: format!("entry {}: {m}", n + 1),
-                });
+                return Err(entry_error(
+                    text,
+                    source,
+                    n,
+                    format!("entry {}: {m}", n + 1),
+                ));
             }
         };
         if let Some((old, first)) = seen.get(&idx) {
             if *old != val {
-                let pos = positions.get_or_insert_with(|| array_element_bytes(text, "entries"));
-                let b = pos
-                    .get(n)
-                    .copied()
-                    .unwrap_or_else(|| key_byte(text, "entries"));
-                return Err(Error::Parse {
-                    at: byte_pos(text, source, b),
-                    message: format!(
-                        "entry {}: conflicting duplicate of entry {} for {:?}: {} here, {} there",
-                        n + 1,
-                        first + 1,
-                        idx,
-                        q_to_string(&val),
-                        q_to_string(old)
-                    ),
-                });
+                let message = format!(
+                    "entry {}: conflicting duplicate of entry {} for {:?}: {} here, {} there",
+                    n + 1,
+                    first + 1,
+                    idx,
+                    q_to_string(&val),
+                    q_to_string(old)
+                );
+                return Err(entry_error(text, source, n, message));
             }
             continue;
         }

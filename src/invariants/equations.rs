@@ -108,19 +108,25 @@ pub fn annihilator(t: &IntTable, left: bool) -> Result<SparseSystem> {
     let mut s = t.system(n);
     let mut b = BlockBuf::default();
     for j in 0..n {
-        for i in 0..n {
-            let prod = if left {
-                t.product(i, j)
-            } else {
-                t.product(j, i)
-            };
-            for &(k, c) in prod {
-                b.add(k, i, c as i128);
-            }
-        }
+        add_products_with(t, j, n, left, &mut b);
         s.push_block(&mut b)?;
     }
     Ok(s)
+}
+
+/// Adds to block `b` the terms `x e_o` (left = true) or `e_o x` (left = false) of an
+/// unknown vector x with `inner` coordinates (column x_i), one row per result coordinate.
+fn add_products_with(t: &IntTable, o: usize, inner: usize, left: bool, b: &mut BlockBuf) {
+    for x in 0..inner {
+        let prod = if left {
+            t.product(x, o)
+        } else {
+            t.product(o, x)
+        };
+        for &(k, c) in prod {
+            b.add(k, x, c as i128);
+        }
+    }
 }
 
 /// The unit, homogenised: unknowns (u, s) (n + 1 columns) with
@@ -132,16 +138,7 @@ pub fn unit(t: &IntTable) -> Result<SparseSystem> {
     let mut b = BlockBuf::default();
     for left in [true, false] {
         for j in 0..n {
-            for i in 0..n {
-                let prod = if left {
-                    t.product(i, j)
-                } else {
-                    t.product(j, i)
-                };
-                for &(k, c) in prod {
-                    b.add(k, i, c as i128);
-                }
-            }
+            add_products_with(t, j, n, left, &mut b);
             b.add(j, n, -1);
             s.push_block(&mut b)?;
         }
@@ -157,21 +154,11 @@ pub fn centroid(t: &IntTable) -> Result<SparseSystem> {
     for i in 0..n {
         for j in 0..n {
             for side in 0..2 {
-                for &(m, c) in t.product(i, j) {
-                    for k in 0..n {
-                        b.add(k, k * n + m, c as i128);
-                    }
-                }
+                add_map_of_product(t, i, j, &mut b);
                 if side == 0 {
-                    for &(l, k, c) in &t.by_right[j] {
-                        b.add(k, l * n + i, -(c as i128));
-                    }
+                    add_map_times_basis(t, i, j, &mut b);
                 } else {
-                    for l in 0..n {
-                        for &(k, c) in t.product(i, l) {
-                            b.add(k, l * n + j, -(c as i128));
-                        }
-                    }
+                    add_basis_times_map(t, i, j, &mut b);
                 }
                 s.push_block(&mut b)?;
             }
@@ -187,23 +174,41 @@ pub fn derivations(t: &IntTable) -> Result<SparseSystem> {
     let mut b = BlockBuf::default();
     for i in 0..n {
         for j in 0..n {
-            for &(m, c) in t.product(i, j) {
-                for k in 0..n {
-                    b.add(k, k * n + m, c as i128);
-                }
-            }
-            for &(l, k, c) in &t.by_right[j] {
-                b.add(k, l * n + i, -(c as i128));
-            }
-            for l in 0..n {
-                for &(k, c) in t.product(i, l) {
-                    b.add(k, l * n + j, -(c as i128));
-                }
-            }
+            add_map_of_product(t, i, j, &mut b);
+            add_map_times_basis(t, i, j, &mut b);
+            add_basis_times_map(t, i, j, &mut b);
             s.push_block(&mut b)?;
         }
     }
     Ok(s)
+}
+
+/// Adds `+X(e_i e_j)` (unknown map X on an n-dimensional algebra, offset 0) to block `b`.
+fn add_map_of_product(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
+    let n = t.dims[0];
+    for &(m, c) in t.product(i, j) {
+        for k in 0..n {
+            b.add(k, k * n + m, c as i128);
+        }
+    }
+}
+
+/// Adds `-X(e_i) e_j` (unknown map X, offset 0) to block `b`.
+fn add_map_times_basis(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
+    let n = t.dims[0];
+    for &(l, k, c) in &t.by_right[j] {
+        b.add(k, l * n + i, -(c as i128));
+    }
+}
+
+/// Adds `-e_i X(e_j)` (unknown map X, offset 0) to block `b`.
+fn add_basis_times_map(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
+    let n = t.dims[0];
+    for l in 0..n {
+        for &(k, c) in t.product(i, l) {
+            b.add(k, l * n + j, -(c as i128));
+        }
+    }
 }
 
 /// Pairs of maps (X on the left space, Y on the right space) with
@@ -274,16 +279,7 @@ pub fn radical_of_map(t: &IntTable, left: bool) -> Result<SparseSystem> {
     let mut b = BlockBuf::default();
     let (outer, inner) = if left { (bd, a) } else { (a, bd) };
     for o in 0..outer {
-        for x in 0..inner {
-            let prod = if left {
-                t.product(x, o)
-            } else {
-                t.product(o, x)
-            };
-            for &(k, c) in prod {
-                b.add(k, x, c as i128);
-            }
-        }
+        add_products_with(t, o, inner, left, &mut b);
         s.push_block(&mut b)?;
     }
     Ok(s)

@@ -121,14 +121,16 @@ pub fn matmul_kron_order(f1: [usize; 3], f2: [usize; 3]) -> [Vec<usize>; 3] {
     ]
 }
 
+/// True when `list` holds an index `>= dim` or the same index twice. Cost O(dim + len).
+fn has_bad_index(list: &[usize], dim: usize) -> bool {
+    let mut seen = vec![false; dim];
+    list.iter()
+        .any(|&x| x >= dim || std::mem::replace(&mut seen[x], true))
+}
+
 fn check_perm(perm: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
-        let mut seen = vec![false; dims[a]];
-        if perm[a].len() != dims[a]
-            || perm[a]
-                .iter()
-                .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
-        {
+        if perm[a].len() != dims[a] || has_bad_index(&perm[a], dims[a]) {
             return Err(Error::Invalid(format!(
                 "not a permutation of the {} basis",
                 crate::tensor::AXES[a]
@@ -277,6 +279,17 @@ fn check_matmul(s: &Scheme, [n, m, p]: [usize; 3]) -> Result<(), Error> {
     Ok(())
 }
 
+/// The transpose of a `rows x cols` matrix stored row-major: `out[c * rows + r] = x[r * cols + c]`.
+fn transposed(x: &[Q], rows: usize, cols: usize) -> Vec<Q> {
+    let mut out = vec![Q::zero(); rows * cols];
+    for r in 0..rows {
+        for c in 0..cols {
+            out[c * rows + r] = x[r * cols + c].clone();
+        }
+    }
+    out
+}
+
 /// Cyclic symmetry: a scheme for <n,m,p> gives one for <m,p,n> of the same rank, from
 /// `tr(ABC^T)`-style invariance: `u'[(j,k)] = v[(j,k)]`, `v'[(k,i)] = w[(i,k)]`,
 /// `w'[(j,i)] = u[(i,j)]` (the transposes keep C = AB row-major).
@@ -285,17 +298,11 @@ pub fn matmul_cyclic(s: &Scheme, nmp: [usize; 3]) -> Result<Scheme, Error> {
     let [n, m, p] = nmp;
     let mut out = Scheme::empty(s.field, [m * p, p * n, m * n]);
     for t in 0..s.rank() {
-        let mut v2 = vec![Q::zero(); p * n];
-        let mut w2 = vec![Q::zero(); m * n];
-        for i in 0..n {
-            for k in 0..p {
-                v2[k * n + i] = s.w[t][i * p + k].clone();
-            }
-            for j in 0..m {
-                w2[j * n + i] = s.u[t][i * m + j].clone();
-            }
-        }
-        out.push(s.v[t].clone(), v2, w2);
+        out.push(
+            s.v[t].clone(),
+            transposed(&s.w[t], n, p),
+            transposed(&s.u[t], n, m),
+        );
     }
     Ok(out)
 }
@@ -306,34 +313,18 @@ pub fn matmul_transpose(s: &Scheme, nmp: [usize; 3]) -> Result<Scheme, Error> {
     let [n, m, p] = nmp;
     let mut out = Scheme::empty(s.field, [p * m, m * n, p * n]);
     for t in 0..s.rank() {
-        let mut u2 = vec![Q::zero(); p * m];
-        let mut v2 = vec![Q::zero(); m * n];
-        let mut w2 = vec![Q::zero(); p * n];
-        for i in 0..n {
-            for j in 0..m {
-                v2[j * n + i] = s.u[t][i * m + j].clone();
-            }
-            for k in 0..p {
-                w2[k * n + i] = s.w[t][i * p + k].clone();
-            }
-        }
-        for j in 0..m {
-            for k in 0..p {
-                u2[k * m + j] = s.v[t][j * p + k].clone();
-            }
-        }
-        out.push(u2, v2, w2);
+        out.push(
+            transposed(&s.v[t], m, p),
+            transposed(&s.u[t], n, m),
+            transposed(&s.w[t], n, p),
+        );
     }
     Ok(out)
 }
 
 fn check_keep(keep: &[Vec<usize>; 3], dims: [usize; 3]) -> Result<(), Error> {
     for a in 0..3 {
-        let mut seen = vec![false; dims[a]];
-        if keep[a]
-            .iter()
-            .any(|&x| x >= dims[a] || std::mem::replace(&mut seen[x], true))
-        {
+        if has_bad_index(&keep[a], dims[a]) {
             return Err(Error::Invalid(format!(
                 "bad index list for the {} axis",
                 crate::tensor::AXES[a]

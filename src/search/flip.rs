@@ -544,25 +544,7 @@ pub fn walk_state<W: WalkState>(
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    /// <n,m,p> matrix multiplication tensor (local builder until the generators land):
-    /// a_{il} b_{lj} -> c_{ij}.
-    pub(crate) fn matmul(n: usize, m: usize, p: usize) -> Tensor {
-        let mut t = Tensor::zero(
-            FieldSpec::Rational,
-            crate::tensor::Kind::Bilinear,
-            [n * m, m * p, n * p],
-            None,
-        );
-        for i in 0..n {
-            for l in 0..m {
-                for j in 0..p {
-                    t.set(i * m + l, l * p + j, i * p + j, Q::one());
-                }
-            }
-        }
-        t
-    }
+    use crate::search::tests::matmul;
 
     #[test]
     fn moves_preserve_the_tensor() {
