@@ -78,6 +78,17 @@ pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
         at: at(e.line(), e.column()),
         message: format!("invalid JSON: {e}"),
     })?;
+    from_value(&v, source)
+}
+
+/// Read a scheme from an already parsed JSON value (e.g. inside a search checkpoint);
+/// structural errors are reported at line 1, column 1 of `source`.
+pub fn from_value(v: &Value, source: &str) -> Result<Scheme, Error> {
+    let at = |line: usize, column: usize| Position {
+        source: source.to_string(),
+        line,
+        column,
+    };
     let bad = |m: String| Error::Parse {
         at: at(1, 1),
         message: m,

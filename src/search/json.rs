@@ -10,121 +10,22 @@
 //! Invariant: a written file is complete (written to a temporary file, then renamed).
 
 use crate::error::{Error, Result};
-use crate::scalar::{FieldSpec, Q, parse_rational, q_to_string};
 use crate::scheme::Scheme;
 use serde_json::{Value, json};
 
-/// The JSON value of a scheme (the agreed `bilin.scheme/1` form).
+/// The JSON value of a scheme (the `bilin.scheme/1` form of [`crate::scheme::json`]).
 pub fn scheme_to_json(s: &Scheme) -> Value {
-    let mat = |m: &Vec<Vec<Q>>| -> Value {
-        Value::Array(
-            m.iter()
-                .map(|row| Value::Array(row.iter().map(|x| json!(q_to_string(x))).collect()))
-                .collect(),
-        )
-    };
-    json!({
-        "schema": "bilin.scheme/1",
-        "field": s.field.name(),
-        "dims": s.dims,
-        "rank": s.rank(),
-        "u": mat(&s.u),
-        "v": mat(&s.v),
-        "w": mat(&s.w),
-    })
+    crate::scheme::json::to_json(s)
 }
 
 fn invalid(msg: impl Into<String>) -> Error {
     Error::Invalid(msg.into())
 }
 
-/// Read a scheme from its JSON value; shapes are checked, entries parsed exactly.
+/// Read a scheme from its JSON value (the `bilin.scheme/1` form); shapes are checked,
+/// entries parsed exactly.
 pub fn scheme_from_value(v: &Value) -> Result<Scheme> {
-    if let Some(sc) = v.get("schema").and_then(Value::as_str)
-        && sc != "bilin.scheme/1"
-    {
-        return Err(invalid(format!(
-            "expected schema \"bilin.scheme/1\", found \"{sc}\""
-        )));
-    }
-    let field = match v.get("field").and_then(Value::as_str) {
-        Some(f) => FieldSpec::parse(f).map_err(invalid)?,
-        None => FieldSpec::Rational,
-    };
-    let dims_v = v
-        .get("dims")
-        .and_then(Value::as_array)
-        .ok_or_else(|| invalid("scheme JSON: missing \"dims\""))?;
-    if dims_v.len() != 3 {
-        return Err(invalid("scheme JSON: \"dims\" must list three dimensions"));
-    }
-    let mut dims = [0usize; 3];
-    for (a, d) in dims_v.iter().enumerate() {
-        dims[a] = d
-            .as_u64()
-            .ok_or_else(|| invalid("scheme JSON: dimensions must be integers"))?
-            as usize;
-    }
-    let read = |key: &str, n: usize| -> Result<Vec<Vec<Q>>> {
-        let rows = v
-            .get(key)
-            .and_then(Value::as_array)
-            .ok_or_else(|| invalid(format!("scheme JSON: missing \"{key}\"")))?;
-        rows.iter()
-            .enumerate()
-            .map(|(t, row)| {
-                let row = row
-                    .as_array()
-                    .ok_or_else(|| invalid(format!("scheme JSON: {key}[{t}] is not a list")))?;
-                if row.len() != n {
-                    return Err(invalid(format!(
-                        "scheme JSON: {key}[{t}] has {} entries, expected {n}",
-                        row.len()
-                    )));
-                }
-                row.iter()
-                    .map(|x| {
-                        let s = match x {
-                            Value::String(s) => s.clone(),
-                            Value::Number(n) if n.is_i64() => n.to_string(),
-                            _ => {
-                                return Err(invalid(format!(
-                                    "scheme JSON: entry {x} of {key}[{t}] is not \"p/q\""
-                                )));
-                            }
-                        };
-                        parse_rational(&s)
-                            .map_err(|e| invalid(format!("scheme JSON: {key}[{t}]: {e}")))
-                    })
-                    .collect()
-            })
-            .collect()
-    };
-    let (u, vv, w) = (
-        read("u", dims[0])?,
-        read("v", dims[1])?,
-        read("w", dims[2])?,
-    );
-    if u.len() != vv.len() || u.len() != w.len() {
-        return Err(invalid(
-            "scheme JSON: \"u\", \"v\", \"w\" must have one row per term each",
-        ));
-    }
-    if let Some(r) = v.get("rank").and_then(Value::as_u64)
-        && r as usize != u.len()
-    {
-        return Err(invalid(format!(
-            "scheme JSON: \"rank\" is {r} but there are {} terms",
-            u.len()
-        )));
-    }
-    Ok(Scheme {
-        field,
-        dims,
-        u,
-        v: vv,
-        w,
-    })
+    crate::scheme::json::from_value(v, "<scheme in a checkpoint>")
 }
 
 /// Parse a scheme JSON text.
@@ -204,6 +105,7 @@ pub fn write_atomic(path: &str, text: &str) -> Result<()> {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::scalar::FieldSpec;
     use crate::scalar::q;
 
     #[test]
