@@ -12,10 +12,10 @@
 //! `lower.central`, `trace.rank`, `trace.signature`, `trace.discriminant`, `rtrace.rank`.
 //! More keys can be appended without changing the comparison rules.
 
+use super::checks;
 use super::dense::Dense;
 use super::spaces;
 use super::traceform::{self, same_square_class, square_class_text};
-use crate::laws::{Law, Params as LawParams, check_laws};
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{Kind, Tensor, flattening_ranks, rank_over, slices};
 use num_traits::Zero;
@@ -160,33 +160,23 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     }
     let d = Dense::new_integral(t);
     let assoc = d.associators();
-    // the basic laws from the shared law checker (exact in the tensor's field; no work limit,
-    // as the catalog's fingerprint must be complete); Jordan only where 6 is invertible, so
-    // that the polynomial identity is the same as the law on elements
-    let jordan = !matches!(t.field().characteristic(), 2 | 3);
-    let mut laws = vec![
-        Law::Commutative,
-        Law::Anticommutative,
-        Law::Associative,
-        Law::Alternative,
-        Law::Flexible,
-        Law::Lie,
-    ];
-    if jordan {
-        laws.push(Law::Jordan);
-    }
-    let lp = LawParams {
-        laws,
-        stop_first: true,
-        max_work: u128::MAX,
-        max_pointwise_elements: 0,
-    };
-    if let Ok(report) = check_laws(t, &lp) {
-        for r in &report.results {
-            if let Some(h) = r.holds {
-                fp.push(r.law.name(), Value::Bool(h));
-            }
-        }
+    fp.push("commutative", Value::Bool(checks::is_commutative(&d)));
+    fp.push(
+        "anticommutative",
+        Value::Bool(checks::is_anticommutative(&d)),
+    );
+    fp.push(
+        "associative",
+        Value::Bool(checks::is_associative(&d, &assoc)),
+    );
+    fp.push(
+        "alternative",
+        Value::Bool(checks::is_alternative(&d, &assoc)),
+    );
+    fp.push("flexible", Value::Bool(checks::is_flexible(&d, &assoc)));
+    fp.push("lie", Value::Bool(checks::is_lie(&d)));
+    if let Some(j) = checks::is_jordan(&d) {
+        fp.push("jordan", Value::Bool(j));
     }
     fp.push("unital", Value::Bool(spaces::unit_element(&d).is_some()));
     fp.push("annihilator", Value::Int(spaces::annihilator_dim(&d)));

@@ -9,6 +9,7 @@
 //! - [`identify`]: matching fingerprints and explicit isomorphisms ([`iso`]);
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
+mod checks;
 mod dense;
 pub mod doc;
 mod entries;
