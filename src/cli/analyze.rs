@@ -8,7 +8,6 @@ use bilin::laws::Law;
 use bilin::report::invariants::{InvariantParams, Part};
 use bilin::report::{Params, analyze_with_progress, render_json, render_text};
 use bilin::scheme::bounds::BoundsParams;
-use std::io::IsTerminal;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -104,16 +103,7 @@ pub fn run(args: Args) -> i32 {
             ..BoundsParams::default()
         });
     }
-    let on_terminal = std::io::stderr().is_terminal();
-    let mut progress = |msg: &str| {
-        if on_terminal {
-            eprint!("\r\x1b[2K{msg} ...");
-        }
-    };
-    let r = analyze_with_progress(&t, &args.input, &params, &mut progress);
-    if on_terminal {
-        eprint!("\r\x1b[2K");
-    }
+    let r = super::common::with_progress(|p| analyze_with_progress(&t, &args.input, &params, p));
     let r = match r {
         Ok(r) => r,
         Err(e) => return report_error(&e),

@@ -37,3 +37,20 @@ pub fn generators_help() -> String {
     }
     s
 }
+
+/// Run `work` with a progress callback that shows the current step on stderr when stderr
+/// is a terminal (one overwritten line, cleared at the end), and does nothing otherwise.
+pub fn with_progress<T>(work: impl FnOnce(&mut dyn FnMut(&str)) -> T) -> T {
+    use std::io::IsTerminal;
+    let tty = std::io::stderr().is_terminal();
+    let mut progress = |msg: &str| {
+        if tty {
+            eprint!("\r\x1b[K{msg} ...");
+        }
+    };
+    let out = work(&mut progress);
+    if tty {
+        eprint!("\r\x1b[K");
+    }
+    out
+}

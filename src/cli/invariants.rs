@@ -6,7 +6,6 @@
 use super::EXIT_OK;
 use super::common::{generators_help, load, report_error};
 use bilin::report::invariants::{InvariantParams, Part, invariants_report, render_text};
-use std::io::IsTerminal;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -46,16 +45,7 @@ pub fn run(args: Args) -> i32 {
         omit_bases: args.no_bases,
         ..Default::default()
     };
-    let tty = std::io::stderr().is_terminal();
-    let mut progress = |msg: &str| {
-        if tty {
-            eprint!("\r\x1b[K{msg}");
-        }
-    };
-    let r = invariants_report(&t, &params, &mut progress);
-    if tty {
-        eprint!("\r\x1b[K");
-    }
+    let r = super::common::with_progress(|p| invariants_report(&t, &params, p));
     let r = match r {
         Ok(r) => r,
         Err(e) => return report_error(&e),
