@@ -11,13 +11,19 @@
 //! `commutant`, `nucleus`, `centre`, `derivations`, `centroid`, `squares`, `derived.series`,
 //! `lower.central`, `trace.rank`, `trace.signature`, `trace.discriminant`, `rtrace.rank`.
 //! More keys can be appended without changing the comparison rules.
+//!
+//! Every value comes from the shared engines: the laws from [`crate::laws`] (stopping at
+//! a first failure), the subspaces and algebras of maps from [`crate::invariants`], the
+//! series from [`crate::invariants::spans`] and the trace forms from
+//! [`crate::invariants::forms`]; all of them exact. A value that cannot be computed within
+//! the engines' limits is left out (comparisons use the keys present on both sides).
 
-use super::checks;
-use super::dense::Dense;
-use super::spaces;
-use super::traceform::{self, same_square_class, square_class_text};
+use crate::invariants::forms::{form_invariants, same_square_class, square_class_text, trace_form};
+use crate::invariants::spans::{derived_series, lower_central_series, squares_dim};
+use crate::invariants::{ElementSpace, SolveParams, centroid, derivations, element_space};
+use crate::laws::{self, Law};
 use crate::scalar::{FieldSpec, Q};
-use crate::tensor::{Kind, Tensor, flattening_ranks, rank_over, slices};
+use crate::tensor::{IntegralTensor, Kind, Tensor, flattening_ranks, rank_over, slices};
 use num_traits::Zero;
 
 /// One fingerprint value; equality of square classes is up to squares.
@@ -97,6 +103,8 @@ pub struct FingerprintParams {
     /// Skip the derivation and centroid algebras above this dimension (their systems have
     /// n^3 and 2 n^3 rows, n^2 columns).
     pub max_dim_derivations: usize,
+    /// Parameters of the linear-system engine.
+    pub solve: SolveParams,
 }
 
 impl Default for FingerprintParams {
@@ -104,7 +112,8 @@ impl Default for FingerprintParams {
         FingerprintParams {
             seed: 1,
             slice_trials: 3,
-            max_dim_derivations: 16,
+            max_dim_derivations: 64,
+            solve: SolveParams::default(),
         }
     }
 }
@@ -158,60 +167,69 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     if t.kind() != Kind::Algebra {
         return fp;
     }
-    let d = Dense::new_integral(t);
-    let assoc = d.associators();
-    fp.push("commutative", Value::Bool(checks::is_commutative(&d)));
-    fp.push(
-        "anticommutative",
-        Value::Bool(checks::is_anticommutative(&d)),
-    );
-    fp.push(
-        "associative",
-        Value::Bool(checks::is_associative(&d, &assoc)),
-    );
-    fp.push(
-        "alternative",
-        Value::Bool(checks::is_alternative(&d, &assoc)),
-    );
-    fp.push("flexible", Value::Bool(checks::is_flexible(&d, &assoc)));
-    fp.push("lie", Value::Bool(checks::is_lie(&d)));
-    if let Some(j) = checks::is_jordan(&d) {
-        fp.push("jordan", Value::Bool(j));
+    algebra_keys(t, params, &mut fp);
+    fp
+}
+
+/// The keys of an algebra (see the module documentation).
+fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
+    let it = IntegralTensor::from_tensor(t);
+    let sp = &params.solve;
+    let ch = t.field().characteristic();
+    let mut asked = vec![
+        Law::Commutative,
+        Law::Anticommutative,
+        Law::Associative,
+        Law::Alternative,
+        Law::Flexible,
+        Law::Lie,
+    ];
+    if ch != 2 && ch != 3 {
+        asked.push(Law::Jordan);
     }
-    fp.push("unital", Value::Bool(spaces::unit_element(&d).is_some()));
-    fp.push("annihilator", Value::Int(spaces::annihilator_dim(&d)));
-    fp.push("commutant", Value::Int(spaces::commutant_dim(&d)));
-    fp.push("nucleus", Value::Int(spaces::nucleus_dim(&d, &assoc)));
-    fp.push("centre", Value::Int(spaces::centre_dim(&d, &assoc)));
-    // derivations and centroid: from the invariants layer (proven bases, sparse integer
-    // systems) when the constants fit its integer tables, otherwise by the catalog's own
-    // dense systems (up to `max_dim_derivations`)
-    let it = crate::invariants::IntTable::from_tensor(t).ok();
-    let sp = crate::invariants::SolveParams::default();
-    let der = it
-        .as_ref()
-        .and_then(|it| crate::invariants::derivations(it, &sp).ok());
-    let cen = it
-        .as_ref()
-        .and_then(|it| crate::invariants::centroid(t, it, &sp).ok());
-    let small = d.n <= params.max_dim_derivations;
-    match der {
-        Some(s) => fp.push("derivations", Value::Int(s.dim())),
-        None if small => fp.push("derivations", Value::Int(spaces::derivations_dim(&d))),
-        None => {}
+    let lp = laws::Params {
+        laws: asked.clone(),
+        stop_first: true,
+        ..Default::default()
+    };
+    if let Ok(r) = laws::check_laws(t, &lp) {
+        for law in asked {
+            if let Some(h) = r.holds(law) {
+                fp.push(law.name(), Value::Bool(h));
+            }
+        }
     }
-    match cen {
-        Some(c) => fp.push("centroid", Value::Int(c.space.dim())),
-        None if small => fp.push("centroid", Value::Int(spaces::centroid_dim(&d))),
-        None => {}
+    if let Ok(u) = laws::find_unit(&it, sp) {
+        fp.push("unital", Value::Bool(u.is_some()));
     }
-    fp.push("squares", Value::Int(spaces::squares_dim(&d)));
-    fp.push("derived.series", Value::Ints(spaces::derived_series(&d)));
-    fp.push(
-        "lower.central",
-        Value::Ints(spaces::lower_central_series(&d)),
-    );
-    let tl = traceform::form_invariants(&d, &traceform::trace_form(&d, true));
+    for (key, which) in [
+        ("annihilator", ElementSpace::Annihilator),
+        ("commutant", ElementSpace::CommutativeCentre),
+        ("nucleus", ElementSpace::Nucleus),
+        ("centre", ElementSpace::Centre),
+    ] {
+        if let Ok(s) = element_space(&it, which, sp) {
+            fp.push(key, Value::Int(s.dim()));
+        }
+    }
+    if t.dim() <= params.max_dim_derivations {
+        if let Ok(s) = derivations(&it, sp) {
+            fp.push("derivations", Value::Int(s.dim()));
+        }
+        if let Ok(c) = centroid(t, &it, sp) {
+            fp.push("centroid", Value::Int(c.space.dim()));
+        }
+    }
+    if let Ok(d) = squares_dim(&it, sp) {
+        fp.push("squares", Value::Int(d));
+    }
+    if let Ok(v) = derived_series(&it, sp) {
+        fp.push("derived.series", Value::Ints(v));
+    }
+    if let Ok(v) = lower_central_series(&it, sp) {
+        fp.push("lower.central", Value::Ints(v));
+    }
+    let tl = form_invariants(t.field(), &trace_form(&it, true));
     fp.push("trace.rank", Value::Int(tl.rank));
     if let Some((p, m)) = tl.signature {
         fp.push("trace.signature", Value::Ints(vec![p, m]));
@@ -219,9 +237,8 @@ pub fn compute_fingerprint(t: &Tensor, params: &FingerprintParams) -> Fingerprin
     if let Some(disc) = tl.discriminant {
         fp.push("trace.discriminant", Value::SquareClass(disc));
     }
-    let tr = traceform::form_invariants(&d, &traceform::trace_form(&d, false));
+    let tr = form_invariants(t.field(), &trace_form(&it, false));
     fp.push("rtrace.rank", Value::Int(tr.rank));
-    fp
 }
 
 #[cfg(test)]

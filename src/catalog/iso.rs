@@ -12,12 +12,60 @@
 //! X's structure constants exactly. The search is bounded by a node budget; "not found"
 //! means not found with these coordinates and budget, not "not isomorphic".
 
-use super::dense::Dense;
-use super::spaces::unit_element;
 use crate::linalg::{Matrix, solve};
-use crate::scalar::{Field, Q};
-use crate::tensor::{Kind, Tensor, change_basis_algebra};
+use crate::scalar::{Field, FieldSpec, Q};
+use crate::tensor::{IntegralTensor, Kind, Tensor, change_basis_algebra, rank_over};
 use num_traits::Zero;
+
+/// An algebra with the few exact operations the search needs (products of coordinate
+/// vectors and spans, in the algebra's field).
+struct Alg<'a> {
+    t: &'a Tensor,
+    field: FieldSpec,
+    n: usize,
+}
+
+impl Alg<'_> {
+    fn mul(&self, x: &[Q], y: &[Q]) -> Vec<Q> {
+        self.t.multiply(x, y)
+    }
+
+    /// Reduce a vector into the field's representatives (identity over Q).
+    fn reduce(&self, v: Vec<Q>) -> Vec<Q> {
+        match self.field {
+            FieldSpec::Rational => v,
+            FieldSpec::Prime(p) => {
+                let f = crate::scalar::PrimeField::new(p).expect("a prime field");
+                v.iter()
+                    .map(|x| f.to_rational(&f.from_rational(x).unwrap_or(0)))
+                    .collect()
+            }
+        }
+    }
+
+    fn rank(&self, vectors: &[Vec<Q>]) -> usize {
+        if vectors.is_empty() {
+            return 0;
+        }
+        rank_over(self.field, &Matrix::from_rows(vectors.to_vec(), self.n))
+    }
+
+    fn full_basis(&self) -> Vec<Vec<Q>> {
+        (0..self.n)
+            .map(|i| {
+                let mut v = vec![Q::zero(); self.n];
+                v[i] = Q::from_integer(1.into());
+                v
+            })
+            .collect()
+    }
+
+    fn unit(&self) -> Option<Vec<Q>> {
+        crate::laws::find_unit(&IntegralTensor::from_tensor(self.t), &Default::default())
+            .ok()
+            .flatten()
+    }
+}
 
 /// Parameters of [`find_isomorphism`].
 #[derive(Clone, Debug)]
@@ -63,7 +111,7 @@ fn express(field: crate::scalar::FieldSpec, cols: &[Vec<Q>], v: &[Q]) -> Option<
     })
 }
 
-fn combine(d: &Dense, coeffs: &[Q], vecs: &[Vec<Q>]) -> Vec<Q> {
+fn combine(d: &Alg, coeffs: &[Q], vecs: &[Vec<Q>]) -> Vec<Q> {
     let mut out = vec![Q::zero(); d.n];
     for (c, v) in coeffs.iter().zip(vecs) {
         for (o, x) in out.iter_mut().zip(v) {
@@ -73,8 +121,10 @@ fn combine(d: &Dense, coeffs: &[Q], vecs: &[Vec<Q>]) -> Vec<Q> {
     d.reduce(out)
 }
 
-fn same(d: &Dense, a: &[Q], b: &[Q]) -> bool {
-    a.iter().zip(b).all(|(x, y)| d.is_zero(&(x - y)))
+fn same(d: &Alg, a: &[Q], b: &[Q]) -> bool {
+    d.reduce(a.iter().zip(b).map(|(x, y)| x - y).collect())
+        .iter()
+        .all(Zero::is_zero)
 }
 
 /// Words of the generated subalgebra: their vectors in X and their images in E.
@@ -85,7 +135,7 @@ struct Words {
 }
 
 /// Close the words under products, checking every relation in E. `None` on a conflict.
-fn close(dx: &Dense, de: &Dense, mut w: Words) -> Option<Words> {
+fn close(dx: &Alg, de: &Alg, mut w: Words) -> Option<Words> {
     loop {
         let mut grown = false;
         let len = w.xs.len();
@@ -107,7 +157,7 @@ fn close(dx: &Dense, de: &Dense, mut w: Words) -> Option<Words> {
                 }
             }
         }
-        if de.span_basis(&w.es).len() != w.es.len() {
+        if de.rank(&w.es) != w.es.len() {
             return None;
         }
         if !grown {
@@ -118,7 +168,7 @@ fn close(dx: &Dense, de: &Dense, mut w: Words) -> Option<Words> {
 
 /// The first linear relation among `start, g, g^2, ...` (right powers), as coefficients
 /// over `[start.., g, .., g^k]` with the last power last; `None` if none up to degree n+1.
-fn power_relation(d: &Dense, start: &[Vec<Q>], g: &[Q]) -> Option<(usize, Vec<Q>)> {
+fn power_relation(d: &Alg, start: &[Vec<Q>], g: &[Q]) -> Option<(usize, Vec<Q>)> {
     let mut vecs: Vec<Vec<Q>> = start.to_vec();
     let mut p = g.to_vec();
     for k in 1..=d.n + 1 {
@@ -131,7 +181,7 @@ fn power_relation(d: &Dense, start: &[Vec<Q>], g: &[Q]) -> Option<(usize, Vec<Q>
     None
 }
 
-fn satisfies_relation(d: &Dense, start: &[Vec<Q>], h: &[Q], rel: &(usize, Vec<Q>)) -> bool {
+fn satisfies_relation(d: &Alg, start: &[Vec<Q>], h: &[Q], rel: &(usize, Vec<Q>)) -> bool {
     let (k, l) = rel;
     let mut vecs: Vec<Vec<Q>> = start.to_vec();
     let mut p = h.to_vec();
@@ -158,13 +208,21 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
     if n > params.max_dim {
         return None;
     }
-    let dx = Dense::new(x);
-    let de = Dense::new(e);
+    let dx = Alg {
+        t: x,
+        field: x.field(),
+        n,
+    };
+    let de = Alg {
+        t: e,
+        field: e.field(),
+        n,
+    };
     if x.nnz() == 0 || e.nnz() == 0 {
         let id = Matrix::identity(&crate::scalar::Rationals, n);
         return (x.nnz() == 0 && e.nnz() == 0).then_some(id);
     }
-    let (ux, ue) = (unit_element(&dx), unit_element(&de));
+    let (ux, ue) = (dx.unit(), de.unit());
     if ux.is_some() != ue.is_some() {
         return None;
     }
@@ -250,8 +308,8 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
 }
 
 fn backtrack(
-    dx: &Dense,
-    de: &Dense,
+    dx: &Alg,
+    de: &Alg,
     gens: &[usize],
     cands: &[Vec<Vec<Q>>],
     level: usize,

@@ -9,8 +9,6 @@
 //! - [`identify`]: matching fingerprints and explicit isomorphisms ([`iso`]);
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
-mod checks;
-mod dense;
 pub mod doc;
 mod entries;
 pub mod facts;
@@ -19,9 +17,7 @@ pub mod identify;
 pub mod iso;
 pub mod meta;
 pub mod rank_facts;
-mod spaces;
 pub mod store;
-mod traceform;
 
 pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};

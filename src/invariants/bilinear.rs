@@ -7,10 +7,10 @@
 //! A triple is one vector: X (a^2 coordinates `l a + i`), then Y (b^2), then Z (c^2).
 //! Cost: systems of a b c (twice for the centroid) equations in a^2 + b^2 + c^2 unknowns.
 
-use super::equations;
-use super::solve::{SolveParams, Space, solve_nullspace};
-use super::system::IntTable;
+use super::equations::{Eq, System};
 use crate::error::Result;
+use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
+use crate::tensor::IntegralTensor;
 
 /// Which invariant of a bilinear map.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -23,15 +23,19 @@ pub enum MapInvariant {
 }
 
 /// A proven basis of the requested invariant.
-pub fn map_invariant(it: &IntTable, which: MapInvariant, params: &SolveParams) -> Result<Space> {
-    let sys = match which {
-        MapInvariant::CentroidTriples => equations::centroid_triples(it)?,
-        MapInvariant::DerivationTriples => equations::derivation_triples(it)?,
-        MapInvariant::AdjointPairs => equations::adjoint_pairs(it)?,
-        MapInvariant::LeftRadical => equations::radical_of_map(it, true)?,
-        MapInvariant::RightRadical => equations::radical_of_map(it, false)?,
+pub fn map_invariant(
+    k: &IntegralTensor,
+    which: MapInvariant,
+    params: &SolveParams,
+) -> Result<Space> {
+    let eq = match which {
+        MapInvariant::CentroidTriples => Eq::CentroidTriples,
+        MapInvariant::DerivationTriples => Eq::DerivationTriples,
+        MapInvariant::AdjointPairs => Eq::AdjointPairs,
+        MapInvariant::LeftRadical => Eq::MapRadical { left: true },
+        MapInvariant::RightRadical => Eq::MapRadical { left: false },
     };
-    solve_nullspace(&sys, params)
+    solve_nullspace(&System::new(k, &[eq]), params)
 }
 
 #[cfg(test)]
@@ -55,7 +59,7 @@ mod tests {
         // Y = Z: dim 1. Derivations: D1 x v + x D2 v = D3 x v: D3 = D1 + D2 with D2
         // arbitrary: dim 1 + 4 = 5. Adjoint pairs: f x v = x g v: g = f scalar: dim 1.
         // Radicals are 0 (by hand).
-        let it = IntTable::from_tensor(&scalar_times_vector()).unwrap();
+        let it = IntegralTensor::from_tensor(&scalar_times_vector());
         let p = SolveParams::default();
         let d = |w| map_invariant(&it, w, &p).unwrap().dim();
         assert_eq!(d(MapInvariant::CentroidTriples), 1);

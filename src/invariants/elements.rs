@@ -8,14 +8,15 @@
 //! - the two-sided unit, if any.
 //!
 //! Every result is a proven basis from [`solve_nullspace`] (vectors in the user's basis).
-//! Cost: the associator systems have n^3 / n... equations in n unknowns, built in
-//! O(n^3 + nnz^2 / n) steps; the others O(n nnz).
+//! Cost: the associator systems have n^3 equations in n unknowns, each block of n
+//! equations n products of a vector with a basis element; the others O(n nnz) terms.
 
-use super::equations::{self, Slot};
-use super::solve::{SolveParams, Space, solve_nullspace};
-use super::system::{IntTable, SparseSystem};
+use super::equations::{Eq, Slot, System};
 use crate::error::Result;
-use crate::scalar::{Field, PrimeField, Q};
+use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
+use crate::scalar::Q;
+use crate::tensor::IntegralTensor;
+#[cfg(test)]
 use num_traits::Zero;
 
 /// Which element subspace to compute.
@@ -32,129 +33,51 @@ pub enum ElementSpace {
     Annihilator,
 }
 
-/// The system whose solutions form the requested subspace.
-pub fn element_system(t: &IntTable, which: ElementSpace) -> Result<SparseSystem> {
-    use ElementSpace::*;
-    let stack = |parts: Vec<SparseSystem>| {
-        let mut s = t.system(t.dims[0]);
-        for p in &parts {
-            s.append(p);
-        }
-        s
-    };
-    Ok(match which {
-        CommutativeCentre => equations::commutator(t)?,
-        LeftNucleus => equations::associator(t, Slot::Left)?,
-        MiddleNucleus => equations::associator(t, Slot::Middle)?,
-        RightNucleus => equations::associator(t, Slot::Right)?,
-        Nucleus => stack(vec![
-            equations::associator(t, Slot::Left)?,
-            equations::associator(t, Slot::Middle)?,
-            equations::associator(t, Slot::Right)?,
-        ]),
-        Centre => stack(vec![
-            equations::commutator(t)?,
-            equations::associator(t, Slot::Left)?,
-            equations::associator(t, Slot::Middle)?,
-            equations::associator(t, Slot::Right)?,
-        ]),
-        LeftAnnihilator => equations::annihilator(t, true)?,
-        RightAnnihilator => equations::annihilator(t, false)?,
-        Annihilator => stack(vec![
-            equations::annihilator(t, true)?,
-            equations::annihilator(t, false)?,
-        ]),
-    })
-}
-
-/// A proven basis of the requested subspace of A. Cost: see the module documentation.
-///
-/// For the spaces defined by associators, a probe comes first: the equations of a seeded
-/// random sample of blocks `(e_j, e_k)` (4, 16, 64, ... of the n^2) are eliminated mod p;
-/// full column rank mod p proves the space is 0 (rank mod p <= rank over Q) without
-/// building the O(n^5)-term system of a dense algebra. Otherwise the full system is solved.
-pub fn element_space(t: &IntTable, which: ElementSpace, params: &SolveParams) -> Result<Space> {
-    use ElementSpace::*;
-    let n = t.dims[0];
-    let slots: &[Slot] = match which {
-        LeftNucleus => &[Slot::Left],
-        MiddleNucleus => &[Slot::Middle],
-        RightNucleus => &[Slot::Right],
-        Nucleus | Centre => &[Slot::Left, Slot::Middle, Slot::Right],
-        _ => &[],
-    };
-    if !slots.is_empty() && n > 8 {
-        use rand::SeedableRng;
-        use rand::seq::SliceRandom;
-        let mut order: Vec<usize> = (0..n * n).collect();
-        order.shuffle(&mut rand_chacha::ChaCha8Rng::seed_from_u64(params.seed));
-        let p = match t.modulus {
-            Some(p) if p < (1 << crate::linalg::modular::KERNEL_PRIME_BITS) => Some(p),
-            Some(_) => None,
-            None => Some(crate::linalg::modular::kernel_primes(1)[0]),
-        };
-        let mut take = 4;
-        while let Some(p) = p
-            && take < n * n
-            && take <= 256
-        {
-            let mut sys = t.system(n);
-            if which == Centre {
-                sys.append(&equations::commutator(t)?);
+impl ElementSpace {
+    /// The families of equations that cut out the subspace.
+    pub fn equations(self) -> Vec<Eq> {
+        use ElementSpace::*;
+        let assoc = [
+            Eq::Associator(Slot::Left),
+            Eq::Associator(Slot::Middle),
+            Eq::Associator(Slot::Right),
+        ];
+        match self {
+            CommutativeCentre => vec![Eq::Commutator],
+            LeftNucleus => vec![Eq::Associator(Slot::Left)],
+            MiddleNucleus => vec![Eq::Associator(Slot::Middle)],
+            RightNucleus => vec![Eq::Associator(Slot::Right)],
+            Nucleus => assoc.to_vec(),
+            Centre => {
+                let mut v = vec![Eq::Commutator];
+                v.extend(assoc);
+                v
             }
-            for &sl in slots {
-                sys.append(&equations::associator_blocks(t, sl, Some(&order[..take]))?);
-            }
-            if probe_full_rank(&sys, p) {
-                return Ok(Space {
-                    unknowns: n,
-                    basis: Vec::new(),
-                });
-            }
-            take *= 4;
+            LeftAnnihilator => vec![Eq::Annihilator { left: true }],
+            RightAnnihilator => vec![Eq::Annihilator { left: false }],
+            Annihilator => vec![
+                Eq::Annihilator { left: true },
+                Eq::Annihilator { left: false },
+            ],
         }
     }
-    solve_nullspace(&element_system(t, which)?, params)
 }
 
-/// True when the system has full column rank modulo p (so only 0 solves it over Q).
-fn probe_full_rank(sys: &SparseSystem, p: u64) -> bool {
-    let n = sys.unknowns;
-    let mut data = vec![0u64; sys.rows() * n];
-    for r in 0..sys.rows() {
-        let (cols, vals) = sys.row(r);
-        for (&c, &v) in cols.iter().zip(vals) {
-            data[r * n + c as usize] = v.rem_euclid(p as i64) as u64;
-        }
-    }
-    crate::linalg::modular::rref_mod(&mut data, sys.rows(), n, p, false).len() == n
+/// A proven basis of the requested subspace of A. Cost: see the module documentation; for
+/// a dense table the associator equations are produced block by block and the elimination
+/// stops as soon as the rank mod p is full (a proof that the space is 0).
+pub fn element_space(
+    k: &IntegralTensor,
+    which: ElementSpace,
+    params: &SolveParams,
+) -> Result<Space> {
+    solve_nullspace(&System::new(k, &which.equations()), params)
 }
 
 /// The two-sided unit of A, if any (exact; checked against every equation
-/// `u e_j = e_j = e_j u`). Cost: one system of 2 n^2 equations in n + 1 unknowns.
-pub fn unit(t: &IntTable, params: &SolveParams) -> Result<Option<Vec<Q>>> {
-    let n = t.dims[0];
-    let sp = solve_nullspace(&equations::unit(t)?, params)?;
-    let Some(v) = sp.basis.iter().find(|v| !v[n].is_zero()) else {
-        return Ok(None);
-    };
-    // the unit of the scaled algebra is u / s; the unit of A is L u / s
-    let u: Vec<Q> = match t.modulus {
-        None => {
-            let f = Q::from_integer(t.scale.clone()) / &v[n];
-            v[..n].iter().map(|x| x * &f).collect()
-        }
-        Some(p) => {
-            let f = PrimeField::new(p).expect("prime");
-            let s = f.from_rational(&v[n]).expect("residue");
-            let si = f.inv(&s).expect("nonzero");
-            v[..n]
-                .iter()
-                .map(|x| f.to_rational(&f.mul(&f.from_rational(x).expect("residue"), &si)))
-                .collect()
-        }
-    };
-    Ok(Some(u))
+/// `u e_j = e_j = e_j u`; see [`crate::laws::find_unit`]).
+pub fn unit(k: &IntegralTensor, params: &SolveParams) -> Result<Option<Vec<Q>>> {
+    crate::laws::find_unit(k, params)
 }
 
 #[cfg(test)]
@@ -166,7 +89,7 @@ mod tests {
     fn quaternion_centre_and_unit() {
         // H is central simple over Q with unit 1: centre = Q 1, nucleus = H (associative).
         // Source: Jacobson 1980, Basic Algebra II (quaternion algebras are central simple).
-        let t = IntTable::from_tensor(&quaternions()).unwrap();
+        let t = IntegralTensor::from_tensor(&quaternions());
         let p = SolveParams::default();
         assert_eq!(
             element_space(&t, ElementSpace::Centre, &p).unwrap().dim(),
@@ -193,7 +116,7 @@ mod tests {
     fn triangular_annihilators() {
         // upper triangular 2x2 (basis e11, e12, e22): unit e11 + e22, centre = scalars;
         // e12 annihilates on neither side alone (e11 e12 = e12), common practice.
-        let t = IntTable::from_tensor(&upper_triangular_2()).unwrap();
+        let t = IntegralTensor::from_tensor(&upper_triangular_2());
         let p = SolveParams::default();
         assert_eq!(
             element_space(&t, ElementSpace::Centre, &p).unwrap().dim(),

@@ -1,33 +1,20 @@
-//! The defining equations of every invariant, built in one place as sparse systems.
+//! The defining equations of every invariant, in one place, as systems the engine of
+//! [`crate::linalg::nullspace`] solves ([`System`] implements [`RowSource`]).
 //!
-//! Notation: `e_i e_j = sum_k c[i][j][k] e_k` (integer-scaled, see [`IntTable`]). A vector
+//! Notation: `e_i e_j = sum_k c[i][j][k] e_k` (integer-scaled, see [`IntegralTensor`]). A vector
 //! unknown x has coordinates `x_i` (column i). A linear map X has `X(e_i) = sum_l X[l][i] e_l`
 //! and unknown `X[l][i]` in column `offset + l * n + i`, n the dimension of its space.
-//! Each function states its equations; all systems are homogeneous.
-//! Cost: each builder touches every product once per equation block, O(n * nnz) terms
-//! (O(n^3) loop steps plus O(nnz^2 / n) terms for the degree-2 associator systems).
+//! Each variant of [`Eq`] states its equations; all systems are homogeneous. Every term is
+//! a single constant (or 1) except in the associator systems (a coordinate of an
+//! associator, at most `2 L C` with L the row norm and C the largest constant) and the
+//! trace form (a constant times a trace, at most `n C^2`); [`RowSource::term_bits`] states
+//! this bound for the exact check.
+//! Cost of writing a system modulo one prime: O(n nnz) terms for the linear ones; for the
+//! associator systems n^2 blocks of n products of a vector with a basis element.
 
-use super::system::{BlockBuf, IntTable, SparseSystem};
-use crate::error::Result;
-
-/// Commutator: `x e_j - e_j x = 0` for all j (unknowns: x, n columns).
-pub fn commutator(t: &IntTable) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let mut s = t.system(n);
-    let mut b = BlockBuf::default();
-    for j in 0..n {
-        for i in 0..n {
-            for &(k, c) in t.product(i, j) {
-                b.add(k, i, c as i128);
-            }
-            for &(k, c) in t.product(j, i) {
-                b.add(k, i, -(c as i128));
-            }
-        }
-        s.push_block(&mut b)?;
-    }
-    Ok(s)
-}
+use crate::linalg::system::{RowBuf, RowSource};
+use crate::tensor::IntegralTensor;
+use crate::tensor::products::{DenseOps, Ops, SparseOps};
 
 /// Which argument of the associator `(a, b, c) = (ab)c - a(bc)` the unknown occupies.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -37,282 +24,371 @@ pub enum Slot {
     Right,
 }
 
-/// Associator: `(x, e_j, e_k) = 0` (Left), `(e_j, x, e_k) = 0` (Middle) or
-/// `(e_j, e_k, x) = 0` (Right) for all j, k (unknowns: x).
-pub fn associator(t: &IntTable, slot: Slot) -> Result<SparseSystem> {
-    associator_blocks(t, slot, None)
+/// One family of equations.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Eq {
+    /// `x e_j - e_j x = 0` for all j (unknowns: x).
+    Commutator,
+    /// `(x, e_j, e_k) = 0` (Left), `(e_j, x, e_k) = 0` (Middle) or `(e_j, e_k, x) = 0`
+    /// (Right) for all j, k (unknowns: x).
+    Associator(Slot),
+    /// `x e_j = 0` (left) or `e_j x = 0` for all j (unknowns: x).
+    Annihilator { left: bool },
+    /// `X(e_i e_j) - X(e_i) e_j = 0` and `X(e_i e_j) - e_i X(e_j) = 0` (unknowns X).
+    Centroid,
+    /// `D(e_i e_j) - D(e_i) e_j - e_i D(e_j) = 0` (unknowns D).
+    Derivations,
+    /// `T(f u, v) = T(u, g v)`; unknowns f (a^2 columns) then g (b^2 columns).
+    AdjointPairs,
+    /// `T(D1 u, v) + T(u, D2 v) = D3 T(u, v)`; unknowns D1, D2, D3.
+    DerivationTriples,
+    /// `T(X u, v) = Z T(u, v)` and `T(u, Y v) = Z T(u, v)`; unknowns X, Y, Z.
+    CentroidTriples,
+    /// `{u : T(u, v) = 0 for all v}` (left, a columns) or `{v : T(u, v) = 0 for all u}`.
+    MapRadical { left: bool },
+    /// Trace form of an algebra: `Tr(L_{x e_j}) = 0` for all j, and `Tr(L_x) = 0`
+    /// (unknowns x); `Tr(L_{e_m}) = sum_t c[m][t][t]`.
+    TraceForm,
 }
 
-/// The associator equations of the blocks `(j, k) = (b / n, b % n)` for b in `blocks`
-/// (all n^2 blocks when `None`): a subsystem used to probe for a trivial solution space.
-pub fn associator_blocks(
-    t: &IntTable,
-    slot: Slot,
-    blocks: Option<&[usize]>,
-) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let all: Vec<usize>;
-    let blocks = match blocks {
-        Some(b) => b,
-        None => {
-            all = (0..n * n).collect();
-            &all
-        }
-    };
-    let mut s = t.system(n);
-    let mut b = BlockBuf::default();
-    // (a b) c - a (b c) with the unknown basis vector e_i in the given slot, accumulated
-    // densely over the result coordinate m
-    let mut acc = vec![0i128; n];
-    let mut touched: Vec<usize> = Vec::new();
-    for &blk in blocks {
-        let (j, k) = (blk / n, blk % n);
-        {
-            for i in 0..n {
-                let (x, y, z) = match slot {
-                    Slot::Left => (i, j, k),
-                    Slot::Middle => (j, i, k),
-                    Slot::Right => (j, k, i),
-                };
-                for &(u, c1) in t.product(x, y) {
-                    for &(m, c2) in t.product(u, z) {
-                        if acc[m] == 0 {
-                            touched.push(m);
-                        }
-                        acc[m] += t.mul(c1, c2 as i128);
-                    }
-                }
-                for &(u, c1) in t.product(y, z) {
-                    for &(m, c2) in t.product(x, u) {
-                        if acc[m] == 0 {
-                            touched.push(m);
-                        }
-                        acc[m] -= t.mul(c1, c2 as i128);
-                    }
-                }
-                for &m in &touched {
-                    b.add(m, i, acc[m]);
-                    acc[m] = 0;
-                }
-                touched.clear();
-            }
-            s.push_block(&mut b)?;
-        }
-    }
-    Ok(s)
-}
-
-/// Left annihilator `x e_j = 0` (left = true) or right annihilator `e_j x = 0`, all j.
-pub fn annihilator(t: &IntTable, left: bool) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let mut s = t.system(n);
-    let mut b = BlockBuf::default();
-    for j in 0..n {
-        add_products_with(t, j, n, left, &mut b);
-        s.push_block(&mut b)?;
-    }
-    Ok(s)
-}
-
-/// Adds to block `b` the terms `x e_o` (left = true) or `e_o x` (left = false) of an
-/// unknown vector x with `inner` coordinates (column x_i), one row per result coordinate.
-fn add_products_with(t: &IntTable, o: usize, inner: usize, left: bool, b: &mut BlockBuf) {
-    for x in 0..inner {
-        let prod = if left {
-            t.product(x, o)
-        } else {
-            t.product(o, x)
-        };
-        for &(k, c) in prod {
-            b.add(k, x, c as i128);
-        }
-    }
-}
-
-/// The unit, homogenised: unknowns (u, s) (n + 1 columns) with
-/// `u e_j - s e_j = 0` and `e_j u - s e_j = 0` for all j. A solution with s != 0 gives the
-/// two-sided unit u / s; the constants being scaled by L, it is then L u / s in A.
-pub fn unit(t: &IntTable) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let mut s = t.system(n + 1);
-    let mut b = BlockBuf::default();
-    for left in [true, false] {
-        for j in 0..n {
-            add_products_with(t, j, n, left, &mut b);
-            b.add(j, n, -1);
-            s.push_block(&mut b)?;
-        }
-    }
-    Ok(s)
-}
-
-/// Centroid: `X(e_i e_j) - X(e_i) e_j = 0` and `X(e_i e_j) - e_i X(e_j) = 0` (unknowns X).
-pub fn centroid(t: &IntTable) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let mut s = t.system(n * n);
-    let mut b = BlockBuf::default();
-    for i in 0..n {
-        for j in 0..n {
-            for side in 0..2 {
-                add_map_of_product(t, i, j, &mut b);
-                if side == 0 {
-                    add_map_times_basis(t, i, j, &mut b);
+impl Eq {
+    /// Number of unknowns on a tensor of dimensions `[a, b, c]`.
+    pub fn unknowns(self, [a, b, c]: [usize; 3]) -> usize {
+        match self {
+            Eq::Commutator | Eq::Associator(_) | Eq::Annihilator { .. } | Eq::TraceForm => a,
+            Eq::Centroid | Eq::Derivations => a * a,
+            Eq::AdjointPairs => a * a + b * b,
+            Eq::DerivationTriples | Eq::CentroidTriples => a * a + b * b + c * c,
+            Eq::MapRadical { left } => {
+                if left {
+                    a
                 } else {
-                    add_basis_times_map(t, i, j, &mut b);
-                }
-                s.push_block(&mut b)?;
-            }
-        }
-    }
-    Ok(s)
-}
-
-/// Derivations: `D(e_i e_j) - D(e_i) e_j - e_i D(e_j) = 0` (unknowns D).
-pub fn derivations(t: &IntTable) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let mut s = t.system(n * n);
-    let mut b = BlockBuf::default();
-    for i in 0..n {
-        for j in 0..n {
-            add_map_of_product(t, i, j, &mut b);
-            add_map_times_basis(t, i, j, &mut b);
-            add_basis_times_map(t, i, j, &mut b);
-            s.push_block(&mut b)?;
-        }
-    }
-    Ok(s)
-}
-
-/// Adds `+X(e_i e_j)` (unknown map X on an n-dimensional algebra, offset 0) to block `b`.
-fn add_map_of_product(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
-    let n = t.dims[0];
-    for &(m, c) in t.product(i, j) {
-        for k in 0..n {
-            b.add(k, k * n + m, c as i128);
-        }
-    }
-}
-
-/// Adds `-X(e_i) e_j` (unknown map X, offset 0) to block `b`.
-fn add_map_times_basis(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
-    let n = t.dims[0];
-    for &(l, k, c) in &t.by_right[j] {
-        b.add(k, l * n + i, -(c as i128));
-    }
-}
-
-/// Adds `-e_i X(e_j)` (unknown map X, offset 0) to block `b`.
-fn add_basis_times_map(t: &IntTable, i: usize, j: usize, b: &mut BlockBuf) {
-    let n = t.dims[0];
-    for l in 0..n {
-        for &(k, c) in t.product(i, l) {
-            b.add(k, l * n + j, -(c as i128));
-        }
-    }
-}
-
-/// Pairs of maps (X on the left space, Y on the right space) with
-/// `T(X e_i, e_j) * sx + T(e_i, Y e_j) * sy - Z T(e_i, e_j) * sz = 0`, unknowns
-/// `X` (offset 0), `Y` (offset a^2), `Z` (offset a^2 + b^2, only when `sz != 0`).
-/// With a = b = c this covers adjoint pairs (1, -1, 0) and derivation triples (1, 1, 1).
-fn map_equations(t: &IntTable, sx: i128, sy: i128, sz: i128, s: &mut SparseSystem) -> Result<()> {
-    let [a, bd, c] = t.dims;
-    let (oy, oz) = (a * a, a * a + bd * bd);
-    let mut b = BlockBuf::default();
-    for i in 0..a {
-        for j in 0..bd {
-            if sx != 0 {
-                for &(l, k, v) in &t.by_right[j] {
-                    b.add(k, l * a + i, sx * v as i128);
+                    b
                 }
             }
-            if sy != 0 {
-                for l in 0..bd {
-                    for &(k, v) in t.product(i, l) {
-                        b.add(k, oy + l * bd + j, sy * v as i128);
+        }
+    }
+
+    fn blocks(self, [a, b, _]: [usize; 3]) -> usize {
+        match self {
+            Eq::Commutator | Eq::Annihilator { .. } => a,
+            Eq::Associator(_) | Eq::Derivations => a * a,
+            Eq::Centroid => 2 * a * a,
+            Eq::AdjointPairs | Eq::DerivationTriples => a * b,
+            Eq::CentroidTriples => 2 * a * b,
+            Eq::MapRadical { left } => {
+                if left {
+                    b
+                } else {
+                    a
+                }
+            }
+            Eq::TraceForm => a + 1,
+        }
+    }
+}
+
+/// A homogeneous system made of one or more families of equations on the same unknowns.
+pub struct System<'a> {
+    k: &'a IntegralTensor,
+    parts: Vec<Eq>,
+    starts: Vec<usize>,
+    unknowns: usize,
+}
+
+impl<'a> System<'a> {
+    /// The equations of all `parts` (which must have the same unknowns).
+    pub fn new(k: &'a IntegralTensor, parts: &[Eq]) -> Self {
+        let dims = k.dims;
+        let unknowns = parts[0].unknowns(dims);
+        debug_assert!(parts.iter().all(|p| p.unknowns(dims) == unknowns));
+        let mut starts = vec![0];
+        for p in parts {
+            starts.push(starts.last().expect("start") + p.blocks(dims));
+        }
+        System {
+            k,
+            parts: parts.to_vec(),
+            starts,
+            unknowns,
+        }
+    }
+}
+
+impl RowSource for System<'_> {
+    fn unknowns(&self) -> usize {
+        self.unknowns
+    }
+    fn blocks(&self) -> usize {
+        *self.starts.last().expect("start")
+    }
+    fn modulus(&self) -> Option<u64> {
+        self.k.modulus()
+    }
+    fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
+        let part = self.starts.partition_point(|&s| s <= b) - 1;
+        write_block(self.k, self.parts[part], b - self.starts[part], p, out);
+    }
+    fn term_bits(&self) -> u64 {
+        let cb = self.k.constant_bits();
+        let n = self.k.dims[0].max(1) as u64;
+        self.parts
+            .iter()
+            .map(|p| match p {
+                Eq::Associator(_) => self.k.row_norm_bits().max(1) + cb + 1,
+                Eq::TraceForm => (64 - n.leading_zeros() as u64) + 2 * cb,
+                _ => cb,
+            })
+            .max()
+            .unwrap_or(cb)
+    }
+    fn estimated_terms(&self) -> usize {
+        let [a, b, c] = self.k.dims;
+        let nnz = self.k.nnz();
+        self.parts
+            .iter()
+            .map(|p| match p {
+                Eq::Associator(_) => {
+                    if self.k.dense {
+                        a * a * a * a
+                    } else {
+                        a * nnz * 4
                     }
                 }
-            }
-            if sz != 0 {
-                for &(m, v) in t.product(i, j) {
-                    for k in 0..c {
-                        b.add(k, oz + k * c + m, -sz * v as i128);
-                    }
+                Eq::Centroid => 2 * (a * nnz + a * a * nnz / b.max(1)),
+                Eq::Derivations => a * nnz + 2 * a * a * nnz / b.max(1),
+                Eq::AdjointPairs | Eq::DerivationTriples | Eq::CentroidTriples => {
+                    2 * (a.max(b).max(c)) * nnz
+                }
+                _ => 2 * nnz + a,
+            })
+            .sum()
+    }
+    fn prefers_streaming(&self) -> bool {
+        self.k.dense
+    }
+}
+
+/// Write block `b` of one family modulo p.
+fn write_block(k: &IntegralTensor, eq: Eq, b: usize, p: u64, out: &mut RowBuf) {
+    let t = k.residues(p);
+    let [a, bd, c] = k.dims;
+    let n = a;
+    match eq {
+        Eq::Commutator => {
+            let j = b;
+            for i in 0..n {
+                let (ks, vs) = t.row(i, j);
+                for (&kk, &v) in ks.iter().zip(vs) {
+                    out.add(kk as usize, i, v as u64);
+                }
+                let (ks, vs) = t.row(j, i);
+                for (&kk, &v) in ks.iter().zip(vs) {
+                    out.sub(kk as usize, i, v as u64);
                 }
             }
-            s.push_block(&mut b)?;
+            out.end_block(n);
         }
-    }
-    Ok(())
-}
-
-/// Adjoint pairs: `T(f u, v) = T(u, g v)`; unknowns f (a^2 columns) then g (b^2 columns).
-pub fn adjoint_pairs(t: &IntTable) -> Result<SparseSystem> {
-    let [a, b, _] = t.dims;
-    let mut s = t.system(a * a + b * b);
-    map_equations(t, 1, -1, 0, &mut s)?;
-    Ok(s)
-}
-
-/// Derivation triples: `T(D1 u, v) + T(u, D2 v) = D3 T(u, v)`; unknowns D1, D2, D3.
-pub fn derivation_triples(t: &IntTable) -> Result<SparseSystem> {
-    let [a, b, c] = t.dims;
-    let mut s = t.system(a * a + b * b + c * c);
-    map_equations(t, 1, 1, 1, &mut s)?;
-    Ok(s)
-}
-
-/// Centroid triples: `T(X u, v) = Z T(u, v)` and `T(u, Y v) = Z T(u, v)`; unknowns X, Y, Z.
-pub fn centroid_triples(t: &IntTable) -> Result<SparseSystem> {
-    let [a, b, c] = t.dims;
-    let mut s = t.system(a * a + b * b + c * c);
-    map_equations(t, 1, 0, 1, &mut s)?;
-    map_equations(t, 0, 1, 1, &mut s)?;
-    Ok(s)
-}
-
-/// Left radical `{u : T(u, v) = 0 for all v}` (left = true, unknowns u, a columns) or right
-/// radical `{v : T(u, v) = 0 for all u}` (b columns).
-pub fn radical_of_map(t: &IntTable, left: bool) -> Result<SparseSystem> {
-    let [a, bd, _] = t.dims;
-    let mut s = t.system(if left { a } else { bd });
-    let mut b = BlockBuf::default();
-    let (outer, inner) = if left { (bd, a) } else { (a, bd) };
-    for o in 0..outer {
-        add_products_with(t, o, inner, left, &mut b);
-        s.push_block(&mut b)?;
-    }
-    Ok(s)
-}
-
-/// Trace form of an algebra: `T(x, e_j) = Tr(L_{x e_j}) = 0` for all j, and `Tr(L_x) = 0`
-/// (unknowns x). `Tr(L_{e_m}) = sum_t c[m][t][t]`.
-pub fn trace_form(t: &IntTable) -> Result<SparseSystem> {
-    let n = t.dims[0];
-    let tau: Vec<i128> = (0..n)
-        .map(|m| (0..n).map(|u| coeff(t, m, u, u) as i128).sum::<i128>())
-        .collect();
-    let mut s = t.system(n);
-    let mut b = BlockBuf::default();
-    for j in 0..n {
-        for i in 0..n {
-            for &(m, c) in t.product(i, j) {
-                b.add(0, i, t.mul(c, tau[m]));
+        Eq::Associator(slot) => {
+            if t.is_dense() {
+                associator_block(&DenseOps::new(t, &[]), slot, b, n, out);
+            } else {
+                associator_block(&SparseOps::new(t), slot, b, n, out);
             }
         }
-        s.push_block(&mut b)?;
+        Eq::Annihilator { left } => {
+            products_with(t, b, n, left, out);
+            out.end_block(n);
+        }
+        Eq::Centroid => {
+            let (ij, side) = (b / 2, b % 2);
+            let (i, j) = (ij / n, ij % n);
+            map_of_product(t, i, j, n, out);
+            if side == 0 {
+                map_times_basis(k, t, i, j, n, 0, out, true);
+            } else {
+                basis_times_map(t, i, j, n, 0, out, true);
+            }
+            out.end_block(n);
+        }
+        Eq::Derivations => {
+            let (i, j) = (b / n, b % n);
+            map_of_product(t, i, j, n, out);
+            map_times_basis(k, t, i, j, n, 0, out, true);
+            basis_times_map(t, i, j, n, 0, out, true);
+            out.end_block(n);
+        }
+        Eq::AdjointPairs => map_block(k, t, b, (1, -1, 0), out),
+        Eq::DerivationTriples => map_block(k, t, b, (1, 1, 1), out),
+        Eq::CentroidTriples => {
+            let signs = if b < a * bd { (1, 0, 1) } else { (0, 1, 1) };
+            map_block(k, t, b % (a * bd), signs, out);
+        }
+        Eq::MapRadical { left } => {
+            let inner = if left { a } else { bd };
+            products_with(t, b, inner, left, out);
+            out.end_block(c);
+        }
+        Eq::TraceForm => {
+            let tau: Vec<u64> = (0..n)
+                .map(|m| {
+                    (0..n)
+                        .map(|u| coeff(t, m, u, u))
+                        .fold(0u64, |s, x| (s + x) % p)
+                })
+                .collect();
+            if b < n {
+                let j = b;
+                for i in 0..n {
+                    let (ks, vs) = t.row(i, j);
+                    for (&m, &v) in ks.iter().zip(vs) {
+                        out.add_product(0, i, v as u64, tau[m as usize], false);
+                    }
+                }
+            } else {
+                for (i, &ti) in tau.iter().enumerate() {
+                    out.add(0, i, ti);
+                }
+            }
+            out.end_block(1);
+        }
     }
-    for (i, &ti) in tau.iter().enumerate() {
-        b.add(0, i, ti);
-    }
-    s.push_block(&mut b)?;
-    Ok(s)
 }
 
-/// The coefficient `c[i][j][k]`.
-pub fn coeff(t: &IntTable, i: usize, j: usize, k: usize) -> i64 {
-    let p = t.product(i, j);
-    p.binary_search_by_key(&k, |e| e.0)
-        .map(|x| p[x].1)
+/// The residue of `c[i][j][k]` (0 when absent).
+pub fn coeff(t: &crate::tensor::ModTable, i: usize, j: usize, k: usize) -> u64 {
+    let (ks, vs) = t.row(i, j);
+    ks.binary_search(&(k as u32))
+        .map(|x| vs[x] as u64)
         .unwrap_or(0)
+}
+
+/// `(x, e_j, e_k)`-type associators with the unknown basis vector `e_i` in the slot, for
+/// block `(j, k) = (b / n, b % n)`: row m, column i.
+fn associator_block<O: Ops>(o: &O, slot: Slot, b: usize, n: usize, out: &mut RowBuf) {
+    let (j, k) = (b / n, b % n);
+    let m1 = (o.p() - 1) as u32;
+    let mut acc = o.new_acc();
+    for i in 0..n {
+        let (x, y, z) = match slot {
+            Slot::Left => (i, j, k),
+            Slot::Middle => (j, i, k),
+            Slot::Right => (j, k, i),
+        };
+        o.add_pb(&mut acc, 1, x, y, z);
+        o.add_bp(&mut acc, m1, x, y, z);
+        for (m, v) in o.drain(&mut acc) {
+            out.add(m, i, v);
+        }
+    }
+    out.end_block(n);
+}
+
+/// Adds the terms `x e_o` (left) or `e_o x` of an unknown vector x with `inner`
+/// coordinates (column x_i), one row per result coordinate.
+pub fn products_with(
+    t: &crate::tensor::ModTable,
+    o: usize,
+    inner: usize,
+    left: bool,
+    out: &mut RowBuf,
+) {
+    for x in 0..inner {
+        let (ks, vs) = if left { t.row(x, o) } else { t.row(o, x) };
+        for (&kk, &v) in ks.iter().zip(vs) {
+            out.add(kk as usize, x, v as u64);
+        }
+    }
+}
+
+/// Adds `+X(e_i e_j)` (unknown map X on an n-dimensional space, offset 0).
+fn map_of_product(t: &crate::tensor::ModTable, i: usize, j: usize, n: usize, out: &mut RowBuf) {
+    let (ms, vs) = t.row(i, j);
+    for (&m, &v) in ms.iter().zip(vs) {
+        for kk in 0..n {
+            out.add(kk, kk * n + m as usize, v as u64);
+        }
+    }
+}
+
+/// Adds `-X(e_i) e_j` (or `+` when not `negative`), X at `offset` on a space of dimension
+/// `dim` (rows: result coordinates).
+#[allow(clippy::too_many_arguments)]
+fn map_times_basis(
+    k: &IntegralTensor,
+    t: &crate::tensor::ModTable,
+    i: usize,
+    j: usize,
+    dim: usize,
+    offset: usize,
+    out: &mut RowBuf,
+    negative: bool,
+) {
+    for &(l, kk, pos) in k.by_right(j) {
+        let v = t.value(pos as usize) as u64;
+        let col = offset + l as usize * dim + i;
+        if negative {
+            out.sub(kk as usize, col, v);
+        } else {
+            out.add(kk as usize, col, v);
+        }
+    }
+}
+
+/// Adds `-e_i X(e_j)` (or `+`), X at `offset` on the right space of dimension `dim`.
+fn basis_times_map(
+    t: &crate::tensor::ModTable,
+    i: usize,
+    j: usize,
+    dim: usize,
+    offset: usize,
+    out: &mut RowBuf,
+    negative: bool,
+) {
+    for l in 0..dim {
+        let (ks, vs) = t.row(i, l);
+        for (&kk, &v) in ks.iter().zip(vs) {
+            let col = offset + l * dim + j;
+            if negative {
+                out.sub(kk as usize, col, v as u64);
+            } else {
+                out.add(kk as usize, col, v as u64);
+            }
+        }
+    }
+}
+
+/// Block `(i, j)` of `T(X e_i, e_j) sx + T(e_i, Y e_j) sy - Z T(e_i, e_j) sz = 0` with
+/// unknowns X (offset 0), Y (offset a^2), Z (offset a^2 + b^2, only when sz != 0);
+/// signs in {-1, 0, 1}. Rows: the result coordinates.
+fn map_block(
+    k: &IntegralTensor,
+    t: &crate::tensor::ModTable,
+    b: usize,
+    (sx, sy, sz): (i32, i32, i32),
+    out: &mut RowBuf,
+) {
+    let [a, bd, c] = k.dims;
+    let (oy, oz) = (a * a, a * a + bd * bd);
+    let (i, j) = (b / bd, b % bd);
+    if sx != 0 {
+        map_times_basis(k, t, i, j, a, 0, out, sx < 0);
+    }
+    if sy != 0 {
+        basis_times_map(t, i, j, bd, oy, out, sy < 0);
+    }
+    if sz != 0 {
+        let (ms, vs) = t.row(i, j);
+        for (&m, &v) in ms.iter().zip(vs) {
+            for kk in 0..c {
+                let col = oz + kk * c + m as usize;
+                if sz > 0 {
+                    out.sub(kk, col, v as u64);
+                } else {
+                    out.add(kk, col, v as u64);
+                }
+            }
+        }
+    }
+    out.end_block(c);
 }

@@ -12,14 +12,14 @@
 //! terms in n^2 (2 n^2) unknowns; see [`super::solve`] for the elimination.
 
 use super::elements::{ElementSpace, element_space};
-use super::equations;
-use super::solve::{SolveParams, Space, solve_nullspace};
-use super::system::IntTable;
+use super::equations::{Eq, System};
 use crate::error::Result;
 use crate::linalg::Matrix;
+use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
 use crate::scalar::Q;
+use crate::tensor::IntegralTensor;
 use crate::tensor::{Tensor, flattening, rank_over};
-use num_traits::Zero;
+use num_traits::{One, Zero};
 
 /// The centroid and its properties.
 #[derive(Clone, Debug)]
@@ -37,14 +37,13 @@ pub struct Centroid {
 /// The centroid of an algebra. Commutativity: when A^2 = A it is a theorem (for X, Y in
 /// C(A): XY(ab) = X(a Y(b)) = X(a) Y(b) = Y(X(a) b) = YX(ab); Jacobson 1962, Lie Algebras,
 /// ch. X); otherwise the basis maps are multiplied exactly (when n <= 32 and dim <= 32).
-pub fn centroid(t: &Tensor, it: &IntTable, params: &SolveParams) -> Result<Centroid> {
-    let n = it.dims[0];
-    let space = solve_nullspace(&equations::centroid(it)?, params)?;
+pub fn centroid(t: &Tensor, k: &IntegralTensor, params: &SolveParams) -> Result<Centroid> {
+    let n = k.dims[0];
+    let space = solve_nullspace(&System::new(k, &[Eq::Centroid]), params)?;
     let d = space.dim();
-    let square_full = rank_over(t.field(), &flattening(t, 2)) == n;
     let (commutative, reason) = if d <= 1 {
         (Some(true), "dimension at most 1".to_string())
-    } else if square_full {
+    } else if rank_over(t.field(), &flattening(t, 2)) == n {
         (
             Some(true),
             "A^2 = A, so the centroid is commutative (theorem)".to_string(),
@@ -70,10 +69,8 @@ pub fn centroid(t: &Tensor, it: &IntTable, params: &SolveParams) -> Result<Centr
 fn maps_commute(t: &Tensor, space: &Space, n: usize) -> bool {
     crate::with_field!(t.field(), f => {
         use crate::scalar::Field;
-        let mats: Vec<Matrix<_>> = space
-            .basis
-            .iter()
-            .map(|v| to_matrix(v, n, 0).map(|x| f.from_rational(x).expect("in field")))
+        let mats: Vec<Matrix<_>> = (0..space.dim())
+            .map(|i| to_matrix(&space.dense(i), n, 0).map(|x| f.from_rational(x).expect("in field")))
             .collect();
         for a in 0..mats.len() {
             for b in a + 1..mats.len() {
@@ -87,47 +84,46 @@ fn maps_commute(t: &Tensor, space: &Space, n: usize) -> bool {
 }
 
 /// The derivation algebra Der(A) (proven basis).
-pub fn derivations(it: &IntTable, params: &SolveParams) -> Result<Space> {
-    solve_nullspace(&equations::derivations(it)?, params)
+pub fn derivations(k: &IntegralTensor, params: &SolveParams) -> Result<Space> {
+    solve_nullspace(&System::new(k, &[Eq::Derivations]), params)
 }
 
 /// The adjoint algebra: pairs (f, g) with `f(a) b = a g(b)`; a vector holds f (first n^2
 /// coordinates) then g.
-pub fn adjoint_algebra(it: &IntTable, params: &SolveParams) -> Result<Space> {
-    solve_nullspace(&equations::adjoint_pairs(it)?, params)
+pub fn adjoint_algebra(k: &IntegralTensor, params: &SolveParams) -> Result<Space> {
+    solve_nullspace(&System::new(k, &[Eq::AdjointPairs]), params)
 }
 
 /// Inner derivations of an associative (`lie = false`) or Lie (`lie = true`) algebra:
 /// a basis `ad_{e_p}` for p outside the free coordinates of the kernel of `x -> ad_x`.
-pub fn inner_derivations(it: &IntTable, lie: bool, params: &SolveParams) -> Result<Space> {
-    let n = it.dims[0];
+pub fn inner_derivations(k: &IntegralTensor, lie: bool, params: &SolveParams) -> Result<Space> {
+    let n = k.dims[0];
     let which = if lie {
         ElementSpace::LeftAnnihilator
     } else {
         ElementSpace::CommutativeCentre
     };
-    let ker = element_space(it, which, params)?;
-    // free coordinate of each reduced kernel vector: its last nonzero entry is not enough;
-    // the engine's reduced form puts 1 at its own free coordinate and 0 at the others', so
-    // the coordinates where some kernel vector is 1 and all others are 0 are the free ones.
+    let ker = element_space(k, which, params)?;
+    // the engine's reduced form puts 1 at each vector's own free coordinate and 0 at the
+    // others': the coordinates where one kernel vector is 1 and all others 0 are the free
+    // ones
+    let dense = ker.dense_basis();
     let mut free = vec![false; n];
-    for (k, v) in ker.basis.iter().enumerate() {
+    for (i, v) in dense.iter().enumerate() {
         let f = (0..n)
             .find(|&c| {
-                !v[c].is_zero()
-                    && ker
-                        .basis
+                v[c].is_one()
+                    && dense
                         .iter()
                         .enumerate()
-                        .all(|(k2, w)| k2 == k || w[c].is_zero())
+                        .all(|(j, w)| j == i || w[c].is_zero())
             })
             .expect("reduced basis");
         free[f] = true;
     }
-    let scale = Q::from_integer(1.into()) / Q::from_integer(it.scale.clone());
     let basis = (0..n)
         .filter(|&p| !free[p])
-        .map(|p| ad_vector(it, p, lie, &scale))
+        .map(|p| ad_vector(k, p, lie))
         .collect();
     Ok(Space {
         unknowns: n * n,
@@ -135,29 +131,35 @@ pub fn inner_derivations(it: &IntTable, lie: bool, params: &SolveParams) -> Resu
     })
 }
 
-/// `ad_{e_p}` as a map vector (entries in the original constants: scaled back by 1/L).
-fn ad_vector(it: &IntTable, p: usize, lie: bool, scale: &Q) -> Vec<Q> {
-    let n = it.dims[0];
+/// `ad_{e_p}` as a sparse map vector in the original constants (scaled back by 1/L; over
+/// GF(q) the representatives).
+fn ad_vector(k: &IntegralTensor, p: usize, lie: bool) -> Vec<(u32, Q)> {
+    let n = k.dims[0];
+    let scale = Q::one() / Q::from_integer(k.scale.clone());
     let mut v = vec![Q::zero(); n * n];
     // ad_x(e_i) = x e_i - e_i x (associative) or x e_i (Lie): entry [l][i]
     for i in 0..n {
-        for &(l, c) in it.product(p, i) {
-            v[l * n + i] += Q::from_integer(c.into()) * scale;
+        for (l, c) in k.product(p, i) {
+            v[*l as usize * n + i] += Q::from_integer(c.clone()) * &scale;
         }
         if !lie {
-            for &(l, c) in it.product(i, p) {
-                v[l * n + i] -= Q::from_integer(c.into()) * scale;
+            for (l, c) in k.product(i, p) {
+                v[*l as usize * n + i] -= Q::from_integer(c.clone()) * &scale;
             }
         }
     }
-    if let Some(m) = it.modulus {
+    if let Some(m) = k.modulus() {
         let f = crate::scalar::PrimeField::new(m).expect("prime");
         use crate::scalar::Field;
         for x in v.iter_mut() {
             *x = f.to_rational(&f.from_rational(x).expect("residue"));
         }
     }
-    v
+    v.into_iter()
+        .enumerate()
+        .filter(|(_, x)| !x.is_zero())
+        .map(|(i, x)| (i as u32, x))
+        .collect()
 }
 
 /// The `n x n` matrix of a map stored at `offset` in a vector.
@@ -175,7 +177,7 @@ mod tests {
     use crate::invariants::testing::*;
 
     fn der_dim(t: &Tensor) -> usize {
-        derivations(&IntTable::from_tensor(t).unwrap(), &SolveParams::default())
+        derivations(&IntegralTensor::from_tensor(t), &SolveParams::default())
             .unwrap()
             .dim()
     }
@@ -191,7 +193,7 @@ mod tests {
         // (every derivation of a central simple associative algebra is inner).
         for n in 2..=3 {
             let t = matrix_algebra(n);
-            let it = IntTable::from_tensor(&t).unwrap();
+            let it = IntegralTensor::from_tensor(&t);
             let p = SolveParams::default();
             assert_eq!(derivations(&it, &p).unwrap().dim(), n * n - 1);
             assert_eq!(inner_derivations(&it, false, &p).unwrap().dim(), n * n - 1);
@@ -213,7 +215,7 @@ mod tests {
         // Algebra II, sect. 10.1 (from memory for the section number).
         let p = SolveParams::default();
         for t in [octonions(), quaternions(), matrix_algebra(2)] {
-            let it = IntTable::from_tensor(&t).unwrap();
+            let it = IntegralTensor::from_tensor(&t);
             let c = centroid(&t, &it, &p).unwrap();
             assert_eq!(c.space.dim(), 1);
             assert_eq!(c.field, Some(true));
@@ -221,7 +223,7 @@ mod tests {
         // A field extension K of Q has centroid K (dimension [K:Q] = 2): Jacobson 1980.
         for d in [2, -1] {
             let t = quadratic_field(d);
-            let it = IntTable::from_tensor(&t).unwrap();
+            let it = IntegralTensor::from_tensor(&t);
             let c = centroid(&t, &it, &p).unwrap();
             assert_eq!(c.space.dim(), 2);
             assert_eq!(c.commutative, Some(true));
@@ -232,7 +234,7 @@ mod tests {
     fn adjoint_of_matrix_algebra() {
         // For unital A, f(a) b = a g(b) forces f = R_c, g = L_c with c = g(1) (put a = 1
         // and b = 1): dim = dim A. Common practice.
-        let it = IntTable::from_tensor(&matrix_algebra(2)).unwrap();
+        let it = IntegralTensor::from_tensor(&matrix_algebra(2));
         assert_eq!(
             adjoint_algebra(&it, &SolveParams::default()).unwrap().dim(),
             4

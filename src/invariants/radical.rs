@@ -16,12 +16,12 @@
 //! (O((n - r)^2 (nnz-row + r n))) and its centre.
 
 use super::elements::{ElementSpace, element_space};
-use super::equations;
-use super::solve::{SolveParams, Space, solve_nullspace};
-use super::system::IntTable;
+use super::equations::{Eq, System};
 use crate::error::Result;
+use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
 use crate::linalg::{Matrix, echelon};
 use crate::scalar::{FieldSpec, Q, Rationals};
+use crate::tensor::IntegralTensor;
 use crate::tensor::Tensor;
 use num_traits::Zero;
 
@@ -38,18 +38,23 @@ pub struct Radical {
 
 /// The radical of an associative algebra over Q (the caller checks associativity).
 /// `None` over GF(p) (the trace-form criterion needs characteristic 0).
-pub fn radical(t: &Tensor, it: &IntTable, params: &SolveParams) -> Result<Option<Radical>> {
+pub fn radical(t: &Tensor, it: &IntegralTensor, params: &SolveParams) -> Result<Option<Radical>> {
     if t.field() != FieldSpec::Rational {
         return Ok(None);
     }
     let n = t.dim();
-    let space = solve_nullspace(&equations::trace_form(it)?, params)?;
+    let space = solve_nullspace(&System::new(it, &[Eq::TraceForm]), params)?;
     let r = space.dim();
-    let q = quotient(t, &space.basis);
+    let q = quotient(t, &space.dense_basis());
     let qc = if q.dim() == 0 {
         0
     } else {
-        element_space(&IntTable::from_tensor(&q)?, ElementSpace::Centre, params)?.dim()
+        element_space(
+            &IntegralTensor::from_tensor(&q),
+            ElementSpace::Centre,
+            params,
+        )?
+        .dim()
     };
     Ok(Some(Radical {
         semisimple: r == 0,
@@ -104,7 +109,7 @@ mod tests {
     use crate::invariants::testing::*;
 
     fn rad(t: &Tensor) -> Radical {
-        let it = IntTable::from_tensor(t).unwrap();
+        let it = IntegralTensor::from_tensor(t);
         radical(t, &it, &SolveParams::default()).unwrap().unwrap()
     }
 

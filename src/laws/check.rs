@@ -98,7 +98,7 @@ fn distinct_orderings(sorted: &[usize]) -> Vec<Vec<usize>> {
 }
 
 /// Advance `a` (entries in `0..n`) to the next non-decreasing sequence; false at the end.
-fn next_multiset(a: &mut [usize], n: usize) -> bool {
+pub(crate) fn next_multiset(a: &mut [usize], n: usize) -> bool {
     let mut i = a.len();
     while i > 0 {
         i -= 1;
@@ -114,7 +114,7 @@ fn next_multiset(a: &mut [usize], n: usize) -> bool {
 }
 
 /// Advance `a` (entries in `0..n`) to the next tuple; false at the end.
-fn next_tuple(a: &mut [usize], n: usize) -> bool {
+pub(crate) fn next_tuple(a: &mut [usize], n: usize) -> bool {
     let mut i = a.len();
     while i > 0 {
         i -= 1;
@@ -238,21 +238,18 @@ fn eval_instance<F: Field>(
     normalise(f, acc)
 }
 
-/// The witness of one instance (multiset `ms`, linear tuple `free`), evaluated exactly.
-pub fn witness_at<F: Field>(
+/// The witness of one instance (multiset `ms`, linear tuple `free`) whose exact nonzero
+/// value is already known.
+pub fn witness_with_value<F: Field>(
     f: &F,
-    t: &Table<F::Elem>,
     names: &[String],
     id: &Identity,
     instance: &(Vec<usize>, Vec<usize>),
+    value: &[(usize, F::Elem)],
     notation: Notation,
 ) -> Witness {
-    let n = t.dims[0];
-    let units: Vec<Sparse<F::Elem>> = (0..n).map(|i| vec![(i, f.one())]).collect();
-    let coefs: Vec<F::Elem> = id.terms.iter().map(|(c, _)| f.from_i64(*c)).collect();
     let orderings = distinct_orderings(&instance.0);
-    let value = eval_instance(f, t, id, &coefs, &units, &orderings, &instance.1);
-    witness(f, names, id, &orderings, &instance.1, &value, notation)
+    witness(f, names, id, &orderings, &instance.1, value, notation)
 }
 
 /// Most terms written out in a witness before it is summarised.

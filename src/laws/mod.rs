@@ -15,26 +15,30 @@
 //! (`Params::max_pointwise_elements`) the note settles the question by checking every
 //! element ([`pointwise`]).
 //!
-//! Over Q the checks run in GF(2^61 - 1) on the integer-scaled table when a coefficient
-//! bound proves that this decides every instance exactly (see `fast`); witnesses are
-//! always recomputed over the algebra's own field.
+//! Over Q the instances are evaluated modulo word-size primes on the integer-scaled table,
+//! with as many primes as a coefficient bound requires for an exact decision (see
+//! [`modular`]); the witness's value is recovered exactly. No big-integer arithmetic runs in
+//! the inner loops, whatever the basis the table is written in.
 //!
 //! Every failure comes with a witness: the basis tuple, the substituted expression and its
 //! exact nonzero value written with the basis names.
 
 pub mod check;
 pub mod expr;
-mod fast;
+pub mod identities;
+pub mod modular;
+mod plans;
 pub mod pointwise;
 mod unit;
 
 pub use check::{Check, Witness};
-pub use unit::find_unit;
+pub use unit::{find_unit, find_unit_direct};
 
 use crate::error::{Error, Result};
 use crate::scalar::Field;
-use crate::tensor::{Table, Tensor};
-use expr::{Identity, Notation, format_combination, mul, render, var};
+use crate::tensor::{IntegralTensor, Table, Tensor};
+use expr::format_combination;
+use identities::{Component, Def, Product, def, identity_text, method_text, notation};
 use serde::Serialize;
 
 /// The laws bilin decides.
@@ -143,9 +147,9 @@ pub struct Params {
     pub laws: Vec<Law>,
     /// Stop each identity at its first failure (then `failures` is at most 1).
     pub stop_first: bool,
-    /// An identity whose estimated number of term evaluations exceeds this is skipped
-    /// (reported undecided, never guessed).
-    pub max_work: u128,
+    /// An identity whose estimated number of multiply-adds (for the first prime) exceeds
+    /// this is skipped: reported undecided, never guessed.
+    pub max_work: f64,
     /// Over GF(p) with p below an identity's degree, a failing identity is also checked on
     /// every element when there are at most this many (p^n).
     pub max_pointwise_elements: u64,
@@ -156,7 +160,7 @@ impl Default for Params {
         Params {
             laws: Law::ALL.to_vec(),
             stop_first: false,
-            max_work: 40_000_000,
+            max_work: 2e11,
             max_pointwise_elements: 1 << 14,
         }
     }
@@ -210,145 +214,6 @@ impl LawReport {
     }
 }
 
-/// The identities behind the laws.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash)]
-enum Component {
-    Assoc,
-    Comm,
-    Anti,
-    Jacobi,
-    LeftAlt,
-    RightAlt,
-    Flex,
-    Power3,
-    Power4,
-    JordanId,
-    CommutatorJacobi,
-    AnticommutatorJordan,
-}
-
-/// Which product an identity is written in.
-#[derive(Clone, Copy, PartialEq, Eq)]
-enum Product {
-    Original,
-    Commutator,
-    Anticommutator,
-}
-
-struct Def {
-    id: Identity,
-    /// degree in the repeated variable (0: multilinear).
-    degree: usize,
-    product: Product,
-}
-
-fn def(c: Component) -> Def {
-    use Component::*;
-    let (x, y, z, w) = (var(0), var(1), var(2), var(3));
-    let assoc = |a: &Expr3, b: &Expr3, c: &Expr3| {
-        vec![
-            (1, mul(mul(a.clone(), b.clone()), c.clone())),
-            (-1, mul(a.clone(), mul(b.clone(), c.clone()))),
-        ]
-    };
-    let jacobi = vec![
-        (1, mul(mul(x.clone(), y.clone()), z.clone())),
-        (1, mul(mul(y.clone(), z.clone()), x.clone())),
-        (1, mul(mul(z.clone(), x.clone()), y.clone())),
-    ];
-    // Jordan: variables 0..3 are x, 3 is y: ((x x) y) x - (x x)(y x)
-    let jordan = vec![
-        (1, mul(mul(mul(x.clone(), y.clone()), w.clone()), z.clone())),
-        (
-            -1,
-            mul(mul(x.clone(), y.clone()), mul(w.clone(), z.clone())),
-        ),
-    ];
-    let (terms, nvars, degree, product) = match c {
-        Assoc => (assoc(&x, &y, &z), 3, 0, Product::Original),
-        Comm => (
-            vec![(1, mul(x.clone(), y.clone())), (-1, mul(y, x))],
-            2,
-            0,
-            Product::Original,
-        ),
-        Anti => (vec![(1, mul(x, y))], 2, 2, Product::Original),
-        Jacobi => (jacobi, 3, 0, Product::Original),
-        LeftAlt => (assoc(&x, &y, &z), 3, 2, Product::Original),
-        RightAlt => (assoc(&z, &x, &y), 3, 2, Product::Original),
-        Flex => (assoc(&x, &z, &y), 3, 2, Product::Original),
-        Power3 => (assoc(&x, &y, &z), 3, 3, Product::Original),
-        Power4 => (
-            vec![
-                (1, mul(mul(x.clone(), y.clone()), mul(z.clone(), w.clone()))),
-                (-1, mul(mul(mul(x, y), z), w)),
-            ],
-            4,
-            4,
-            Product::Original,
-        ),
-        JordanId => (jordan, 4, 3, Product::Original),
-        CommutatorJacobi => (jacobi, 3, 0, Product::Commutator),
-        AnticommutatorJordan => (jordan, 4, 3, Product::Anticommutator),
-    };
-    Def {
-        id: Identity { terms, nvars },
-        degree,
-        product,
-    }
-}
-
-type Expr3 = expr::Expr;
-
-fn notation(p: Product) -> Notation {
-    match p {
-        Product::Original => Notation::Product,
-        Product::Commutator => Notation::Commutator,
-        Product::Anticommutator => Notation::Anticommutator,
-    }
-}
-
-/// The identity written with variables: the repeated variable is `x`, the linear ones
-/// `y, z, w` (or `x, y, z` when multilinear).
-fn identity_text(d: &Def) -> String {
-    let names: Vec<&str> = if d.degree == 0 {
-        ["x", "y", "z", "w"][..d.id.nvars].to_vec()
-    } else {
-        let mut v = vec!["x"; d.degree];
-        v.extend(["y", "z", "w"][..d.id.nvars - d.degree].iter());
-        v
-    };
-    let terms: Vec<(i64, String)> =
-        d.id.terms
-            .iter()
-            .map(|(c, e)| (*c, render(e, &names, notation(d.product))))
-            .collect();
-    format!("{} = 0", expr::render_sum(&terms))
-}
-
-fn method_text(d: &Def) -> String {
-    let m = d.id.nvars - d.degree;
-    if d.degree == 0 {
-        format!("all basis {}-tuples (the identity is {}-linear)", m, m)
-    } else if m == 0 {
-        format!(
-            "linearized: each multiset of {} basis elements, summed over its distinct orderings",
-            d.degree
-        )
-    } else {
-        format!(
-            "linearized: each multiset of {} basis elements (summed over its distinct \
-             orderings) with each basis {}",
-            d.degree,
-            if m == 1 {
-                "element".to_string()
-            } else {
-                format!("{m}-tuple")
-            }
-        )
-    }
-}
-
 /// `xy - yx` (sign -1) or `xy + yx` (sign +1) as a table.
 fn symmetrised<F: Field>(f: &F, t: &Table<F::Elem>, sign: i64) -> Table<F::Elem> {
     let n = t.dims[0];
@@ -368,8 +233,16 @@ fn symmetrised<F: Field>(f: &F, t: &Table<F::Elem>, sign: i64) -> Table<F::Elem>
 }
 
 /// Decide the requested laws for an algebra (or a square bilinear map, read on its left
-/// basis). Errors: a non-square map. Cost: see [`check`]; the most expensive default law is
-/// the fourth-power identity, `C(n+3, 4)` multisets of up to 24 orderings.
+/// basis). Errors: a non-square map.
+///
+/// Over Q and over GF(q) with q < 2^28 every identity is decided by the multi-modular
+/// engine ([`modular`]): exact verdicts, counts and first witnesses, with word arithmetic
+/// in the inner loops; over larger prime fields by direct evaluation in the field
+/// ([`check`]). A law that follows from laws already proven (associativity implies the
+/// alternative, flexible, power and admissibility laws, ...) is not evaluated again (see
+/// [`implied_by`]). Cost per identity: see [`modular`]; for a dense table of dimension n,
+/// about n^5 multiply-adds for the degree-3 laws and n^6 for the fourth-power and Jordan
+/// identities, times the number of primes the coefficient size needs.
 pub fn check_laws(t: &Tensor, params: &Params) -> Result<LawReport> {
     let alg = t.as_algebra().ok_or_else(|| {
         let d = t.dims();
@@ -378,17 +251,155 @@ pub fn check_laws(t: &Tensor, params: &Params) -> Result<LawReport> {
             d[0], d[1], d[2]
         ))
     })?;
-    Ok(
-        crate::with_field!(alg.field(), f => check_laws_in(f, &alg.table(f), &alg.names()[0], params)),
-    )
+    let names = &alg.names()[0];
+    let it = IntegralTensor::from_tensor(&alg);
+    Ok(crate::with_field!(alg.field(), f => {
+        let table = alg.table(f);
+        if modular::Images::supported(&it) {
+            let mut images = modular::Images::new(&it);
+            let mut decide = |c: Component| modular_check(f, &mut images, c, names, params);
+            let mut unit = || {
+                let u = unit::find_unit(&it, &Default::default()).map_err(|e| e.to_string())?;
+                Ok(u.map(|u| {
+                    u.iter()
+                        .map(|x| f.from_rational(x).expect("a unit in the field"))
+                        .collect()
+                }))
+            };
+            assemble(f, &table, names, params, &mut decide, &mut unit)
+        } else {
+            check_laws_direct(f, &table, names, params)
+        }
+    }))
 }
 
-/// [`check_laws`] on a structure table over a field context.
-pub fn check_laws_in<F: Field>(
+/// One component by the modular engine, as a [`Check`] with its witness written out.
+fn modular_check<F: Field>(
+    f: &F,
+    images: &mut modular::Images,
+    c: Component,
+    names: &[String],
+    params: &Params,
+) -> std::result::Result<Check, String> {
+    let d = def(c);
+    let o = modular::decide(images, c, params.stop_first, params.max_work);
+    if let Some(why) = o.skipped {
+        return Err(why);
+    }
+    let witness = o.first.as_ref().map(|inst| {
+        let value: Vec<(usize, F::Elem)> = o
+            .value
+            .iter()
+            .map(|(k, v)| (*k, f.from_rational(v).expect("a value in the field")))
+            .collect();
+        check::witness_with_value(f, names, &d.id, inst, &value, notation(d.product))
+    });
+    Ok(Check {
+        checked: o.checked,
+        failures: o.failures,
+        witness,
+        first: o.first,
+    })
+}
+
+/// [`check_laws`] by direct evaluation of every instance in the field (the reference the
+/// modular engine is tested against; used over prime fields with p >= 2^28).
+/// Cost: see [`check`].
+pub fn check_laws_direct<F: Field>(
     f: &F,
     t: &Table<F::Elem>,
     names: &[String],
     params: &Params,
+) -> LawReport {
+    let mut tables: [Option<Table<F::Elem>>; 2] = [None, None];
+    let mut decide = |c: Component| {
+        let d = def(c);
+        let work = check::work_estimate(t.dims[0], &d.id, d.degree);
+        if work as f64 > params.max_work {
+            return Err(format!(
+                "about {work} term evaluations, above the work budget"
+            ));
+        }
+        let table = in_product(f, t, d.product, &mut tables);
+        Ok(check::check_identity(
+            f,
+            table,
+            names,
+            &d.id,
+            d.degree,
+            notation(d.product),
+            params.stop_first,
+        ))
+    };
+    let mut unit = || Ok(unit::find_unit_direct(f, t));
+    assemble(f, t, names, params, &mut decide, &mut unit)
+}
+
+/// The table of the product an identity is written in.
+fn in_product<'t, F: Field>(
+    f: &F,
+    t: &'t Table<F::Elem>,
+    product: Product,
+    tables: &'t mut [Option<Table<F::Elem>>; 2],
+) -> &'t Table<F::Elem> {
+    match product {
+        Product::Original => t,
+        Product::Commutator => tables[0].get_or_insert_with(|| symmetrised(f, t, -1)),
+        Product::Anticommutator => tables[1].get_or_insert_with(|| symmetrised(f, t, 1)),
+    }
+}
+
+/// The components whose joint validity implies a component, each as a polynomial
+/// identity (so that every instance of the implied one vanishes):
+/// - associativity implies the alternative, flexible, third and fourth power laws (their
+///   instances are sums of associators), the Jacobi identity of the commutator and the
+///   Jordan identity of the anticommutator (identities of the free associative ring);
+/// - associative and commutative imply the Jordan identity;
+/// - anticommutative and Jacobi imply the Jacobi identity of the commutator (`[x,y] = 2xy`);
+/// - left alternative implies third powers (`(x,x,x)` is an instance of it);
+/// - left and right alternative imply flexible (`(x,y,x) = -(x,x,y)`);
+/// - commutative and Jordan imply the Jordan identity of `xy + yx = 2xy`.
+/// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. I-III; common practice.)
+pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
+    use Component::*;
+    match c {
+        LeftAlt | RightAlt | Power4 => &[&[Assoc]],
+        Flex => &[&[Assoc], &[LeftAlt, RightAlt]],
+        Power3 => &[&[Assoc], &[LeftAlt]],
+        CommutatorJacobi => &[&[Assoc], &[Anti, Jacobi]],
+        AnticommutatorJordan => &[&[Assoc], &[Comm, JordanId]],
+        JordanId => &[&[Assoc, Comm]],
+        Assoc | Comm | Anti | Jacobi => &[],
+    }
+}
+
+fn component_name(c: Component) -> &'static str {
+    use Component::*;
+    match c {
+        Assoc => "associativity",
+        Comm => "commutativity",
+        Anti => "anticommutativity",
+        Jacobi => "the Jacobi identity",
+        LeftAlt => "the left alternative law",
+        RightAlt => "the right alternative law",
+        Flex => "flexibility",
+        Power3 => "third-power associativity",
+        Power4 => "fourth-power associativity",
+        JordanId => "the Jordan identity",
+        CommutatorJacobi => "the Jacobi identity of the commutator",
+        AnticommutatorJordan => "the Jordan identity of the anticommutator",
+    }
+}
+
+/// The report from a way of deciding components (shared by both engines): components
+/// are decided once, in the order the laws ask for them; implied ones are not evaluated.
+fn assemble<F: Field>(
+    f: &F,
+    t: &Table<F::Elem>,
+    names: &[String],
+    params: &Params,
+    decide: &mut dyn FnMut(Component) -> std::result::Result<Check, String>,
+    find_unit: &mut UnitFinder<F::Elem>,
 ) -> LawReport {
     let n = t.dims[0];
     let p = f.characteristic();
@@ -397,7 +408,7 @@ pub fn check_laws_in<F: Field>(
     let mut results = Vec::new();
     for &law in &params.laws {
         if law == Law::Unital {
-            results.push(unital(f, t, names));
+            results.push(unital(f, n, names, find_unit));
             continue;
         }
         let mut r = LawResult {
@@ -422,51 +433,46 @@ pub fn check_laws_in<F: Field>(
             }
             if !cache.iter().any(|e| e.0 == c) {
                 let mut notes = Vec::new();
-                let work = check::work_estimate(n, &d.id, d.degree);
-                let res = if work > params.max_work {
+                let proven = |x: &Component| {
+                    cache
+                        .iter()
+                        .any(|(y, res, _)| y == x && res.as_ref().is_some_and(|r| r.failures == 0))
+                };
+                let res = if let Some(set) = implied_by(c).iter().find(|s| s.iter().all(proven)) {
+                    let why: Vec<&str> = set.iter().map(|x| component_name(*x)).collect();
                     notes.push(format!(
-                        "`{}` skipped: about {work} term evaluations exceed the budget {}",
-                        identity_text(&d),
-                        params.max_work
+                        "holds: implied by {} (proven above)",
+                        why.join(" and ")
                     ));
-                    None
+                    Some(Check {
+                        checked: modular::instance_count(n, c) as u64,
+                        ..Check::default()
+                    })
                 } else {
-                    let table = match d.product {
-                        Product::Original => t,
-                        Product::Commutator => {
-                            tables[0].get_or_insert_with(|| symmetrised(f, t, -1))
+                    match decide(c) {
+                        Ok(res) => Some(res),
+                        Err(why) => {
+                            notes.push(format!("`{}` not decided: {why}", identity_text(&d)));
+                            None
                         }
-                        Product::Anticommutator => {
-                            tables[1].get_or_insert_with(|| symmetrised(f, t, 1))
-                        }
-                    };
-                    let nt = notation(d.product);
-                    Some(fast::check_identity_fast(
-                        f,
-                        table,
-                        names,
-                        &d.id,
-                        d.degree,
-                        nt,
-                        params.stop_first,
-                    ))
+                    }
                 };
                 if let Some(res) = &res
                     && res.failures > 0
                     && p > 0
                     && p < d.degree as u64
                 {
-                    let table = match d.product {
-                        Product::Original => t,
-                        Product::Commutator => tables[0].as_ref().expect("built"),
-                        Product::Anticommutator => tables[1].as_ref().expect("built"),
-                    };
+                    let table = in_product(f, t, d.product, &mut tables);
                     notes.push(char_note(f, table, names, &d, params));
                 }
                 cache.push((c, res, notes));
             }
             let (_, res, notes) = cache.iter().find(|e| e.0 == c).expect("cached");
-            r.notes.extend(notes.iter().cloned());
+            for note in notes {
+                if !r.notes.contains(note) {
+                    r.notes.push(note.clone());
+                }
+            }
             match res {
                 None => {
                     if r.holds == Some(true) {
@@ -545,37 +551,54 @@ fn char_note<F: Field>(
     }
 }
 
-fn unital<F: Field>(f: &F, t: &Table<F::Elem>, names: &[String]) -> LawResult {
-    let n = t.dims[0];
-    let u = find_unit(f, t);
-    let unit = u.as_ref().map(|u| {
-        let sparse: Vec<(usize, F::Elem)> = u
-            .iter()
-            .cloned()
-            .enumerate()
-            .filter(|(_, c)| !f.is_zero(c))
-            .collect();
-        format_combination(f, &sparse, names)
-    });
-    LawResult {
+/// The unit as found by `find`, or why it could not be decided.
+type UnitFinder<'a, E> = dyn FnMut() -> std::result::Result<Option<Vec<E>>, String> + 'a;
+
+fn unital<F: Field>(
+    f: &F,
+    n: usize,
+    names: &[String],
+    find: &mut UnitFinder<F::Elem>,
+) -> LawResult {
+    let method = format!(
+        "exact solution of the {} linear equations in {} unknowns",
+        2 * n * n,
+        n
+    );
+    let mut r = LawResult {
         law: Law::Unital,
-        holds: Some(u.is_some()),
+        holds: None,
         identity: "u*x = x = x*u for some u".into(),
-        method: format!(
-            "exact solution of the {} linear equations in {} unknowns",
-            2 * n * n,
-            n
-        ),
+        method,
         checked: 1,
-        failures: u.is_none() as u64,
+        failures: 0,
         witness: None,
-        unit,
-        notes: if u.is_none() {
-            vec!["the linear system u*e_j = e_j = e_j*u has no solution".into()]
-        } else {
-            Vec::new()
-        },
+        unit: None,
+        notes: Vec::new(),
+    };
+    match find() {
+        Ok(Some(u)) => {
+            let sparse: Vec<(usize, F::Elem)> = u
+                .iter()
+                .cloned()
+                .enumerate()
+                .filter(|(_, c)| !f.is_zero(c))
+                .collect();
+            r.unit = Some(format_combination(f, &sparse, names));
+            r.holds = Some(true);
+        }
+        Ok(None) => {
+            r.holds = Some(false);
+            r.failures = 1;
+            r.notes
+                .push("the linear system u*e_j = e_j = e_j*u has no solution".into());
+        }
+        Err(why) => {
+            r.checked = 0;
+            r.notes.push(format!("not decided: {why}"));
+        }
     }
+    r
 }
 
 #[cfg(test)]

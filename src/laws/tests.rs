@@ -112,11 +112,11 @@ fn matrices_and_commutators() {
     let t = m.table(&crate::scalar::Rationals);
     let c = symmetrised(&crate::scalar::Rationals, &t, -1);
     let names = m.names()[0].clone();
-    let lie = check_laws_in(&crate::scalar::Rationals, &c, &names, &Params::default());
+    let lie = check_laws_direct(&crate::scalar::Rationals, &c, &names, &Params::default());
     assert_eq!(lie.holds(Law::Lie), Some(true));
     assert_eq!(lie.holds(Law::Unital), Some(false));
     let a = symmetrised(&crate::scalar::Rationals, &t, 1);
-    let jor = check_laws_in(&crate::scalar::Rationals, &a, &names, &Params::default());
+    let jor = check_laws_direct(&crate::scalar::Rationals, &a, &names, &Params::default());
     assert_eq!(jor.holds(Law::Jordan), Some(true));
     assert_eq!(jor.holds(Law::Associative), Some(false));
 }
@@ -149,7 +149,7 @@ fn gf2_caveat_and_budget() {
         .unwrap();
     assert_eq!((w.expression.as_str(), w.value.as_str()), ("a*a", "b"));
     let p = Params {
-        max_work: 10,
+        max_work: 10.0,
         ..Params::default()
     };
     let r = check_laws(&t, &p).unwrap();

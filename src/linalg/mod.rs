@@ -8,9 +8,14 @@
 //!   rank and nullspace over Q through several primes, rational reconstruction and a final
 //!   exact check over Q. The dispatchers [`rank_q`] and [`nullspace_q`] choose the method.
 
+pub mod dense_echelon;
 pub mod echelon;
+pub mod kernels;
 mod matrix;
 pub mod modular;
+pub mod nullspace;
+pub mod sparse_echelon;
+pub mod system;
 
 pub use echelon::{determinant, inverse, nullspace, rank, rref, solve};
 pub use matrix::Matrix;

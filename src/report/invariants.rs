@@ -3,89 +3,20 @@
 //! text rendering. Vectors are written in the user's basis names (`e0 + 2 e3 - 1/2 e5`);
 //! linear maps as matrices (`X[l][i]` = coefficient of `e_l` in `X(e_i)`), rows of strings.
 
-use crate::error::{Error, Result};
-use crate::invariants::{
-    self, ElementSpace, IntTable, MapInvariant, SolveParams, Space, lie, maps::to_matrix,
-};
+use crate::error::Result;
+use crate::invariants::all::{self, Invariants, RadicalPart};
+use crate::invariants::{SolveParams, Space, lie, maps::to_matrix};
 use crate::scalar::{Q, q_to_string};
 
 pub use super::invariants_text::render_text;
 use crate::tensor::{Kind, Tensor};
 use num_traits::{One, Signed, Zero};
 use serde::Serialize;
-use std::time::Instant;
 
 /// JSON schema name of the report.
 pub const SCHEMA: &str = "bilin.invariants/1";
 
-/// One part of the report (the `--only` names).
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Part {
-    Centre,
-    Nuclei,
-    Annihilators,
-    Unit,
-    Centroid,
-    Derivations,
-    Adjoint,
-    Radical,
-    Lie,
-    MapCentroid,
-    MapDerivations,
-    MapAdjoint,
-    MapRadicals,
-}
-
-impl Part {
-    /// All parts with their `--only` names.
-    pub const ALL: [(Part, &'static str); 13] = [
-        (Part::Centre, "centre"),
-        (Part::Nuclei, "nuclei"),
-        (Part::Annihilators, "annihilators"),
-        (Part::Unit, "unit"),
-        (Part::Centroid, "centroid"),
-        (Part::Derivations, "derivations"),
-        (Part::Adjoint, "adjoint"),
-        (Part::Radical, "radical"),
-        (Part::Lie, "lie"),
-        (Part::MapCentroid, "centroid-triples"),
-        (Part::MapDerivations, "derivation-triples"),
-        (Part::MapAdjoint, "adjoint-pairs"),
-        (Part::MapRadicals, "radicals"),
-    ];
-
-    /// Parse a comma-separated `--only` list (`center` is accepted for `centre`).
-    pub fn parse_list(s: &str) -> Result<Vec<Part>> {
-        s.split(',')
-            .map(|w| {
-                let w = w.trim().to_ascii_lowercase();
-                let w = if w == "center" {
-                    "centre".to_string()
-                } else {
-                    w
-                };
-                Part::ALL
-                    .iter()
-                    .find(|(_, n)| *n == w)
-                    .map(|(p, _)| *p)
-                    .ok_or_else(|| {
-                        let names: Vec<&str> = Part::ALL.iter().map(|(_, n)| *n).collect();
-                        Error::Invalid(format!(
-                            "unknown invariant `{w}` (known: {})",
-                            names.join(", ")
-                        ))
-                    })
-            })
-            .collect()
-    }
-
-    fn is_algebra_part(self) -> bool {
-        !matches!(
-            self,
-            Part::MapCentroid | Part::MapDerivations | Part::MapAdjoint | Part::MapRadicals
-        )
-    }
-}
+pub use crate::invariants::all::Part;
 
 /// What to compute and how.
 #[derive(Clone, Debug, Default)]
@@ -97,12 +28,18 @@ pub struct InvariantParams {
     pub solve: SolveParams,
 }
 
+/// Bases with more entries than this (vectors x coordinates) are not written out.
+pub const MAX_WRITTEN_ENTRIES: usize = 1 << 21;
+
 /// A subspace of the algebra (or of a space of the map).
 #[derive(Clone, Debug, Serialize)]
 pub struct VectorSpaceReport {
     pub dim: usize,
     /// Basis vectors written in the basis names.
     pub basis: Vec<String>,
+    /// Why the basis is not written out (too large), if so.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub basis_omitted: Option<String>,
 }
 
 /// A space of linear maps (or tuples of maps).
@@ -112,6 +49,16 @@ pub struct MapSpaceReport {
     /// Each basis element: its maps (one for a single map, 2 for pairs, 3 for triples),
     /// each a matrix as rows of strings.
     pub basis: Vec<Vec<Vec<Vec<String>>>>,
+    /// Why the basis is not written out (too large), if so.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub basis_omitted: Option<String>,
+}
+
+/// A part that was not computed, and why.
+#[derive(Clone, Debug, Serialize)]
+pub struct SkippedPart {
+    pub part: String,
+    pub reason: String,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -180,6 +127,9 @@ pub struct InvariantsReport {
     pub adjoint_pairs: Option<MapSpaceReport>,
     pub left_radical: Option<VectorSpaceReport>,
     pub right_radical: Option<VectorSpaceReport>,
+    /// Parts not computed (above the memory budget), with the reason.
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub skipped: Vec<SkippedPart>,
     /// Wall-clock seconds per part (informative).
     pub seconds: Vec<(String, f64)>,
 }
@@ -207,15 +157,31 @@ pub fn combination(v: &[Q], names: &[String]) -> String {
     if s.is_empty() { "0".to_string() } else { s }
 }
 
+/// Why a basis is not written out, if it is too large.
+fn too_large(sp: &Space, omit: bool) -> Option<String> {
+    let entries = sp.dim().saturating_mul(sp.unknowns);
+    (!omit && entries > MAX_WRITTEN_ENTRIES).then(|| {
+        format!(
+            "{} vectors of {} coordinates: more than {MAX_WRITTEN_ENTRIES} entries",
+            sp.dim(),
+            sp.unknowns
+        )
+    })
+}
+
 fn vectors(sp: &Space, names: &[String], omit: bool) -> VectorSpaceReport {
-    let basis = if omit {
+    let basis_omitted = too_large(sp, omit);
+    let basis = if omit || basis_omitted.is_some() {
         Vec::new()
     } else {
-        sp.basis.iter().map(|v| combination(v, names)).collect()
+        (0..sp.dim())
+            .map(|i| combination(&sp.dense(i), names))
+            .collect()
     };
     VectorSpaceReport {
         dim: sp.dim(),
         basis,
+        basis_omitted,
     }
 }
 
@@ -232,17 +198,18 @@ fn entry_string(x: &Q) -> String {
 
 /// Basis of a space of tuples of maps on spaces of the given dimensions.
 fn map_space(sp: &Space, sizes: &[usize], omit: bool) -> MapSpaceReport {
-    let basis = if omit {
+    let basis_omitted = too_large(sp, omit);
+    let basis = if omit || basis_omitted.is_some() {
         Vec::new()
     } else {
-        sp.basis
-            .iter()
-            .map(|v| {
+        (0..sp.dim())
+            .map(|i| {
+                let v = sp.dense(i);
                 let mut off = 0;
                 sizes
                     .iter()
                     .map(|&n| {
-                        let m = to_matrix(v, n, off);
+                        let m = to_matrix(&v, n, off);
                         off += n * n;
                         (0..n)
                             .map(|r| m.row(r).iter().map(entry_string).collect())
@@ -255,210 +222,122 @@ fn map_space(sp: &Space, sizes: &[usize], omit: bool) -> MapSpaceReport {
     MapSpaceReport {
         dim: sp.dim(),
         basis,
+        basis_omitted,
     }
 }
 
-/// Compute the requested invariants of a tensor. `progress` receives a short message
-/// before each part (the caller decides whether to show it). Cost: the sum of the parts'
-/// costs (see [`crate::invariants`]).
+/// Compute the requested invariants of a tensor ([`crate::invariants::all`]) and write
+/// them as a report. `progress` receives a short message before each part.
+/// Cost: that of [`all::compute_invariants`].
 pub fn invariants_report(
     t: &Tensor,
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
 ) -> Result<InvariantsReport> {
+    let inv = all::compute_invariants(
+        t,
+        &all::Params {
+            only: params.only.clone(),
+            solve: params.solve.clone(),
+        },
+        progress,
+    )?;
+    Ok(render_report(t, &inv, params.omit_bases))
+}
+
+/// The report of computed invariants (bases written in the basis names).
+pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsReport {
     let is_alg = t.kind() == Kind::Algebra;
-    let parts: Vec<Part> = match &params.only {
-        Some(p) => p.clone(),
-        None => Part::ALL
-            .iter()
-            .map(|(p, _)| *p)
-            .filter(|p| p.is_algebra_part() == is_alg)
-            .collect(),
-    };
-    if !is_alg && parts.iter().any(|p| p.is_algebra_part()) {
-        return Err(Error::Invalid(
-            "this input is a bilinear map, not an algebra: use centroid-triples, \
-             derivation-triples, adjoint-pairs or radicals"
-                .to_string(),
-        ));
-    }
-    let it = IntTable::from_tensor(t)?;
-    let sp = &params.solve;
-    let omit = params.omit_bases;
     let names = &t.names()[0];
     let n = t.dim();
-    let mut r = InvariantsReport {
+    let [a, b, c] = t.dims();
+    let vs = |s: &Option<Space>| s.as_ref().map(|s| vectors(s, names, omit));
+    InvariantsReport {
         schema: SCHEMA,
         field: t.field().name(),
         kind: if is_alg { "algebra" } else { "bilinear" }.to_string(),
         dims: t.dims(),
-        ..Default::default()
-    };
-    let clock = |label: &str, start: Instant, r: &mut InvariantsReport| {
-        r.seconds
-            .push((label.to_string(), start.elapsed().as_secs_f64()));
-    };
-    let (mut assoc, mut lie_alg) = (None, None);
-    if is_alg {
-        assoc = Some(invariants::is_associative(&it)?);
-        lie_alg = Some(lie::is_lie(&it));
-        r.associative = assoc;
-        r.lie_algebra = lie_alg;
-    }
-    let es = |w: ElementSpace| -> Result<VectorSpaceReport> {
-        Ok(vectors(
-            &invariants::element_space(&it, w, sp)?,
-            names,
-            omit,
-        ))
-    };
-    for part in parts {
-        let start = Instant::now();
-        let label = Part::ALL
-            .iter()
-            .find(|(p, _)| *p == part)
-            .map(|(_, n)| *n)
-            .unwrap_or("");
-        progress(&format!("invariants: {label} (dim {n})"));
-        match part {
-            Part::Centre => {
-                r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
-                r.centre = Some(es(ElementSpace::Centre)?);
-            }
-            Part::Nuclei => {
-                r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
-                r.middle_nucleus = Some(es(ElementSpace::MiddleNucleus)?);
-                r.right_nucleus = Some(es(ElementSpace::RightNucleus)?);
-                r.nucleus = Some(es(ElementSpace::Nucleus)?);
-            }
-            Part::Annihilators => {
-                r.left_annihilator = Some(es(ElementSpace::LeftAnnihilator)?);
-                r.right_annihilator = Some(es(ElementSpace::RightAnnihilator)?);
-                r.annihilator = Some(es(ElementSpace::Annihilator)?);
-            }
-            Part::Unit => {
-                let u = invariants::unit(&it, sp)?;
-                r.unit = Some(UnitReport {
-                    exists: u.is_some(),
-                    unit: u.map(|v| combination(&v, names)),
-                });
-            }
-            Part::Centroid => {
-                let c = invariants::centroid(t, &it, sp)?;
-                r.centroid = Some(CentroidReport {
-                    space: map_space(&c.space, &[n], omit),
-                    commutative: c.commutative,
-                    commutative_reason: c.commutative_reason,
-                    field: c.field,
-                });
-            }
-            Part::Derivations => {
-                let d = invariants::derivations(&it, sp)?;
-                let kind = if assoc == Some(true) {
-                    Some(false)
-                } else if lie_alg == Some(true) {
-                    Some(true)
-                } else {
-                    None
-                };
-                let inner = match kind {
-                    Some(l) => Some(invariants::inner_derivations(&it, l, sp)?.dim()),
-                    None => None,
-                };
-                r.derivations = Some(DerivationsReport {
-                    space: map_space(&d, &[n], omit),
-                    inner_kind: kind.map(|l| if l { "lie" } else { "associative" }.to_string()),
-                    inner_dim: inner,
-                    outer_dim: inner.map(|i| d.dim() - i),
-                });
-            }
-            Part::Adjoint => {
-                r.adjoint = Some(map_space(
-                    &invariants::adjoint_algebra(&it, sp)?,
-                    &[n, n],
-                    omit,
-                ));
-            }
-            Part::Radical => r.radical = Some(radical_report(t, &it, assoc, names, params)?),
-            Part::Lie => {
-                if lie_alg == Some(true) {
-                    r.lie = Some(lie::lie_invariants(t));
-                }
-            }
-            Part::MapCentroid | Part::MapDerivations | Part::MapAdjoint | Part::MapRadicals => {
-                let [a, b, c] = t.dims();
-                let mi = |w| invariants::map_invariant(&it, w, sp);
-                match part {
-                    Part::MapCentroid => {
-                        r.centroid_triples = Some(map_space(
-                            &mi(MapInvariant::CentroidTriples)?,
-                            &[a, b, c],
-                            omit,
-                        ))
-                    }
-                    Part::MapDerivations => {
-                        r.derivation_triples = Some(map_space(
-                            &mi(MapInvariant::DerivationTriples)?,
-                            &[a, b, c],
-                            omit,
-                        ))
-                    }
-                    Part::MapAdjoint => {
-                        r.adjoint_pairs =
-                            Some(map_space(&mi(MapInvariant::AdjointPairs)?, &[a, b], omit))
-                    }
-                    _ => {
-                        r.left_radical = Some(vectors(
-                            &mi(MapInvariant::LeftRadical)?,
-                            &t.names()[0],
-                            omit,
-                        ));
-                        r.right_radical = Some(vectors(
-                            &mi(MapInvariant::RightRadical)?,
-                            &t.names()[1],
-                            omit,
-                        ));
-                    }
-                }
-            }
-        }
-        clock(label, start, &mut r);
-    }
-    Ok(r)
-}
-
-fn radical_report(
-    t: &Tensor,
-    it: &IntTable,
-    assoc: Option<bool>,
-    names: &[String],
-    params: &InvariantParams,
-) -> Result<RadicalReport> {
-    let na = |note: &str| RadicalReport {
-        available: false,
-        note: Some(note.to_string()),
-        radical: None,
-        semisimple: None,
-        quotient_dim: None,
-        quotient_centre_dim: None,
-    };
-    if assoc != Some(true) {
-        return Ok(na(
-            "not associative: the radical is computed for associative algebras",
-        ));
-    }
-    match invariants::radical(t, it, &params.solve)? {
-        None => Ok(na(
-            "not available over GF(p): the trace-form criterion needs characteristic 0",
-        )),
-        Some(rad) => Ok(RadicalReport {
-            available: true,
-            note: None,
-            radical: Some(vectors(&rad.space, names, params.omit_bases)),
-            semisimple: Some(rad.semisimple),
-            quotient_dim: Some(rad.quotient_dim),
-            quotient_centre_dim: Some(rad.quotient_centre_dim),
+        associative: inv.associative,
+        lie_algebra: inv.lie_algebra,
+        commutative_centre: vs(&inv.commutative_centre),
+        centre: vs(&inv.centre),
+        left_nucleus: vs(&inv.left_nucleus),
+        middle_nucleus: vs(&inv.middle_nucleus),
+        right_nucleus: vs(&inv.right_nucleus),
+        nucleus: vs(&inv.nucleus),
+        left_annihilator: vs(&inv.left_annihilator),
+        right_annihilator: vs(&inv.right_annihilator),
+        annihilator: vs(&inv.annihilator),
+        unit: inv.unit.as_ref().map(|u| UnitReport {
+            exists: u.is_some(),
+            unit: u.as_ref().map(|v| combination(v, names)),
         }),
+        centroid: inv.centroid.as_ref().map(|c| CentroidReport {
+            space: map_space(&c.space, &[n], omit),
+            commutative: c.commutative,
+            commutative_reason: c.commutative_reason.clone(),
+            field: c.field,
+        }),
+        derivations: inv.derivations.as_ref().map(|d| {
+            let inner = d.inner.as_ref().map(Space::dim);
+            DerivationsReport {
+                space: map_space(&d.space, &[n], omit),
+                inner_kind: d
+                    .inner_lie
+                    .map(|l| if l { "lie" } else { "associative" }.to_string()),
+                inner_dim: inner,
+                outer_dim: inner.map(|i| d.space.dim() - i),
+            }
+        }),
+        adjoint: inv.adjoint.as_ref().map(|s| map_space(s, &[n, n], omit)),
+        radical: inv.radical.as_ref().map(|r| match r {
+            RadicalPart::NotAvailable(note) => RadicalReport {
+                available: false,
+                note: Some(note.clone()),
+                radical: None,
+                semisimple: None,
+                quotient_dim: None,
+                quotient_centre_dim: None,
+            },
+            RadicalPart::Computed(rad) => RadicalReport {
+                available: true,
+                note: None,
+                radical: Some(vectors(&rad.space, names, omit)),
+                semisimple: Some(rad.semisimple),
+                quotient_dim: Some(rad.quotient_dim),
+                quotient_centre_dim: Some(rad.quotient_centre_dim),
+            },
+        }),
+        lie: inv.lie.clone(),
+        centroid_triples: inv
+            .centroid_triples
+            .as_ref()
+            .map(|s| map_space(s, &[a, b, c], omit)),
+        derivation_triples: inv
+            .derivation_triples
+            .as_ref()
+            .map(|s| map_space(s, &[a, b, c], omit)),
+        adjoint_pairs: inv
+            .adjoint_pairs
+            .as_ref()
+            .map(|s| map_space(s, &[a, b], omit)),
+        left_radical: inv
+            .left_radical
+            .as_ref()
+            .map(|s| vectors(s, &t.names()[0], omit)),
+        right_radical: inv
+            .right_radical
+            .as_ref()
+            .map(|s| vectors(s, &t.names()[1], omit)),
+        skipped: inv
+            .skipped
+            .iter()
+            .map(|(p, why)| SkippedPart {
+                part: p.name().to_string(),
+                reason: why.clone(),
+            })
+            .collect(),
+        seconds: inv.seconds.clone(),
     }
 }
 

@@ -41,6 +41,9 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
             if v.basis.len() > 24 {
                 *s += &format!("  ... {} more (see --json)\n", v.basis.len() - 24);
             }
+            if let Some(why) = &v.basis_omitted {
+                *s += &format!("  (basis not written: {why})\n");
+            }
         }
     };
     let ms = |s: &mut String, title: &str, v: &MapSpaceReport| {
@@ -58,6 +61,9 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
             }
         } else if !v.basis.is_empty() {
             *s += "  (basis matrices in --json)\n";
+        }
+        if let Some(why) = &v.basis_omitted {
+            *s += &format!("  (basis not written: {why})\n");
         }
     };
     vs(
@@ -158,6 +164,9 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
     }
     vs(&mut s, "left radical {u : T(u,V) = 0}", &r.left_radical);
     vs(&mut s, "right radical {v : T(U,v) = 0}", &r.right_radical);
+    for sk in &r.skipped {
+        s += &format!("\n{}: skipped: {}\n", sk.part, sk.reason);
+    }
     let _ = names;
     s
 }

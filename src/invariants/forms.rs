@@ -1,4 +1,4 @@
-//! The trace forms of an algebra and their congruence invariants.
+//! Trace forms of an algebra and their congruence invariants.
 //!
 //! `t_L(x, y) = tr(L_x L_y)` and `t_R(x, y) = tr(R_x R_y)` (L_x, R_x: left and right
 //! multiplication) are symmetric bilinear forms that change by congruence under a change of
@@ -6,10 +6,19 @@
 //! discriminant of the induced nondegenerate form up to squares are isomorphism invariants.
 //! For a Lie algebra t_L is the Killing form; for an associative algebra over Q the kernel
 //! of t_L is the radical (Dickson's criterion, see Pierce 1982, Associative Algebras).
+//!
+//! The Gram matrix is computed for the integer-scaled constants `c' = D c` (it scales by
+//! `D^2`, a square, so rank, signature and discriminant class are unchanged), modulo enough
+//! primes to recover its integer entries by the Chinese remainder theorem (each entry is at
+//! most `n^2 C^2`, C the largest constant): no big-integer arithmetic in the sums.
+//! Cost: O(n^2 nnz) word operations per prime, then O(n^3) exact operations for the
+//! diagonalisation.
 
-use super::dense::Dense;
-use crate::scalar::{Field, FieldSpec, PrimeField, Q};
+use crate::linalg::nullspace::cached_primes;
+use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
+use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
+use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The congruence invariants of a symmetric bilinear form.
@@ -23,33 +32,87 @@ pub struct FormInvariants {
     pub discriminant: Option<Q>,
 }
 
-#[allow(clippy::needless_range_loop)]
-/// The Gram matrix of `t_L` (left = true) or `t_R`. Cost: O(n^2 * nnz).
-pub fn trace_form(d: &Dense, left: bool) -> Vec<Vec<Q>> {
-    let n = d.n;
-    // M_i[a][b] = coefficient of e_a in (e_i e_b) for L, (e_b e_i) for R.
-    let m = |i: usize, a: usize, b: usize| if left { d.at(i, b, a) } else { d.at(b, i, a) };
-    let mut g = vec![vec![Q::zero(); n]; n];
-    for i in 0..n {
-        for j in i..n {
-            let mut s = Q::zero();
-            for a in 0..n {
-                for b in 0..n {
-                    let x = m(i, a, b);
-                    if !x.is_zero() {
-                        let y = m(j, b, a);
-                        if !y.is_zero() {
-                            s += x * y;
+/// The Gram matrix of `t_L` (left = true) or `t_R` for the integer-scaled constants: over
+/// Q its exact integer entries, over GF(q) the residues. Entry `[i][j] = sum_{a,b}
+/// M_i[a][b] M_j[b][a]` with `M_i[a][b]` the coefficient of `e_a` in `e_i e_b` (L) or
+/// `e_b e_i` (R).
+pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
+    let n = it.dims[0];
+    let primes: Vec<u64> = match it.modulus() {
+        Some(q) => vec![q],
+        None => {
+            let bits = 2 * it.constant_bits() + 2 * (64 - (n as u64).leading_zeros() as u64) + 2;
+            cached_primes()[..(bits as f64 / 27.99).ceil() as usize].to_vec()
+        }
+    };
+    let grams: Vec<Vec<u64>> = primes
+        .iter()
+        .map(|&p| {
+            let pb = BigInt::from(p);
+            // m[i] = the matrix M_i as (a, b, residue) triples
+            let mats: Vec<Vec<(usize, usize, u64)>> = (0..n)
+                .map(|i| {
+                    let mut v = Vec::new();
+                    for b in 0..n {
+                        let row = if left {
+                            it.product(i, b)
+                        } else {
+                            it.product(b, i)
+                        };
+                        for (a, x) in row {
+                            let x = x.mod_floor(&pb).to_u64().expect("reduced");
+                            if x != 0 {
+                                v.push((*a as usize, b, x));
+                            }
                         }
                     }
+                    v
+                })
+                .collect();
+            let mut g = vec![0u64; n * n];
+            let mut dense = vec![0u64; n * n];
+            for j in 0..n {
+                dense.iter_mut().for_each(|x| *x = 0);
+                for &(a, b, x) in &mats[j] {
+                    dense[a * n + b] = x;
+                }
+                for i in 0..=j {
+                    let mut s: u128 = 0;
+                    for &(a, b, x) in &mats[i] {
+                        s += x as u128 * dense[b * n + a] as u128;
+                    }
+                    let s = (s % p as u128) as u64;
+                    g[i * n + j] = s;
+                    g[j * n + i] = s;
                 }
             }
-            let s = d.reduce(vec![s]).pop().expect("one value");
-            g[i][j] = s.clone();
-            g[j][i] = s;
-        }
-    }
-    g
+            g
+        })
+        .collect();
+    let modulus: BigInt = primes.iter().map(|&p| BigInt::from(p)).product();
+    let half = &modulus >> 1u32;
+    (0..n)
+        .map(|i| {
+            (0..n)
+                .map(|j| {
+                    let mut x = BigInt::zero();
+                    let mut m = BigInt::one();
+                    for (g, &p) in grams.iter().zip(&primes) {
+                        let pb = BigInt::from(p);
+                        let xm = (&x % &pb).to_u64().expect("small");
+                        let inv = (&m % &pb).extended_gcd(&pb).x.mod_floor(&pb);
+                        let t = (BigInt::from((g[i * n + j] + p - xm) % p) * inv).mod_floor(&pb);
+                        x += &m * t;
+                        m *= pb;
+                    }
+                    if it.modulus().is_none() && x > half {
+                        x -= &modulus;
+                    }
+                    x
+                })
+                .collect()
+        })
+        .collect()
 }
 
 #[allow(clippy::needless_range_loop)]
@@ -109,36 +172,38 @@ fn diagonal_entries<F: Field>(f: &F, mut g: Vec<Vec<F::Elem>>) -> Vec<F::Elem> {
     out
 }
 
-/// Rank, signature and discriminant class of a symmetric form over the algebra's field.
-pub fn form_invariants(d: &Dense, g: &[Vec<Q>]) -> FormInvariants {
-    let n = g.len();
-    let rank = d.rank_rows(g.to_vec(), n);
-    match d.field {
+/// Rank, signature and discriminant class of a symmetric form with integer (over Q) or
+/// residue (over GF(q)) entries.
+pub fn form_invariants(field: FieldSpec, g: &[Vec<BigInt>]) -> FormInvariants {
+    match field {
         FieldSpec::Rational => {
-            let diag = diagonal_entries(&crate::scalar::Rationals, g.to_vec());
+            let gq: Vec<Vec<Q>> = g
+                .iter()
+                .map(|r| r.iter().map(|x| Q::from_integer(x.clone())).collect())
+                .collect();
+            let diag = diagonal_entries(&Rationals, gq);
             let pos = diag.iter().filter(|x| x.is_positive()).count();
             let disc = diag.iter().fold(Q::one(), |a, b| a * b);
             FormInvariants {
-                rank,
+                rank: diag.len(),
                 signature: Some((pos, diag.len() - pos)),
                 discriminant: Some(disc),
             }
         }
-        FieldSpec::Prime(2) => FormInvariants {
-            rank,
-            signature: None,
-            discriminant: None,
-        },
         FieldSpec::Prime(p) => {
             let f = PrimeField::new(p).expect("prime");
-            let gg = g
+            let gg: Vec<Vec<u64>> = g
                 .iter()
-                .map(|r| {
-                    r.iter()
-                        .map(|x| f.from_rational(x).expect("in field"))
-                        .collect()
-                })
+                .map(|r| r.iter().map(|x| f.reduce_big(x)).collect())
                 .collect();
+            if p == 2 {
+                let m = crate::linalg::Matrix::from_rows(gg, g.len());
+                return FormInvariants {
+                    rank: crate::linalg::rank(&f, &m),
+                    signature: None,
+                    discriminant: None,
+                };
+            }
             let diag = diagonal_entries(&f, gg);
             let disc = diag.iter().fold(1u64, |a, b| f.mul(&a, b));
             let square = f.pow(disc, (p - 1) / 2) == 1;
@@ -148,7 +213,7 @@ pub fn form_invariants(d: &Dense, g: &[Vec<Q>]) -> FormInvariants {
                 (2..p).find(|&a| f.pow(a, (p - 1) / 2) != 1).unwrap_or(1)
             };
             FormInvariants {
-                rank,
+                rank: diag.len(),
                 signature: None,
                 discriminant: Some(Q::from_integer(BigInt::from(rep))),
             }

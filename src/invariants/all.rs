@@ -1,0 +1,308 @@
+//! Every invariant of one product in one call: the orchestration that `analyze`,
+//! `invariants`, `identify` and the catalog share ([`compute_invariants`]).
+//!
+//! The parts to compute are named by [`Part`]; the laws they depend on (associative, Lie)
+//! are decided once by the law engine ([`crate::laws`]); each part is a proven basis from
+//! the engine of [`crate::linalg::nullspace`]. Before a part's system is solved its size is
+//! compared with the memory budget, and a part that would exceed it is reported as skipped
+//! with the reason, never attempted.
+
+use super::bilinear::{MapInvariant, map_invariant};
+use super::elements::{ElementSpace, element_space, unit};
+use super::lie::{LieInvariants, lie_invariants};
+use super::maps::{Centroid, adjoint_algebra, centroid, derivations, inner_derivations};
+use super::radical::{Radical, radical};
+use crate::error::{Error, Result};
+use crate::laws::{self, Law};
+use crate::linalg::nullspace::{SolveParams, Space, human_bytes};
+use crate::scalar::Q;
+use crate::tensor::{IntegralTensor, Kind, Tensor};
+use std::time::Instant;
+
+/// One part of the invariants (the names of `--only`).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Part {
+    Centre,
+    Nuclei,
+    Annihilators,
+    Unit,
+    Centroid,
+    Derivations,
+    Adjoint,
+    Radical,
+    Lie,
+    MapCentroid,
+    MapDerivations,
+    MapAdjoint,
+    MapRadicals,
+}
+
+impl Part {
+    /// All parts with their names.
+    pub const ALL: [(Part, &'static str); 13] = [
+        (Part::Centre, "centre"),
+        (Part::Nuclei, "nuclei"),
+        (Part::Annihilators, "annihilators"),
+        (Part::Unit, "unit"),
+        (Part::Centroid, "centroid"),
+        (Part::Derivations, "derivations"),
+        (Part::Adjoint, "adjoint"),
+        (Part::Radical, "radical"),
+        (Part::Lie, "lie"),
+        (Part::MapCentroid, "centroid-triples"),
+        (Part::MapDerivations, "derivation-triples"),
+        (Part::MapAdjoint, "adjoint-pairs"),
+        (Part::MapRadicals, "radicals"),
+    ];
+
+    /// The part's name.
+    pub fn name(self) -> &'static str {
+        Part::ALL
+            .iter()
+            .find(|(p, _)| *p == self)
+            .map(|(_, n)| *n)
+            .unwrap_or("")
+    }
+
+    /// Parse a comma-separated list (`center` is accepted for `centre`).
+    pub fn parse_list(s: &str) -> Result<Vec<Part>> {
+        s.split(',')
+            .map(|w| {
+                let w = w.trim().to_ascii_lowercase();
+                let w = if w == "center" {
+                    "centre".to_string()
+                } else {
+                    w
+                };
+                Part::ALL
+                    .iter()
+                    .find(|(_, n)| *n == w)
+                    .map(|(p, _)| *p)
+                    .ok_or_else(|| {
+                        let names: Vec<&str> = Part::ALL.iter().map(|(_, n)| *n).collect();
+                        Error::Invalid(format!(
+                            "unknown invariant `{w}` (known: {})",
+                            names.join(", ")
+                        ))
+                    })
+            })
+            .collect()
+    }
+
+    /// True for the parts of an algebra, false for those of a bilinear map.
+    pub fn is_algebra_part(self) -> bool {
+        !matches!(
+            self,
+            Part::MapCentroid | Part::MapDerivations | Part::MapAdjoint | Part::MapRadicals
+        )
+    }
+
+    /// The number of unknowns of the part's largest system on dimensions `[a, b, c]`.
+    pub fn unknowns(self, [a, b, c]: [usize; 3]) -> usize {
+        match self {
+            Part::Centre | Part::Nuclei | Part::Annihilators | Part::Radical | Part::Lie => a,
+            Part::Unit => a + 1,
+            Part::Centroid | Part::Derivations => a * a,
+            Part::Adjoint => 2 * a * a,
+            Part::MapCentroid | Part::MapDerivations => a * a + b * b + c * c,
+            Part::MapAdjoint => a * a + b * b,
+            Part::MapRadicals => a.max(b),
+        }
+    }
+}
+
+/// What to compute and how.
+#[derive(Clone, Debug, Default)]
+pub struct Params {
+    /// `None`: every part that applies to the tensor's kind.
+    pub only: Option<Vec<Part>>,
+    pub solve: SolveParams,
+}
+
+/// The derivation algebra with its inner part.
+#[derive(Clone, Debug)]
+pub struct Derivations {
+    pub space: Space,
+    /// `Some(true)`: inner derivations of a Lie algebra (`ad_x = L_x`); `Some(false)`: of
+    /// an associative algebra (`ad_x = L_x - R_x`); `None`: not defined.
+    pub inner_lie: Option<bool>,
+    pub inner: Option<Space>,
+}
+
+/// The radical part: computed, or why not.
+#[derive(Clone, Debug)]
+pub enum RadicalPart {
+    Computed(Radical),
+    NotAvailable(String),
+}
+
+/// Everything computed; absent parts are `None`.
+#[derive(Clone, Debug, Default)]
+pub struct Invariants {
+    pub associative: Option<bool>,
+    pub lie_algebra: Option<bool>,
+    pub commutative_centre: Option<Space>,
+    pub centre: Option<Space>,
+    pub left_nucleus: Option<Space>,
+    pub middle_nucleus: Option<Space>,
+    pub right_nucleus: Option<Space>,
+    pub nucleus: Option<Space>,
+    pub left_annihilator: Option<Space>,
+    pub right_annihilator: Option<Space>,
+    pub annihilator: Option<Space>,
+    /// `Some(None)`: no unit.
+    pub unit: Option<Option<Vec<Q>>>,
+    pub centroid: Option<Centroid>,
+    pub derivations: Option<Derivations>,
+    pub adjoint: Option<Space>,
+    pub radical: Option<RadicalPart>,
+    pub lie: Option<LieInvariants>,
+    pub centroid_triples: Option<Space>,
+    pub derivation_triples: Option<Space>,
+    pub adjoint_pairs: Option<Space>,
+    pub left_radical: Option<Space>,
+    pub right_radical: Option<Space>,
+    /// Parts not computed, with the reason (size above the memory budget).
+    pub skipped: Vec<(Part, String)>,
+    /// Wall-clock seconds per part (informative).
+    pub seconds: Vec<(String, f64)>,
+}
+
+/// The parts that apply to a tensor when none are named.
+pub fn default_parts(t: &Tensor) -> Vec<Part> {
+    let is_alg = t.kind() == Kind::Algebra;
+    Part::ALL
+        .iter()
+        .map(|(p, _)| *p)
+        .filter(|p| p.is_algebra_part() == is_alg)
+        .collect()
+}
+
+/// Compute the requested invariants of a tensor. `progress` receives a short message
+/// before each part. Cost: the sum of the parts' costs (see [`crate::invariants`]); the
+/// associative and Lie verdicts come from the law engine (stopping at a first failure).
+pub fn compute_invariants(
+    t: &Tensor,
+    params: &Params,
+    progress: &mut dyn FnMut(&str),
+) -> Result<Invariants> {
+    let is_alg = t.kind() == Kind::Algebra;
+    let parts = params.only.clone().unwrap_or_else(|| default_parts(t));
+    if !is_alg && parts.iter().any(|p| p.is_algebra_part()) {
+        return Err(Error::Invalid(
+            "this input is a bilinear map, not an algebra: use centroid-triples, \
+             derivation-triples, adjoint-pairs or radicals"
+                .to_string(),
+        ));
+    }
+    let it = IntegralTensor::from_tensor(t);
+    let sp = &params.solve;
+    let n = t.dim();
+    let mut r = Invariants::default();
+    if is_alg {
+        let lp = laws::Params {
+            laws: vec![Law::Associative, Law::Lie],
+            stop_first: true,
+            ..Default::default()
+        };
+        let lr = laws::check_laws(t, &lp)?;
+        r.associative = lr.holds(Law::Associative);
+        r.lie_algebra = lr.holds(Law::Lie);
+    }
+    let es = |w: ElementSpace| element_space(&it, w, sp);
+    for part in parts {
+        let start = Instant::now();
+        let m = part.unknowns(t.dims());
+        let need = 4usize.saturating_mul(m).saturating_mul(m);
+        if need > sp.max_memory {
+            r.skipped.push((
+                part,
+                format!(
+                    "its linear system has {m} unknowns: eliminating it needs about {}, \
+                     above the limit of {} (--max-memory)",
+                    human_bytes(need),
+                    human_bytes(sp.max_memory)
+                ),
+            ));
+            continue;
+        }
+        progress(&format!("invariants: {} (dim {n})", part.name()));
+        match part {
+            Part::Centre => {
+                r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
+                r.centre = Some(es(ElementSpace::Centre)?);
+            }
+            Part::Nuclei => {
+                r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
+                r.middle_nucleus = Some(es(ElementSpace::MiddleNucleus)?);
+                r.right_nucleus = Some(es(ElementSpace::RightNucleus)?);
+                r.nucleus = Some(es(ElementSpace::Nucleus)?);
+            }
+            Part::Annihilators => {
+                r.left_annihilator = Some(es(ElementSpace::LeftAnnihilator)?);
+                r.right_annihilator = Some(es(ElementSpace::RightAnnihilator)?);
+                r.annihilator = Some(es(ElementSpace::Annihilator)?);
+            }
+            Part::Unit => r.unit = Some(unit(&it, sp)?),
+            Part::Centroid => r.centroid = Some(centroid(t, &it, sp)?),
+            Part::Derivations => {
+                let space = derivations(&it, sp)?;
+                let inner_lie = if r.associative == Some(true) {
+                    Some(false)
+                } else if r.lie_algebra == Some(true) {
+                    Some(true)
+                } else {
+                    None
+                };
+                let inner = match inner_lie {
+                    Some(l) => Some(inner_derivations(&it, l, sp)?),
+                    None => None,
+                };
+                r.derivations = Some(Derivations {
+                    space,
+                    inner_lie,
+                    inner,
+                });
+            }
+            Part::Adjoint => r.adjoint = Some(adjoint_algebra(&it, sp)?),
+            Part::Radical => {
+                r.radical = Some(if r.associative != Some(true) {
+                    RadicalPart::NotAvailable(
+                        "not associative: the radical is computed for associative algebras".into(),
+                    )
+                } else {
+                    match radical(t, &it, sp)? {
+                        Some(rad) => RadicalPart::Computed(rad),
+                        None => RadicalPart::NotAvailable(
+                            "not available over GF(p): the trace-form criterion needs \
+                             characteristic 0"
+                                .into(),
+                        ),
+                    }
+                })
+            }
+            Part::Lie => {
+                if r.lie_algebra == Some(true) {
+                    r.lie = Some(lie_invariants(&it, sp)?);
+                }
+            }
+            Part::MapCentroid => {
+                r.centroid_triples = Some(map_invariant(&it, MapInvariant::CentroidTriples, sp)?)
+            }
+            Part::MapDerivations => {
+                r.derivation_triples =
+                    Some(map_invariant(&it, MapInvariant::DerivationTriples, sp)?)
+            }
+            Part::MapAdjoint => {
+                r.adjoint_pairs = Some(map_invariant(&it, MapInvariant::AdjointPairs, sp)?)
+            }
+            Part::MapRadicals => {
+                r.left_radical = Some(map_invariant(&it, MapInvariant::LeftRadical, sp)?);
+                r.right_radical = Some(map_invariant(&it, MapInvariant::RightRadical, sp)?);
+            }
+        }
+        r.seconds
+            .push((part.name().to_string(), start.elapsed().as_secs_f64()));
+    }
+    Ok(r)
+}
