@@ -199,11 +199,49 @@ pub fn dot_mod(a: &[u32], b: &[u32], p: u64) -> u64 {
     s
 }
 
+/// Reduction modulo a fixed p by multiplication (Barrett): `inv = floor(2^64 / p)` gives a
+/// quotient estimate at most 1 too small, so one correction makes any `u64` exact.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Modulus {
+    pub p: u64,
+    inv: u64,
+}
+
+impl Modulus {
+    /// The modulus p (2 <= p < 2^63).
+    pub fn new(p: u64) -> Self {
+        debug_assert!(p >= 2);
+        Modulus {
+            p,
+            inv: ((1u128 << 64) / p as u128) as u64,
+        }
+    }
+
+    /// `x mod p` for any `x`.
+    #[inline(always)]
+    pub fn reduce(&self, x: u64) -> u64 {
+        let q = ((x as u128 * self.inv as u128) >> 64) as u64;
+        let r = x.wrapping_sub(q.wrapping_mul(self.p));
+        if r >= self.p { r - self.p } else { r }
+    }
+
+    /// `a b mod p` for residues below 2^32.
+    #[inline(always)]
+    pub fn mul(&self, a: u32, b: u32) -> u32 {
+        match a {
+            0 => 0,
+            1 => b,
+            _ => self.reduce(a as u64 * b as u64) as u32,
+        }
+    }
+}
+
 /// Reduce every accumulator modulo p.
 #[inline]
 pub fn reduce(acc: &mut [u64], p: u64) {
+    let m = Modulus::new(p);
     for x in acc.iter_mut() {
-        *x %= p;
+        *x = m.reduce(*x);
     }
 }
 
@@ -281,6 +319,10 @@ mod tests {
     #[test]
     fn kernels_agree_with_scalar_arithmetic() {
         let p = 268_435_399u64; // a prime below 2^28
+        let m = Modulus::new(p);
+        for x in [0u64, 1, p - 1, p, p + 1, u64::MAX, u64::MAX - 7, 1 << 63] {
+            assert_eq!(m.reduce(x), x % p);
+        }
         let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(11);
         for cols in [1usize, 5, 63, 64, 65, 130, 200] {
             let rows = 255;

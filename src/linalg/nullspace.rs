@@ -178,6 +178,63 @@ pub fn solve_nullspace(src: &dyn RowSource, params: &SolveParams) -> Result<Spac
     Ok(Space { unknowns: n, basis })
 }
 
+/// The exact rank of a system's matrix, `unknowns - nullity`. Fast path: the rank modulo
+/// the first prime reaches the number of unknowns (full column rank modulo p implies full
+/// column rank over Q); otherwise the nullspace is computed and proven.
+/// Cost: one streamed elimination modulo p, plus [`solve_nullspace`] when not full.
+pub fn rank_of_system(src: &dyn RowSource) -> Result<usize> {
+    let m = src.unknowns();
+    if m == 0 {
+        return Ok(0);
+    }
+    let p = match src.modulus() {
+        Some(q) if q < 1 << KERNEL_PRIME_BITS => q,
+        Some(q) => {
+            return Err(Error::Invalid(format!(
+                "linear systems over GF({q}) need a prime below 2^28"
+            )));
+        }
+        None => cached_primes()[0],
+    };
+    if rank_modulo(src, p) == m {
+        return Ok(m);
+    }
+    let params = SolveParams {
+        max_memory: usize::MAX,
+        ..Default::default()
+    };
+    Ok(m - solve_nullspace(src, &params)?.dim())
+}
+
+/// The rank of a system's matrix modulo p (a lower bound for the rank over Q of an
+/// integer system), stopping once it is full. Cost: O(rows m rank) word operations.
+pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
+    let m = src.unknowns();
+    let mut e = DenseEchelon::new(p, m);
+    let mut buf = RowBuf::new(p);
+    let mut batch: Vec<u32> = Vec::new();
+    let per = batch_size(m);
+    for b in 0..src.blocks() {
+        src.block(b, p, &mut buf);
+        if buf.rows() >= per || b + 1 == src.blocks() {
+            for r in 0..buf.rows() {
+                let (cols, vals) = buf.row(r);
+                let start = batch.len();
+                batch.resize(start + m, 0);
+                for (&c, &v) in cols.iter().zip(vals) {
+                    batch[start + c as usize] = v;
+                }
+            }
+            buf.clear();
+            e.add_rows(&mut batch);
+            if e.rank() == m {
+                break;
+            }
+        }
+    }
+    e.rank()
+}
+
 /// The first kernel primes, computed once.
 pub fn cached_primes() -> &'static [u64] {
     static PRIMES: std::sync::OnceLock<Vec<u64>> = std::sync::OnceLock::new();

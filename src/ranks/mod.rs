@@ -25,9 +25,12 @@
 //! Over GF(q) the "largest rank in the span" means over GF(q) itself; both lower bounds
 //! are then computed in GF(q).
 
-use crate::linalg::{self, Matrix, modular};
+use crate::linalg::kernels::KERNEL_PRIME_BITS;
+use crate::linalg::nullspace::{cached_primes, rank_modulo};
+use crate::linalg::{self, Matrix};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q};
-use crate::tensor::{AXES, Tensor, flattening_ranks, others, rank_over, slices};
+use crate::tensor::flatten::{Unfolding, flattening_ranks_of, unfolding_rank};
+use crate::tensor::{AXES, IntegralTensor, Tensor, flattening_ranks, others, rank_over, slices};
 use num_traits::Zero;
 use rand::{Rng, SeedableRng};
 use serde::Serialize;
@@ -97,21 +100,115 @@ pub struct RankReport {
     pub span: Vec<SpanRank>,
 }
 
+/// Exact and modular ranks of slice combinations of one tensor: through the integer-scaled
+/// constants and the engine of [`crate::linalg::nullspace`], or, over GF(q) with
+/// q >= 2^28 (beyond the word kernels), by elimination in GF(q) itself.
+enum Ranker<'a> {
+    Integral(&'a IntegralTensor),
+    Field(FieldSpec, &'a Tensor),
+}
+
+impl Ranker<'_> {
+    /// The prime the random elements live modulo.
+    fn prime(&self) -> u64 {
+        match self {
+            Ranker::Integral(it) => it.modulus().unwrap_or(cached_primes()[0]),
+            Ranker::Field(f, _) => f.characteristic(),
+        }
+    }
+
+    fn unfolding<'b>(it: &'b IntegralTensor, axis: usize, c: &'b [i64]) -> Unfolding<'b> {
+        let d = it.dims;
+        let (o1, o2) = others(axis);
+        Unfolding {
+            it,
+            axis,
+            coefs: Some(c),
+            transposed: d[o1] < d[o2],
+        }
+    }
+
+    /// Exact rank of `sum_s c_s M_s` along `axis`.
+    fn exact(&self, axis: usize, c: &[i64]) -> usize {
+        match self {
+            Ranker::Integral(it) => unfolding_rank(&Self::unfolding(it, axis, c)),
+            Ranker::Field(f, t) => {
+                let ms = slices(t, axis);
+                let shape = [ms[0].rows, ms[0].cols];
+                rank_over(*f, &combine(&ms, shape, c))
+            }
+        }
+    }
+
+    /// Rank of `sum_s c_s M_s` modulo the prime, the `c_s` given modulo it.
+    fn modular(&self, axis: usize, c: &[u64]) -> usize {
+        match self {
+            Ranker::Integral(it) => {
+                let ci: Vec<i64> = c.iter().map(|&x| x as i64).collect();
+                rank_modulo(&Self::unfolding(it, axis, &ci), self.prime())
+            }
+            Ranker::Field(f, t) => {
+                let p = f.characteristic();
+                let fp = PrimeField::new(p).expect("prime");
+                let ms = slices(t, axis);
+                let mut acc = vec![0u64; ms[0].rows * ms[0].cols];
+                for (m, cs) in ms.iter().zip(c) {
+                    for (o, x) in acc.iter_mut().zip(&m.data) {
+                        if !x.is_zero() {
+                            let v = fp.from_rational(x).unwrap_or(0);
+                            fp.add_mul_assign(o, &v, cs);
+                        }
+                    }
+                }
+                let mm = Matrix {
+                    rows: ms[0].rows,
+                    cols: ms[0].cols,
+                    data: acc,
+                };
+                linalg::rank(&fp, &mm)
+            }
+        }
+    }
+}
+
+/// The exact rank of the slice combination `sum_s c_s M_s` along `axis` (over the
+/// tensor's field). Cost: one elimination modulo a prime, plus an exact nullspace when the
+/// rank is not full.
+pub fn combination_rank(t: &Tensor, axis: usize, c: &[i64]) -> usize {
+    if matches!(t.field(), FieldSpec::Prime(q) if q >= 1 << KERNEL_PRIME_BITS) {
+        return Ranker::Field(t.field(), t).exact(axis, c);
+    }
+    Ranker::Integral(&IntegralTensor::from_tensor(t)).exact(axis, c)
+}
+
 /// Flattening ranks, slice ranks and slice-span ranks of a tensor.
 /// Cost: three flattening ranks, `a + b + c` slice ranks and `3 (trials + 1)` ranks of
-/// combinations; each rank is one exact elimination (multi-modular over Q).
+/// combinations; each rank is one elimination modulo a prime (plus an exact nullspace
+/// when it is not full).
 pub fn compute_ranks(t: &Tensor, params: &Params) -> RankReport {
-    let flattening = flattening_ranks(t);
+    let it = IntegralTensor::from_tensor(t);
+    let large = matches!(t.field(), FieldSpec::Prime(q) if q >= 1 << KERNEL_PRIME_BITS);
+    let ranker = if large {
+        Ranker::Field(t.field(), t)
+    } else {
+        Ranker::Integral(&it)
+    };
+    let flattening = if large {
+        flattening_ranks(t)
+    } else {
+        flattening_ranks_of(&it)
+    };
     let d = t.dims();
     let mut out_slices = Vec::new();
     let mut span = Vec::new();
     for (axis, axis_name) in AXES.iter().enumerate() {
         let (o1, o2) = others(axis);
-        let ms = slices(t, axis);
-        let ranks = ms
-            .iter()
-            .enumerate()
-            .map(|(s, m)| (t.name(axis, s).to_string(), rank_over(t.field(), m)))
+        let ranks = (0..d[axis])
+            .map(|s| {
+                let mut c = vec![0i64; d[axis]];
+                c[s] = 1;
+                (t.name(axis, s).to_string(), ranker.exact(axis, &c))
+            })
             .collect();
         out_slices.push(AxisSlices {
             axis: axis_name.to_string(),
@@ -123,15 +220,7 @@ pub fn compute_ranks(t: &Tensor, params: &Params) -> RankReport {
             .wrapping_mul(0x9E37_79B9_7F4A_7C15)
             .wrapping_add(axis as u64);
         let upper = flattening[o1].min(flattening[o2]);
-        span.push(span_rank(
-            t.field(),
-            &ms,
-            [d[o1], d[o2]],
-            upper,
-            axis_name,
-            seed,
-            params,
-        ));
+        span.push(span_rank(&ranker, t.field(), axis, upper, seed, params));
     }
     RankReport {
         flattening,
@@ -157,76 +246,43 @@ fn combine(ms: &[Matrix<Q>], shape: [usize; 2], c: &[i64]) -> Matrix<Q> {
     out
 }
 
-/// A prime p < 2^28 for which every entry of the slices has a denominator prime to p.
-fn usable_prime(ms: &[Matrix<Q>]) -> u64 {
-    for p in modular::kernel_primes(16) {
-        let f = PrimeField::new(p).expect("prime");
-        if ms
-            .iter()
-            .all(|m| m.data.iter().all(|x| !f.denominator_vanishes(x)))
-        {
-            return p;
-        }
-    }
-    // 16 primes near 2^28 cannot all divide the denominators of a stored tensor in
-    // practice; fall back to the first one and let the exact certificate speak.
-    modular::kernel_primes(1)[0]
-}
-
-/// Rank modulo `p` of `sum_s c_s M_s`, the `c_s` given mod p.
-fn rank_mod_combination(ms: &[Matrix<Q>], shape: [usize; 2], c: &[u64], p: u64) -> usize {
-    let f = PrimeField::new(p).expect("prime");
-    let mut acc = vec![0u64; shape[0] * shape[1]];
-    for (m, cs) in ms.iter().zip(c) {
-        for (o, x) in acc.iter_mut().zip(&m.data) {
-            if !x.is_zero() {
-                let v = f.from_rational(x).unwrap_or(0);
-                f.add_mul_assign(o, &v, cs);
-            }
-        }
-    }
-    let mm = Matrix {
-        rows: shape[0],
-        cols: shape[1],
-        data: acc,
-    };
-    if p < (1 << modular::KERNEL_PRIME_BITS) {
-        modular::rank_mod(mm, p)
-    } else {
-        linalg::rank(&f, &mm)
-    }
-}
-
 fn span_rank(
+    ranker: &Ranker,
     field: FieldSpec,
-    ms: &[Matrix<Q>],
-    shape: [usize; 2],
+    axis: usize,
     upper: usize,
-    axis: &str,
     seed: u64,
     params: &Params,
 ) -> SpanRank {
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
-    let p = match field {
-        FieldSpec::Rational => usable_prime(ms),
-        FieldSpec::Prime(q) => q,
+    let axis_name = AXES[axis];
+    let (k, shape) = match ranker {
+        Ranker::Integral(it) => {
+            let (o1, o2) = others(axis);
+            (it.dims[axis], [it.dims[o1], it.dims[o2]])
+        }
+        Ranker::Field(_, t) => {
+            let (o1, o2) = others(axis);
+            (t.dims()[axis], [t.dims()[o1], t.dims()[o2]])
+        }
     };
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+    let p = ranker.prime();
     let mut random_rank = 0;
-    let mut certificate = vec![0i64; ms.len()];
+    let mut certificate = vec![0i64; k];
     let mut certificate_rank = 0;
-    if !ms.is_empty() && shape[0] > 0 && shape[1] > 0 {
+    if k > 0 && shape[0] > 0 && shape[1] > 0 {
         for _ in 0..params.trials.max(1) {
-            let c: Vec<u64> = (0..ms.len()).map(|_| rng.gen_range(0..p)).collect();
-            random_rank = random_rank.max(rank_mod_combination(ms, shape, &c, p));
+            let c: Vec<u64> = (0..k).map(|_| rng.gen_range(0..p)).collect();
+            random_rank = random_rank.max(ranker.modular(axis, &c));
             if random_rank == upper {
                 break;
             }
         }
         for _ in 0..params.trials.max(1) {
-            let c: Vec<i64> = (0..ms.len())
+            let c: Vec<i64> = (0..k)
                 .map(|_| rng.gen_range(-params.bound..=params.bound))
                 .collect();
-            let r = rank_over(field, &combine(ms, shape, &c));
+            let r = ranker.exact(axis, &c);
             if r > certificate_rank || certificate.iter().all(|&x| x == 0) {
                 certificate_rank = r;
                 certificate = c;
@@ -241,11 +297,11 @@ fn span_rank(
     let mut lower = random_rank.max(certificate_rank);
     // the grid argument: rescan with a larger candidate whenever a grid point beats it
     while lower < upper_bound {
-        match grid_scan(field, ms, shape, lower, params.max_grid_points) {
+        match grid_scan(ranker, field, axis, k, lower, params.max_grid_points) {
             GridScan::TooLarge => break,
             GridScan::AllAtMost => {
                 upper_bound = lower;
-                upper_bound_method = format!("grid {{0..{}}}^{}", lower + 1, ms.len());
+                upper_bound_method = format!("grid {{0..{}}}^{}", lower + 1, k);
             }
             GridScan::Found(c, r) => {
                 certificate = c;
@@ -255,7 +311,7 @@ fn span_rank(
         }
     }
     SpanRank {
-        axis: axis.into(),
+        axis: axis_name.into(),
         random_rank,
         prime: p,
         certificate,
@@ -281,9 +337,10 @@ enum GridScan {
 /// Nullstellensatz). So if every grid point has rank `<= r`, the generic rank of the span
 /// is `<= r`. Needs `r + 2` distinct field elements. Cost: `(r+2)^k` exact ranks.
 fn grid_scan(
+    ranker: &Ranker,
     field: FieldSpec,
-    ms: &[Matrix<Q>],
-    shape: [usize; 2],
+    axis: usize,
+    k: usize,
     r: usize,
     max_points: u64,
 ) -> GridScan {
@@ -291,18 +348,15 @@ fn grid_scan(
     if field.characteristic() != 0 && field.characteristic() < base {
         return GridScan::TooLarge;
     }
-    let Some(points) = u32::try_from(ms.len())
-        .ok()
-        .and_then(|k| base.checked_pow(k))
-    else {
+    let Some(points) = u32::try_from(k).ok().and_then(|k| base.checked_pow(k)) else {
         return GridScan::TooLarge;
     };
     if points > max_points {
         return GridScan::TooLarge;
     }
-    let mut t = vec![0i64; ms.len()];
+    let mut t = vec![0i64; k];
     for _ in 0..points {
-        let rk = rank_over(field, &combine(ms, shape, &t));
+        let rk = ranker.exact(axis, &t);
         if rk > r {
             return GridScan::Found(t, rk);
         }

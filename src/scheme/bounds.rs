@@ -27,8 +27,8 @@
 
 use crate::linalg::{Matrix, nullspace, rank, rref, solve};
 use crate::scalar::{Field, PrimeField, Q};
-use crate::tensor::{Kind, Tensor, flattening_ranks, rank_over, slices};
-use num_traits::{One, Zero};
+use crate::tensor::{Kind, Tensor, flattening_ranks};
+use num_traits::One;
 use rand::{Rng, SeedableRng};
 
 /// Parameters of [`lower_bounds`].
@@ -121,22 +121,13 @@ pub fn slice_span_rank(t: &Tensor, params: &BoundsParams) -> (usize, usize) {
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
     let mut best = (0, 0);
     for axis in 0..3 {
-        let sl = slices(t, axis);
-        if sl.is_empty() {
+        let k = t.dims()[axis];
+        if k == 0 {
             continue;
         }
         for _ in 0..params.slice_trials.max(1) {
-            let mut m = Matrix::filled(sl[0].rows, sl[0].cols, Q::zero());
-            for s in &sl {
-                let c = Q::from_integer(rng.gen_range(-1000i64..=1000).into());
-                for (x, y) in m.data.iter_mut().zip(&s.data) {
-                    if !y.is_zero() {
-                        *x += &c * y;
-                    }
-                }
-            }
-            let m = m.map(|x| super::reduce_into(t.field(), x).unwrap_or_else(|_| x.clone()));
-            let r = rank_over(t.field(), &m);
+            let c: Vec<i64> = (0..k).map(|_| rng.gen_range(-1000i64..=1000)).collect();
+            let r = crate::ranks::combination_rank(t, axis, &c);
             if r > best.0 {
                 best = (r, axis);
             }
@@ -213,91 +204,65 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
     }
     let a = Alg { n, c };
     let e = |i: usize| Alg::<F::Elem>::unit_vec(f, n, i);
-    // associativity, exactly
-    for i in 0..n {
-        for j in 0..n {
-            let ij = a.mul(f, &e(i), &e(j));
-            for k in 0..n {
-                if a.mul(f, &ij, &e(k)) != a.mul(f, &e(i), &a.mul(f, &e(j), &e(k))) {
-                    return Err(format!(
-                        "the algebra is not associative: ({} {}) {} != {} ({} {})",
-                        t.name(0, i),
-                        t.name(0, j),
-                        t.name(0, k),
-                        t.name(0, i),
-                        t.name(0, j),
-                        t.name(0, k)
-                    ));
-                }
-            }
+    // associativity and the unit, by the shared law engine
+    let lp = crate::laws::Params {
+        laws: vec![crate::laws::Law::Associative],
+        stop_first: true,
+        ..Default::default()
+    };
+    let lr = crate::laws::check_laws(t, &lp).map_err(|e| e.to_string())?;
+    match lr.get(crate::laws::Law::Associative) {
+        Some(r) if r.holds == Some(true) => {}
+        Some(r) if r.holds == Some(false) => {
+            let w = r
+                .witness
+                .as_ref()
+                .map(|w| format!(": {} = {}", w.expression, w.value));
+            return Err(format!(
+                "the algebra is not associative{}",
+                w.unwrap_or_default()
+            ));
         }
+        _ => return Err("associativity was not decided".into()),
     }
-    // unit: sum_a x_a c[a][j][k] = delta_jk and sum_a x_a c[j][a][k] = delta_jk
-    let mut m = Matrix::zeros(f, 2 * n * n, n);
-    let mut rhs = vec![f.zero(); 2 * n * n];
-    for j in 0..n {
-        for k in 0..n {
-            for aa in 0..n {
-                m[(j * n + k, aa)] = a.c[(aa * n + j) * n + k].clone();
-                m[(n * n + j * n + k, aa)] = a.c[(j * n + aa) * n + k].clone();
-            }
-            if j == k {
-                rhs[j * n + k] = f.one();
-                rhs[n * n + j * n + k] = f.one();
-            }
-        }
-    }
-    let one = solve(f, &m, &rhs).ok_or("the algebra has no unit element")?;
-    // trace form G[i][j] = Tr(L_{e_i e_j}) = sum_k c[i][j][k] tau_k, tau_k = Tr L_{e_k}
-    let tau: Vec<F::Elem> = (0..n)
-        .map(|k| {
-            let mut s = f.zero();
-            for j in 0..n {
-                s = f.add(&s, &a.c[(k * n + j) * n + j]);
-            }
-            s
-        })
+    let it = crate::tensor::IntegralTensor::from_tensor(t);
+    let sp = crate::linalg::nullspace::SolveParams::default();
+    let one: Vec<F::Elem> = crate::laws::find_unit(&it, &sp)
+        .map_err(|e| e.to_string())?
+        .ok_or("the algebra has no unit element")?
+        .iter()
+        .map(|x| f.from_rational(x).expect("in the field"))
         .collect();
-    let mut g = Matrix::zeros(f, n, n);
-    for i in 0..n {
-        for j in 0..n {
-            let mut s = f.zero();
-            for (k, tk) in tau.iter().enumerate() {
-                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], tk);
-            }
-            g[(j, i)] = s; // row j: the condition sum_i x_i G[i][j] = 0
+    let rad: Vec<Vec<F::Elem>> = if f.characteristic() == 0 {
+        // Dickson's criterion (characteristic 0): the radical is the kernel of the trace
+        // form, by the shared invariants engine; a simple quotient settles t at once
+        let r = crate::invariants::radical(t, &it, &sp)
+            .map_err(|e| e.to_string())?
+            .ok_or("no radical over this field")?;
+        if r.quotient_centre_dim <= 1 {
+            return Ok((
+                1,
+                format!(
+                    "dim rad A = {}, dim A/rad A = {}, dim Z(A/rad A) = {}, so t = 1 \
+                     (A/rad A is simple)",
+                    r.space.dim(),
+                    r.quotient_dim,
+                    r.quotient_centre_dim
+                ),
+            ));
         }
-    }
-    let rad = nullspace(f, &g);
-    // check: rad is a nilpotent two-sided ideal
-    let mut power = rad.clone();
-    let mut steps = 0;
-    while !power.is_empty() {
-        let mut prods = Vec::new();
-        for x in &power {
-            for y in &rad {
-                prods.push(a.mul(f, x, y));
-            }
-        }
-        let next = span_basis(f, prods, n);
-        if next.len() >= power.len() {
-            return Err("the trace-form radical is not nilpotent (cannot certify rad A)".into());
-        }
-        power = next;
-        steps += 1;
-        if steps > n + 1 {
-            return Err("nilpotency check did not terminate".into());
-        }
-    }
-    for x in &rad {
-        for i in 0..n {
-            for p in [a.mul(f, x, &e(i)), a.mul(f, &e(i), x)] {
-                if !in_span(f, &rad, &p, n) {
-                    return Err("the trace-form radical is not an ideal".into());
-                }
-            }
-        }
-    }
+        r.space
+            .dense_basis()
+            .iter()
+            .map(|v| {
+                v.iter()
+                    .map(|x| f.from_rational(x).expect("in field"))
+                    .collect()
+            })
+            .collect()
+    } else {
+        trace_form_radical(f, &a, n, &e)?
+    };
     // quotient S = A / rad: coordinates on the non-pivot columns of rref(rad)
     let mut rm = Matrix::from_rows(rad.clone(), n);
     let pivots = rref(f, &mut rm);
@@ -399,6 +364,68 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
         }
     }
     Ok((dz, format!("{head}, t <= dim Z(A/rad A) = {dz}")))
+}
+
+/// The radical of the trace form `{x : Tr(L_{xy}) = 0 for all y}` (which contains rad A in
+/// every characteristic), accepted only when it is checked to be a nilpotent two-sided
+/// ideal (then it is rad A).
+fn trace_form_radical<F: Field>(
+    f: &F,
+    a: &Alg<F::Elem>,
+    n: usize,
+    e: &dyn Fn(usize) -> Vec<F::Elem>,
+) -> Result<Vec<Vec<F::Elem>>, String> {
+    // trace form G[i][j] = Tr(L_{e_i e_j}) = sum_k c[i][j][k] tau_k, tau_k = Tr L_{e_k}
+    let tau: Vec<F::Elem> = (0..n)
+        .map(|k| {
+            let mut s = f.zero();
+            for j in 0..n {
+                s = f.add(&s, &a.c[(k * n + j) * n + j]);
+            }
+            s
+        })
+        .collect();
+    let mut g = Matrix::zeros(f, n, n);
+    for i in 0..n {
+        for j in 0..n {
+            let mut s = f.zero();
+            for (k, tk) in tau.iter().enumerate() {
+                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], tk);
+            }
+            g[(j, i)] = s; // row j: the condition sum_i x_i G[i][j] = 0
+        }
+    }
+    let rad = nullspace(f, &g);
+    // check: rad is a nilpotent two-sided ideal
+    let mut power = rad.clone();
+    let mut steps = 0;
+    while !power.is_empty() {
+        let mut prods = Vec::new();
+        for x in &power {
+            for y in &rad {
+                prods.push(a.mul(f, x, y));
+            }
+        }
+        let next = span_basis(f, prods, n);
+        if next.len() >= power.len() {
+            return Err("the trace-form radical is not nilpotent (cannot certify rad A)".into());
+        }
+        power = next;
+        steps += 1;
+        if steps > n + 1 {
+            return Err("nilpotency check did not terminate".into());
+        }
+    }
+    for x in &rad {
+        for i in 0..n {
+            for p in [a.mul(f, x, &e(i)), a.mul(f, &e(i), x)] {
+                if !in_span(f, &rad, &p, n) {
+                    return Err("the trace-form radical is not an ideal".into());
+                }
+            }
+        }
+    }
+    Ok(rad)
 }
 
 /// A product on coordinate vectors.

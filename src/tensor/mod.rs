@@ -9,7 +9,7 @@
 //! three dimensions and name lists are equal.
 
 mod basis;
-mod flatten;
+pub mod flatten;
 pub mod integral;
 pub mod products;
 mod table;

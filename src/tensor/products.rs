@@ -15,7 +15,7 @@
 //! into a vector and clears it. All arithmetic is exact modulo p.
 
 use super::ModTable;
-use crate::linalg::kernels::{LAZY_ADDS, LazyAcc};
+use crate::linalg::kernels::{LAZY_ADDS, LazyAcc, Modulus};
 
 /// Index of the unordered pair `{a, b}` (a <= b) among `0..n(n+1)/2`.
 #[inline]
@@ -56,12 +56,6 @@ pub trait Ops: Sync {
     fn is_zero(&self, v: &Self::V) -> bool;
     /// The nonzero residues `(k, v_k)`, sorted by k.
     fn entries(&self, v: &Self::V) -> Vec<(usize, u64)>;
-}
-
-/// Residue of `c * x`.
-#[inline]
-fn mulm(c: u32, x: u32, p: u64) -> u32 {
-    (c as u64 * x as u64 % p) as u32
 }
 
 /// Dense tables (see the module documentation).
@@ -151,7 +145,8 @@ fn scaled<'s>(c: u32, v: &[u32], p: u64, out: &'s mut Vec<u32>) -> &'s [u32] {
     if c == 1 {
         out.extend_from_slice(v);
     } else {
-        out.extend(v.iter().map(|&x| mulm(c, x, p)));
+        let m = Modulus::new(p);
+        out.extend(v.iter().map(|&x| m.mul(c, x)));
     }
     out
 }
@@ -244,6 +239,7 @@ impl Ops for DenseOps<'_> {
 pub struct SparseOps<'a> {
     t: &'a ModTable,
     n: usize,
+    m: Modulus,
 }
 
 /// A sparse accumulator: dense values with the list of touched coordinates.
@@ -253,7 +249,7 @@ pub struct SparseAcc {
     mark: Vec<bool>,
     /// Products added per coordinate since the last reduction (an upper bound).
     pending: usize,
-    p: u64,
+    m: Modulus,
 }
 
 impl SparseAcc {
@@ -261,7 +257,7 @@ impl SparseAcc {
     fn room(&mut self, k: usize) {
         if self.pending + k > LAZY_ADDS {
             for &i in &self.touched {
-                self.vals[i as usize] %= self.p;
+                self.vals[i as usize] = self.m.reduce(self.vals[i as usize]);
             }
             self.pending = 0;
         }
@@ -283,7 +279,11 @@ impl SparseAcc {
 
 impl<'a> SparseOps<'a> {
     pub fn new(t: &'a ModTable) -> Self {
-        SparseOps { t, n: t.dims[0] }
+        SparseOps {
+            t,
+            n: t.dims[0],
+            m: Modulus::new(t.p),
+        }
     }
 
     /// The entries of `S(a,b)` (unsorted, possibly repeated indices), scaled by c.
@@ -313,7 +313,7 @@ impl Ops for SparseOps<'_> {
             touched: Vec::new(),
             mark: vec![false; self.n],
             pending: 0,
-            p: self.t.p,
+            m: self.m,
         }
     }
     fn new_vec(&self) -> Self::V {
@@ -326,62 +326,63 @@ impl Ops for SparseOps<'_> {
     }
     fn add_vb(&self, a: &mut SparseAcc, c: u32, v: &Self::V, k: usize) {
         a.room(v.len());
-        let p = self.t.p;
         for &(m, x) in v {
             let (ix, vx) = self.t.row(m as usize, k);
-            a.scatter(mulm(c, x, p), ix, vx);
+            a.scatter(self.m.mul(c, x), ix, vx);
         }
     }
     fn add_pb(&self, a: &mut SparseAcc, c: u32, i: usize, j: usize, k: usize) {
         let (im, vm) = self.t.row(i, j);
         a.room(im.len());
-        let p = self.t.p;
         for (&m, &x) in im.iter().zip(vm) {
             let (ix, vx) = self.t.row(m as usize, k);
-            a.scatter(mulm(c, x, p), ix, vx);
+            a.scatter(self.m.mul(c, x), ix, vx);
         }
     }
     fn add_bp(&self, a: &mut SparseAcc, c: u32, i: usize, j: usize, k: usize) {
         let (im, vm) = self.t.row(j, k);
         a.room(im.len());
-        let p = self.t.p;
         for (&m, &x) in im.iter().zip(vm) {
             let (ix, vx) = self.t.row(i, m as usize);
-            a.scatter(mulm(c, x, p), ix, vx);
+            a.scatter(self.m.mul(c, x), ix, vx);
         }
     }
     fn add_sb(&self, a: &mut SparseAcc, c: u32, x: usize, y: usize, k: usize) {
-        let p = self.t.p;
         let len = self.t.row(x, y).0.len() + self.t.row(y, x).0.len();
         a.room(len);
         self.for_pair(x, y, |m, s| {
             let (ix, vx) = self.t.row(m, k);
-            a.scatter(mulm(c, s, p), ix, vx);
+            a.scatter(self.m.mul(c, s), ix, vx);
         });
     }
     fn add_sv(&self, a: &mut SparseAcc, c: u32, x: usize, y: usize, w: &Self::V) {
-        let p = self.t.p;
         let len = self.t.row(x, y).0.len() + self.t.row(y, x).0.len();
         a.room(len * w.len());
         self.for_pair(x, y, |m, s| {
-            let cs = mulm(c, s, p);
+            let cs = self.m.mul(c, s);
             for &(m2, t) in w {
                 let (ix, vx) = self.t.row(m, m2 as usize);
-                a.scatter(mulm(cs, t, p), ix, vx);
+                a.scatter(self.m.mul(cs, t), ix, vx);
             }
         });
     }
     fn add_sp(&self, a: &mut SparseAcc, c: u32, x: usize, y: usize, u: usize, v: usize) {
         let (iw, vw) = self.t.row(u, v);
-        let w: Vec<(u32, u32)> = iw.iter().copied().zip(vw.iter().copied()).collect();
-        self.add_sv(a, c, x, y, &w);
+        let len = self.t.row(x, y).0.len() + self.t.row(y, x).0.len();
+        a.room(len * iw.len());
+        self.for_pair(x, y, |m, s| {
+            let cs = self.m.mul(c, s);
+            for (&m2, &t) in iw.iter().zip(vw) {
+                let (ix, vx) = self.t.row(m, m2 as usize);
+                a.scatter(self.m.mul(cs, t), ix, vx);
+            }
+        });
     }
     fn finish(&self, a: &mut SparseAcc, out: &mut Self::V) {
         out.clear();
-        let p = self.t.p;
         for &k in &a.touched {
             let ku = k as usize;
-            let v = a.vals[ku] % p;
+            let v = self.m.reduce(a.vals[ku]);
             if v != 0 {
                 out.push((k, v as u32));
             }
@@ -392,11 +393,10 @@ impl Ops for SparseOps<'_> {
         a.pending = 0;
     }
     fn drain(&self, a: &mut SparseAcc) -> Vec<(usize, u64)> {
-        let p = self.t.p;
         let mut out: Vec<(usize, u64)> = a
             .touched
             .iter()
-            .map(|&k| (k as usize, a.vals[k as usize] % p))
+            .map(|&k| (k as usize, self.m.reduce(a.vals[k as usize])))
             .collect();
         for &k in &a.touched {
             a.vals[k as usize] = 0;
