@@ -16,6 +16,7 @@ pub mod input;
 pub mod invariants;
 pub mod laws;
 pub mod linalg;
+pub mod output;
 pub mod ranks;
 pub mod report;
 pub mod scalar;
