@@ -10,7 +10,7 @@ fn json_refuses_too_many_products() {
     let text = "{\"kind\": \"bilinear\",\n \"dims\": [4096, 4096, 4096], \"entries\": []}";
     let e = parse_json(text, "j").unwrap_err().to_string();
     assert!(
-        e.starts_with("j:2:2: 4096 x 4096 = 16777216 products"),
+        e.starts_with("j:2:10: $.dims: 4096 x 4096 = 16777216 products"),
         "{e}"
     );
     assert!(e.contains("2^22"), "{e}");

@@ -17,6 +17,7 @@ mod combination;
 mod cursor;
 mod grid;
 mod json;
+pub mod json_tree;
 mod load;
 mod products;
 mod resolve;
@@ -33,7 +34,7 @@ mod tests;
 pub use basis_file::{
     BasisChange, MatrixBlock, NamesLine, apply_basis_change, parse_basis_file, random_basis_change,
 };
-pub use json::parse_json;
+pub use json::{json_coefficient, json_dims, json_field, json_list, json_required, parse_json};
 pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file};
 pub use resolve::{Resolver, register_resolver, resolve_registered};
 pub use table::parse_table;
