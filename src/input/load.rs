@@ -43,6 +43,12 @@ pub fn read_text_file(path: &str) -> Result<String> {
     if bytes.len() as u64 > MAX_FILE_BYTES {
         return Err(too_big());
     }
+    text_from_bytes(bytes, path)
+}
+
+/// The bytes of an input as text: valid UTF-8, or an [`Error::Parse`] at the line and
+/// column of the first invalid byte. Cost: linear.
+pub fn text_from_bytes(bytes: Vec<u8>, path: &str) -> Result<String> {
     String::from_utf8(bytes).map_err(|e| {
         let good = e.utf8_error().valid_up_to();
         let bytes = e.as_bytes();

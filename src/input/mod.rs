@@ -35,7 +35,7 @@ pub use basis_file::{
     BasisChange, MatrixBlock, NamesLine, apply_basis_change, parse_basis_file, random_basis_change,
 };
 pub use json::{json_coefficient, json_dims, json_field, json_list, json_required, parse_json};
-pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file};
+pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file, text_from_bytes};
 pub use resolve::{Resolver, register_resolver, resolve_registered};
 pub use table::parse_table;
 pub use write::{format_combination, write_grid, write_json, write_table};
