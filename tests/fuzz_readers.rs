@@ -243,7 +243,7 @@ fn readers() -> Vec<Reader> {
     ];
     let scheme_json_seeds: Vec<String> = parsed
         .iter()
-        .map(|s| bilin::scheme::json::write_json(s))
+        .map(bilin::scheme::json::write_json)
         .chain(parsed.iter().map(|s| scheme_to_json(s).to_string()))
         .collect();
     let checkpoint_seeds: Vec<String> = parsed
