@@ -127,11 +127,6 @@ impl OutputFiles {
         })
     }
 
-    /// The `--out` target, if any.
-    pub fn out(&self) -> Option<&Target> {
-        self.out.as_ref()
-    }
-
     fn warn_once(&self, msg: String) {
         let mut last = self.last_warning.lock().unwrap_or_else(|e| e.into_inner());
         if *last != msg {
@@ -159,6 +154,17 @@ impl OutputFiles {
             Ok(_) => *last = Some(best.rank()),
             Err(e) => self.warn_once(format!("result not written yet: {e}")),
         }
+    }
+
+    /// At the end: write the result (see [`emit_result`]) unless this very scheme's rank
+    /// is already in `--out` from a write during the search. Returns false when the result
+    /// could not go where it was asked.
+    pub fn save_result(&self, s: &Scheme, t: &Tensor) -> bool {
+        let written = *self.out_rank.lock().unwrap_or_else(|e| e.into_inner());
+        if self.out.as_ref().is_some_and(Target::is_file) && written == Some(s.rank()) {
+            return true;
+        }
+        emit_result(self.out.as_ref(), s, t, self.overwrite)
     }
 
     /// At the end: write the checkpoint (failures are warnings).

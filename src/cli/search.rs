@@ -8,7 +8,7 @@
 //! `bilin::search::store` (a better result is never replaced unless `--overwrite`).
 
 use super::common::{note, report_error, usage_error};
-use super::outputs::{OutputFiles, emit_result};
+use super::outputs::OutputFiles;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
@@ -257,7 +257,7 @@ pub fn run(a: SearchArgs) -> i32 {
     };
     match &outcome.best {
         Some(s) => {
-            if !emit_result(files.out(), s, &t, a.overwrite) {
+            if !files.save_result(s, &t) {
                 code = EXIT_USAGE;
             }
             note(format!(
