@@ -229,6 +229,7 @@ impl Cur<'_> {
 /// reduced to `0..p`. Errors: [`Error::Parse`] with line and column. Cost: linear in the
 /// text plus O(r (d0 + d1 + d2)).
 pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let dims = t.dims();
     let index = |axis: usize| -> HashMap<&str, usize> {
         t.names()[axis]
