@@ -100,6 +100,14 @@ fn finish(mut child: Child) -> (i32, String) {
     }
 }
 
+/// `bilin search poly:2,2 --rank 3 --threads 1 EXTRA...` (Karatsuba's rank 3, Karatsuba
+/// and Ofman 1962, is found at once).
+fn search_poly(extra: &[&str]) -> (i32, String, String) {
+    let mut args = vec!["search", "poly:2,2", "--rank", "3", "--threads", "1"];
+    args.extend(extra);
+    common::run(&args)
+}
+
 fn verifies(path: &Path) {
     let (code, out, err) = common::run(&["verify", "matmul:3,3,3", s(path)]);
     assert_eq!(code, 0, "{path:?} does not verify: {out}{err}");
@@ -144,6 +152,18 @@ fn resume_and_check(out: &Path, ckpt: &Path, before: usize) {
     );
 }
 
+/// After a stop: `out` verifies with a rank at most `bound` (what was checkpointed before
+/// the stop), and resuming from `ckpt` does not make it worse.
+fn written_then_resumed(out: &Path, ckpt: &Path, bound: usize) {
+    verifies(out);
+    let written = rank_in(out).unwrap();
+    assert!(
+        written <= bound,
+        "rank {written} written, {bound} before the stop"
+    );
+    resume_and_check(out, ckpt, written);
+}
+
 #[test]
 fn sigterm_and_sighup_stop_the_search_and_write_everything() {
     let dir = scratch("term");
@@ -163,13 +183,7 @@ fn sigterm_and_sighup_stop_the_search_and_write_everything() {
         assert_eq!(code, 1, "signal {sig}: the target is not reached: {err}");
         assert!(err.contains("stop requested"), "{err}");
         assert!(err.contains("stopped by a signal"), "{err}");
-        verifies(&out);
-        let after = rank_in(&out).unwrap();
-        assert!(
-            after <= before,
-            "signal {sig}: rank {after} written, {before} checkpointed"
-        );
-        resume_and_check(&out, &ckpt, after);
+        written_then_resumed(&out, &ckpt, before);
     }
     assert!(temporaries(&dir).is_empty(), "{:?}", temporaries(&dir));
     std::fs::remove_dir_all(&dir).ok();
@@ -188,10 +202,7 @@ fn kill_9_loses_nothing_that_was_written() {
     let (code, _) = finish(child);
     assert_eq!(code, -1);
     // both files are complete (written by rename), the result verifies
-    verifies(&out);
-    let at_kill = rank_in(&out).unwrap();
-    assert!(at_kill <= before);
-    resume_and_check(&out, &ckpt, at_kill);
+    written_then_resumed(&out, &ckpt, before);
     assert!(temporaries(&dir).is_empty(), "{:?}", temporaries(&dir));
     std::fs::remove_dir_all(&dir).ok();
 }
@@ -200,20 +211,7 @@ fn kill_9_loses_nothing_that_was_written() {
 fn resume_refuses_a_conflicting_seed_or_shard() {
     let dir = scratch("conflict");
     let out = dir.join("r.json");
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--seed",
-        "4",
-        "--shard",
-        "2/5",
-        "--out",
-        s(&out),
-    ]);
+    let (code, _, err) = search_poly(&["--seed", "4", "--shard", "2/5", "--out", s(&out)]);
     assert!(code == 0 || code == 1, "{err}");
     let ckpt = format!("{}.checkpoint.json", s(&out));
     for (args, want) in [
@@ -236,20 +234,7 @@ fn resume_refuses_a_conflicting_seed_or_shard() {
         );
     }
     // the same values, or none, continue the checkpoint
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--seed",
-        "4",
-        "--resume",
-        &ckpt,
-        "--out",
-        s(&out),
-    ]);
+    let (code, _, err) = search_poly(&["--seed", "4", "--resume", &ckpt, "--out", s(&out)]);
     assert!(code == 0 || code == 1, "{err}");
     let text = std::fs::read_to_string(&ckpt).unwrap();
     assert!(
@@ -263,16 +248,7 @@ fn resume_refuses_a_conflicting_seed_or_shard() {
 fn outputs_that_are_not_plain_files_are_never_replaced() {
     let dir = scratch("paths");
     // a device is written through and stays a device; no checkpoint beside it
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--out",
-        "/dev/null",
-    ]);
+    let (code, _, err) = search_poly(&["--out", "/dev/null"]);
     assert_eq!(code, 0, "{err}");
     use std::os::unix::fs::FileTypeExt;
     assert!(
@@ -287,16 +263,7 @@ fn outputs_that_are_not_plain_files_are_never_replaced() {
     let link = dir.join("link.json");
     std::os::unix::fs::symlink(&target, &link).unwrap();
     std::fs::write(&target, "").unwrap();
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--out",
-        s(&link),
-    ]);
+    let (code, _, err) = search_poly(&["--out", s(&link)]);
     assert_eq!(code, 0, "{err}");
     assert!(
         std::fs::symlink_metadata(&link)
@@ -371,30 +338,11 @@ fn a_better_or_foreign_file_is_kept() {
     // --overwrite
     let other = dir.join("notes.txt");
     std::fs::write(&other, "my notes\n").unwrap();
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--out",
-        s(&other),
-    ]);
+    let (code, _, err) = search_poly(&["--out", s(&other)]);
     assert_eq!(code, 2, "{err}");
     assert!(err.contains("refusing to use it as --out"), "{err}");
     assert_eq!(std::fs::read_to_string(&other).unwrap(), "my notes\n");
-    let (code, _, err) = common::run(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "3",
-        "--threads",
-        "1",
-        "--out",
-        s(&other),
-        "--overwrite",
-    ]);
+    let (code, _, err) = search_poly(&["--out", s(&other), "--overwrite"]);
     assert_eq!(code, 0, "{err}");
     assert_eq!(rank_in(&other), Some(3));
     std::fs::remove_dir_all(&dir).ok();

@@ -279,32 +279,7 @@ impl Parser<'_> {
                         Some(b'r') => '\r',
                         Some(b't') => '\t',
                         Some(b'u') => {
-                            self.i += 1;
-                            let esc = self.i - 2;
-                            let hi = self.hex4()?;
-                            let code = if (0xD800..0xDC00).contains(&hi) {
-                                if !self.b[self.i..].starts_with(b"\\u") {
-                                    return Err(self.doc.error_plain(
-                                        esc,
-                                        "invalid JSON: a lone surrogate `\\u` escape",
-                                    ));
-                                }
-                                self.i += 2;
-                                let lo = self.hex4()?;
-                                if !(0xDC00..0xE000).contains(&lo) {
-                                    return Err(self.doc.error_plain(
-                                        esc,
-                                        "invalid JSON: a lone surrogate `\\u` escape",
-                                    ));
-                                }
-                                0x10000 + ((hi - 0xD800) << 10) + (lo - 0xDC00)
-                            } else {
-                                hi
-                            };
-                            let c = char::from_u32(code).ok_or_else(|| {
-                                self.doc
-                                    .error_plain(esc, "invalid JSON: a lone surrogate `\\u` escape")
-                            })?;
+                            let c = self.unicode_escape()?;
                             out.push(c);
                             continue;
                         }
@@ -325,6 +300,32 @@ impl Parser<'_> {
                 }
             }
         }
+    }
+
+    /// A `\uXXXX` escape (a surrogate pair for characters beyond U+FFFF); the cursor is
+    /// at the `u`.
+    fn unicode_escape(&mut self) -> Result<char> {
+        let esc = self.i - 1;
+        let lone = |p: &Parser| {
+            p.doc
+                .error_plain(esc, "invalid JSON: a lone surrogate `\\u` escape")
+        };
+        self.i += 1;
+        let hi = self.hex4()?;
+        let code = if (0xD800..0xDC00).contains(&hi) {
+            if !self.b[self.i..].starts_with(b"\\u") {
+                return Err(lone(self));
+            }
+            self.i += 2;
+            let lo = self.hex4()?;
+            if !(0xDC00..0xE000).contains(&lo) {
+                return Err(lone(self));
+            }
+            0x10000 + ((hi - 0xD800) << 10) + (lo - 0xDC00)
+        } else {
+            hi
+        };
+        char::from_u32(code).ok_or_else(|| lone(self))
     }
 
     fn digits(&mut self) -> usize {
