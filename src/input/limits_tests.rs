@@ -89,3 +89,33 @@ fn duplicate_with_a_bare_number_is_reported_at_the_later_line() {
         "{e}"
     );
 }
+
+#[test]
+fn sums_of_coefficients_stay_within_the_digit_limit() {
+    // every number is within the limit, their sum is not: refused, so that whatever is
+    // read can be written and read back
+    let big = "9".repeat(super::MAX_DIGITS);
+    let text = format!("basis e\ne*e = {big} e + {big} e\n");
+    let e = parse_table(&text, "t").unwrap_err().to_string();
+    assert!(e.starts_with("t:2:7: the coefficients here add up"), "{e}");
+    let ok = format!("basis e\ne*e = {big} e\n");
+    assert!(parse_table(&ok, "t").is_ok());
+    let t = generate("matmul:1,1,1").unwrap();
+    let text = format!("m1 = ({big} a11 + {big} a11)*b11\nc11 = m1\n");
+    let e = crate::scheme::parse_scheme(&text, "s", &t)
+        .unwrap_err()
+        .to_string();
+    assert!(e.starts_with("s:1:"), "{e}");
+    assert!(
+        e.contains("add up to a number with more than 4096 digits"),
+        "{e}"
+    );
+    let long = "9".repeat(super::MAX_DIGITS + 1);
+    let e = crate::scheme::parse_scheme(&format!("m1 = {long} a11*b11\n"), "s", &t)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("s:1:6: a number with more than 4096 digits"),
+        "{e}"
+    );
+}

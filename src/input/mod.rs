@@ -43,6 +43,22 @@ pub use write::{format_combination, write_grid, write_json, write_table};
 /// Largest number of decimal digits accepted in a numerator or denominator.
 pub const MAX_DIGITS: usize = 4096;
 
+/// Check that a coefficient obtained by adding coefficients of an input (a name repeated
+/// in a combination) still has at most [`MAX_DIGITS`] digits in its numerator and
+/// denominator, so that everything read can be written and read back.
+/// Cost: O(1) below about 13,600 bits, else one conversion to decimal.
+pub fn check_digits(q: &crate::scalar::Q) -> std::result::Result<(), String> {
+    let too_long =
+        |x: &num_bigint::BigInt| x.bits() > 13_600 && x.magnitude().to_string().len() > MAX_DIGITS;
+    if too_long(q.numer()) || too_long(q.denom()) {
+        return Err(format!(
+            "the coefficients here add up to a number with more than {MAX_DIGITS} digits \
+             (the limit of docs/formats.md)"
+        ));
+    }
+    Ok(())
+}
+
 /// True when `s` is a valid basis name: a letter or `_`, then letters, digits, `_`, `'`, `.`.
 pub fn is_valid_name(s: &str) -> bool {
     let mut it = s.chars();

@@ -94,6 +94,18 @@ fn lex(line: &str, err: &dyn Fn(usize, String) -> Error) -> Result<Lexed, Error>
                     format!("expected a number such as `3`, `1/2` or `0.25`, found `{s}`"),
                 ));
             }
+            if s.split(['.', '/'])
+                .any(|d| d.len() > crate::input::MAX_DIGITS)
+            {
+                return Err(err(
+                    col,
+                    format!(
+                        "a number with more than {} digits: coefficients have at most {} digits",
+                        crate::input::MAX_DIGITS,
+                        crate::input::MAX_DIGITS
+                    ),
+                ));
+            }
             let v = parse_rational(&s).map_err(|m| err(col, m))?;
             toks.push((Tok::Num(v), col));
         } else if is_name_start(c) {
@@ -378,6 +390,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                         };
                         vec[i] = reduce_into(field, &(&vec[i] + c))
                             .map_err(|e| err(*col, e.to_string()))?;
+                        crate::input::check_digits(&vec[i]).map_err(|m| err(*col, m))?;
                     }
                     None if c.is_zero() => {}
                     None => return Err(err(*col, "a bare number in a factor must be 0".into())),
@@ -411,6 +424,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                     };
                     let x = &scheme.w[tt][k] + c;
                     scheme.w[tt][k] = reduce_into(field, &x).map_err(|e| err(e.to_string()))?;
+                    crate::input::check_digits(&scheme.w[tt][k]).map_err(err)?;
                 }
                 None if c.is_zero() => {}
                 None => return Err(err("a bare number in an output line must be 0".into())),
