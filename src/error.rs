@@ -27,9 +27,36 @@ pub enum Error {
     /// A request that is well-formed but not meaningful (wrong shape, unknown name, ...).
     #[error("{0}")]
     Invalid(String),
-    /// Reading a file failed.
-    #[error("cannot read {path}: {message}")]
+    /// Reading or writing a file failed; `message` says which (`cannot read: ...`).
+    #[error("{path}: {message}")]
     Io { path: String, message: String },
+}
+
+impl Error {
+    /// A failed read of `path`.
+    pub fn read_failed(path: &str, e: &std::io::Error) -> Error {
+        Error::Io {
+            path: path.to_string(),
+            message: format!("cannot read: {}", describe_io(e)),
+        }
+    }
+
+    /// A failed write of `path`.
+    pub fn write_failed(path: &str, e: &std::io::Error) -> Error {
+        Error::Io {
+            path: path.to_string(),
+            message: format!("cannot write: {}", describe_io(e)),
+        }
+    }
+}
+
+/// An I/O error in plain words, without the `(os error N)` suffix.
+pub fn describe_io(e: &std::io::Error) -> String {
+    let s = e.to_string();
+    match s.find(" (os error") {
+        Some(p) => s[..p].to_string(),
+        None => s,
+    }
 }
 
 /// Shorthand result type.

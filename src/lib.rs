@@ -7,7 +7,8 @@
 //! 4. [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
-//! [`error`] holds the typed errors shared by all layers.
+//! [`error`] holds the typed errors shared by all layers; [`output`] writes result files
+//! safely (atomic replacement under a lock, devices written through, links kept).
 
 pub mod catalog;
 pub mod error;
@@ -16,6 +17,7 @@ pub mod input;
 pub mod invariants;
 pub mod laws;
 pub mod linalg;
+pub mod output;
 pub mod ranks;
 pub mod report;
 pub mod scalar;

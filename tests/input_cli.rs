@@ -78,7 +78,11 @@ fn bad_files_report_positions() {
         ("bad_field.bilin", "1:7", "6 is not a prime"),
         ("bad_empty.bilin", "1:1", "empty input"),
         ("bad_binary.bilin", "2:", "binary"),
-        ("bad_json.json", "3:14", "index 3"),
+        (
+            "bad_json.json",
+            "3:21",
+            "$.entries[1][2]: expected an index in 0..2",
+        ),
     ] {
         let path = format!("tests/data/{file}");
         let o = bilin(&["convert", &path]);

@@ -113,5 +113,5 @@ fn bad_basis_files_exit_2_with_positions() {
     assert_eq!(o.status.code(), Some(2));
     let o = bilin(&["transform", Q, "--basis", "no/such/file"]);
     assert_eq!(o.status.code(), Some(2));
-    assert!(stderr(&o).contains("cannot read no/such/file"));
+    assert!(stderr(&o).contains("no/such/file: cannot read: No such file"));
 }

@@ -6,11 +6,27 @@ use bilin::input::load_input;
 use bilin::scalar::FieldSpec;
 use bilin::tensor::Tensor;
 
-/// Print an error as `error: file:line:col: message` (or `error: message`) on stderr and
-/// return the exit code for bad input (2).
+/// Print an error as `error: file:line:col: message` (or `error: file: message`, or
+/// `error: message`) on stderr and return the exit code for bad input (2).
 pub fn report_error(e: &Error) -> i32 {
     eprintln!("error: {e}");
     EXIT_USAGE
+}
+
+/// Print `error: OPTION: message` for a bad command-line value and return 2.
+pub fn usage_error(option: &str, message: impl std::fmt::Display) -> i32 {
+    eprintln!("error: {option}: {message}");
+    EXIT_USAGE
+}
+
+/// Print `warning: message` on stderr.
+pub fn warn(message: &str) {
+    eprintln!("warning: {message}");
+}
+
+/// Print `note: message` on stderr (progress and outcomes of long commands).
+pub fn note(message: impl std::fmt::Display) {
+    eprintln!("note: {message}");
 }
 
 /// Load an input (file, generator spec or catalog name), optionally over another field
@@ -20,10 +36,7 @@ pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {
         None => None,
         Some(f) => match FieldSpec::parse(f) {
             Ok(f) => Some(f),
-            Err(m) => {
-                eprintln!("error: --field: {m}");
-                return Err(EXIT_USAGE);
-            }
+            Err(m) => return Err(usage_error("--field", m)),
         },
     };
     load_input(spec, field).map_err(|e| report_error(&e))

@@ -15,6 +15,7 @@ mod emit;
 mod identify;
 mod invariants;
 mod merge;
+mod outputs;
 mod scheme;
 mod scheme_io;
 mod search;
@@ -63,8 +64,60 @@ enum Command {
     Transform(transform::Args),
 }
 
+/// True for the panic of `print!` on a closed standard output.
+fn is_closed_stdout(message: &str) -> bool {
+    message.contains("failed printing to stdout") && message.contains("Broken pipe")
+}
+
+/// Panics never show a backtrace: a closed standard output (`bilin catalog list | head`)
+/// ends the program quietly with exit 0, as Unix filters do; anything else is reported in
+/// one line as an internal error (exit 101).
+fn install_panic_hook() {
+    std::panic::set_hook(Box::new(|info| {
+        let payload = info.payload();
+        let message = payload
+            .downcast_ref::<&str>()
+            .map(|s| s.to_string())
+            .or_else(|| payload.downcast_ref::<String>().cloned())
+            .unwrap_or_else(|| "unknown panic".into());
+        if is_closed_stdout(&message) {
+            std::process::exit(EXIT_OK);
+        }
+        let at = info
+            .location()
+            .map(|l| format!(" at {}:{}", l.file(), l.line()))
+            .unwrap_or_default();
+        eprintln!(
+            "error: internal error: {message}{at}; please report this with the command that caused it"
+        );
+    }));
+}
+
+/// Flush standard output at the end: a closed pipe is a normal end (exit 0 unless the
+/// command failed), another failure (a full disk) is an error.
+fn finish_stdout(code: i32) -> i32 {
+    use std::io::Write;
+    match std::io::stdout().flush() {
+        Ok(()) => code,
+        Err(e) if e.kind() == std::io::ErrorKind::BrokenPipe => code,
+        Err(e) => {
+            eprintln!(
+                "error: cannot write to standard output: {}",
+                bilin::error::describe_io(&e)
+            );
+            EXIT_USAGE
+        }
+    }
+}
+
 /// Parse the command line, run it, return the exit code.
 pub fn run() -> i32 {
+    install_panic_hook();
+    let code = dispatch();
+    finish_stdout(code)
+}
+
+fn dispatch() -> i32 {
     // catalog names resolve wherever an input is expected
     bilin::catalog::register_input_resolver();
     let cli = match Cli::try_parse() {

@@ -17,12 +17,9 @@ pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
     bilin::input::load_input(spec, field)
 }
 
-/// Read a scheme file (text or JSON form) against a tensor.
+/// Read a scheme file (text or JSON form) against a tensor, within the input size limit.
 pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
-    let text = std::fs::read_to_string(path).map_err(|e| Error::Io {
-        path: path.to_string(),
-        message: e.to_string(),
-    })?;
+    let text = bilin::input::read_text_file(path)?;
     bilin::scheme::parse_scheme(&text, path, t)
 }
 
@@ -39,8 +36,4 @@ pub fn matmul_format(spec: &str, explicit: Option<&str>) -> Option<[usize; 3]> {
     (v.len() == 3).then(|| [v[0], v[1], v[2]])
 }
 
-/// Print an error and return the usage exit code.
-pub fn fail(e: &Error) -> i32 {
-    eprintln!("error: {e}");
-    super::EXIT_USAGE
-}
+pub use super::common::report_error as fail;

@@ -1,18 +1,22 @@
 //! `bilin search`: look for a low-rank scheme of a tensor; `bilin merge` lives in merge.rs.
 //!
-//! Parses arguments, builds `search::Params`, installs the Ctrl-C handler (which sets the
-//! stop flag so the best scheme found is still written), renders progress on stderr when
-//! it is a terminal, and writes checkpoints and the result atomically.
+//! Parses arguments, restores a checkpoint (its seed and shard included), checks the
+//! output files before any work, stops cleanly on SIGINT, SIGTERM and SIGHUP (the best
+//! scheme and the checkpoint are still written), writes the checkpoint and any improved
+//! result every `--checkpoint-every` seconds, and never loses the final result: when it
+//! cannot be written where asked, it goes to standard output. Output files follow
+//! `bilin::search::store` (a better result is never replaced unless `--overwrite`).
 
+use super::common::{note, report_error, usage_error};
+use super::outputs::OutputFiles;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
-use bilin::search::json::{
-    Checkpoint, checkpoint_from_json, checkpoint_to_json, scheme_to_json, write_atomic,
-};
+use bilin::input::read_text_file;
+use bilin::search::json::{Checkpoint, Saved, parse_saved};
 use bilin::search::{Method, Params, Progress, search_scheme};
 use clap::Args;
 use std::io::IsTerminal;
-use std::sync::Arc;
-use std::sync::atomic::{AtomicBool, Ordering};
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
+use std::sync::{Arc, Mutex};
 use std::time::{Duration, Instant};
 
 #[derive(Args)]
@@ -32,49 +36,77 @@ pub struct SearchArgs {
     /// Time limit in seconds.
     #[arg(long)]
     pub time: Option<f64>,
-    #[arg(long, default_value_t = 0)]
-    pub seed: u64,
+    /// Seed of the search (default 0; with --resume, the checkpoint's).
+    #[arg(long)]
+    pub seed: Option<u64>,
     /// Worker threads (0: all cores).
     #[arg(long, default_value_t = 0)]
     pub threads: usize,
     /// Number of runs (random starts / walks) in this job.
     #[arg(long)]
     pub restarts: Option<u64>,
-    /// Write the best scheme here (JSON); default: standard output.
+    /// Write the best scheme here (JSON); default: standard output. An existing better
+    /// result in the file is kept.
     #[arg(long)]
     pub out: Option<String>,
-    /// Resume from a checkpoint (or start from a scheme file).
+    /// Resume from a checkpoint (its seed, shard and progress) or start from a scheme file.
     #[arg(long)]
     pub resume: Option<String>,
-    /// Checkpoint file (default: OUT.checkpoint.json when --out is given).
+    /// Checkpoint file (default: OUT.checkpoint.json when --out is a file).
     #[arg(long)]
     pub checkpoint: Option<String>,
+    /// Seconds between two checkpoints (and writes of an improved result to --out).
+    #[arg(long, default_value_t = 10.0)]
+    pub checkpoint_every: f64,
     /// Run only shard K of N (runs numbered K mod N), e.g. `--shard 3/100`.
     #[arg(long)]
     pub shard: Option<String>,
-}
-
-fn usage(msg: impl std::fmt::Display) -> i32 {
-    eprintln!("bilin search: {msg}");
-    EXIT_USAGE
+    /// Replace the --out and checkpoint files even when they hold a better result or
+    /// something else.
+    #[arg(long)]
+    pub overwrite: bool,
 }
 
 fn parse_shard(s: &str) -> Result<(u64, u64), String> {
-    let (k, n) = s
-        .split_once('/')
-        .ok_or_else(|| format!("expected K/N, found `{s}`"))?;
-    let k: u64 = k
-        .trim()
-        .parse()
-        .map_err(|_| format!("expected K/N, found `{s}`"))?;
-    let n: u64 = n
-        .trim()
-        .parse()
-        .map_err(|_| format!("expected K/N, found `{s}`"))?;
+    let bad = || format!("expected K/N (two integers, 0 <= K < N), found `{s}`");
+    let (k, n) = s.split_once('/').ok_or_else(bad)?;
+    let digits = |x: &str| !x.is_empty() && x.bytes().all(|b| b.is_ascii_digit());
+    if !digits(k) || !digits(n) {
+        return Err(bad());
+    }
+    let (k, n): (u64, u64) = (k.parse().map_err(|_| bad())?, n.parse().map_err(|_| bad())?);
     if n == 0 || k >= n {
         return Err(format!("shard {k}/{n}: need 0 <= K < N"));
     }
     Ok((k, n))
+}
+
+/// Seed, shard and first run: from the checkpoint when resuming one (a conflicting
+/// `--seed` or `--shard` is refused), else from the arguments.
+fn seed_and_shard(
+    a: &SearchArgs,
+    shard_arg: Option<(u64, u64)>,
+    resumed: Option<&Saved>,
+) -> Result<(u64, (u64, u64), u64), String> {
+    let Some(Saved::Checkpoint(c)) = resumed else {
+        return Ok((a.seed.unwrap_or(0), shard_arg.unwrap_or((0, 1)), 0));
+    };
+    let path = a.resume.as_deref().unwrap_or("");
+    if let Some(s) = a.seed.filter(|&s| s != c.seed) {
+        return Err(format!(
+            "--seed {s} conflicts with the checkpoint {path}, which continues seed {}; \
+             omit --seed to continue it",
+            c.seed
+        ));
+    }
+    if let Some((k, n)) = shard_arg.filter(|&s| s != c.shard) {
+        return Err(format!(
+            "--shard {k}/{n} conflicts with the checkpoint {path}, which is shard {}/{}; \
+             omit --shard to continue it",
+            c.shard.0, c.shard.1
+        ));
+    }
+    Ok((c.seed, c.shard, c.next_run))
 }
 
 pub fn run(a: SearchArgs) -> i32 {
@@ -87,67 +119,87 @@ pub fn run(a: SearchArgs) -> i32 {
     let method = match a.method.as_str() {
         "flip" => Method::Flip,
         "als" => Method::Als,
-        m => return usage(format!("unknown method `{m}` (expected flip or als)")),
+        m => {
+            return usage_error(
+                "--method",
+                format!("unknown method `{m}` (expected flip or als)"),
+            );
+        }
     };
-    let shard = match a.shard.as_deref().map(parse_shard).transpose() {
-        Ok(s) => s.unwrap_or((0, 1)),
-        Err(e) => return usage(e),
+    let shard_arg = match a.shard.as_deref().map(parse_shard).transpose() {
+        Ok(s) => s,
+        Err(e) => return usage_error("--shard", e),
     };
     if a.time.is_some_and(|x| !(x.is_finite() && x >= 0.0)) {
-        return usage("--time must be a nonnegative number of seconds");
+        return usage_error("--time", "expected a nonnegative number of seconds");
+    }
+    if !(a.checkpoint_every.is_finite() && a.checkpoint_every > 0.0) {
+        return usage_error(
+            "--checkpoint-every",
+            "expected a positive number of seconds",
+        );
     }
     let resumed = match &a.resume {
         None => None,
-        Some(path) => match std::fs::read_to_string(path)
-            .map_err(|e| e.to_string())
-            .and_then(|s| checkpoint_from_json(&s).map_err(|e| e.to_string()))
-        {
+        Some(path) => match read_text_file(path).and_then(|s| parse_saved(&s, path)) {
             Ok(c) => Some(c),
-            Err(e) => return usage(format!("{path}: {e}")),
+            Err(e) => return report_error(&e),
         },
+    };
+    let (seed, shard, first_run) = match seed_and_shard(&a, shard_arg, resumed.as_ref()) {
+        Ok(x) => x,
+        Err(e) => return usage_error("--resume", e),
+    };
+    let files = match OutputFiles::open(
+        a.out.as_deref(),
+        a.checkpoint.as_deref(),
+        a.resume.as_deref(),
+        &t,
+        a.overwrite,
+    ) {
+        Ok(f) => f,
+        Err(code) => return code,
     };
     let params = Params {
         target_rank: a.rank,
         time_limit: a.time.map(Duration::from_secs_f64),
-        seed: a.seed,
+        seed,
         threads: a.threads,
         restarts: a.restarts,
         method,
         field: None,
         shard,
-        first_run: resumed.as_ref().map_or(0, |c| c.next_run),
+        first_run,
         ..Params::default()
     };
     let stop = Arc::new(AtomicBool::new(false));
+    let signals = Arc::new(AtomicUsize::new(0));
     {
-        let s = stop.clone();
-        let _ = ctrlc::set_handler(move || s.store(true, Ordering::SeqCst));
-    }
-    let ckpt_path = a
-        .checkpoint
-        .clone()
-        .or_else(|| a.out.as_ref().map(|o| format!("{o}.checkpoint.json")));
-    let tty = std::io::stderr().is_terminal();
-    let last_ckpt = std::sync::Mutex::new(Instant::now());
-    let last_moves = std::sync::Mutex::new((Duration::ZERO, 0u64));
-    let write_ckpt = |p: &Progress| {
-        if let Some(path) = &ckpt_path {
-            let c = Checkpoint {
-                seed: a.seed,
-                shard,
-                next_run: p.next_run,
-                best: p.best.clone(),
-            };
-            if let Err(e) = write_atomic(path, &checkpoint_to_json(&c).to_string()) {
-                eprintln!("bilin search: {e}");
+        let (s, n) = (stop.clone(), signals.clone());
+        let installed = ctrlc::set_handler(move || {
+            s.store(true, Ordering::SeqCst);
+            if n.fetch_add(1, Ordering::SeqCst) == 0 {
+                eprintln!(
+                    "\nbilin search: stop requested (SIGINT, SIGTERM or SIGHUP): writing the \
+                     best scheme and the checkpoint"
+                );
             }
+        });
+        if let Err(e) = installed {
+            eprintln!(
+                "warning: cannot handle stop signals ({e}); a stopped search loses its result"
+            );
         }
-    };
+    }
+    let tty = std::io::stderr().is_terminal();
+    let every = Duration::from_secs_f64(a.checkpoint_every);
+    let last_write = Mutex::new(Instant::now());
+    let last_moves = Mutex::new((Duration::ZERO, 0u64));
     let progress = |p: &Progress| {
         if tty {
-            let mut lm = last_moves.lock().expect("lock");
+            let mut lm = last_moves.lock().unwrap_or_else(|e| e.into_inner());
             let dt = (p.elapsed - lm.0).as_secs_f64().max(1e-9);
-            let rate = (p.moves - lm.1) as f64 / dt;
+            let rate = p.moves.saturating_sub(lm.1) as f64 / dt;
             *lm = (p.elapsed, p.moves);
             let best = p
                 .best
@@ -160,51 +212,68 @@ pub fn run(a: SearchArgs) -> i32 {
                 p.elapsed.as_secs_f64()
             );
         }
-        let mut lc = last_ckpt.lock().expect("lock");
-        if lc.elapsed() >= Duration::from_secs(10) {
-            *lc = Instant::now();
-            write_ckpt(p);
+        let mut lw = last_write.lock().unwrap_or_else(|e| e.into_inner());
+        if lw.elapsed() >= every {
+            *lw = Instant::now();
+            files.save_progress(
+                &Checkpoint {
+                    seed,
+                    shard,
+                    next_run: p.next_run,
+                    best: p.best.clone(),
+                },
+                &t,
+            );
         }
     };
-    let start = resumed.and_then(|c| c.best);
+    let start = resumed.and_then(Saved::into_best);
     let outcome = match search_scheme(&t, &params, &stop, start, &progress) {
         Ok(o) => o,
-        Err(e) => return usage(e),
+        Err(e) => {
+            let e = match &a.resume {
+                Some(p) => format!("{p}: {e}"),
+                None => e.to_string(),
+            };
+            eprintln!("error: {e}");
+            return EXIT_USAGE;
+        }
     };
     if tty {
         eprintln!();
     }
-    write_ckpt(&Progress {
-        best: outcome.best.clone(),
-        moves: outcome.moves,
-        next_run: outcome.next_run,
-        elapsed: outcome.elapsed,
-    });
-    match &outcome.best {
-        Some(s) => {
-            let text = format!("{}\n", scheme_to_json(s));
-            match &a.out {
-                Some(path) => {
-                    if let Err(e) = write_atomic(path, &text) {
-                        eprintln!("bilin search: {e}");
-                        return EXIT_USAGE;
-                    }
-                }
-                None => print!("{text}"),
-            }
-            eprintln!(
-                "bilin search: best verified rank {} over {} ({:.2} s, {} moves)",
-                s.rank(),
-                s.field.name(),
-                outcome.elapsed.as_secs_f64(),
-                outcome.moves
-            );
-        }
-        None => eprintln!("bilin search: no verified scheme found"),
-    }
-    if outcome.reached || (a.rank.is_none() && outcome.best.is_some()) {
+    files.save_checkpoint(
+        &Checkpoint {
+            seed,
+            shard,
+            next_run: outcome.next_run,
+            best: outcome.best.clone(),
+        },
+        &t,
+    );
+    let mut code = if outcome.reached || (a.rank.is_none() && outcome.best.is_some()) {
         EXIT_OK
     } else {
         EXIT_FALSE
+    };
+    match &outcome.best {
+        Some(s) => {
+            if !files.save_result(s, &t) {
+                code = EXIT_USAGE;
+            }
+            note(format!(
+                "best verified rank {} over {} ({:.2} s, {} moves{})",
+                s.rank(),
+                s.field.name(),
+                outcome.elapsed.as_secs_f64(),
+                outcome.moves,
+                if stop.load(Ordering::SeqCst) {
+                    ", stopped by a signal"
+                } else {
+                    ""
+                }
+            ));
+        }
+        None => note("no verified scheme found"),
     }
+    code
 }

@@ -4,236 +4,192 @@
 //!
 //! `field` is optional (default `Q`), `names` optional (default names), the other keys are
 //! required and no other key is accepted. Coefficients are strings in the table format's
-//! number syntax (`"3"`, `"-1/2"`, `"0.25"`) or JSON integers. Syntax errors carry the
-//! parser's line and column; semantic errors point at the offending key or entry.
+//! number syntax (`"3"`, `"-1/2"`, `"0.25"`) or JSON integers. Every error carries the line
+//! and column of the offending value and its JSON path (`$.entries[3][2]`); the JSON
+//! itself is read by the strict reader of [`super::json_tree`] (duplicate keys refused).
 //! Cost: linear in the input size.
 
 use super::cursor::{Cursor, LineRef};
 use super::is_valid_name;
-use crate::error::{Error, Position, Result};
+use super::json_tree::{JValue, Json, JsonDoc, check_keys};
+use crate::error::{Error, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
 use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape, default_names};
-use num_bigint::BigInt;
-use serde_json::Value;
 use std::collections::{HashMap, HashSet};
 
-fn byte_pos(text: &str, source: &str, byte: usize) -> Position {
-    let byte = byte.min(text.len());
-    let before = text.get(..byte).unwrap_or(text);
-    let line = before.matches('\n').count() + 1;
-    let col_start = before.rfind('\n').map_or(0, |p| p + 1);
-    let column = before[col_start..].chars().count() + 1;
-    Position {
-        source: source.to_string(),
-        line,
-        column,
-    }
-}
-
-/// Byte offset of the first occurrence of `"key"` followed by `:` (best effort).
-fn key_byte(text: &str, key: &str) -> usize {
-    let pat = format!("\"{key}\"");
-    let mut from = 0;
-    while let Some(p) = text[from..].find(&pat) {
-        let at = from + p;
-        if text[at + pat.len()..].trim_start().starts_with(':') {
-            return at;
-        }
-        from = at + pat.len();
-    }
-    0
-}
-
-/// Byte offsets of the elements of the array value of `key` (best effort).
-fn array_element_bytes(text: &str, key: &str) -> Vec<usize> {
-    let mut out = Vec::new();
-    let start = key_byte(text, key);
-    let Some(open) = text[start..].find('[').map(|p| start + p) else {
-        return out;
+/// A coefficient in a JSON form: a string in the table format's number syntax (an optional
+/// sign, then `3`, `1/2` or `0.25`, nothing around it) or a JSON integer. `path` names the
+/// value in errors.
+pub fn json_coefficient(doc: &JsonDoc, v: &Json, path: &str) -> Result<Q> {
+    let bad = |found: String| {
+        doc.error(
+            v.at,
+            path,
+            format!("expected a coefficient such as \"3\", \"-1/2\" or \"0.25\", found {found}"),
+        )
     };
-    let bytes = text.as_bytes();
-    let (mut depth, mut in_str, mut esc, mut expect) = (0usize, false, false, true);
-    for (b, &c) in bytes.iter().enumerate().skip(open) {
-        if in_str {
-            match (esc, c) {
-                (true, _) => esc = false,
-                (false, b'\\') => esc = true,
-                (false, b'"') => in_str = false,
-                _ => {}
-            }
-            continue;
-        }
-        match c {
-            b'[' | b'{' => {
-                if depth == 1 && expect {
-                    out.push(b);
-                    expect = false;
-                }
-                depth += 1;
-            }
-            b']' | b'}' => {
-                depth = depth.saturating_sub(1);
-                if depth == 0 {
-                    break;
-                }
-            }
-            b',' if depth == 1 => expect = true,
-            c if c.is_ascii_whitespace() => {}
-            _ => {
-                if depth == 1 && expect {
-                    out.push(b);
-                    expect = false;
-                }
-                if c == b'"' {
-                    in_str = true;
-                }
-            }
-        }
-    }
-    out
-}
-
-/// Parse a coefficient string with the table format's number syntax.
-fn parse_coef(s: &str) -> std::result::Result<Q, String> {
-    let t = s.trim();
+    let text = match &v.value {
+        JValue::Str(s) => s.as_str(),
+        JValue::Number(n) if n.bytes().all(|b| b.is_ascii_digit() || b == b'-') => n.as_str(),
+        _ => return Err(bad(v.describe())),
+    };
     let line = LineRef {
         source: "",
-        text: t,
+        text,
         number: 1,
     };
-    let mut cur = Cursor::new(line, 0, t.len());
+    let mut cur = Cursor::new(line, 0, text.len());
     let neg = cur.take_sign();
     if !cur.peek().is_some_and(|c| c.is_ascii_digit()) {
-        return Err(format!(
-            "expected a coefficient such as \"3\" or \"-1/2\", found \"{s}\""
-        ));
+        return Err(bad(v.describe()));
     }
-    let v = cur.number().map_err(|e| match e {
-        Error::Parse { message, .. } => message,
-        other => other.to_string(),
+    let x = cur.number().map_err(|e| match e {
+        Error::Parse { message, .. } => doc.error(v.at, path, message),
+        other => other,
     })?;
     if !cur.at_end() {
-        return Err(format!(
-            "expected a coefficient such as \"3\" or \"-1/2\", found \"{s}\""
-        ));
+        return Err(bad(v.describe()));
     }
-    Ok(if neg { -v } else { v })
+    Ok(if neg { -x } else { x })
 }
 
-/// A parse error at element `n` of the `"entries"` array (at the key when the element
-/// cannot be located). Cost: one scan of `text`.
-fn entry_error(text: &str, source: &str, n: usize, message: String) -> Error {
-    let b = array_element_bytes(text, "entries")
-        .get(n)
-        .copied()
-        .unwrap_or_else(|| key_byte(text, "entries"));
-    Error::Parse {
-        at: byte_pos(text, source, b),
-        message,
+/// A field name in a JSON form: a string `"Q"` or `"GF(p)"`.
+pub fn json_field(doc: &JsonDoc, v: &Json, path: &str) -> Result<FieldSpec> {
+    match &v.value {
+        JValue::Str(s) => FieldSpec::parse(s).map_err(|m| doc.error(v.at, path, m)),
+        _ => Err(doc.error(
+            v.at,
+            path,
+            format!(
+                "expected a field \"Q\" or \"GF(p)\", found {}",
+                v.describe()
+            ),
+        )),
     }
+}
+
+/// A JSON list (its items), or an error naming what was expected.
+pub fn json_list<'j>(doc: &JsonDoc, v: &'j Json, path: &str, what: &str) -> Result<&'j [Json]> {
+    match &v.value {
+        JValue::Array(a) => Ok(a),
+        _ => Err(doc.error(
+            v.at,
+            path,
+            format!("expected {what}, found {}", v.describe()),
+        )),
+    }
+}
+
+/// Three dimensions `[a, b, c]`, each a non-negative integer at most `max`.
+pub fn json_dims(doc: &JsonDoc, v: &Json, path: &str, min: u64) -> Result<[usize; 3]> {
+    let items = json_list(doc, v, path, "three dimensions [a, b, c]")?;
+    if items.len() != 3 {
+        return Err(doc.error(
+            v.at,
+            path,
+            format!(
+                "expected three dimensions [a, b, c], found {}",
+                v.describe()
+            ),
+        ));
+    }
+    let mut dims = [0usize; 3];
+    for (a, d) in items.iter().enumerate() {
+        match d.as_index() {
+            Some(x) if x >= min && x <= MAX_DIM as u64 => dims[a] = x as usize,
+            _ => {
+                return Err(doc.error(
+                    d.at,
+                    &format!("{path}[{a}]"),
+                    format!(
+                        "expected a dimension between {min} and {MAX_DIM}, found {}",
+                        d.describe()
+                    ),
+                ));
+            }
+        }
+    }
+    Ok(dims)
+}
+
+/// A required member of a JSON object, or an error at the object.
+pub fn json_required<'j>(
+    doc: &JsonDoc,
+    obj: &'j Json,
+    path: &str,
+    key: &str,
+    what: &str,
+) -> Result<&'j Json> {
+    obj.get(key)
+        .ok_or_else(|| doc.error(obj.at, path, format!("missing key \"{key}\" ({what})")))
 }
 
 /// Parse the coordinate JSON form. `source` names the input in error positions.
 pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
-    let v: Value = serde_json::from_str(text).map_err(|e| Error::Parse {
-        at: Position {
-            source: source.to_string(),
-            line: e.line().max(1),
-            column: e.column().max(1),
-        },
-        message: format!("invalid JSON: {e}")
-            .replace(&format!(" at line {} column {}", e.line(), e.column()), ""),
-    })?;
-    let at_key = |key: &str, message: String| Error::Parse {
-        at: byte_pos(text, source, key_byte(text, key)),
-        message,
-    };
-    let Value::Object(obj) = &v else {
-        return Err(Error::Parse {
-            at: byte_pos(text, source, text.len() - text.trim_start().len()),
-            message: "expected a JSON object `{\"field\": .., \"kind\": .., \"dims\": .., \"entries\": ..}`".into(),
-        });
-    };
-    for key in obj.keys() {
-        if !["field", "kind", "dims", "names", "entries"].contains(&key.as_str()) {
-            return Err(at_key(
-                key,
-                format!("unknown key \"{key}\" (expected field, kind, dims, names, entries)"),
-            ));
-        }
-    }
-    let field = match obj.get("field") {
-        None => FieldSpec::Rational,
-        Some(Value::String(s)) => FieldSpec::parse(s).map_err(|m| at_key("field", m))?,
-        Some(other) => {
-            return Err(at_key(
-                "field",
-                format!(
-                    "expected \"field\" to be a string such as \"Q\" or \"GF(7)\", found {other}"
-                ),
-            ));
-        }
-    };
-    let kind = match obj.get("kind") {
-        Some(Value::String(s)) if s == "algebra" => Kind::Algebra,
-        Some(Value::String(s)) if s == "bilinear" => Kind::Bilinear,
-        None => {
-            return Err(at_key(
-                "entries",
-                "missing key \"kind\" (\"algebra\" or \"bilinear\")".into(),
-            ));
-        }
-        Some(other) => {
-            return Err(at_key(
-                "kind",
-                format!("expected \"kind\" to be \"algebra\" or \"bilinear\", found {other}"),
-            ));
-        }
-    };
-    let dims_v = obj
-        .get("dims")
-        .ok_or_else(|| at_key("kind", "missing key \"dims\" ([a, b, c])".into()))?;
-    let dims: Vec<u64> = match dims_v {
-        Value::Array(a) if a.len() == 3 && a.iter().all(Value::is_u64) => {
-            a.iter().filter_map(Value::as_u64).collect()
-        }
-        other => {
-            return Err(at_key(
-                "dims",
-                format!(
-                    "expected \"dims\" to be three non-negative integers [a, b, c], found {other}"
-                ),
-            ));
-        }
-    };
-    if let Some(d) = dims.iter().find(|&&d| d == 0 || d > MAX_DIM as u64) {
-        return Err(at_key(
-            "dims",
-            format!("dimension {d} is out of range: dimensions are between 1 and {MAX_DIM}"),
+    let doc = JsonDoc { text, source };
+    let root = doc.parse()?;
+    if !matches!(root.value, JValue::Object(_)) {
+        return Err(doc.error(
+            root.at,
+            "$",
+            format!(
+                "expected a JSON object {{\"field\": .., \"kind\": .., \"dims\": .., \"entries\": ..}}, found {}",
+                root.describe()
+            ),
         ));
     }
-    let dims = [dims[0] as usize, dims[1] as usize, dims[2] as usize];
-    check_shape(dims).map_err(|m| at_key("dims", m))?;
+    check_keys(
+        &doc,
+        &root,
+        "$",
+        &["field", "kind", "dims", "names", "entries"],
+    )?;
+    let field = match root.get("field") {
+        None => FieldSpec::Rational,
+        Some(f) => json_field(&doc, f, "$.field")?,
+    };
+    let kind_v = json_required(&doc, &root, "$", "kind", "\"algebra\" or \"bilinear\"")?;
+    let kind = match &kind_v.value {
+        JValue::Str(s) if s == "algebra" => Kind::Algebra,
+        JValue::Str(s) if s == "bilinear" => Kind::Bilinear,
+        _ => {
+            return Err(doc.error(
+                kind_v.at,
+                "$.kind",
+                format!(
+                    "expected \"algebra\" or \"bilinear\", found {}",
+                    kind_v.describe()
+                ),
+            ));
+        }
+    };
+    let dims_v = json_required(&doc, &root, "$", "dims", "[a, b, c]")?;
+    let dims = json_dims(&doc, dims_v, "$.dims", 1)?;
+    check_shape(dims).map_err(|m| doc.error(dims_v.at, "$.dims", m))?;
     if kind == Kind::Algebra && !(dims[0] == dims[1] && dims[1] == dims[2]) {
-        return Err(at_key(
-            "dims",
+        return Err(doc.error(
+            dims_v.at,
+            "$.dims",
             format!("an algebra has equal dimensions, found {dims:?}"),
         ));
     }
-    let names = match obj.get("names") {
+    let names = match root.get("names") {
         None => default_names(kind, dims),
-        Some(nv) => parse_names(nv, kind, dims).map_err(|m| at_key("names", m))?,
+        Some(nv) => parse_names(&doc, nv, kind, dims)?,
     };
-    let Some(Value::Array(entries)) = obj.get("entries") else {
-        return Err(at_key(
-            if obj.contains_key("entries") {
-                "entries"
-            } else {
-                "dims"
-            },
-            "expected \"entries\": a list of [i, j, k, \"coefficient\"]".into(),
-        ));
-    };
+    let entries_v = json_required(
+        &doc,
+        &root,
+        "$",
+        "entries",
+        "a list of [i, j, k, \"coefficient\"]",
+    )?;
+    let entries = json_list(
+        &doc,
+        entries_v,
+        "$.entries",
+        "a list of [i, j, k, \"coefficient\"]",
+    )?;
     let prime = match field {
         FieldSpec::Prime(p) => PrimeField::new(p),
         FieldSpec::Rational => None,
@@ -241,29 +197,20 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
     let mut t = Tensor::zero(field, kind, dims, Some(names));
     let mut seen: HashMap<(usize, usize, usize), (Q, usize)> = HashMap::new();
     for (n, e) in entries.iter().enumerate() {
-        let check = entry(e, dims, prime.as_ref());
-        let (idx, val) = match check {
-            Ok(x) => x,
-            Err(m) => {
-                return Err(entry_error(
-                    text,
-                    source,
-                    n,
-                    format!("entry {}: {m}", n + 1),
-                ));
-            }
-        };
+        let path = format!("$.entries[{n}]");
+        let (idx, val) = entry(&doc, e, &path, dims, prime.as_ref())?;
         if let Some((old, first)) = seen.get(&idx) {
             if *old != val {
-                let message = format!(
-                    "entry {}: conflicting duplicate of entry {} for {:?}: {} here, {} there",
-                    n + 1,
-                    first + 1,
-                    idx,
-                    q_to_string(&val),
-                    q_to_string(old)
-                );
-                return Err(entry_error(text, source, n, message));
+                return Err(doc.error(
+                    e.at,
+                    &path,
+                    format!(
+                        "conflicting duplicate of $.entries[{first}] for {:?}: {} here, {} there",
+                        idx,
+                        q_to_string(&val),
+                        q_to_string(old)
+                    ),
+                ));
             }
             continue;
         }
@@ -273,59 +220,62 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
     Ok(t)
 }
 
-fn parse_names(
-    v: &Value,
-    kind: Kind,
-    dims: [usize; 3],
-) -> std::result::Result<[Vec<String>; 3], String> {
-    let Value::Array(lists) = v else {
-        return Err(format!(
-            "expected \"names\" to be three lists of strings, found {v}"
-        ));
-    };
+fn parse_names(doc: &JsonDoc, v: &Json, kind: Kind, dims: [usize; 3]) -> Result<[Vec<String>; 3]> {
+    let lists = json_list(doc, v, "$.names", "three lists of names")?;
     if lists.len() != 3 {
-        return Err(format!(
-            "expected three name lists in \"names\", found {}",
-            lists.len()
+        return Err(doc.error(
+            v.at,
+            "$.names",
+            format!("expected three lists of names, found {}", v.describe()),
         ));
     }
     let mut out: [Vec<String>; 3] = Default::default();
     for (a, l) in lists.iter().enumerate() {
-        let Value::Array(items) = l else {
-            return Err(format!(
-                "expected name list {} to be a list of strings",
-                a + 1
-            ));
-        };
+        let path = format!("$.names[{a}]");
+        let items = json_list(doc, l, &path, "a list of names")?;
         if items.len() != dims[a] {
-            return Err(format!(
-                "name list {} has {} names but dims gives {}",
-                a + 1,
-                items.len(),
-                dims[a]
+            return Err(doc.error(
+                l.at,
+                &path,
+                format!(
+                    "{} names but dims gives {} ({} axis)",
+                    items.len(),
+                    dims[a],
+                    crate::tensor::AXES[a]
+                ),
             ));
         }
         let mut set = HashSet::new();
-        for it in items {
-            let Value::String(s) = it else {
-                return Err(format!(
-                    "expected a name string in list {}, found {it}",
-                    a + 1
+        for (i, it) in items.iter().enumerate() {
+            let path = format!("$.names[{a}][{i}]");
+            let JValue::Str(s) = &it.value else {
+                return Err(doc.error(
+                    it.at,
+                    &path,
+                    format!("expected a name string, found {}", it.describe()),
                 ));
             };
             if !is_valid_name(s) {
-                return Err(format!(
-                    "invalid basis name \"{s}\": a name starts with a letter or `_` and continues with letters, digits, `_`, `'` or `.`"
+                return Err(doc.error(
+                    it.at,
+                    &path,
+                    format!(
+                        "invalid basis name \"{s}\": a name starts with a letter or `_` and continues with letters, digits, `_`, `'` or `.`"
+                    ),
                 ));
             }
             if !set.insert(s.clone()) {
-                return Err(format!("duplicate basis name \"{s}\" in list {}", a + 1));
+                return Err(doc.error(it.at, &path, format!("duplicate basis name \"{s}\"")));
             }
             out[a].push(s.clone());
         }
     }
     if kind == Kind::Algebra && !(out[0] == out[1] && out[1] == out[2]) {
-        return Err("an algebra has one basis: the three name lists must be equal".into());
+        return Err(doc.error(
+            v.at,
+            "$.names",
+            "an algebra has one basis: the three name lists must be equal",
+        ));
     }
     Ok(out)
 }
@@ -333,58 +283,56 @@ fn parse_names(
 type Entry = ((usize, usize, usize), Q);
 
 fn entry(
-    e: &Value,
+    doc: &JsonDoc,
+    e: &Json,
+    path: &str,
     dims: [usize; 3],
     prime: Option<&PrimeField>,
-) -> std::result::Result<Entry, String> {
-    let Value::Array(a) = e else {
-        return Err(format!("expected [i, j, k, \"coefficient\"], found {e}"));
-    };
+) -> Result<Entry> {
+    let a = json_list(doc, e, path, "[i, j, k, \"coefficient\"]")?;
     if a.len() != 4 {
-        return Err(format!(
-            "expected 4 items [i, j, k, \"coefficient\"], found {}",
-            a.len()
+        return Err(doc.error(
+            e.at,
+            path,
+            format!(
+                "expected 4 items [i, j, k, \"coefficient\"], found {}",
+                e.describe()
+            ),
         ));
     }
     let mut idx = [0usize; 3];
     for ax in 0..3 {
-        match a[ax].as_u64() {
+        match a[ax].as_index() {
             Some(x) if (x as u128) < dims[ax] as u128 => idx[ax] = x as usize,
             _ => {
-                return Err(format!(
-                    "index {} must be an integer in 0..{} ({} axis), found {}",
-                    ax + 1,
-                    dims[ax],
-                    crate::tensor::AXES[ax],
-                    a[ax]
+                return Err(doc.error(
+                    a[ax].at,
+                    &format!("{path}[{ax}]"),
+                    format!(
+                        "expected an index in 0..{} ({} axis), found {}",
+                        dims[ax],
+                        crate::tensor::AXES[ax],
+                        a[ax].describe()
+                    ),
                 ));
             }
         }
     }
-    let val = match &a[3] {
-        Value::String(s) => parse_coef(s)?,
-        Value::Number(n) if n.is_i64() || n.is_u64() => {
-            let b: BigInt = n
-                .to_string()
-                .parse()
-                .map_err(|_| format!("expected an integer, found {n}"))?;
-            Q::from_integer(b)
-        }
-        other => {
-            return Err(format!(
-                "expected the coefficient as a string such as \"-1/2\" or an integer, found {other}"
-            ));
-        }
-    };
+    let cpath = format!("{path}[3]");
+    let val = json_coefficient(doc, &a[3], &cpath)?;
     let val = match prime {
         None => val,
         Some(f) => {
             if f.denominator_vanishes(&val) {
-                return Err(format!(
-                    "the coefficient {} has a denominator divisible by {}, so it has no value in GF({})",
-                    q_to_string(&val),
-                    f.modulus(),
-                    f.modulus()
+                return Err(doc.error(
+                    a[3].at,
+                    &cpath,
+                    format!(
+                        "the coefficient {} has a denominator divisible by {}, so it has no value in GF({})",
+                        q_to_string(&val),
+                        f.modulus(),
+                        f.modulus()
+                    ),
                 ));
             }
             f.to_rational(&f.from_rational(&val).unwrap_or_default())

@@ -10,7 +10,7 @@ fn json_refuses_too_many_products() {
     let text = "{\"kind\": \"bilinear\",\n \"dims\": [4096, 4096, 4096], \"entries\": []}";
     let e = parse_json(text, "j").unwrap_err().to_string();
     assert!(
-        e.starts_with("j:2:2: 4096 x 4096 = 16777216 products"),
+        e.starts_with("j:2:10: $.dims: 4096 x 4096 = 16777216 products"),
         "{e}"
     );
     assert!(e.contains("2^22"), "{e}");
@@ -86,6 +86,36 @@ fn duplicate_with_a_bare_number_is_reported_at_the_later_line() {
         .to_string();
     assert!(
         e.starts_with("t:4:1: conflicting duplicate product `i*i`: here `-e`, but line 3 gave `i`"),
+        "{e}"
+    );
+}
+
+#[test]
+fn sums_of_coefficients_stay_within_the_digit_limit() {
+    // every number is within the limit, their sum is not: refused, so that whatever is
+    // read can be written and read back
+    let big = "9".repeat(super::MAX_DIGITS);
+    let text = format!("basis e\ne*e = {big} e + {big} e\n");
+    let e = parse_table(&text, "t").unwrap_err().to_string();
+    assert!(e.starts_with("t:2:7: the coefficients here add up"), "{e}");
+    let ok = format!("basis e\ne*e = {big} e\n");
+    assert!(parse_table(&ok, "t").is_ok());
+    let t = generate("matmul:1,1,1").unwrap();
+    let text = format!("m1 = ({big} a11 + {big} a11)*b11\nc11 = m1\n");
+    let e = crate::scheme::parse_scheme(&text, "s", &t)
+        .unwrap_err()
+        .to_string();
+    assert!(e.starts_with("s:1:"), "{e}");
+    assert!(
+        e.contains("add up to a number with more than 4096 digits"),
+        "{e}"
+    );
+    let long = "9".repeat(super::MAX_DIGITS + 1);
+    let e = crate::scheme::parse_scheme(&format!("m1 = {long} a11*b11\n"), "s", &t)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("s:1:6: a number with more than 4096 digits"),
         "{e}"
     );
 }

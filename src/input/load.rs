@@ -10,33 +10,45 @@ use crate::tensor::Tensor;
 use std::io::Read;
 use std::path::Path;
 
-/// Files larger than this (64 MiB) are refused.
+/// Every input file (tables, JSON, schemes, change-of-basis files, checkpoints) is read
+/// through [`read_text_file`] and refused above this size (64 MiB), before it is read whole.
 pub const MAX_FILE_BYTES: u64 = 64 << 20;
 
-/// Read a text file: at most [`MAX_FILE_BYTES`], valid UTF-8 (a binary file gives an
-/// [`Error::Parse`] at the first invalid byte).
+/// Read a text file: at most [`MAX_FILE_BYTES`] (also from a device or a pipe, which are
+/// read up to the limit and no further), valid UTF-8 (a binary file gives an
+/// [`Error::Parse`] at the first invalid byte). A directory is refused.
 pub fn read_text_file(path: &str) -> Result<String> {
-    let io = |message: String| Error::Io {
+    let file = std::fs::File::open(path).map_err(|e| Error::read_failed(path, &e))?;
+    let meta = file.metadata().map_err(|e| Error::read_failed(path, &e))?;
+    if meta.is_dir() {
+        return Err(Error::Io {
+            path: path.to_string(),
+            message: "cannot read: it is a directory, expected a file".into(),
+        });
+    }
+    let too_big = || Error::Io {
         path: path.to_string(),
-        message,
-    };
-    let file = std::fs::File::open(path).map_err(|e| io(e.to_string()))?;
-    let too_big = || {
-        io(format!(
-            "the file is larger than the limit of {} MiB",
+        message: format!(
+            "cannot read: the file is larger than the limit of {} MiB for input files",
             MAX_FILE_BYTES >> 20
-        ))
+        ),
     };
-    if file.metadata().map(|m| m.len()).unwrap_or(0) > MAX_FILE_BYTES {
+    if meta.len() > MAX_FILE_BYTES {
         return Err(too_big());
     }
     let mut bytes = Vec::new();
     file.take(MAX_FILE_BYTES + 1)
         .read_to_end(&mut bytes)
-        .map_err(|e| io(e.to_string()))?;
+        .map_err(|e| Error::read_failed(path, &e))?;
     if bytes.len() as u64 > MAX_FILE_BYTES {
         return Err(too_big());
     }
+    text_from_bytes(bytes, path)
+}
+
+/// The bytes of an input as text: valid UTF-8, or an [`Error::Parse`] at the line and
+/// column of the first invalid byte. Cost: linear.
+pub fn text_from_bytes(bytes: Vec<u8>, path: &str) -> Result<String> {
     String::from_utf8(bytes).map_err(|e| {
         let good = e.utf8_error().valid_up_to();
         let bytes = e.as_bytes();

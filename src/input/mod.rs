@@ -17,6 +17,7 @@ mod combination;
 mod cursor;
 mod grid;
 mod json;
+pub mod json_tree;
 mod load;
 mod products;
 mod resolve;
@@ -33,14 +34,30 @@ mod tests;
 pub use basis_file::{
     BasisChange, MatrixBlock, NamesLine, apply_basis_change, parse_basis_file, random_basis_change,
 };
-pub use json::parse_json;
-pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file};
+pub use json::{json_coefficient, json_dims, json_field, json_list, json_required, parse_json};
+pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file, text_from_bytes};
 pub use resolve::{Resolver, register_resolver, resolve_registered};
 pub use table::parse_table;
 pub use write::{format_combination, write_grid, write_json, write_table};
 
 /// Largest number of decimal digits accepted in a numerator or denominator.
 pub const MAX_DIGITS: usize = 4096;
+
+/// Check that a coefficient obtained by adding coefficients of an input (a name repeated
+/// in a combination) still has at most [`MAX_DIGITS`] digits in its numerator and
+/// denominator, so that everything read can be written and read back.
+/// Cost: O(1) below about 13,600 bits, else one conversion to decimal.
+pub fn check_digits(q: &crate::scalar::Q) -> std::result::Result<(), String> {
+    let too_long =
+        |x: &num_bigint::BigInt| x.bits() > 13_600 && x.magnitude().to_string().len() > MAX_DIGITS;
+    if too_long(q.numer()) || too_long(q.denom()) {
+        return Err(format!(
+            "the coefficients here add up to a number with more than {MAX_DIGITS} digits \
+             (the limit of docs/formats.md)"
+        ));
+    }
+    Ok(())
+}
 
 /// True when `s` is a valid basis name: a letter or `_`, then letters, digits, `_`, `'`, `.`.
 pub fn is_valid_name(s: &str) -> bool {

@@ -197,6 +197,9 @@ fn reduce_terms(
             }
         }
         acc = merged;
+        if let Some(e) = acc.iter().find_map(|e| super::check_digits(&e.1).err()) {
+            return Err(line.err(p.terms.first().map_or(0, |t| t.pos), e));
+        }
         if let Some(f) = field {
             for e in &mut acc {
                 e.1 = f.to_rational(&f.from_rational(&e.1).unwrap_or_default());

@@ -230,12 +230,12 @@ fn json_forms_and_errors() {
     assert_eq!(t.get(0, 1, 0), q(3, 1));
     assert_eq!(t.name(1, 1), "b1");
     let cases: &[(&str, &str, &str)] = &[
-        ("{\"kind\": ", "j:1:9:", "invalid JSON"),
+        ("{\"kind\": ", "j:1:10:", "invalid JSON"),
         ("[1]", "j:1:1:", "expected a JSON object"),
         (
             "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[\n[0,0,0,\"1\"],\n  [0,0,5,\"1\"]]}",
-            "j:3:3:",
-            "entry 2: index 3",
+            "j:3:8:",
+            "$.entries[1][2]: expected an index in 0..2",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,\"1\"],[0,0,0,\"2\"]]}",
@@ -244,38 +244,38 @@ fn json_forms_and_errors() {
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,\"1/0\"]]}",
-            "j:1:45:",
-            "division by zero",
+            "j:1:52:",
+            "$.entries[0][3]: division by zero",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,0.5]]}",
-            "j:1:45:",
-            "as a string",
+            "j:1:52:",
+            "found the number 0.5",
         ),
         (
             "{\"field\":\"GF(4)\",\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[]}",
-            "j:1:2:",
-            "not a prime",
+            "j:1:10:",
+            "$.field: 4 is not a prime",
         ),
         (
             "{\"field\":\"GF(3)\",\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[[0,0,0,\"1/3\"]]}",
-            "j:1:61:",
+            "j:1:68:",
             "divisible by 3",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[5000,5000,5000],\"entries\":[]}",
-            "j:1:19:",
-            "between 1 and 4096",
+            "j:1:27:",
+            "$.dims[0]: expected a dimension between 1 and 4096",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[1,2,1],\"entries\":[]}",
-            "j:1:19:",
+            "j:1:26:",
             "equal dimensions",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[1,1,1],\"names\":[[\"a\"],[\"a\"],[\"1\"]],\"entries\":[]}",
-            "j:1:34:",
-            "invalid basis name",
+            "j:1:56:",
+            "$.names[2][0]: invalid basis name",
         ),
         (
             "{\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[],\"extra\":1}",
@@ -284,8 +284,8 @@ fn json_forms_and_errors() {
         ),
         (
             "{\"dims\":[1,1,1],\"entries\":[]}",
-            "j:1:17:",
-            "missing key \"kind\"",
+            "j:1:1:",
+            "$: missing key \"kind\"",
         ),
     ];
     for (text, at, msg) in cases {

@@ -92,27 +92,26 @@ impl FieldSpec {
         }
     }
 
-    /// Parse `Q`, `QQ`, `GF(p)`, `GF p` or `F_p`. Checks that p is a prime below 2^63.
+    /// Parse exactly `Q` or `GF(p)` (p in decimal digits, no spaces). Checks that p is a
+    /// prime below 2^63.
     pub fn parse(s: &str) -> Result<FieldSpec, String> {
-        let t = s.trim();
-        if t.eq_ignore_ascii_case("q") || t.eq_ignore_ascii_case("qq") {
+        let t = s;
+        if t == "Q" {
             return Ok(FieldSpec::Rational);
         }
-        let inner = if let Some(r) = t.strip_prefix("GF(").or_else(|| t.strip_prefix("gf(")) {
-            r.strip_suffix(')').ok_or_else(|| {
-                format!("expected `GF(p)` with a closing parenthesis, found `{t}`")
-            })?
-        } else if let Some(r) = t.strip_prefix("F_").or_else(|| t.strip_prefix("GF")) {
-            r
-        } else {
-            return Err(format!("expected a field `Q` or `GF(p)`, found `{t}`"));
-        };
-        let p: u64 = inner.trim().parse().map_err(|_| {
-            format!(
-                "expected a prime number inside GF(...), found `{}`",
-                inner.trim()
-            )
-        })?;
+        let expected = || format!("expected a field `Q` or `GF(p)` (p a prime), found `{t}`");
+        let inner = t
+            .strip_prefix("GF(")
+            .and_then(|r| r.strip_suffix(')'))
+            .ok_or_else(expected)?;
+        if inner.is_empty() || !inner.bytes().all(|b| b.is_ascii_digit()) {
+            return Err(format!(
+                "expected a prime number inside GF(...), found `{inner}`"
+            ));
+        }
+        let p: u64 = inner
+            .parse()
+            .map_err(|_| format!("the prime {inner} is too large: bilin supports p < 2^63"))?;
         if p >= 1 << 63 {
             return Err(format!(
                 "the prime {p} is too large: bilin supports p < 2^63"

@@ -7,11 +7,13 @@
 //!
 //! Coefficients are strings `"p/q"` (JSON integers are also accepted). `u` has `rank` rows
 //! of length `dims[0]`, `v` of `dims[1]`, `w` of `dims[2]`. Over GF(p) entries are reduced
-//! to `0..p`. See docs/schemes.md.
+//! to `0..p`. No other key is accepted. See docs/schemes.md.
 
 use super::{Scheme, reduce_into};
-use crate::error::{Error, Position};
-use crate::scalar::{FieldSpec, Q, parse_rational, q_to_string};
+use crate::error::Error;
+use crate::input::json_tree::{JValue, Json, JsonDoc, check_keys};
+use crate::input::{json_coefficient, json_dims, json_field, json_list, json_required};
+use crate::scalar::{FieldSpec, Q, q_to_string};
 use serde_json::{Value, json};
 
 /// The schema tag written and accepted.
@@ -66,124 +68,129 @@ pub fn write_json(s: &Scheme) -> String {
     )
 }
 
-/// Parse the JSON form. Syntax errors carry serde's line and column; structural errors
-/// name the offending field (reported at line 1, column 1). Cost: linear in the text.
+/// Parse the JSON form. Every error carries the line and column of the offending value
+/// and its JSON path (`$.u[2][1]`); the JSON itself is read strictly (duplicate keys,
+/// unknown keys and numbers where strings are expected are refused). Cost: linear in the
+/// text.
 pub fn parse_json(text: &str, source: &str) -> Result<Scheme, Error> {
-    let at = |line: usize, column: usize| Position {
-        source: source.to_string(),
-        line,
-        column,
-    };
-    let v: Value = serde_json::from_str(text).map_err(|e| Error::Parse {
-        at: at(e.line(), e.column()),
-        message: format!("invalid JSON: {e}"),
-    })?;
-    from_value(&v, source)
+    let doc = JsonDoc { text, source };
+    from_node(&doc, &doc.parse()?, "$", None)
 }
 
-/// Read a scheme from an already parsed JSON value (e.g. inside a search checkpoint);
-/// structural errors are reported at line 1, column 1 of `source`.
-pub fn from_value(v: &Value, source: &str) -> Result<Scheme, Error> {
-    let at = |line: usize, column: usize| Position {
-        source: source.to_string(),
-        line,
-        column,
-    };
-    let bad = |m: String| Error::Parse {
-        at: at(1, 1),
-        message: m,
-    };
-    let obj = v
-        .as_object()
-        .ok_or_else(|| bad("a scheme must be a JSON object".into()))?;
-    if let Some(sc) = obj.get("schema")
-        && sc.as_str() != Some(SCHEMA)
+/// Read a scheme from a JSON value at path `path` of `doc` (a whole file, or the `best` of
+/// a search checkpoint). With `into = Some(f)` the scheme is brought to the field `f` as
+/// it is read (a scheme over Q is reduced mod p coefficient by coefficient, so an error
+/// points at the coefficient; a scheme over GF(p) cannot be read over another field).
+pub fn from_node(
+    doc: &JsonDoc,
+    v: &Json,
+    path: &str,
+    into: Option<FieldSpec>,
+) -> Result<Scheme, Error> {
+    if !matches!(v.value, JValue::Object(_)) {
+        return Err(doc.error(
+            v.at,
+            path,
+            format!(
+                "expected a scheme object {{\"dims\": .., \"u\": .., \"v\": .., \"w\": ..}}, found {}",
+                v.describe()
+            ),
+        ));
+    }
+    let key = |k: &str| format!("{path}.{k}");
+    check_keys(
+        doc,
+        v,
+        path,
+        &["schema", "field", "dims", "rank", "u", "v", "w"],
+    )?;
+    if let Some(sc) = v.get("schema")
+        && sc.value != JValue::Str(SCHEMA.into())
     {
-        return Err(bad(format!("unknown schema {sc}, expected \"{SCHEMA}\"")));
+        return Err(doc.error(
+            sc.at,
+            &key("schema"),
+            format!("expected \"{SCHEMA}\", found {}", sc.describe()),
+        ));
     }
-    let field = match obj.get("field") {
+    let declared = match v.get("field") {
         None => FieldSpec::Rational,
-        Some(f) => FieldSpec::parse(
-            f.as_str()
-                .ok_or_else(|| bad("`field` must be a string".into()))?,
-        )
-        .map_err(bad)?,
+        Some(f) => json_field(doc, f, &key("field"))?,
     };
-    let dims_v = obj
-        .get("dims")
-        .and_then(Value::as_array)
-        .ok_or_else(|| bad("missing `dims` (three integers)".into()))?;
-    let dims: Vec<usize> = dims_v
-        .iter()
-        .filter_map(|d| d.as_u64().map(|x| x as usize))
-        .collect();
-    if dims.len() != 3 || dims_v.len() != 3 {
-        return Err(bad("`dims` must be three non-negative integers".into()));
+    let field = into.unwrap_or(declared);
+    if declared != field && declared != FieldSpec::Rational {
+        let at = v.get("field").map_or(v.at, |f| f.at);
+        return Err(doc.error(
+            at,
+            &key("field"),
+            format!(
+                "a scheme over {} cannot be read for a tensor over {}",
+                declared.name(),
+                field.name()
+            ),
+        ));
     }
-    if dims.iter().any(|&d| d > crate::tensor::MAX_DIM) {
-        return Err(bad(format!(
-            "a dimension exceeds the limit {}",
-            crate::tensor::MAX_DIM
-        )));
-    }
-    let dims = [dims[0], dims[1], dims[2]];
+    let dims_v = json_required(doc, v, path, "dims", "three dimensions [d0, d1, d2]")?;
+    let dims = json_dims(doc, dims_v, &key("dims"), 1)?;
     let mut mats = Vec::new();
-    for (axis, key) in ["u", "v", "w"].into_iter().enumerate() {
-        let rows = obj
-            .get(key)
-            .and_then(Value::as_array)
-            .ok_or_else(|| bad(format!("missing `{key}` (a list of rows)")))?;
+    for (axis, k) in ["u", "v", "w"].into_iter().enumerate() {
+        let kp = key(k);
+        let rows_v = json_required(doc, v, path, k, "a list of rows, one per multiplication")?;
+        let rows = json_list(doc, rows_v, &kp, "a list of rows, one per multiplication")?;
         let mut m = Vec::with_capacity(rows.len());
-        for (t, row) in rows.iter().enumerate() {
-            let row = row
-                .as_array()
-                .ok_or_else(|| bad(format!("`{key}[{t}]` must be a list of coefficients")))?;
+        for (t, row_v) in rows.iter().enumerate() {
+            let rp = format!("{kp}[{t}]");
+            let row = json_list(doc, row_v, &rp, "a list of coefficients")?;
             if row.len() != dims[axis] {
-                return Err(bad(format!(
-                    "`{key}[{t}]` has {} entries, expected {}",
-                    row.len(),
-                    dims[axis]
-                )));
+                return Err(doc.error(
+                    row_v.at,
+                    &rp,
+                    format!(
+                        "{} coefficients, expected {} (dims[{axis}])",
+                        row.len(),
+                        dims[axis]
+                    ),
+                ));
             }
             let mut r = Vec::with_capacity(row.len());
             for (i, x) in row.iter().enumerate() {
-                let q = match x {
-                    Value::String(s) => parse_rational(s),
-                    Value::Number(n) if n.is_i64() => {
-                        Ok(Q::from_integer(n.as_i64().unwrap_or(0).into()))
-                    }
-                    _ => Err("expected a string \"p/q\" or an integer".to_string()),
-                }
-                .map_err(|m| bad(format!("`{key}[{t}][{i}]`: {m}")))?;
-                r.push(reduce_into(field, &q).map_err(|e| bad(format!("`{key}[{t}][{i}]`: {e}")))?);
+                let xp = format!("{rp}[{i}]");
+                let q = json_coefficient(doc, x, &xp)?;
+                r.push(reduce_into(field, &q).map_err(|e| doc.error(x.at, &xp, e))?);
             }
             m.push(r);
         }
-        mats.push(m);
+        mats.push((m, rows_v.at));
     }
-    let (w, v, u) = (
-        mats.pop().unwrap_or_default(),
-        mats.pop().unwrap_or_default(),
-        mats.pop().unwrap_or_default(),
-    );
-    if u.len() != v.len() || v.len() != w.len() {
-        return Err(bad(format!(
-            "`u`, `v`, `w` must have the same number of rows (found {}, {}, {})",
-            u.len(),
-            v.len(),
-            w.len()
-        )));
+    let (w, w_at) = mats.pop().unwrap_or_default();
+    let (v_rows, _) = mats.pop().unwrap_or_default();
+    let (u, _) = mats.pop().unwrap_or_default();
+    if u.len() != v_rows.len() || v_rows.len() != w.len() {
+        return Err(doc.error(
+            w_at,
+            path,
+            format!(
+                "`u`, `v`, `w` must have the same number of rows (found {}, {}, {})",
+                u.len(),
+                v_rows.len(),
+                w.len()
+            ),
+        ));
     }
-    if let Some(r) = obj.get("rank")
-        && r.as_u64() != Some(u.len() as u64)
+    if let Some(r) = v.get("rank")
+        && r.as_index() != Some(u.len() as u64)
     {
-        return Err(bad(format!("`rank` is {r} but there are {} rows", u.len())));
+        return Err(doc.error(
+            r.at,
+            &key("rank"),
+            format!("found {} but there are {} rows", r.describe(), u.len()),
+        ));
     }
     Ok(Scheme {
         field,
         dims,
         u,
-        v,
+        v: v_rows,
         w,
     })
 }

@@ -149,22 +149,35 @@ pub fn reduce_into(field: FieldSpec, x: &Q) -> crate::Result<Q> {
 
 /// Read a scheme file in either documented form (JSON when the text starts with `{`,
 /// the text form otherwise), resolve it against `t` and bring it to the tensor's field.
+/// Every refusal is an [`crate::Error::Parse`] at a line and column of `source` (a JSON
+/// path too for the JSON form); an input with no statement at all is refused.
 pub fn parse_scheme(text: &str, source: &str, t: &crate::tensor::Tensor) -> crate::Result<Scheme> {
-    let s = if text.trim_start().starts_with('{') {
-        json::parse_json(text, source)?
+    if text
+        .trim_start_matches('\u{feff}')
+        .trim_start()
+        .starts_with('{')
+    {
+        let doc = crate::input::json_tree::JsonDoc { text, source };
+        let root = doc.parse()?;
+        let s = json::from_node(&doc, &root, "$", Some(t.field()))?;
+        if s.dims != t.dims() {
+            let at = root.get("dims").map_or(root.at, |d| d.at);
+            return Err(doc.error(
+                at,
+                "$.dims",
+                format!(
+                    "the scheme has format {}x{}x{} but the tensor has {}x{}x{}",
+                    s.dims[0],
+                    s.dims[1],
+                    s.dims[2],
+                    t.dims()[0],
+                    t.dims()[1],
+                    t.dims()[2]
+                ),
+            ));
+        }
+        Ok(s)
     } else {
-        text::parse_text(text, source, t)?
-    };
-    if s.dims != t.dims() {
-        return Err(crate::Error::Invalid(format!(
-            "the scheme has format {}x{}x{} but the tensor has {}x{}x{}",
-            s.dims[0],
-            s.dims[1],
-            s.dims[2],
-            t.dims()[0],
-            t.dims()[1],
-            t.dims()[2]
-        )));
+        text::parse_text(text, source, t)
     }
-    s.with_field(t.field())
 }

@@ -88,6 +88,24 @@ fn lex(line: &str, err: &dyn Fn(usize, String) -> Error) -> Result<Lexed, Error>
                 }
             }
             let s: String = chars[start..i].iter().collect();
+            if !is_number_text(&s) {
+                return Err(err(
+                    col,
+                    format!("expected a number such as `3`, `1/2` or `0.25`, found `{s}`"),
+                ));
+            }
+            if s.split(['.', '/'])
+                .any(|d| d.len() > crate::input::MAX_DIGITS)
+            {
+                return Err(err(
+                    col,
+                    format!(
+                        "a number with more than {} digits: coefficients have at most {} digits",
+                        crate::input::MAX_DIGITS,
+                        crate::input::MAX_DIGITS
+                    ),
+                ));
+            }
             let v = parse_rational(&s).map_err(|m| err(col, m))?;
             toks.push((Tok::Num(v), col));
         } else if is_name_start(c) {
@@ -104,6 +122,18 @@ fn lex(line: &str, err: &dyn Fn(usize, String) -> Error) -> Result<Lexed, Error>
         toks,
         end_col: chars.len() + 1,
     })
+}
+
+/// The documented number forms: `123`, `1/2`, `0.25` (digits on both sides).
+fn is_number_text(s: &str) -> bool {
+    let digits = |x: &str| !x.is_empty() && x.bytes().all(|b| b.is_ascii_digit());
+    if let Some((n, d)) = s.split_once('/') {
+        return digits(n) && digits(d);
+    }
+    match s.split_once('.') {
+        Some((i, f)) => digits(i) && digits(f),
+        None => digits(s),
+    }
 }
 
 /// A cursor over one line's tokens.
@@ -211,6 +241,7 @@ impl Cur<'_> {
 /// reduced to `0..p`. Errors: [`Error::Parse`] with line and column. Cost: linear in the
 /// text plus O(r (d0 + d1 + d2)).
 pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let dims = t.dims();
     let index = |axis: usize| -> HashMap<&str, usize> {
         t.names()[axis]
@@ -220,7 +251,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             .collect()
     };
     let idx = [index(0), index(1), index(2)];
-    let mut field = t.field();
+    let field = t.field();
     let mut declared_rank: Option<(usize, usize)> = None;
     let mut labels: HashMap<String, usize> = HashMap::new();
     let mut scheme = Scheme::empty(field, dims);
@@ -228,6 +259,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
     let mut outputs: Vec<(usize, usize, Vec<Term>)> = Vec::new();
     let mut seen_out = vec![false; dims[2]];
     let mut seen_any = false;
+    let mut seen_statement = false;
     for (ln, line) in text.lines().enumerate() {
         let ln = ln + 1;
         let err = move |col: usize, message: String| Error::Parse {
@@ -242,6 +274,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
         if lx.toks.is_empty() {
             continue;
         }
+        seen_statement = true;
         let mut cur = Cur {
             lx: &lx,
             pos: 0,
@@ -259,8 +292,19 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                     if seen_any {
                         return cur.fail("`field` must come before the first product");
                     }
-                    field = FieldSpec::parse(rest).map_err(|m| err(lx.toks[0].1, m))?;
-                    scheme.field = field;
+                    let declared = FieldSpec::parse(rest).map_err(|m| err(lx.toks[0].1, m))?;
+                    // a scheme over Q reads over GF(p) (reduced coefficient by coefficient);
+                    // a scheme over GF(p) only over GF(p)
+                    if declared != t.field() && declared != FieldSpec::Rational {
+                        return Err(err(
+                            lx.toks[0].1,
+                            format!(
+                                "a scheme over {} cannot be read for a tensor over {}",
+                                declared.name(),
+                                t.field().name()
+                            ),
+                        ));
+                    }
                 }
                 "dims" | "format" => {
                     let parts: Vec<&str> = rest
@@ -346,6 +390,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                         };
                         vec[i] = reduce_into(field, &(&vec[i] + c))
                             .map_err(|e| err(*col, e.to_string()))?;
+                        crate::input::check_digits(&vec[i]).map_err(|m| err(*col, m))?;
                     }
                     None if c.is_zero() => {}
                     None => return Err(err(*col, "a bare number in a factor must be 0".into())),
@@ -379,11 +424,25 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                     };
                     let x = &scheme.w[tt][k] + c;
                     scheme.w[tt][k] = reduce_into(field, &x).map_err(|e| err(e.to_string()))?;
+                    crate::input::check_digits(&scheme.w[tt][k]).map_err(err)?;
                 }
                 None if c.is_zero() => {}
                 None => return Err(err("a bare number in an output line must be 0".into())),
             }
         }
+    }
+    if !seen_statement {
+        let lines = text.lines().count();
+        return Err(Error::Parse {
+            at: Position {
+                source: source.to_string(),
+                line: lines.max(1),
+                column: 1,
+            },
+            message: "the input is empty (no header, product or output line): expected a \
+                      scheme such as `m1 = (a11 + a22)*(b11 + b22)`"
+                .into(),
+        });
     }
     if let Some((r, ln)) = declared_rank
         && r != scheme.rank()

@@ -1,4 +1,4 @@
-//! The JSON scheme form used for search results and checkpoints, and atomic file writes.
+//! The JSON forms of search results and checkpoints.
 //!
 //! Scheme: `{"schema":"bilin.scheme/1","field":"Q","dims":[a,b,c],"rank":r,
 //! "u":[[..],..],"v":[[..],..],"w":[[..],..]}`; `u[t]` is the left factor of term t, every
@@ -7,9 +7,12 @@
 //! Checkpoint: `{"schema":"bilin.search-checkpoint/1","seed":S,"shard":[K,N],
 //! "next_run":n,"best":SCHEME-or-null}`; runs `0..next_run` of this shard are done.
 //!
-//! Invariant: a written file is complete (written to a temporary file, then renamed).
+//! Files are written through [`crate::output`] and [`super::store`] (complete files only,
+//! never a better result replaced by a worse one).
 
-use crate::error::{Error, Result};
+use crate::error::Result;
+use crate::input::json_tree::{JValue, JsonDoc, check_keys};
+use crate::input::{json_list, json_required};
 use crate::scheme::Scheme;
 use serde_json::{Value, json};
 
@@ -18,22 +21,8 @@ pub fn scheme_to_json(s: &Scheme) -> Value {
     crate::scheme::json::to_json(s)
 }
 
-fn invalid(msg: impl Into<String>) -> Error {
-    Error::Invalid(msg.into())
-}
-
-/// Read a scheme from its JSON value (the `bilin.scheme/1` form); shapes are checked,
-/// entries parsed exactly.
-pub fn scheme_from_value(v: &Value) -> Result<Scheme> {
-    crate::scheme::json::from_value(v, "<scheme in a checkpoint>")
-}
-
-/// Parse a scheme JSON text.
-pub fn scheme_from_json(text: &str) -> Result<Scheme> {
-    let v: Value =
-        serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
-    scheme_from_value(&v)
-}
+/// The schema tag of checkpoints.
+pub const CHECKPOINT_SCHEMA: &str = "bilin.search-checkpoint/1";
 
 /// A search checkpoint (see the module documentation).
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -44,10 +33,37 @@ pub struct Checkpoint {
     pub best: Option<Scheme>,
 }
 
+/// What a result or checkpoint file holds.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub enum Saved {
+    /// A search checkpoint.
+    Checkpoint(Checkpoint),
+    /// A plain scheme (a search result, or any scheme in the JSON form).
+    Scheme(Scheme),
+}
+
+impl Saved {
+    /// The scheme it holds, if any.
+    pub fn best(&self) -> Option<&Scheme> {
+        match self {
+            Saved::Checkpoint(c) => c.best.as_ref(),
+            Saved::Scheme(s) => Some(s),
+        }
+    }
+
+    /// The scheme it holds, if any, by value.
+    pub fn into_best(self) -> Option<Scheme> {
+        match self {
+            Saved::Checkpoint(c) => c.best,
+            Saved::Scheme(s) => Some(s),
+        }
+    }
+}
+
 /// The JSON value of a checkpoint.
 pub fn checkpoint_to_json(c: &Checkpoint) -> Value {
     json!({
-        "schema": "bilin.search-checkpoint/1",
+        "schema": CHECKPOINT_SCHEMA,
         "seed": c.seed,
         "shard": [c.shard.0, c.shard.1],
         "next_run": c.next_run,
@@ -55,51 +71,69 @@ pub fn checkpoint_to_json(c: &Checkpoint) -> Value {
     })
 }
 
-/// Read a checkpoint, or a plain scheme file (taken as a checkpoint with that best scheme).
-pub fn checkpoint_from_json(text: &str) -> Result<Checkpoint> {
-    let v: Value =
-        serde_json::from_str(text).map_err(|e| invalid(format!("not valid JSON: {e}")))?;
-    match v.get("schema").and_then(Value::as_str) {
-        Some("bilin.search-checkpoint/1") => {
-            let num = |k: &str| {
-                v.get(k)
-                    .and_then(Value::as_u64)
-                    .ok_or_else(|| invalid(format!("checkpoint: missing \"{k}\"")))
-            };
-            let shard = v
-                .get("shard")
-                .and_then(Value::as_array)
-                .and_then(|a| Some((a.first()?.as_u64()?, a.get(1)?.as_u64()?)))
-                .unwrap_or((0, 1));
-            let best = match v.get("best") {
-                None | Some(Value::Null) => None,
-                Some(b) => Some(scheme_from_value(b)?),
-            };
-            Ok(Checkpoint {
-                seed: num("seed")?,
-                shard,
-                next_run: num("next_run")?,
-                best,
-            })
-        }
-        _ => Ok(Checkpoint {
-            seed: 0,
-            shard: (0, 1),
-            next_run: 0,
-            best: Some(scheme_from_value(&v)?),
-        }),
+/// Read a checkpoint or a scheme in the JSON form (a checkpoint is recognised by its
+/// `schema`). Every error is located (line, column, JSON path); the checkpoint's keys are
+/// all required: `schema`, `seed`, `shard` ([K, N] with K < N), `next_run`, `best` (a
+/// scheme or null). Cost: linear in the text.
+pub fn parse_saved(text: &str, source: &str) -> Result<Saved> {
+    let doc = JsonDoc { text, source };
+    let root = doc.parse()?;
+    let is_checkpoint = matches!(&root.get("schema").map(|s| &s.value),
+        Some(JValue::Str(s)) if s == CHECKPOINT_SCHEMA);
+    if !is_checkpoint {
+        return crate::scheme::json::from_node(&doc, &root, "$", None).map(Saved::Scheme);
     }
-}
-
-/// Write `text` to `path` atomically: a temporary file in the same directory, then rename.
-pub fn write_atomic(path: &str, text: &str) -> Result<()> {
-    let io = |e: std::io::Error| Error::Io {
-        path: path.to_string(),
-        message: e.to_string(),
+    check_keys(
+        &doc,
+        &root,
+        "$",
+        &["schema", "seed", "shard", "next_run", "best"],
+    )?;
+    let number = |k: &str| -> Result<u64> {
+        let v = json_required(&doc, &root, "$", k, "a non-negative integer")?;
+        v.as_index().ok_or_else(|| {
+            doc.error(
+                v.at,
+                &format!("$.{k}"),
+                format!("expected a non-negative integer, found {}", v.describe()),
+            )
+        })
     };
-    let tmp = format!("{path}.tmp{}", std::process::id());
-    std::fs::write(&tmp, text).map_err(io)?;
-    std::fs::rename(&tmp, path).map_err(io)
+    let seed = number("seed")?;
+    let next_run = number("next_run")?;
+    let shard_v = json_required(&doc, &root, "$", "shard", "[K, N]")?;
+    let shard = match json_list(&doc, shard_v, "$.shard", "[K, N]")? {
+        [k, n] => match (k.as_index(), n.as_index()) {
+            (Some(k), Some(n)) if k < n => (k, n),
+            _ => {
+                return Err(doc.error(
+                    shard_v.at,
+                    "$.shard",
+                    "expected [K, N] with integers 0 <= K < N",
+                ));
+            }
+        },
+        _ => {
+            return Err(doc.error(
+                shard_v.at,
+                "$.shard",
+                format!("expected [K, N], found {}", shard_v.describe()),
+            ));
+        }
+    };
+    let best_v = json_required(&doc, &root, "$", "best", "a scheme or null")?;
+    let best = match best_v.value {
+        JValue::Null => None,
+        _ => Some(crate::scheme::json::from_node(
+            &doc, best_v, "$.best", None,
+        )?),
+    };
+    Ok(Saved::Checkpoint(Checkpoint {
+        seed,
+        shard,
+        next_run,
+        best,
+    }))
 }
 
 #[cfg(test)]
@@ -109,24 +143,44 @@ mod tests {
     use crate::scalar::q;
 
     #[test]
-    fn round_trip() {
+    fn round_trip_and_located_errors() {
         let mut s = Scheme::empty(FieldSpec::Rational, [2, 1, 1]);
         s.push(vec![q(1, 2), q(-3, 1)], vec![q(1, 1)], vec![q(0, 1)]);
         let text = scheme_to_json(&s).to_string();
-        assert_eq!(scheme_from_json(&text).unwrap(), s);
+        assert_eq!(parse_saved(&text, "s").unwrap(), Saved::Scheme(s.clone()));
         let c = Checkpoint {
             seed: 3,
             shard: (1, 4),
             next_run: 17,
             best: Some(s),
         };
-        assert_eq!(
-            checkpoint_from_json(&checkpoint_to_json(&c).to_string()).unwrap(),
-            c
-        );
-        assert!(scheme_from_json("{\"dims\":[1,1]}").is_err());
-        assert!(
-            scheme_from_json("{\"dims\":[1,1,1],\"u\":[[\"x\"]],\"v\":[[1]],\"w\":[[1]]}").is_err()
-        );
+        let text = checkpoint_to_json(&c).to_string();
+        assert_eq!(parse_saved(&text, "c").unwrap(), Saved::Checkpoint(c));
+        for (text, want) in [
+            (
+                "{\"dims\":[1,1]}",
+                "s:1:9: $.dims: expected three dimensions",
+            ),
+            (
+                "{\"dims\":[1,1,1],\"u\":[[\"x\"]],\"v\":[[1]],\"w\":[[1]]}",
+                "s:1:23: $.u[0][0]: expected a coefficient",
+            ),
+            (
+                "{\"schema\":\"bilin.search-checkpoint/1\",\"seed\":1,\"next_run\":0,\n\"shard\":[2,2],\"best\":null}",
+                "s:2:9: $.shard: expected [K, N] with integers 0 <= K < N",
+            ),
+            (
+                "{\"schema\":\"bilin.search-checkpoint/1\",\"seed\":1,\"shard\":[0,1],\"best\":null}",
+                "s:1:1: $: missing key \"next_run\"",
+            ),
+            (
+                "{\"schema\":\"bilin.search-checkpoint/1\",\"seed\":1e3,\"shard\":[0,1],\"next_run\":0,\"best\":null}",
+                "s:1:46: $.seed: expected a non-negative integer, found the number 1e3",
+            ),
+            ("", "s:1:1: the input is empty"),
+        ] {
+            let e = parse_saved(text, "s").unwrap_err().to_string();
+            assert!(e.starts_with(want), "{text}: {e}");
+        }
     }
 }

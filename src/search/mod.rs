@@ -21,6 +21,7 @@ pub mod flip;
 pub mod flip_p;
 pub mod hensel;
 pub mod json;
+pub mod store;
 
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
