@@ -7,6 +7,8 @@
 //! 4. [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
+//! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures).
+//!
 //! [`error`] holds the typed errors shared by all layers.
 
 pub mod catalog;
@@ -16,6 +18,7 @@ pub mod input;
 pub mod invariants;
 pub mod laws;
 pub mod linalg;
+pub mod picture;
 pub mod ranks;
 pub mod report;
 pub mod scalar;

@@ -7,6 +7,7 @@
 //! - [`fingerprint`]: invariant (key, value) lists, computed exactly;
 //! - [`facts`]: recomputing the stored facts;
 //! - [`identify`]: matching fingerprints and explicit isomorphisms ([`iso`]);
+//! - [`schemes`]: known schemes stored with the entries, verified exactly;
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
 mod checks;
@@ -19,6 +20,7 @@ pub mod identify;
 pub mod iso;
 pub mod meta;
 pub mod rank_facts;
+pub mod schemes;
 mod spaces;
 pub mod store;
 mod traceform;
@@ -28,6 +30,7 @@ pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
+pub use schemes::{STORED_SCHEMES, StoredScheme, stored_schemes};
 pub use store::{
     Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
 };

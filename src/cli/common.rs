@@ -54,3 +54,27 @@ pub fn with_progress<T>(work: impl FnOnce(&mut dyn FnMut(&str)) -> T) -> T {
     }
     out
 }
+
+/// Write a generated file (a picture, a page): refused when `path` exists and is not a
+/// regular file; written atomically (a temporary file, then a rename). Errors are printed;
+/// the `Err` holds the exit code (2).
+pub fn write_output(path: &str, text: &str) -> Result<(), i32> {
+    if let Ok(m) = std::fs::metadata(path)
+        && !m.is_file()
+    {
+        eprintln!("error: {path}: exists and is not a regular file; not written");
+        return Err(EXIT_USAGE);
+    }
+    bilin::search::json::write_atomic(path, text).map_err(|e| report_error(&e))
+}
+
+/// Print a generated document to `out` if given, else to standard output.
+pub fn emit_output(out: Option<&str>, text: &str) -> Result<(), i32> {
+    match out {
+        Some(path) => write_output(path, text),
+        None => {
+            print!("{text}");
+            Ok(())
+        }
+    }
+}

@@ -11,6 +11,7 @@ mod bounds;
 mod catalog;
 pub mod common;
 mod convert;
+mod draw;
 mod emit;
 mod identify;
 mod invariants;
@@ -61,6 +62,8 @@ enum Command {
     Identify(identify::IdentifyArgs),
     /// Apply a change of basis (a basis file or a seeded random one) and print the result.
     Transform(transform::Args),
+    /// SVG pictures: a tensor's slices, a scheme's factor matrices, a block decomposition.
+    Draw(draw::DrawArgs),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -88,5 +91,6 @@ pub fn run() -> i32 {
         Command::Catalog(a) => catalog::run(a),
         Command::Identify(a) => identify::run(a),
         Command::Transform(a) => transform::run(a),
+        Command::Draw(a) => draw::run(a),
     }
 }
