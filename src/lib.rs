@@ -7,7 +7,8 @@
 //! 4. [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
-//! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures).
+//! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures),
+//!    [`site`] (the catalog as HTML pages).
 //!
 //! [`error`] holds the typed errors shared by all layers.
 
@@ -24,6 +25,7 @@ pub mod report;
 pub mod scalar;
 pub mod scheme;
 pub mod search;
+pub mod site;
 pub mod tensor;
 
 pub use error::{Error, Result};
