@@ -127,6 +127,6 @@ pub fn index_page(views: &[EntryView]) -> String {
         );
     }
     b.push_str("</tbody>\n</table>\n");
-    let _ = write!(b, "<script>{SCRIPT}</script>\n");
+    let _ = writeln!(b, "<script>{SCRIPT}</script>");
     page("The bilin catalog", "", &b)
 }
