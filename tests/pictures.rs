@@ -212,6 +212,18 @@ fn draw_command_writes_the_same_bytes_and_refuses_bad_requests() {
     let (code, out, _) = bilin(&["draw", "blocks", "quaternions", "--sizes", "1,3"]);
     assert_eq!(code, 0);
     assert!(out.contains("lie outside the blocks"));
+    // `--svg` of analyze and verify writes the same pictures
+    let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/target/test-pictures");
+    std::fs::create_dir_all(dir).unwrap();
+    let path = format!("{dir}/analyze-octonions.svg");
+    let (code, _, err) = bilin(&["analyze", "octonions", "--no-invariants", "--svg", &path]);
+    assert_eq!(code, 0, "{err}");
+    assert_eq!(std::fs::read_to_string(&path).unwrap(), a);
+    let path = format!("{dir}/verify-strassen.svg");
+    let scheme = "catalog/schemes/matmul222.strassen.txt";
+    let (code, _, err) = bilin(&["verify", "matmul:2,2,2", scheme, "--svg", &path]);
+    assert_eq!(code, 0, "{err}");
+    assert!(parse_svg(&std::fs::read_to_string(&path).unwrap()).2["rect"] > 28);
     let (code, _, err) = bilin(&["draw", "tensor", "octonions", "--axis", "up"]);
     assert_eq!(code, 2);
     assert!(err.contains("unknown axis"), "{err}");

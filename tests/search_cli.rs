@@ -69,3 +69,38 @@ fn unreachable_rank_exits_1_and_bad_input_exits_2() {
         "no rank, no time: refused"
     );
 }
+
+/// A batch job's log gets a progress line every few seconds (standard error is a pipe
+/// here), with the best rank, the moves per second and the time elapsed; `--quiet` keeps
+/// it silent.
+#[test]
+fn progress_lines_in_a_log_and_quiet() {
+    let args = [
+        "search",
+        "poly:2,2",
+        "--rank",
+        "2",
+        "--threads",
+        "1",
+        "--time",
+        "1.6",
+        "--progress-every",
+        "0.4",
+    ];
+    let (code, _, err) = bilin(&args);
+    assert_eq!(code, 1, "rank 2 is out of reach");
+    let lines: Vec<&str> = err.lines().filter(|l| l.contains("moves/s")).collect();
+    assert!(lines.len() >= 2, "{err}");
+    assert!(lines[0].starts_with("bilin search: best rank "), "{err}");
+    assert!(lines.iter().all(|l| l.contains(" elapsed ")));
+    let (code, _, err) = bilin(&[&args[..7], &["0.3", "--quiet"]].concat());
+    assert_eq!(code, 1);
+    assert!(!err.contains("moves/s"), "{err}");
+    assert!(
+        err.contains("best verified rank 3"),
+        "the result line stays: {err}"
+    );
+    let (code, _, err) = bilin(&[&args[..9], &["0"]].concat());
+    assert_eq!(code, 2);
+    assert!(err.contains("--progress-every"), "{err}");
+}

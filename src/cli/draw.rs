@@ -1,7 +1,7 @@
 //! `bilin draw tensor|scheme|blocks ...`: SVG pictures of a tensor's slices, a scheme's
 //! factor matrices, or a block decomposition; to standard output or `--out FILE`.
 
-use super::common::{emit_output, report_error};
+use super::common::{emit_output, report_error, write_output};
 use super::scheme::parse_list;
 use super::scheme_io::{load_scheme, load_tensor};
 use super::{EXIT_FALSE, EXIT_OK};
@@ -10,6 +10,7 @@ use bilin::picture::{
     BlockLayout, SchemePictureParams, TensorPictureParams, View, blocks_svg, parse_axis,
     scheme_svg, tensor_svg,
 };
+use bilin::scheme::Scheme;
 use bilin::tensor::Tensor;
 use clap::{Args, Subcommand};
 
@@ -178,4 +179,24 @@ fn draw(what: What) -> Result<i32, Error> {
         Ok(()) => code,
         Err(c) => c,
     })
+}
+
+/// Write the default picture of a tensor (`--svg` of other commands). Errors are printed;
+/// the `Err` holds the exit code.
+pub fn write_tensor_picture(t: &Tensor, input: &str, path: &str) -> Result<(), i32> {
+    let params = TensorPictureParams {
+        title: Some(input.to_string()),
+        ..TensorPictureParams::default()
+    };
+    let svg = tensor_svg(t, &params).map_err(|e| report_error(&e))?;
+    write_output(path, &svg)
+}
+
+/// Write the picture of a scheme (`--svg` of other commands).
+pub fn write_scheme_picture(s: &Scheme, t: &Tensor, name: &str, path: &str) -> Result<(), i32> {
+    let params = SchemePictureParams {
+        title: Some(name.to_string()),
+    };
+    let svg = scheme_svg(s, t, &params).map_err(|e| report_error(&e))?;
+    write_output(path, &svg)
 }

@@ -1,8 +1,9 @@
 //! `bilin search`: look for a low-rank scheme of a tensor; `bilin merge` lives in merge.rs.
 //!
 //! Parses arguments, builds `search::Params`, installs the Ctrl-C handler (which sets the
-//! stop flag so the best scheme found is still written), renders progress on stderr when
-//! it is a terminal, and writes checkpoints and the result atomically.
+//! stop flag so the best scheme found is still written), renders progress on stderr (one
+//! overwritten line on a terminal, a line every few seconds in a log; none with `--quiet`),
+//! and writes checkpoints and the result atomically.
 
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::search::json::{
@@ -52,6 +53,47 @@ pub struct SearchArgs {
     /// Run only shard K of N (runs numbered K mod N), e.g. `--shard 3/100`.
     #[arg(long)]
     pub shard: Option<String>,
+    /// No progress on standard error (neither the terminal line nor the log lines).
+    #[arg(long)]
+    pub quiet: bool,
+    /// Seconds between two progress lines when standard error is not a terminal (a log).
+    #[arg(long, default_value_t = 5.0, value_name = "SECONDS")]
+    pub progress_every: f64,
+}
+
+/// Progress for a log (standard error is not a terminal): at most one line per interval
+/// with the best rank so far, the moves per second since the last line and the time elapsed.
+struct LogProgress {
+    every: Duration,
+    last: std::sync::Mutex<(Duration, u64)>,
+}
+
+impl LogProgress {
+    fn new(every: Duration) -> Self {
+        LogProgress {
+            every,
+            last: std::sync::Mutex::new((Duration::ZERO, 0)),
+        }
+    }
+
+    /// Print a line if the interval has passed since the last one.
+    fn tick(&self, p: &Progress) {
+        let mut last = self.last.lock().expect("lock");
+        if p.elapsed < last.0 + self.every {
+            return;
+        }
+        let dt = (p.elapsed - last.0).as_secs_f64().max(1e-9);
+        let rate = p.moves.saturating_sub(last.1) as f64 / dt;
+        *last = (p.elapsed, p.moves);
+        let best = p
+            .best
+            .as_ref()
+            .map_or("-".to_string(), |s| s.rank().to_string());
+        eprintln!(
+            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s",
+            p.elapsed.as_secs_f64()
+        );
+    }
 }
 
 fn usage(msg: impl std::fmt::Display) -> i32 {
@@ -127,7 +169,12 @@ pub fn run(a: SearchArgs) -> i32 {
         .checkpoint
         .clone()
         .or_else(|| a.out.as_ref().map(|o| format!("{o}.checkpoint.json")));
-    let tty = std::io::stderr().is_terminal();
+    if !(a.progress_every.is_finite() && a.progress_every > 0.0) {
+        return usage("--progress-every must be a positive number of seconds");
+    }
+    let tty = std::io::stderr().is_terminal() && !a.quiet;
+    let log = (!std::io::stderr().is_terminal() && !a.quiet)
+        .then(|| LogProgress::new(Duration::from_secs_f64(a.progress_every)));
     let last_ckpt = std::sync::Mutex::new(Instant::now());
     let last_moves = std::sync::Mutex::new((Duration::ZERO, 0u64));
     let write_ckpt = |p: &Progress| {
@@ -144,6 +191,9 @@ pub fn run(a: SearchArgs) -> i32 {
         }
     };
     let progress = |p: &Progress| {
+        if let Some(l) = &log {
+            l.tick(p);
+        }
         if tty {
             let mut lm = last_moves.lock().expect("lock");
             let dt = (p.elapsed - lm.0).as_secs_f64().max(1e-9);
