@@ -15,6 +15,7 @@ mod draw;
 mod emit;
 mod identify;
 mod invariants;
+mod manual;
 mod merge;
 mod scheme;
 mod scheme_io;
@@ -64,6 +65,10 @@ enum Command {
     Transform(transform::Args),
     /// SVG pictures: a tensor's slices, a scheme's factor matrices, a block decomposition.
     Draw(draw::DrawArgs),
+    /// Print a shell completion script (bash, zsh, fish, elvish, powershell).
+    Completions(manual::CompletionsArgs),
+    /// Print the man page, or write one page per command into a folder (`--dir`).
+    Manual(manual::ManualArgs),
 }
 
 /// Parse the command line, run it, return the exit code.
@@ -92,5 +97,7 @@ pub fn run() -> i32 {
         Command::Identify(a) => identify::run(a),
         Command::Transform(a) => transform::run(a),
         Command::Draw(a) => draw::run(a),
+        Command::Completions(a) => manual::completions(a),
+        Command::Manual(a) => manual::manual(a),
     }
 }
