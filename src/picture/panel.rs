@@ -6,7 +6,7 @@
 //! by adding sizes.
 
 use super::palette::{self, Scale};
-use super::svg::{Anchor, Svg, shorten, text_width};
+use super::svg::{Anchor, Batch, Svg, shorten, text_width};
 use crate::scalar::Q;
 use num_traits::One;
 use std::fmt::Write;
@@ -74,19 +74,25 @@ pub fn draw_panel(svg: &mut Svg, x: i64, y: i64, p: &Panel, scale: &Scale, ov: &
     svg.path(&grid, palette::GRID, 1);
     let mut non_integer = false;
     let cs = p.cell;
+    let (mut cells, mut marks) = (Batch::default(), Batch::default());
+    let mut rings = Vec::new();
     for (r, c, v) in p.cells {
         let (cx, cy) = (x + *c as i64 * cs, y + *r as i64 * cs);
         let (fill, shade) = scale.colour(v);
-        svg.rect(cx, cy, cs, cs, fill);
+        cells.rect(fill, cx, cy, cs, cs);
         if !v.denom().is_one() {
             non_integer = true;
-            let m = (cs * 2 / 5).max(3);
             let ink = if shade >= 3 { "#ffffff" } else { "#111111" };
-            svg.polygon(&[(cx + cs - m, cy), (cx + cs, cy), (cx + cs, cy + m)], ink);
+            marks.corner(ink, cx, cy, cs, (cs * 2 / 5).max(3));
         }
         if ov.ring.is_some_and(|f| f(*r, *c)) {
-            svg.rect_outlined((cx + 1, cy + 1, cs - 2, cs - 2), "none", palette::EDGE, 2);
+            rings.push((cx, cy));
         }
+    }
+    cells.flush(svg);
+    marks.flush(svg);
+    for (cx, cy) in rings {
+        svg.rect_outlined((cx + 1, cy + 1, cs - 2, cs - 2), "none", palette::EDGE, 2);
     }
     let mut edges = String::new();
     for &c in ov.col_cuts {

@@ -58,6 +58,35 @@ pub fn shorten(s: &str, max: usize) -> String {
     t
 }
 
+/// Filled shapes grouped by colour: one `<path>` per colour instead of one element per
+/// shape, so that a dense 64 x 64 x 64 tensor stays a light document. Colours are written
+/// in sorted order (deterministic bytes).
+#[derive(Default)]
+pub struct Batch {
+    by_fill: std::collections::BTreeMap<String, String>,
+}
+
+impl Batch {
+    /// An axis-parallel rectangle.
+    pub fn rect(&mut self, fill: &str, x: i64, y: i64, w: i64, h: i64) {
+        let d = self.by_fill.entry(fill.to_string()).or_default();
+        let _ = write!(d, "M{x} {y}h{w}v{h}h{}z", -w);
+    }
+
+    /// A right triangle in the top-right corner of the box at (x, y) of width w, legs m.
+    pub fn corner(&mut self, fill: &str, x: i64, y: i64, w: i64, m: i64) {
+        let d = self.by_fill.entry(fill.to_string()).or_default();
+        let _ = write!(d, "M{} {y}h{m}v{m}z", x + w - m);
+    }
+
+    /// Write the grouped shapes into the document and empty the batch.
+    pub fn flush(&mut self, svg: &mut Svg) {
+        for (fill, d) in std::mem::take(&mut self.by_fill) {
+            let _ = writeln!(svg.body, r#"<path d="{d}" fill="{fill}"/>"#);
+        }
+    }
+}
+
 /// The body of an SVG document under construction.
 #[derive(Default)]
 pub struct Svg {

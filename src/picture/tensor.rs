@@ -7,7 +7,7 @@
 
 use super::palette::{self, Scale};
 use super::panel::{self, Overlay, Panel};
-use super::svg::{Anchor, Svg, shorten, text_width};
+use super::svg::{Anchor, Batch, Svg, shorten, text_width};
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{AXES, Kind, Tensor, others};
 
@@ -255,21 +255,18 @@ pub(super) fn draw_density(t: &Tensor, title: &str, mut caption: Vec<String>) ->
             &format!("{} x {}", AXES[a], AXES[b]),
         );
         svg.rect(px0, top, w, h, palette::ZERO);
+        let mut squares = Batch::default();
         for r in 0..nb[a] {
             for c in 0..nb[b] {
                 let n = counts[p][r * nb[b] + c];
                 if n > 0 {
                     let s = palette::density_shade(n, max);
-                    svg.rect(
-                        px0 + c as i64 * cs,
-                        top + r as i64 * cs,
-                        cs,
-                        cs,
-                        palette::DENSITY[s],
-                    );
+                    let (x, y) = (px0 + c as i64 * cs, top + r as i64 * cs);
+                    squares.rect(palette::DENSITY[s], x, y, cs, cs);
                 }
             }
         }
+        squares.flush(&mut svg);
         svg.rect_outlined((px0, top, w, h), "none", palette::FRAME, 1);
         for (bin, name) in tick(a) {
             svg.text(px0 - 3, top + bin as i64 * cs + cs, Anchor::End, "l", &name);
