@@ -61,6 +61,16 @@ pub struct SearchArgs {
     pub progress_every: f64,
 }
 
+/// The best rank so far (`-` before the first scheme) and the moves per second since the
+/// snapshot `last` (elapsed, moves), which becomes this one.
+fn best_and_rate(last: &mut (Duration, u64), p: &Progress) -> (String, f64) {
+    let dt = p.elapsed.saturating_sub(last.0).as_secs_f64().max(1e-9);
+    let rate = p.moves.saturating_sub(last.1) as f64 / dt;
+    *last = (p.elapsed, p.moves);
+    let best = p.best.as_ref().map_or("-".into(), |s| s.rank().to_string());
+    (best, rate)
+}
+
 /// Progress for a log (standard error is not a terminal): at most one line per interval
 /// with the best rank so far, the moves per second since the last line and the time elapsed.
 struct LogProgress {
@@ -82,13 +92,7 @@ impl LogProgress {
         if p.elapsed < last.0 + self.every {
             return;
         }
-        let dt = (p.elapsed - last.0).as_secs_f64().max(1e-9);
-        let rate = p.moves.saturating_sub(last.1) as f64 / dt;
-        *last = (p.elapsed, p.moves);
-        let best = p
-            .best
-            .as_ref()
-            .map_or("-".to_string(), |s| s.rank().to_string());
+        let (best, rate) = best_and_rate(&mut last, p);
         eprintln!(
             "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s",
             p.elapsed.as_secs_f64()
@@ -195,14 +199,7 @@ pub fn run(a: SearchArgs) -> i32 {
             l.tick(p);
         }
         if tty {
-            let mut lm = last_moves.lock().expect("lock");
-            let dt = (p.elapsed - lm.0).as_secs_f64().max(1e-9);
-            let rate = (p.moves - lm.1) as f64 / dt;
-            *lm = (p.elapsed, p.moves);
-            let best = p
-                .best
-                .as_ref()
-                .map_or("-".to_string(), |s| s.rank().to_string());
+            let (best, rate) = best_and_rate(&mut last_moves.lock().expect("lock"), p);
             eprint!(
                 "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ",
                 p.moves as f64,

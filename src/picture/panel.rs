@@ -11,6 +11,9 @@ use crate::scalar::Q;
 use num_traits::One;
 use std::fmt::Write;
 
+/// The blank border around every picture.
+pub const MARGIN: i64 = 16;
+
 /// Names longer than this are shortened on the axes.
 pub const MAX_LABEL_CHARS: usize = 12;
 
@@ -240,4 +243,28 @@ pub fn draw_legend(svg: &mut Svg, x: i64, y: i64, scale: &Scale, non_integer: bo
         cx += 22 + text_width("not an integer", 10);
     }
     cx - x
+}
+
+/// Close a picture whose content reaches `right` (the largest x drawn) and whose legend,
+/// `legend_w` wide, starts at `legend_top`: the document's size leaves a margin around
+/// the content, the legend and the header.
+pub fn finish_picture(
+    svg: Svg,
+    right: i64,
+    (legend_top, legend_w): (i64, i64),
+    title: &str,
+    caption: &[String],
+    label_px: i64,
+) -> String {
+    let width = (right + MARGIN)
+        .max(2 * MARGIN + legend_w)
+        .max(2 * MARGIN + header_width(title, caption));
+    let height = legend_top + LEGEND_HEIGHT + MARGIN;
+    svg.finish(
+        width,
+        height,
+        title,
+        &caption.join("; "),
+        &palette::style(label_px),
+    )
 }

@@ -5,14 +5,13 @@
 //! verifies exactly against the tensor.
 
 use super::palette::{self, Scale};
-use super::panel::{self, Overlay, Panel};
+use super::panel::{self, MARGIN, Overlay, Panel};
 use super::svg::{Anchor, Svg, text_width};
 use crate::scalar::Q;
 use crate::scheme::{Scheme, cost::count_cost, verify};
 use crate::tensor::Tensor;
 use num_traits::Zero;
 
-const MARGIN: i64 = 16;
 const GAP: i64 = 26;
 
 /// The caption lines of a scheme picture.
@@ -97,15 +96,5 @@ pub(super) fn draw_scheme(s: &Scheme, t: &Tensor, title: &str) -> String {
     }
     let y = top + r as i64 * cs + 14;
     let legend_w = panel::draw_legend(&mut svg, MARGIN, y, &scale, non_integer);
-    let width = (x - GAP + MARGIN)
-        .max(2 * MARGIN + legend_w)
-        .max(2 * MARGIN + panel::header_width(title, &caption));
-    let height = y + panel::LEGEND_HEIGHT + MARGIN;
-    svg.finish(
-        width,
-        height,
-        title,
-        &caption.join("; "),
-        &palette::style(px),
-    )
+    panel::finish_picture(svg, x - GAP, (y, legend_w), title, &caption, px)
 }

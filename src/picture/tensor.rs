@@ -6,12 +6,11 @@
 //! columns indexed by the two other axes in increasing order (as `tensor::slice`).
 
 use super::palette::{self, Scale};
-use super::panel::{self, Overlay, Panel};
+use super::panel::{self, MARGIN, Overlay, Panel};
 use super::svg::{Anchor, Batch, Svg, shorten, text_width};
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{AXES, Kind, Tensor, others};
 
-const MARGIN: i64 = 16;
 const GAP: i64 = 14;
 const SLICE_TITLE: i64 = 16;
 const GROUP_HEADING: i64 = 20;
@@ -187,13 +186,14 @@ pub(super) fn draw_slice_grid(g: &SliceGrid) -> String {
     }
     y += 4;
     let legend_w = panel::draw_legend(&mut svg, MARGIN, y, &scale, non_integer);
-    let width = 2 * MARGIN
-        + grid_w
-            .max(legend_w)
-            .max(panel::header_width(&g.title, &g.caption));
-    let height = y + panel::LEGEND_HEIGHT + MARGIN;
-    let desc = g.caption.join("; ");
-    svg.finish(width, height, &g.title, &desc, &palette::style(px))
+    panel::finish_picture(
+        svg,
+        MARGIN + grid_w,
+        (y, legend_w),
+        &g.title,
+        &g.caption,
+        px,
+    )
 }
 
 /// Slice titles keep at least this many characters.
@@ -297,15 +297,5 @@ pub(super) fn draw_density(t: &Tensor, title: &str, mut caption: Vec<String>) ->
         );
         lx += 30;
     }
-    let width = (x - 2 * GAP + MARGIN)
-        .max(2 * MARGIN + panel::header_width(title, &caption))
-        .max(lx + MARGIN);
-    let height = y + panel::LEGEND_HEIGHT + MARGIN;
-    svg.finish(
-        width,
-        height,
-        title,
-        &caption.join("; "),
-        &palette::style(px),
-    )
+    panel::finish_picture(svg, x - 2 * GAP, (y, lx - MARGIN), title, &caption, px)
 }

@@ -3,7 +3,7 @@
 //! structure tensor, the table, and the stored schemes with their pictures.
 
 use super::EntryView;
-use super::html::{esc, page};
+use super::html::{code_list, esc, law_badges, page};
 use crate::catalog::FactCheck;
 use std::fmt::Write;
 
@@ -49,23 +49,13 @@ pub fn entry_page(views: &[EntryView], at: usize) -> String {
     item("field", v.t.field().name());
     item("nonzero coefficients", v.t.nnz().to_string());
     if !m.aliases.is_empty() {
-        let a: Vec<String> = m
-            .aliases
-            .iter()
-            .map(|x| format!("<code>{}</code>", esc(x)))
-            .collect();
-        item("aliases", a.join(", "));
+        item("aliases", code_list(&m.aliases));
     }
     if let Some(g) = &m.generate {
         item("built by", format!("<code>{}</code>", esc(g)));
     }
     if !v.laws.is_empty() {
-        let l: Vec<String> = v
-            .laws
-            .iter()
-            .map(|l| format!("<span class=\"law\">{}</span>", esc(l)))
-            .collect();
-        item("laws that hold", l.join(""));
+        item("laws that hold", law_badges(&v.laws));
     }
     item(
         "use it",

@@ -13,6 +13,22 @@ pub fn esc(s: &str) -> String {
     escape(s)
 }
 
+/// The laws that hold, as badges.
+pub fn law_badges(laws: &[String]) -> String {
+    laws.iter()
+        .map(|l| format!("<span class=\"law\">{}</span>", esc(l)))
+        .collect()
+}
+
+/// Names as code, separated by commas.
+pub fn code_list(names: &[String]) -> String {
+    let items: Vec<String> = names
+        .iter()
+        .map(|x| format!("<code>{}</code>", esc(x)))
+        .collect();
+    items.join(", ")
+}
+
 /// A complete page: `root` is the relative path from the page to the site's top folder
 /// (`""` or `"../"`).
 pub fn page(title: &str, root: &str, body: &str) -> String {

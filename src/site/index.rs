@@ -4,7 +4,7 @@
 //! bookmarked and linked; without scripts every row stays visible.
 
 use super::EntryView;
-use super::html::{esc, page};
+use super::html::{esc, law_badges, page};
 use std::collections::BTreeSet;
 use std::fmt::Write;
 
@@ -105,16 +105,12 @@ pub fn index_page(views: &[EntryView]) -> String {
         let m = &v.e.meta;
         let mut names = vec![m.name.to_lowercase()];
         names.extend(m.aliases.iter().map(|a| a.to_lowercase()));
-        let laws: String = v
-            .laws
-            .iter()
-            .map(|l| format!("<span class=\"law\">{}</span>", esc(l)))
-            .collect();
         let _ = writeln!(
             b,
             "<tr data-family=\"{fam}\" data-laws=\"{laws_attr}\" data-dim=\"{dim}\" data-names=\"{names}\">\
              <td><a href=\"entries/{slug}.html\">{name}</a></td><td>{fam}</td><td>{field}</td>\
              <td class=\"mono\">{shape}</td><td>{laws}</td><td>{about}</td></tr>",
+            laws = law_badges(&v.laws),
             fam = esc(&m.family),
             laws_attr = esc(&v.laws.join(" ")),
             dim = v.t.dims()[0],
