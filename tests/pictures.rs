@@ -120,6 +120,14 @@ fn large_tensors_switch_to_the_density_view() {
     let s = tensor_svg(&t, &slices).unwrap();
     assert!(!s.contains("density view") && s.contains("(2 of 81 slices shown)"));
     parse_svg(&s);
+    // all 121 slices of 121 x 121 are above the size limit of the slices view
+    let all = TensorPictureParams {
+        view: View::Slices,
+        ..Default::default()
+    };
+    let big = generate("matmul:11,11,11").unwrap();
+    let err = tensor_svg(&big, &all).unwrap_err().to_string();
+    assert!(err.contains("choose fewer slices"), "{err}");
     // dimension 64 is still drawn as slices
     let t64 = generate("matmul:8,8,8").unwrap();
     let s = tensor_svg(&t64, &TensorPictureParams::default()).unwrap();

@@ -112,6 +112,24 @@ fn checked_slices(t: &Tensor, p: &TensorPictureParams) -> Result<Vec<usize>> {
     }
 }
 
+/// The slices view draws at most this many cells (slices x rows x columns): four times a
+/// full 64 x 64 x 64 tensor.
+pub const MAX_SLICE_CELLS: usize = 1 << 20;
+
+fn check_slice_area(t: &Tensor, axis: usize, slices: usize) -> Result<()> {
+    let (o1, o2) = crate::tensor::others(axis);
+    let cells = slices as u128 * t.dims()[o1] as u128 * t.dims()[o2] as u128;
+    if cells > MAX_SLICE_CELLS as u128 {
+        return Err(Error::Invalid(format!(
+            "{slices} slices of {} x {} are {cells} cells, above the limit of {MAX_SLICE_CELLS} \
+             for the slices view; choose fewer slices or the density view",
+            t.dims()[o1],
+            t.dims()[o2]
+        )));
+    }
+    Ok(())
+}
+
 fn use_density(t: &Tensor, p: &TensorPictureParams) -> bool {
     match p.view {
         View::Density => true,
@@ -148,6 +166,7 @@ pub fn tensor_svg(t: &Tensor, params: &TensorPictureParams) -> Result<String> {
         caption.pop();
         return Ok(tensor::draw_density(t, &title, caption));
     }
+    check_slice_area(t, params.axis, slices.len())?;
     Ok(tensor::draw_slice_grid(&tensor::SliceGrid {
         t,
         axis: params.axis,
@@ -173,6 +192,7 @@ pub fn blocks_svg(
         ..params.clone()
     };
     checked_slices(t, &p)?;
+    check_slice_area(t, p.axis, t.dims()[p.axis])?;
     let (inside, outside) = count_inside(t, layout)?;
     let shown = layout.reorder(t)?;
     let block_of = layout.block_of_position();
