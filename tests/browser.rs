@@ -182,6 +182,7 @@ impl Browser {
         std::fs::write(path, png).unwrap();
     }
 
+    /// Ask the browser to quit and wait for it (ended for good by `drop` if it hangs).
     fn close(mut self) {
         self.next_id += 1;
         let msg = json!({"id": self.next_id, "method": "Browser.close", "params": {}});
@@ -195,8 +196,16 @@ impl Browser {
             }
             std::thread::sleep(Duration::from_millis(50));
         }
-        let _ = self.child.kill();
-        let _ = self.child.wait();
+    }
+}
+
+impl Drop for Browser {
+    /// No browser outlives the test, even when an assertion fails half way.
+    fn drop(&mut self) {
+        if let Ok(None) = self.child.try_wait() {
+            let _ = self.child.kill();
+            let _ = self.child.wait();
+        }
     }
 }
 
@@ -266,7 +275,9 @@ fn check_pictures(b: &mut Browser, page: &str, expected: usize) {
 #[test]
 fn catalog_site_in_a_real_browser() {
     let Some(exe) = find_browser() else {
-        eprintln!(
+        // written past the test harness's capture, so that the note shows in every log
+        let _ = writeln!(
+            std::io::stderr(),
             "note: no Chromium browser found (install Debian's `chromium`, or set BILIN_BROWSER); \
              the browser test is skipped"
         );
