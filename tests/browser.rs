@@ -304,6 +304,8 @@ fn catalog_site_in_a_real_browser() {
     assert!(rows.iter().all(|r| r.1 == "lie"));
     let count = b.eval("document.getElementById('count').textContent");
     assert_eq!(count, json!(format!("{lie} of {} entries", all.len())));
+    // the filter state goes into the address, so the view can be bookmarked
+    assert_eq!(b.eval("location.hash"), json!("#family=lie"));
     b.screenshot(&work.join("index-family-lie.png"));
 
     set_filter(&mut b, "family", "");
