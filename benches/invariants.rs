@@ -1,7 +1,8 @@
 //! Invariants (derivations, centroid, all parts) of M_4, the octonions and M_8.
 //! Target: every invariant of a dimension-64 algebra within seconds on one core.
 use bilin::input::load_input;
-use bilin::invariants::{IntTable, SolveParams, centroid, derivations};
+use bilin::invariants::{SolveParams, centroid, derivations};
+use bilin::tensor::IntegralTensor;
 use bilin::report::invariants::{InvariantParams, invariants_report};
 use criterion::{Criterion, criterion_group, criterion_main};
 
@@ -11,7 +12,7 @@ fn bench(c: &mut Criterion) {
     let p = SolveParams::default();
     for spec in ["matrix:4", "octonions", "matrix:8", "clifford:0,6"] {
         let t = load_input(spec, None).expect("generator");
-        let it = IntTable::from_tensor(&t).expect("table");
+        let it = IntegralTensor::from_tensor(&t);
         g.bench_function(format!("derivations {spec}"), |b| {
             b.iter(|| derivations(&it, &p))
         });

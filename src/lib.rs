@@ -7,6 +7,9 @@
 //! 4. [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
+//! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures),
+//!    [`site`] (the catalog as HTML pages).
+//!
 //! [`error`] holds the typed errors shared by all layers; [`output`] writes result files
 //! safely (atomic replacement under a lock, devices written through, links kept).
 
@@ -18,11 +21,13 @@ pub mod invariants;
 pub mod laws;
 pub mod linalg;
 pub mod output;
+pub mod picture;
 pub mod ranks;
 pub mod report;
 pub mod scalar;
 pub mod scheme;
 pub mod search;
+pub mod site;
 pub mod tensor;
 
 pub use error::{Error, Result};

@@ -120,9 +120,15 @@ fn expect_claims() {
         "alternative,!associative",
     ]);
     assert_eq!(code, 0, "{err}");
+    assert!(err.contains("all 2 claims hold"), "{err}");
+    let (code, out, err) = run(&["analyze", "octonions", "--json", "--expect", "flexible"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("all 1 claim holds"), "{err}");
+    serde_json::from_str::<serde_json::Value>(&out).expect("standard output stays JSON");
     let (code, _, err) = run(&["analyze", "octonions", "--expect", "associative"]);
     assert_eq!(code, 1);
     assert!(err.contains("associative"), "{err}");
+    assert!(!err.contains("claims hold"), "{err}");
     assert_eq!(run(&["analyze", "octonions", "--expect", "!nonsense"]).0, 2);
 }
 

@@ -35,20 +35,14 @@ fn search_writes_a_verified_scheme_and_merge_keeps_it() {
     std::fs::remove_dir_all(&dir).ok();
 }
 
+/// A search for rank 2 of the 2 x 2 -> 3 polynomial product, which needs 3 (below).
+const OUT_OF_REACH: [&str; 6] = ["search", "poly:2,2", "--rank", "2", "--threads", "1"];
+
 #[test]
 fn unreachable_rank_exits_1_and_bad_input_exits_2() {
     // rank 2 is impossible: the result flattening of this tensor has rank 3, a lower bound
     // for the tensor rank (common practice)
-    let (code, stdout, _) = bilin(&[
-        "search",
-        "poly:2,2",
-        "--rank",
-        "2",
-        "--threads",
-        "1",
-        "--time",
-        "0.3",
-    ]);
+    let (code, stdout, _) = bilin(&[&OUT_OF_REACH[..], &["--time", "0.3"]].concat());
     assert_eq!(code, 1);
     assert!(
         stdout.contains("\"rank\":3"),
@@ -68,4 +62,32 @@ fn unreachable_rank_exits_1_and_bad_input_exits_2() {
         2,
         "no rank, no time: refused"
     );
+}
+
+/// A batch job's log gets a progress line every few seconds (standard error is a pipe
+/// here), with the best rank, the moves per second and the time elapsed; `--quiet` keeps
+/// it silent.
+#[test]
+fn progress_lines_in_a_log_and_quiet() {
+    let args = [
+        &OUT_OF_REACH[..],
+        &["--time", "1.6", "--progress-every", "0.4"],
+    ]
+    .concat();
+    let (code, _, err) = bilin(&args);
+    assert_eq!(code, 1, "rank 2 is out of reach");
+    let lines: Vec<&str> = err.lines().filter(|l| l.contains("moves/s")).collect();
+    assert!(lines.len() >= 2, "{err}");
+    assert!(lines[0].starts_with("bilin search: best rank "), "{err}");
+    assert!(lines.iter().all(|l| l.contains(" elapsed ")));
+    let (code, _, err) = bilin(&[&args[..7], &["0.3", "--quiet"]].concat());
+    assert_eq!(code, 1);
+    assert!(!err.contains("moves/s"), "{err}");
+    assert!(
+        err.contains("best verified rank 3"),
+        "the result line stays: {err}"
+    );
+    let (code, _, err) = bilin(&[&args[..9], &["0"]].concat());
+    assert_eq!(code, 2);
+    assert!(err.contains("--progress-every"), "{err}");
 }

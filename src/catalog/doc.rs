@@ -42,6 +42,14 @@ A source marked `(from memory)` was recalled, not looked up; `common practice` m
 of the trade without a single source. `bilin catalog check` recomputes every fact bilin can \
 compute (laws, dimensions of the centre, nucleus, annihilator, derivations, trace-form \
 ranks, flattening ranks) and counts the ones it cannot (tensor rank bounds, division).\n\n\
+Known schemes (bilinear algorithms) for some entries are stored beside them in \
+`catalog/schemes/<name>.<label>.txt` (the text form of docs/schemes.md, the source on the \
+first line); the test suite verifies each exactly.\n\n\
+To browse the catalog in a web browser, write it as a folder of pages: \
+`bilin catalog site DIR`, then open `DIR/index.html` (filters by family, law, dimension \
+and name; one page per entry with its facts and sources, the invariants bilin recomputes, \
+pictures of the structure tensor and of the stored schemes). It works from the local disk, \
+with no server and no network; see docs/pictures.md.\n\n\
 To add an entry: write `catalog/<name>.bilin`, add it to the list in \
 src/catalog/entries.rs (a test compares that list with the directory), then run \
 `bilin catalog check <name>` and regenerate this page.\n\n\
@@ -64,6 +72,15 @@ fn entry_section(out: &mut String, e: &Entry) {
     }
     if let Some(g) = &m.generate {
         let _ = writeln!(out, "- Built by the generator `{g}`.");
+    }
+    for s in super::schemes::stored_schemes(&m.name) {
+        let _ = writeln!(
+            out,
+            "- Stored scheme `{}`: `catalog/schemes/{}` ({}).",
+            s.label,
+            s.file,
+            s.source()
+        );
     }
     let _ = writeln!(out);
     if !m.facts.is_empty() {

@@ -7,6 +7,7 @@
 //! - [`fingerprint`]: invariant (key, value) lists, computed exactly;
 //! - [`facts`]: recomputing the stored facts;
 //! - [`identify`]: matching fingerprints and explicit isomorphisms ([`iso`]);
+//! - [`schemes`]: known schemes stored with the entries, verified exactly;
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
 pub mod doc;
@@ -17,6 +18,7 @@ pub mod identify;
 pub mod iso;
 pub mod meta;
 pub mod rank_facts;
+pub mod schemes;
 pub mod store;
 
 pub use facts::{FactCheck, check_fact};
@@ -24,6 +26,7 @@ pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
+pub use schemes::{STORED_SCHEMES, StoredScheme, stored_schemes};
 pub use store::{
     Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
 };

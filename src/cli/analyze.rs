@@ -1,6 +1,7 @@
 //! `bilin analyze INPUT [--json] [--field F] [--laws a,b] [--expect a,!b] [--seed N]`: laws,
 //! ranks and the rest of the analysis of one product, as text or JSON (schema
-//! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false.
+//! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false, and
+//! `all N claims hold` on standard error when every one is true.
 
 use super::common::{generators_help, load, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
@@ -41,6 +42,9 @@ pub struct Args {
     /// Leave out the lower bounds for the tensor rank.
     #[arg(long)]
     pub no_bounds: bool,
+    /// Also write a picture of the tensor (its slices, SVG) to this file.
+    #[arg(long, value_name = "FILE")]
+    pub svg: Option<String>,
 }
 
 /// Run the subcommand; returns the exit code.
@@ -113,7 +117,13 @@ pub fn run(args: Args) -> i32 {
     } else {
         print!("{}", render_text(&r));
     }
+    if let Some(path) = &args.svg
+        && let Err(code) = super::draw::write_tensor_picture(&t, &args.input, path)
+    {
+        return code;
+    }
     let mut code = EXIT_OK;
+    let n = claims.len();
     for (l, want) in claims {
         let got = r.laws.as_ref().and_then(|x| x.holds(l));
         if got != Some(want) {
@@ -129,6 +139,10 @@ pub fn run(args: Args) -> i32 {
             );
             code = EXIT_FALSE;
         }
+    }
+    if n > 0 && code == EXIT_OK {
+        let (s, verb) = if n == 1 { ("", "holds") } else { ("s", "hold") };
+        eprintln!("all {n} claim{s} {verb}");
     }
     code
 }

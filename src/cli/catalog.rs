@@ -2,7 +2,9 @@
 
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::catalog::{self, Entry, FactCheck, FingerprintParams};
+use bilin::site::{self, SiteParams};
 use clap::{Args, Subcommand};
+use std::path::Path;
 
 #[derive(Args)]
 pub struct CatalogArgs {
@@ -39,6 +41,19 @@ enum Action {
     },
     /// Print the reference page docs/catalog.md.
     Doc,
+    /// Write the catalog as a folder of HTML pages with pictures, for a browser (works
+    /// from the local disk, no server, no network); open DIR/index.html.
+    Site {
+        /// The folder to write (created if missing; an existing folder must be empty or
+        /// hold an earlier site).
+        dir: String,
+        /// Only these entries, comma-separated (default: all).
+        #[arg(long)]
+        only: Option<String>,
+        /// Seed of the randomized invariants shown on the pages.
+        #[arg(long, default_value_t = 1)]
+        seed: u64,
+    },
 }
 
 /// Run `bilin catalog ...`; returns the exit code.
@@ -66,6 +81,7 @@ pub fn run(args: CatalogArgs) -> i32 {
             };
             check(&chosen)
         }
+        Action::Site { dir, only, seed } => site(&dir, only, seed),
         Action::Doc => match catalog::doc::render_markdown() {
             Ok(s) => {
                 print!("{s}");
@@ -219,4 +235,67 @@ fn check(entries: &[&Entry]) -> i32 {
         entries.len()
     );
     if disagree > 0 { EXIT_FALSE } else { EXIT_OK }
+}
+
+/// Whether `dir` may receive a site: missing, empty, or holding an earlier site.
+fn site_folder_ok(dir: &Path) -> Result<(), String> {
+    match std::fs::metadata(dir) {
+        Err(_) => Ok(()),
+        Ok(m) if !m.is_dir() => Err("exists and is not a folder".into()),
+        Ok(_) => {
+            let empty = std::fs::read_dir(dir)
+                .map_err(|e| e.to_string())?
+                .next()
+                .is_none();
+            let earlier = std::fs::read_to_string(dir.join("index.html"))
+                .is_ok_and(|s| s.contains(site::html::GENERATOR));
+            if empty || earlier {
+                Ok(())
+            } else {
+                Err(
+                    "is a folder that is neither empty nor an earlier catalog site; \
+                     choose another folder"
+                        .into(),
+                )
+            }
+        }
+    }
+}
+
+fn site(dir: &str, only: Option<String>, seed: u64) -> i32 {
+    let root = Path::new(dir);
+    if let Err(why) = site_folder_ok(root) {
+        eprintln!("error: {dir}: {why}");
+        return EXIT_USAGE;
+    }
+    let params = SiteParams {
+        fingerprint: FingerprintParams {
+            seed,
+            ..FingerprintParams::default()
+        },
+        only: only.map(|s| s.split(',').map(|x| x.trim().to_string()).collect()),
+    };
+    let files = match site::build_site(&params) {
+        Ok(f) => f,
+        Err(e) => return super::common::report_error(&e),
+    };
+    for f in &files {
+        let path = root.join(&f.path);
+        if let Some(parent) = path.parent()
+            && let Err(e) = std::fs::create_dir_all(parent)
+        {
+            eprintln!("error: {}: {e}", parent.display());
+            return EXIT_USAGE;
+        }
+        if let Err(code) = super::common::write_output(&path.to_string_lossy(), &f.contents) {
+            return code;
+        }
+    }
+    let pages = files.iter().filter(|f| f.path.ends_with(".html")).count();
+    println!(
+        "wrote {} files ({pages} pages) to {dir}; open {} in a browser",
+        files.len(),
+        root.join("index.html").display()
+    );
+    EXIT_OK
 }

@@ -67,3 +67,24 @@ pub fn with_progress<T>(work: impl FnOnce(&mut dyn FnMut(&str)) -> T) -> T {
     }
     out
 }
+
+/// Write a generated file (a picture, a page) by the rules of [`bilin::output`]: a file is
+/// replaced atomically, a device or FIFO written through, anything else refused. Errors
+/// are printed; the `Err` holds the exit code (2).
+pub fn write_output(path: &str, text: &str) -> Result<(), i32> {
+    bilin::output::Target::resolve(path)
+        .and_then(|t| t.replace(|_| Ok(Some(text.to_string()))))
+        .map(|_| ())
+        .map_err(|e| report_error(&e))
+}
+
+/// Print a generated document to `out` if given, else to standard output.
+pub fn emit_output(out: Option<&str>, text: &str) -> Result<(), i32> {
+    match out {
+        Some(path) => write_output(path, text),
+        None => {
+            print!("{text}");
+            Ok(())
+        }
+    }
+}

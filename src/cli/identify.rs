@@ -1,8 +1,10 @@
 //! `bilin identify INPUT`: the invariant fingerprint of an input and the catalog entries
-//! it matches, nearly matches, and explicit isomorphisms where found.
+//! it matches, nearly matches, and explicit isomorphisms where found; as text or JSON
+//! (`--json`, schema `bilin.identify/1`).
 
 use super::{EXIT_OK, EXIT_USAGE};
 use bilin::catalog::{IdentifyParams, IsoOutcome, identify};
+use bilin::report::identify::{identify_report, render_identify_json};
 use bilin::scalar::q_to_string;
 use clap::Args;
 
@@ -22,6 +24,9 @@ pub struct IdentifyArgs {
     /// Seed of the randomized fingerprint keys.
     #[arg(long, default_value_t = 1)]
     seed: u64,
+    /// Print the report as JSON (schema `bilin.identify/1`, see docs/identify-json.md).
+    #[arg(long)]
+    json: bool,
 }
 
 /// Run `bilin identify`; returns the exit code.
@@ -43,6 +48,11 @@ pub fn run(args: IdentifyArgs) -> i32 {
             return EXIT_USAGE;
         }
     };
+    if args.json {
+        let r = identify_report(&args.input, &t, &id, args.bound);
+        println!("{}", render_identify_json(&r));
+        return EXIT_OK;
+    }
     println!("fingerprint of {}:", args.input);
     for (k, v) in &id.fingerprint.entries {
         println!("  {k:<20} {v}");

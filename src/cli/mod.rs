@@ -11,9 +11,11 @@ mod bounds;
 mod catalog;
 pub mod common;
 mod convert;
+mod draw;
 mod emit;
 mod identify;
 mod invariants;
+mod manual;
 mod merge;
 mod outputs;
 mod scheme;
@@ -62,6 +64,12 @@ enum Command {
     Identify(identify::IdentifyArgs),
     /// Apply a change of basis (a basis file or a seeded random one) and print the result.
     Transform(transform::Args),
+    /// SVG pictures: a tensor's slices, a scheme's factor matrices, a block decomposition.
+    Draw(draw::DrawArgs),
+    /// Print a shell completion script (bash, zsh, fish, elvish, powershell).
+    Completions(manual::CompletionsArgs),
+    /// Print the man page, or write one page per command into a folder (`--dir`).
+    Manual(manual::ManualArgs),
 }
 
 /// True for the panic of `print!` on a closed standard output.
@@ -141,5 +149,8 @@ fn dispatch() -> i32 {
         Command::Catalog(a) => catalog::run(a),
         Command::Identify(a) => identify::run(a),
         Command::Transform(a) => transform::run(a),
+        Command::Draw(a) => draw::run(a),
+        Command::Completions(a) => manual::completions(a),
+        Command::Manual(a) => manual::manual(a),
     }
 }

@@ -157,7 +157,7 @@ fn show(s: &Scheme, t: &Tensor, title: &str, json_out: bool) -> i32 {
     EXIT_OK
 }
 
-fn parse_list(s: &str) -> Result<Vec<usize>, Error> {
+pub(super) fn parse_list(s: &str) -> Result<Vec<usize>, Error> {
     s.split(',')
         .map(|x| {
             x.trim()

@@ -6,6 +6,8 @@
 //! result every `--checkpoint-every` seconds, and never loses the final result: when it
 //! cannot be written where asked, it goes to standard output. Output files follow
 //! `bilin::search::store` (a better result is never replaced unless `--overwrite`).
+//! Progress goes to stderr: one overwritten line on a terminal, a line every few seconds
+//! in a log, none with `--quiet`.
 
 use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
@@ -65,6 +67,51 @@ pub struct SearchArgs {
     /// something else.
     #[arg(long)]
     pub overwrite: bool,
+    /// No progress on standard error (neither the terminal line nor the log lines).
+    #[arg(long)]
+    pub quiet: bool,
+    /// Seconds between two progress lines when standard error is not a terminal (a log).
+    #[arg(long, default_value_t = 5.0, value_name = "SECONDS")]
+    pub progress_every: f64,
+}
+
+/// The best rank so far (`-` before the first scheme) and the moves per second since the
+/// snapshot `last` (elapsed, moves), which becomes this one.
+fn best_and_rate(last: &mut (Duration, u64), p: &Progress) -> (String, f64) {
+    let dt = p.elapsed.saturating_sub(last.0).as_secs_f64().max(1e-9);
+    let rate = p.moves.saturating_sub(last.1) as f64 / dt;
+    *last = (p.elapsed, p.moves);
+    let best = p.best.as_ref().map_or("-".into(), |s| s.rank().to_string());
+    (best, rate)
+}
+
+/// Progress for a log (standard error is not a terminal): at most one line per interval
+/// with the best rank so far, the moves per second since the last line and the time elapsed.
+struct LogProgress {
+    every: Duration,
+    last: std::sync::Mutex<(Duration, u64)>,
+}
+
+impl LogProgress {
+    fn new(every: Duration) -> Self {
+        LogProgress {
+            every,
+            last: std::sync::Mutex::new((Duration::ZERO, 0)),
+        }
+    }
+
+    /// Print a line if the interval has passed since the last one.
+    fn tick(&self, p: &Progress) {
+        let mut last = self.last.lock().expect("lock");
+        if p.elapsed < last.0 + self.every {
+            return;
+        }
+        let (best, rate) = best_and_rate(&mut last, p);
+        eprintln!(
+            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s",
+            p.elapsed.as_secs_f64()
+        );
+    }
 }
 
 fn parse_shard(s: &str) -> Result<(u64, u64), String> {
@@ -191,20 +238,22 @@ pub fn run(a: SearchArgs) -> i32 {
             );
         }
     }
-    let tty = std::io::stderr().is_terminal();
+    if !(a.progress_every.is_finite() && a.progress_every > 0.0) {
+        return usage_error("--progress-every", "expected a positive number of seconds");
+    }
+    let tty = std::io::stderr().is_terminal() && !a.quiet;
+    let log = (!std::io::stderr().is_terminal() && !a.quiet)
+        .then(|| LogProgress::new(Duration::from_secs_f64(a.progress_every)));
     let every = Duration::from_secs_f64(a.checkpoint_every);
     let last_write = Mutex::new(Instant::now());
     let last_moves = Mutex::new((Duration::ZERO, 0u64));
     let progress = |p: &Progress| {
+        if let Some(l) = &log {
+            l.tick(p);
+        }
         if tty {
-            let mut lm = last_moves.lock().unwrap_or_else(|e| e.into_inner());
-            let dt = (p.elapsed - lm.0).as_secs_f64().max(1e-9);
-            let rate = p.moves.saturating_sub(lm.1) as f64 / dt;
-            *lm = (p.elapsed, p.moves);
-            let best = p
-                .best
-                .as_ref()
-                .map_or("-".to_string(), |s| s.rank().to_string());
+            let (best, rate) =
+                best_and_rate(&mut last_moves.lock().unwrap_or_else(|e| e.into_inner()), p);
             eprint!(
                 "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ",
                 p.moves as f64,

@@ -13,6 +13,9 @@ pub struct Args {
     /// Read the input over this field (Q or GF(p)).
     #[arg(long)]
     pub field: Option<String>,
+    /// Also write a picture of the scheme (U, V, W side by side, SVG) to this file.
+    #[arg(long, value_name = "FILE")]
+    pub svg: Option<String>,
 }
 
 pub fn run(a: &Args) -> i32 {
@@ -24,6 +27,11 @@ pub fn run(a: &Args) -> i32 {
         Ok(s) => s,
         Err(e) => return fail(&e),
     };
+    if let Some(path) = &a.svg
+        && let Err(code) = super::draw::write_scheme_picture(&s, &t, &a.scheme, path)
+    {
+        return code;
+    }
     let d = t.dims();
     match bilin::scheme::verify(&s, &t) {
         Ok(()) => {

@@ -359,6 +359,7 @@ fn in_product<'t, F: Field>(
 /// - left alternative implies third powers (`(x,x,x)` is an instance of it);
 /// - left and right alternative imply flexible (`(x,y,x) = -(x,x,y)`);
 /// - commutative and Jordan imply the Jordan identity of `xy + yx = 2xy`.
+///
 /// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. I-III; common practice.)
 pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
     use Component::*;

@@ -709,7 +709,7 @@ impl Ctx<'_, '_> {
                 for (&c, &v) in cols.iter().zip(vals) {
                     acc += v as u128 * x[loc(c)] as u128;
                 }
-                acc % p as u128 == 0
+                acc.is_multiple_of(p as u128)
             })
         };
         if self.c.streamed {

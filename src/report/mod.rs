@@ -8,6 +8,7 @@
 //! text lines and a JSON value); the text renderer prints them after the built-in ones and
 //! the JSON carries them under `"extra"`. Adding a section never changes existing fields.
 
+pub mod identify;
 pub mod invariants;
 mod invariants_text;
 pub mod sections;

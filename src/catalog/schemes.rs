@@ -1,0 +1,107 @@
+//! Schemes stored with the catalog: known bilinear algorithms for catalog entries, in the
+//! text form of docs/schemes.md, embedded from `catalog/schemes/<entry>.<label>.txt`.
+//! Each file's first comment line names its source.
+//!
+//! Invariant (checked by the test suite): every stored scheme reads against its entry's
+//! tensor and verifies exactly; the list below matches the directory.
+
+use super::store::find_entry;
+use crate::error::{Error, Result};
+use crate::scheme::{Scheme, parse_scheme, verify};
+
+/// One stored scheme: the entry it belongs to, a short label, its file name and text.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct StoredScheme {
+    pub entry: &'static str,
+    pub label: &'static str,
+    pub file: &'static str,
+    pub text: &'static str,
+}
+
+macro_rules! stored {
+    ($entry:literal, $label:literal) => {
+        StoredScheme {
+            entry: $entry,
+            label: $label,
+            file: concat!($entry, ".", $label, ".txt"),
+            text: include_str!(concat!(
+                "../../catalog/schemes/",
+                $entry,
+                ".",
+                $label,
+                ".txt"
+            )),
+        }
+    };
+}
+
+/// Every stored scheme, in file-name order.
+pub const STORED_SCHEMES: &[StoredScheme] = &[
+    stored!("complex", "gauss"),
+    stored!("matmul222", "strassen"),
+    stored!("polymul2", "karatsuba"),
+    stored!("polymul3", "toom3"),
+];
+
+impl StoredScheme {
+    /// The source named on the file's first comment line.
+    pub fn source(&self) -> &'static str {
+        self.text
+            .lines()
+            .next()
+            .and_then(|l| l.strip_prefix('#'))
+            .map(str::trim)
+            .unwrap_or("")
+    }
+
+    /// The scheme read against its entry's tensor and verified exactly. An `Err` is a
+    /// defect of the catalog (the test suite catches it).
+    pub fn read(&self) -> Result<Scheme> {
+        let e = find_entry(self.entry).ok_or_else(|| {
+            Error::Invalid(format!("{}: no catalog entry `{}`", self.file, self.entry))
+        })?;
+        let t = e.tensor()?;
+        let s = parse_scheme(self.text, self.file, &t)?;
+        verify(&s, &t).map_err(|m| {
+            Error::Invalid(format!(
+                "{}: the stored scheme does not verify ({} wrong coefficients)",
+                self.file, m.count
+            ))
+        })?;
+        Ok(s)
+    }
+}
+
+/// The stored schemes of an entry (by its name, case-insensitive), in file-name order.
+pub fn stored_schemes(entry: &str) -> Vec<&'static StoredScheme> {
+    STORED_SCHEMES
+        .iter()
+        .filter(|s| s.entry.eq_ignore_ascii_case(entry))
+        .collect()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn stored_schemes_verify_and_match_the_directory() {
+        for s in STORED_SCHEMES {
+            let scheme = s.read().unwrap();
+            assert!(!s.source().is_empty(), "{} names no source", s.file);
+            assert!(scheme.rank() > 0);
+        }
+        let dir = concat!(env!("CARGO_MANIFEST_DIR"), "/catalog/schemes");
+        let mut on_disk: Vec<String> = std::fs::read_dir(dir)
+            .unwrap()
+            .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+            .collect();
+        on_disk.sort();
+        let listed: Vec<&str> = STORED_SCHEMES.iter().map(|s| s.file).collect();
+        assert_eq!(on_disk, listed);
+        // Strassen 1969: rank 7 for <2,2,2>; Karatsuba and Ofman 1962: rank 3 for 2x2 -> 3
+        assert_eq!(stored_schemes("matmul222")[0].read().unwrap().rank(), 7);
+        assert_eq!(stored_schemes("POLYMUL2")[0].read().unwrap().rank(), 3);
+        assert!(stored_schemes("octonions").is_empty());
+    }
+}
