@@ -26,7 +26,7 @@ pub fn to_json(s: &Scheme) -> Value {
                 .collect(),
         )
     };
-    json!({
+    let mut v = json!({
         "schema": SCHEMA,
         "field": s.field.name(),
         "dims": s.dims,
@@ -34,7 +34,11 @@ pub fn to_json(s: &Scheme) -> Value {
         "u": m(&s.u),
         "v": m(&s.v),
         "w": m(&s.w),
-    })
+    });
+    if !s.labels.is_empty() {
+        v["labels"] = json!(s.labels);
+    }
+    v
 }
 
 /// The JSON text of a scheme, one multiplication per line inside each matrix.
@@ -53,8 +57,16 @@ pub fn write_json(s: &Scheme) -> String {
         let lines: Vec<String> = rows.iter().map(|r| format!("    {}", row(r))).collect();
         format!("[\n{}\n  ]", lines.join(",\n"))
     };
+    let labels = if s.labels.is_empty() {
+        String::new()
+    } else {
+        format!(
+            ",\n  \"labels\": {}",
+            serde_json::to_string(&s.labels).unwrap_or_default()
+        )
+    };
     format!(
-        "{{\n  \"schema\": \"{SCHEMA}\",\n  \"field\": \"{}\",\n  \"dims\": [{}, {}, {}],\n  \"rank\": {},\n  \"u\": {},\n  \"v\": {},\n  \"w\": {}\n}}\n",
+        "{{\n  \"schema\": \"{SCHEMA}\",\n  \"field\": \"{}\",\n  \"dims\": [{}, {}, {}],\n  \"rank\": {},\n  \"u\": {},\n  \"v\": {},\n  \"w\": {}{labels}\n}}\n",
         s.field.name(),
         s.dims[0],
         s.dims[1],
@@ -179,12 +191,30 @@ pub fn from_value(v: &Value, source: &str) -> Result<Scheme, Error> {
     {
         return Err(bad(format!("`rank` is {r} but there are {} rows", u.len())));
     }
+    let labels = match obj.get("labels") {
+        None | Some(Value::Null) => Vec::new(),
+        Some(l) => {
+            let list: Option<Vec<String>> = l
+                .as_array()
+                .and_then(|a| a.iter().map(|x| x.as_str().map(String::from)).collect());
+            match list {
+                Some(list) if list.len() == u.len() => list,
+                _ => {
+                    return Err(bad(format!(
+                        "`labels` must be a list of {} strings, one per product",
+                        u.len()
+                    )));
+                }
+            }
+        }
+    };
     Ok(Scheme {
         field,
         dims,
         u,
         v,
         w,
+        labels,
     })
 }
 

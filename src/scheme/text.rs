@@ -208,9 +208,27 @@ impl Cur<'_> {
 
 /// Parse the text form against a tensor (names resolve in its three bases). The scheme is
 /// over the declared field (default: the tensor's field); coefficients over GF(p) are
-/// reduced to `0..p`. Errors: [`Error::Parse`] with line and column. Cost: linear in the
+/// reduced to `0..p`. Product labels other than the default `m1..mr` are kept in
+/// [`Scheme::labels`]. Errors: [`Error::Parse`] with line and column. Cost: linear in the
 /// text plus O(r (d0 + d1 + d2)).
 pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error> {
+    parse_text_located(text, source, t).map(|(s, _)| s)
+}
+
+/// Where each part of a scheme was read: the 1-based line of every product line and of
+/// every output line (`None` for a result coordinate without one).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LineMap {
+    pub products: Vec<usize>,
+    pub outputs: Vec<Option<usize>>,
+}
+
+/// [`parse_text`], also returning the line of every product and output.
+pub fn parse_text_located(
+    text: &str,
+    source: &str,
+    t: &Tensor,
+) -> Result<(Scheme, LineMap), Error> {
     let dims = t.dims();
     let index = |axis: usize| -> HashMap<&str, usize> {
         t.names()[axis]
@@ -223,6 +241,11 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
     let mut field = t.field();
     let mut declared_rank: Option<(usize, usize)> = None;
     let mut labels: HashMap<String, usize> = HashMap::new();
+    let mut label_list: Vec<String> = Vec::new();
+    let mut lines = LineMap {
+        products: Vec::new(),
+        outputs: vec![None; dims[2]],
+    };
     let mut scheme = Scheme::empty(field, dims);
     // output lines kept until all labels are known: (line, result index, terms)
     let mut outputs: Vec<(usize, usize, Vec<Term>)> = Vec::new();
@@ -308,6 +331,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                 ));
             }
             seen_out[k] = true;
+            lines.outputs[k] = Some(ln);
             let terms = cur.combination(&[])?;
             outputs.push((ln, k, terms));
             continue;
@@ -353,7 +377,9 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             }
             vecs.push(vec);
         }
-        labels.insert(head, scheme.rank());
+        labels.insert(head.clone(), scheme.rank());
+        label_list.push(head);
+        lines.products.push(ln);
         let w = vec![Q::zero(); dims[2]];
         let v = vecs.pop().expect("two factors");
         let u = vecs.pop().expect("two factors");
@@ -400,7 +426,15 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             ),
         });
     }
-    Ok(scheme)
+    let pre = product_prefix(t);
+    let default = label_list
+        .iter()
+        .enumerate()
+        .all(|(i, l)| *l == format!("{pre}{}", i + 1));
+    if !default {
+        scheme.labels = label_list;
+    }
+    Ok((scheme, lines))
 }
 
 fn preview(names: &[String]) -> String {
@@ -453,7 +487,7 @@ pub fn write_combination(field: FieldSpec, terms: &[(Q, &str)]) -> String {
 }
 
 /// A label prefix for the products that clashes with no result name.
-pub(crate) fn product_prefix(t: &Tensor) -> &'static str {
+pub fn product_prefix(t: &Tensor) -> &'static str {
     let r = t.names()[2].iter();
     ["m", "p", "q", "mult", "t_"]
         .into_iter()
@@ -466,21 +500,35 @@ pub(crate) fn product_prefix(t: &Tensor) -> &'static str {
         .unwrap_or("mult_")
 }
 
-/// Write a scheme in the text form, with the tensor's basis names. Lines: a comment, the
-/// field, one product line per multiplication, one output line per nonzero result
-/// coordinate. `parse_text(write_text(s, t), _, t) == s`. Cost: O(r (d0 + d1 + d2)).
-pub fn write_text(s: &Scheme, t: &Tensor, title: &str) -> String {
-    let names = t.names();
+/// The names the text form gives the products: the scheme's labels when they are usable
+/// (one per product, distinct names that are no result name), else `{prefix}1..`.
+pub fn product_labels(s: &Scheme, t: &Tensor) -> Vec<String> {
+    let results: std::collections::HashSet<&str> =
+        t.names()[2].iter().map(|n| n.as_str()).collect();
+    let mut seen = std::collections::HashSet::new();
+    let usable = s.labels.len() == s.rank()
+        && s.labels.iter().all(|l| {
+            let mut cs = l.chars();
+            cs.next().is_some_and(is_name_start)
+                && cs.all(is_name_char)
+                && !results.contains(l.as_str())
+                && seen.insert(l.as_str())
+        });
     let pre = product_prefix(t);
-    let mut out = String::new();
-    if !title.is_empty() {
-        for l in title.lines() {
-            out.push_str(&format!("# {l}\n"));
-        }
-    }
-    out.push_str(&format!("field {}\n", s.field.name()));
-    out.push_str(&format!("dims {} {} {}\n", s.dims[0], s.dims[1], s.dims[2]));
-    out.push_str(&format!("rank {}\n", s.rank()));
+    (0..s.rank())
+        .map(|i| {
+            if usable {
+                s.labels[i].clone()
+            } else {
+                format!("{pre}{}", i + 1)
+            }
+        })
+        .collect()
+}
+
+/// The product line of term `tt`: `label = (left combination)*(right combination)`.
+pub fn product_line(s: &Scheme, t: &Tensor, tt: usize, labels: &[String]) -> String {
+    let names = t.names();
     let factor = |vec: &[Q], axis: usize| -> String {
         let terms: Vec<(Q, &str)> = vec
             .iter()
@@ -494,26 +542,46 @@ pub fn write_text(s: &Scheme, t: &Tensor, title: &str) -> String {
             format!("({})", write_combination(s.field, &terms))
         }
     };
-    for tt in 0..s.rank() {
-        out.push_str(&format!(
-            "{pre}{} = {}*{}\n",
-            tt + 1,
-            factor(&s.u[tt], 0),
-            factor(&s.v[tt], 1)
-        ));
+    format!(
+        "{} = {}*{}",
+        labels[tt],
+        factor(&s.u[tt], 0),
+        factor(&s.v[tt], 1)
+    )
+}
+
+/// The output line of result coordinate k (`c12 = m3 + m5`); `None` when it is zero.
+pub fn output_line(s: &Scheme, t: &Tensor, k: usize, labels: &[String]) -> Option<String> {
+    let terms: Vec<(Q, &str)> = (0..s.rank())
+        .filter(|&tt| !s.w[tt][k].is_zero())
+        .map(|tt| (s.w[tt][k].clone(), labels[tt].as_str()))
+        .collect();
+    (!terms.is_empty())
+        .then(|| format!("{} = {}", t.name(2, k), write_combination(s.field, &terms)))
+}
+
+/// Write a scheme in the text form, with the tensor's basis names. Lines: a comment, the
+/// field, one product line per multiplication, one output line per nonzero result
+/// coordinate. `parse_text(write_text(s, t), _, t) == s`. Cost: O(r (d0 + d1 + d2)).
+pub fn write_text(s: &Scheme, t: &Tensor, title: &str) -> String {
+    let labels = product_labels(s, t);
+    let mut out = String::new();
+    if !title.is_empty() {
+        for l in title.lines() {
+            out.push_str(&format!("# {l}\n"));
+        }
     }
-    let labels: Vec<String> = (1..=s.rank()).map(|i| format!("{pre}{i}")).collect();
-    for (k, name) in names[2].iter().enumerate() {
-        let terms: Vec<(Q, &str)> = (0..s.rank())
-            .filter(|&tt| !s.w[tt][k].is_zero())
-            .map(|tt| (s.w[tt][k].clone(), labels[tt].as_str()))
-            .collect();
-        if !terms.is_empty() {
-            out.push_str(&format!(
-                "{} = {}\n",
-                name,
-                write_combination(s.field, &terms)
-            ));
+    out.push_str(&format!("field {}\n", s.field.name()));
+    out.push_str(&format!("dims {} {} {}\n", s.dims[0], s.dims[1], s.dims[2]));
+    out.push_str(&format!("rank {}\n", s.rank()));
+    for tt in 0..s.rank() {
+        out.push_str(&product_line(s, t, tt, &labels));
+        out.push('\n');
+    }
+    for k in 0..s.dims[2] {
+        if let Some(l) = output_line(s, t, k, &labels) {
+            out.push_str(&l);
+            out.push('\n');
         }
     }
     out
