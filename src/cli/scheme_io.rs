@@ -19,11 +19,21 @@ pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
 
 /// Read a scheme file (text or JSON form) against a tensor.
 pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
+    read_scheme_file(path, t).map(|x| x.0)
+}
+
+/// Read a scheme file against a tensor, keeping the lines of the text form (`None` for a
+/// JSON file) and the file's text.
+pub fn read_scheme_file(
+    path: &str,
+    t: &Tensor,
+) -> Result<(Scheme, Option<bilin::scheme::text::LineMap>, String), Error> {
     let text = std::fs::read_to_string(path).map_err(|e| Error::Io {
         path: path.to_string(),
         message: e.to_string(),
     })?;
-    bilin::scheme::parse_scheme(&text, path, t)
+    let (s, lines) = bilin::scheme::parse_scheme_located(&text, path, t)?;
+    Ok((s, lines, text))
 }
 
 /// `<n,m,p>` from a spec `matmul:n,m,p`, or from an explicit `n,m,p`.
