@@ -40,7 +40,8 @@ pub struct SearchArgs {
     /// Number of runs (random starts / walks) in this job.
     #[arg(long)]
     pub restarts: Option<u64>,
-    /// Write the best scheme here (JSON); default: standard output.
+    /// Write the best scheme here (the text form for a `.txt` name, JSON otherwise);
+    /// default: standard output (JSON).
     #[arg(long)]
     pub out: Option<String>,
     /// Resume from a checkpoint (or start from a scheme file).
@@ -182,15 +183,17 @@ pub fn run(a: SearchArgs) -> i32 {
     });
     match &outcome.best {
         Some(s) => {
-            let text = format!("{}\n", scheme_to_json(s));
             match &a.out {
                 Some(path) => {
+                    // the text form for X.txt, JSON otherwise
+                    let title = format!("found by bilin search for {}, verified exactly", a.input);
+                    let text = bilin::scheme::write_for_path(path, s, &t, &title);
                     if let Err(e) = write_atomic(path, &text) {
                         eprintln!("bilin search: {e}");
                         return EXIT_USAGE;
                     }
                 }
-                None => print!("{text}"),
+                None => println!("{}", scheme_to_json(s)),
             }
             eprintln!(
                 "bilin search: best verified rank {} over {} ({:.2} s, {} moves)",
