@@ -157,7 +157,16 @@ fn block_code_in_rust_is_exact() {
     std::fs::write(dir.join("t.rs"), prog).unwrap();
     let o = Command::new("rustc")
         .current_dir(&dir)
-        .args(["--edition", "2021", "-O", "-D", "warnings", "-o", "t", "t.rs"])
+        .args([
+            "--edition",
+            "2021",
+            "-O",
+            "-D",
+            "warnings",
+            "-o",
+            "t",
+            "t.rs",
+        ])
         .output()
         .unwrap();
     assert!(
@@ -198,6 +207,11 @@ fn block_code_in_python_is_exact() {
     }
     let dir = tmpdir("py");
     std::fs::write(dir.join("t.py"), prog).unwrap();
-    check(Command::new("python3").arg(dir.join("t.py")).output().unwrap());
+    check(
+        Command::new("python3")
+            .arg(dir.join("t.py"))
+            .output()
+            .unwrap(),
+    );
     let _ = std::fs::remove_dir_all(&dir);
 }

@@ -57,8 +57,11 @@ const SCHEMES: &[Case] = &[
     },
 ];
 
-/// The structure constants of an input as (i, j, k, c), dims, and the field's p (0 for Q).
-fn tensor(input: &str, field: Option<&str>) -> (Vec<(usize, usize, usize, i64)>, [usize; 3], u64) {
+/// Nonzero structure constants (i, j, k, c).
+type Entries = Vec<(usize, usize, usize, i64)>;
+
+/// The structure constants of an input, dims, and the field's p (0 for Q).
+fn tensor(input: &str, field: Option<&str>) -> (Entries, [usize; 3], u64) {
     let f = field.map(|f| bilin::scalar::FieldSpec::parse(f).unwrap());
     let t = bilin::input::load_input(input, f).unwrap();
     let entries = t
@@ -104,7 +107,10 @@ fn tmpdir(tag: &str) -> std::path::PathBuf {
 }
 
 fn have(cmd: &str, arg: &str) -> bool {
-    Command::new(cmd).arg(arg).output().is_ok_and(|o| o.status.success())
+    Command::new(cmd)
+        .arg(arg)
+        .output()
+        .is_ok_and(|o| o.status.success())
 }
 
 /// Mismatch counts printed by a harness, one line `name mismatches N`.
@@ -181,7 +187,10 @@ fn emitted_c_is_exact() {
                 "    r[{k}] += (__int128){v} * (__int128)a[{i}] * (__int128)b[{j}];\n"
             ));
         }
-        main.push_str(&format!("    {f}(a, b, c);\n    for (int k = 0; k < {}; k++) {{\n", d[2]));
+        main.push_str(&format!(
+            "    {f}(a, b, c);\n    for (int k = 0; k < {}; k++) {{\n",
+            d[2]
+        ));
         if p == 0 {
             main.push_str("      if ((__int128)c[k] != r[k]) bad++;\n");
         } else {
@@ -202,7 +211,10 @@ fn emitted_c_is_exact() {
         .status()
         .unwrap();
     assert!(st.success(), "the emitted C does not compile cleanly");
-    check_output(&Command::new(dir.join("t")).output().unwrap(), SCHEMES.len());
+    check_output(
+        &Command::new(dir.join("t")).output().unwrap(),
+        SCHEMES.len(),
+    );
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -256,7 +268,10 @@ fn emitted_rust_is_exact() {
                 "        r[{k}] += {v}i128 * a[{i}] as i128 * b[{j}] as i128;\n"
             ));
         }
-        main.push_str(&format!("        {f}(&a, &b, &mut c);\n        for k in 0..{} {{\n", d[2]));
+        main.push_str(&format!(
+            "        {f}(&a, &b, &mut c);\n        for k in 0..{} {{\n",
+            d[2]
+        ));
         if p == 0 {
             main.push_str("            if c[k] as i128 != r[k] { bad += 1; }\n");
         } else {
@@ -273,7 +288,16 @@ fn emitted_rust_is_exact() {
     std::fs::write(dir.join("t.rs"), format!("{prog}\n{main}")).unwrap();
     let o = Command::new("rustc")
         .current_dir(&dir)
-        .args(["--edition", "2021", "-O", "-D", "warnings", "-o", "t", "t.rs"])
+        .args([
+            "--edition",
+            "2021",
+            "-O",
+            "-D",
+            "warnings",
+            "-o",
+            "t",
+            "t.rs",
+        ])
         .output()
         .unwrap();
     assert!(
@@ -281,7 +305,10 @@ fn emitted_rust_is_exact() {
         "the emitted Rust does not compile cleanly:\n{}",
         String::from_utf8_lossy(&o.stderr)
     );
-    check_output(&Command::new(dir.join("t")).output().unwrap(), SCHEMES.len());
+    check_output(
+        &Command::new(dir.join("t")).output().unwrap(),
+        SCHEMES.len(),
+    );
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -328,7 +355,10 @@ fn emitted_python_is_exact() {
     let dir = tmpdir("py");
     std::fs::write(dir.join("t.py"), format!("{prog}\n{main}")).unwrap();
     check_output(
-        &Command::new("python3").arg(dir.join("t.py")).output().unwrap(),
+        &Command::new("python3")
+            .arg(dir.join("t.py"))
+            .output()
+            .unwrap(),
         SCHEMES.len(),
     );
     let _ = std::fs::remove_dir_all(&dir);
@@ -337,7 +367,13 @@ fn emitted_python_is_exact() {
 #[test]
 fn default_is_exact_and_float_states_its_rounding() {
     // Toom-3 in C: exact integers by default, doubles only on request
-    let (code, out, _) = bilin(&["emit", "poly:3,3", "examples/schemes/toom3.txt", "--lang", "c"]);
+    let (code, out, _) = bilin(&[
+        "emit",
+        "poly:3,3",
+        "examples/schemes/toom3.txt",
+        "--lang",
+        "c",
+    ]);
     assert_eq!(code, 0);
     assert!(out.contains("int64_t") && !out.contains("double"), "{out}");
     assert!(out.contains("no intermediate value overflows"), "{out}");
@@ -351,7 +387,10 @@ fn default_is_exact_and_float_states_its_rounding() {
         "float",
     ]);
     assert_eq!(code, 0);
-    assert!(out.contains("double") && out.contains("rounded once"), "{out}");
+    assert!(
+        out.contains("double") && out.contains("rounded once"),
+        "{out}"
+    );
     // the product labels of the file survive
     assert!(out.contains("pinf"), "{out}");
     // a bound beyond 128 bits is refused with exit 2

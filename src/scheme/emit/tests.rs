@@ -26,7 +26,10 @@ fn refuses_a_wrong_scheme_and_keeps_labels() {
     assert_eq!(lab.labels, ["p0", "pinf", "p1"]);
     for lang in [Lang::C, Lang::Rust, Lang::Python] {
         let code = emit(&lab, &k, lang, &EmitParams::default()).unwrap();
-        assert!(code.contains("pinf = ") || code.contains("let pinf:"), "{code}");
+        assert!(
+            code.contains("pinf = ") || code.contains("let pinf:"),
+            "{code}"
+        );
         assert!(!code.contains("m1"), "{code}");
     }
     let tex = emit(&lab, &k, Lang::Latex, &EmitParams::default()).unwrap();

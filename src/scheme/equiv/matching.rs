@@ -218,12 +218,12 @@ fn descend(
         }
         let mut next = sides.clone();
         let mut ok = true;
-        for a in 0..3 {
+        for (a, side) in next.iter_mut().enumerate() {
             match line_conditions(&f, &pb.first[a][t], &pb.second[a][s]) {
-                Ok(rows) => rows.into_iter().for_each(|row| next[a].add_row(&f, row)),
+                Ok(rows) => rows.into_iter().for_each(|row| side.add_row(&f, row)),
                 Err(()) => ok = false,
             }
-            if !ok || !next[a].has_invertible(&f, rng, 6) {
+            if !ok || !side.has_invertible(&f, rng, 6) {
                 ok = false;
                 break;
             }

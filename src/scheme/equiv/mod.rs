@@ -497,7 +497,12 @@ fn confirm(
             // y = prod * (image of x) on the other sides, so the solved side must send
             // its factor to prod * y
             xs.push(&facs1[solved][tt]);
-            ys.push(facs2[solved][s].iter().map(|y| red(field, y * &prod)).collect());
+            ys.push(
+                facs2[solved][s]
+                    .iter()
+                    .map(|y| red(field, y * &prod))
+                    .collect(),
+            );
         }
         if !ok {
             continue;
