@@ -7,8 +7,7 @@
 
 mod common;
 
-use common::run as bilin;
-use std::process::Command;
+use common::{assert_no_mismatches, build_and_run, have, run as bilin, tmpdir};
 
 const SCHEMES: &[(&str, &str)] = &[
     ("matmul:2,2,2", "examples/schemes/strassen.txt"),
@@ -41,33 +40,6 @@ fn emit(input: &str, scheme: &str, lang: &str, function: &str, cutoff: &str) -> 
     ]);
     assert_eq!(code, 0, "{err}");
     out
-}
-
-fn tmpdir(tag: &str) -> std::path::PathBuf {
-    let d = std::env::temp_dir().join(format!("bilin-blocks-{tag}-{}", std::process::id()));
-    std::fs::create_dir_all(&d).unwrap();
-    d
-}
-
-fn have(cmd: &str, args: &[&str]) -> bool {
-    Command::new(cmd)
-        .args(args)
-        .output()
-        .is_ok_and(|o| o.status.success())
-}
-
-fn check(out: std::process::Output) {
-    let text = String::from_utf8_lossy(&out.stdout);
-    assert!(
-        out.status.success(),
-        "{text}\n{}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    let lines: Vec<&str> = text.lines().collect();
-    assert_eq!(lines.len(), SCHEMES.len() * SIZES.len(), "{text}");
-    for l in lines {
-        assert!(l.ends_with(" 0"), "{l}");
-    }
 }
 
 #[test]
@@ -109,15 +81,9 @@ fn block_code_in_c_is_exact() {
         ));
     }
     prog.push_str("    free(A); free(B); free(C); free(R);\n  }\n  return 0;\n}\n");
-    let dir = tmpdir("c");
-    std::fs::write(dir.join("t.c"), prog).unwrap();
-    let st = Command::new("cc")
-        .current_dir(&dir)
-        .args(["-O2", "-Wall", "-Werror", "-o", "t", "t.c"])
-        .status()
-        .unwrap();
-    assert!(st.success(), "the block code does not compile cleanly");
-    check(Command::new(dir.join("t")).output().unwrap());
+    let dir = tmpdir("blocks-c");
+    let out = build_and_run(&dir, "c", &prog);
+    assert_no_mismatches(&out, SCHEMES.len() * SIZES.len());
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -153,28 +119,9 @@ fn block_code_in_rust_is_exact() {
         ));
     }
     prog.push_str("    }\n}\n");
-    let dir = tmpdir("rs");
-    std::fs::write(dir.join("t.rs"), prog).unwrap();
-    let o = Command::new("rustc")
-        .current_dir(&dir)
-        .args([
-            "--edition",
-            "2021",
-            "-O",
-            "-D",
-            "warnings",
-            "-o",
-            "t",
-            "t.rs",
-        ])
-        .output()
-        .unwrap();
-    assert!(
-        o.status.success(),
-        "the block code does not compile cleanly:\n{}",
-        String::from_utf8_lossy(&o.stderr)
-    );
-    check(Command::new(dir.join("t")).output().unwrap());
+    let dir = tmpdir("blocks-rs");
+    let out = build_and_run(&dir, "rust", &prog);
+    assert_no_mismatches(&out, SCHEMES.len() * SIZES.len());
     let _ = std::fs::remove_dir_all(&dir);
 }
 
@@ -205,13 +152,8 @@ fn block_code_in_python_is_exact() {
             "    C = mm{n}(A, B)\n    print(f'mm{n} {{n}}x{{m}}x{{p}} mismatches', int((C != R).sum()))\n"
         ));
     }
-    let dir = tmpdir("py");
-    std::fs::write(dir.join("t.py"), prog).unwrap();
-    check(
-        Command::new("python3")
-            .arg(dir.join("t.py"))
-            .output()
-            .unwrap(),
-    );
+    let dir = tmpdir("blocks-py");
+    let out = build_and_run(&dir, "python", &prog);
+    assert_no_mismatches(&out, SCHEMES.len() * SIZES.len());
     let _ = std::fs::remove_dir_all(&dir);
 }

@@ -582,28 +582,13 @@ mod tests {
     fn sandwich_scalings_remove_fractions_of_an_equivalent_scheme() {
         // Strassen's scheme transformed by X = diag(1, 3/2), Y = diag(2/3, 1): fractions
         // that term rescaling alone cannot remove
-        use crate::scheme::sandwich::{Move, Side, apply_move};
+        use crate::scheme::sandwich::Side;
         let t = matmul(2, 2, 2);
         let s = scheme(STRASSEN, &t);
-        let mut x = apply_move(
+        let x = moved(
             &s,
             [2, 2, 2],
-            &Move {
-                side: Side::X,
-                a: 1,
-                b: 1,
-                c: q(3, 2),
-            },
-        );
-        x = apply_move(
-            &x,
-            [2, 2, 2],
-            &Move {
-                side: Side::Y,
-                a: 0,
-                b: 0,
-                c: q(2, 3),
-            },
+            &[(Side::X, 1, 1, q(3, 2)), (Side::Y, 0, 0, q(2, 3))],
         );
         assert!(verify(&x, &t).is_ok());
         assert!(count_nonunit(&rescale(&x)) > 0);

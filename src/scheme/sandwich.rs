@@ -210,22 +210,10 @@ mod tests {
         }
         assert!(scrambled.nnz() > s.nnz());
         // a scaling move and its inverse cancel
-        let sc = Move {
-            side: Side::Y,
-            a: 1,
-            b: 1,
-            c: crate::scalar::q(3, 2),
-        };
-        let once = apply_move(&s, [2, 3, 2], &sc);
+        let q = crate::scalar::q;
+        let once = moved(&s, [2, 3, 2], &[(Side::Y, 1, 1, q(3, 2))]);
         assert!(verify(&once, &t).is_ok());
-        let back = apply_move(
-            &once,
-            [2, 3, 2],
-            &Move {
-                c: crate::scalar::q(2, 3),
-                ..sc
-            },
-        );
+        let back = moved(&once, [2, 3, 2], &[(Side::Y, 1, 1, q(2, 3))]);
         assert_eq!(back, s);
         // Strassen over GF(5) stays valid under moves
         let t5 = matmul(2, 2, 2).with_field(FieldSpec::Prime(5)).unwrap();

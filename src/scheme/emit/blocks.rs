@@ -176,46 +176,31 @@ pub fn write_blocks(
             ));
         }
     }
-    // block views of A, B, C
+    // block views of A and B: (name, rows, cols of the block grid, block sizes, stride)
     let a_name = |idx: usize| block_name('A', idx / m, idx % m);
     let b_name = |idx: usize| block_name('B', idx / p, idx % p);
-    for idx in 0..n * m {
-        let (r, c) = (idx / m, idx % m);
-        w.out.push_str(&match lang {
-            Lang::C => format!(
-                "{ind}const BILIN_T *{} = A + {r} * bn * lda + {c} * bm;\n",
-                a_name(idx)
-            ),
-            Lang::Rust => format!(
-                "{ind}let {} = &a[{r} * bn * lda + {c} * bm..];\n",
-                a_name(idx)
-            ),
-            _ => format!(
-                "{ind}{} = A[{r} * bn:{} * bn, {c} * bm:{} * bm]\n",
-                a_name(idx),
-                r + 1,
-                c + 1
-            ),
-        });
-    }
-    for idx in 0..m * p {
-        let (r, c) = (idx / p, idx % p);
-        w.out.push_str(&match lang {
-            Lang::C => format!(
-                "{ind}const BILIN_T *{} = B + {r} * bm * ldb + {c} * bp;\n",
-                b_name(idx)
-            ),
-            Lang::Rust => format!(
-                "{ind}let {} = &b[{r} * bm * ldb + {c} * bp..];\n",
-                b_name(idx)
-            ),
-            _ => format!(
-                "{ind}{} = B[{r} * bm:{} * bm, {c} * bp:{} * bp]\n",
-                b_name(idx),
-                r + 1,
-                c + 1
-            ),
-        });
+    for (mat, rows, cols, (br, bc), ld) in [
+        ('A', n, m, ("bn", "bm"), "lda"),
+        ('B', m, p, ("bm", "bp"), "ldb"),
+    ] {
+        let arr = mat.to_ascii_lowercase();
+        for idx in 0..rows * cols {
+            let (r, c) = (idx / cols, idx % cols);
+            let name = block_name(mat, r, c);
+            w.out.push_str(&match lang {
+                Lang::C => format!(
+                    "{ind}const BILIN_T *{name} = {mat} + {r} * {br} * {ld} + {c} * {bc};\n"
+                ),
+                Lang::Rust => {
+                    format!("{ind}let {name} = &{arr}[{r} * {br} * {ld} + {c} * {bc}..];\n")
+                }
+                _ => format!(
+                    "{ind}{name} = {mat}[{r} * {br}:{} * {br}, {c} * {bc}:{} * {bc}]\n",
+                    r + 1,
+                    c + 1
+                ),
+            });
+        }
     }
     if lang == Lang::C {
         w.out.push_str(&format!(

@@ -4,7 +4,7 @@
 
 use super::*;
 use crate::scalar::q;
-use crate::scheme::sandwich::{Move, Side, apply_move};
+use crate::scheme::sandwich::Side;
 use crate::scheme::testkit::*;
 use crate::scheme::verify;
 
@@ -53,35 +53,14 @@ fn a_disguised_strassen_is_found() {
     // sandwich moves, term scaling and a term permutation
     let t = matmul(2, 2, 2);
     let s = scheme(STRASSEN, &t);
-    let mut x = apply_move(
+    let mut x = moved(
         &s,
         [2, 2, 2],
-        &Move {
-            side: Side::X,
-            a: 0,
-            b: 1,
-            c: q(1, 1),
-        },
-    );
-    x = apply_move(
-        &x,
-        [2, 2, 2],
-        &Move {
-            side: Side::Z,
-            a: 1,
-            b: 1,
-            c: q(-3, 2),
-        },
-    );
-    x = apply_move(
-        &x,
-        [2, 2, 2],
-        &Move {
-            side: Side::Y,
-            a: 1,
-            b: 0,
-            c: q(-1, 1),
-        },
+        &[
+            (Side::X, 0, 1, q(1, 1)),
+            (Side::Z, 1, 1, q(-3, 2)),
+            (Side::Y, 1, 0, q(-1, 1)),
+        ],
     );
     x.u[2] = x.u[2].iter().map(|c| c * q(5, 1)).collect();
     x.w[2] = x.w[2].iter().map(|c| c * q(1, 5)).collect();
