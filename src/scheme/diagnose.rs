@@ -13,7 +13,7 @@
 //! `u_t[i] != 0` or `v_t[j] != 0`), ties going to the line that influences fewer
 //! coefficients in all.
 
-use super::{Scheme, Wrong, reduce_into, verify};
+use super::{Scheme, Wrong, red, verify};
 use crate::linalg::{Matrix, solve};
 use crate::scalar::{Field, FieldSpec, Q};
 use crate::tensor::Tensor;
@@ -35,10 +35,6 @@ pub struct Fault {
     pub fix: Option<Scheme>,
     /// How many of the wrong coefficients this line influences.
     pub touches: usize,
-}
-
-fn red(f: FieldSpec, x: Q) -> Q {
-    reduce_into(f, &x).unwrap_or(x)
 }
 
 /// The error tensor `T - S` as a dense array with index `(i * d1 + j) * d2 + k`.
@@ -104,13 +100,13 @@ fn rank_one_factors(
     let scaled_col: Vec<Q> = col.iter().map(|c| red(f, c * &inv)).collect();
     // N = scaled_col (x) row; keep v when row = a v (then u' = a scaled_col), else keep u
     // when scaled_col = a u (then v' = a row)
-    if let Some(a) = super::polish::proportional(f, v, &row) {
+    if let Some(a) = super::terms::proportional(f, v, &row) {
         return Some((
             scaled_col.iter().map(|c| red(f, c * &a)).collect(),
             v.to_vec(),
         ));
     }
-    if let Some(a) = super::polish::proportional(f, u, &scaled_col) {
+    if let Some(a) = super::terms::proportional(f, u, &scaled_col) {
         return Some((u.to_vec(), row.iter().map(|c| red(f, c * &a)).collect()));
     }
     Some((scaled_col, row))

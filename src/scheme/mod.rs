@@ -18,6 +18,7 @@ pub mod json;
 pub mod polish;
 pub mod sandwich;
 pub mod symmetry;
+pub mod terms;
 #[cfg(test)]
 pub(crate) mod testkit;
 pub mod text;
@@ -154,6 +155,12 @@ impl Scheme {
         }
         s
     }
+}
+
+/// `x` reduced into `field` (over Q: itself); a value whose denominator vanishes mod p
+/// is returned unchanged (callers only reduce values that are defined).
+pub(crate) fn red(field: FieldSpec, x: Q) -> Q {
+    reduce_into(field, &x).unwrap_or(x)
 }
 
 /// A rational number as an element of `field`, written as a rational (over GF(p): the

@@ -8,7 +8,7 @@
 //! or `I + (c - 1) E_aa` (a == b, scaling row/column a by c != 0). The search that uses
 //! them is [`super::polish`]; callers re-verify.
 
-use super::{Scheme, reduce_into};
+use super::{Scheme, red};
 use crate::linalg::Matrix;
 use crate::scalar::{Field, FieldSpec, Q, Rationals};
 use num_traits::Zero;
@@ -28,10 +28,6 @@ pub struct Move {
     pub a: usize,
     pub b: usize,
     pub c: Q,
-}
-
-fn red(f: FieldSpec, x: Q) -> Q {
-    reduce_into(f, &x).unwrap_or(x)
 }
 
 /// `row[dst] += c * row[src]` of a rows x cols matrix stored row-major.

@@ -2,8 +2,10 @@
 //! for the computation of bilinear mappings II: optimal algorithms for 2x2-matrix
 //! multiplication": every rank-7 scheme for <2,2,2> is equivalent to Strassen's.
 
+use super::confirm::fixes_tensor;
 use super::*;
 use crate::scalar::q;
+use num_traits::One;
 use crate::scheme::sandwich::Side;
 use crate::scheme::testkit::*;
 use crate::scheme::verify;
