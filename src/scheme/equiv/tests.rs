@@ -5,10 +5,10 @@
 use super::confirm::fixes_tensor;
 use super::*;
 use crate::scalar::q;
-use num_traits::One;
 use crate::scheme::sandwich::Side;
 use crate::scheme::testkit::*;
 use crate::scheme::verify;
+use num_traits::One;
 
 fn params(nmp: [usize; 3]) -> EquivParams {
     EquivParams {
