@@ -515,6 +515,25 @@ mod tests {
     }
 
     #[test]
+    fn labels_survive_text_and_json() {
+        // Karatsuba and Ofman 1962 with labels of its own
+        let t = polymul(2);
+        let txt = "p0 = a0*b0\npinf = a1*b1\np1 = (a0 + a1)*(b0 + b1)\n\
+                   c0 = p0\nc1 = p1 - p0 - pinf\nc2 = pinf\n";
+        let (s, lines) = parse_text_located(txt, "k", &t).unwrap();
+        assert_eq!(s.labels, ["p0", "pinf", "p1"]);
+        assert_eq!(lines.products, [1, 2, 3]);
+        assert_eq!(lines.outputs, [Some(4), Some(5), Some(6)]);
+        let written = write_text(&s, &t, "");
+        assert!(written.contains("pinf = a1*b1") && written.contains("c1 = -p0 - pinf + p1"));
+        assert_eq!(parse_text(&written, "rt", &t).unwrap(), s);
+        let json = crate::scheme::json::write_json(&s);
+        assert_eq!(crate::scheme::json::parse_json(&json, "j").unwrap(), s);
+        // default labels are not stored
+        assert!(scheme(KARATSUBA, &t).labels.is_empty());
+    }
+
+    #[test]
     fn gf_p_coefficients_reduce() {
         let t = matmul(1, 1, 1).with_field(FieldSpec::Prime(7)).unwrap();
         let s = parse_text("field GF(7)\nm1 = (1/2 a11)*b11\nc11 = 2 m1\n", "f", &t).unwrap();
