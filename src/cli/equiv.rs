@@ -63,6 +63,7 @@ pub fn render(
             "detail": detail,
             "invariants": invariants,
             "search_nodes": e.nodes,
+            "forms_compared": e.forms,
         });
         println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
     } else {
@@ -105,8 +106,14 @@ pub fn render(
                 first,
                 second,
             } => println!(
-                "not equivalent: the {invariant} is {first} for {} and {second} for {} (an invariant of the symmetry group; the cyclic and transposed forms differ too)",
-                paths[0], paths[1]
+                "not equivalent: the {invariant} is {first} for {} and {second} for {} (an invariant of the symmetry group{})",
+                paths[0],
+                paths[1],
+                if e.forms.len() > 1 {
+                    "; the cyclic and transposed forms of the first scheme differ from the second too"
+                } else {
+                    ""
+                }
             ),
             Verdict::Undecided(why) => println!("undecided: {why}"),
         }

@@ -446,7 +446,7 @@ pub fn block_growth(plan: &Plan, format: [usize; 3], cutoff: usize, size: [usize
     let [n, m, p] = format;
     let [bn, bm, bp] = [size[0] / n, size[1] / m, size[2] / p];
     let base = BigInt::from(size[1].max(1));
-    if bn < cutoff.max(1) || bm < cutoff.max(1) || bp < cutoff.max(1) {
+    if n * m * p < 2 || bn < cutoff.max(1) || bm < cutoff.max(1) || bp < cutoff.max(1) {
         return base;
     }
     let lmax = plan.left_norms.iter().max().cloned().unwrap_or_default();

@@ -268,6 +268,11 @@ fn emit_blocks(
             s.field.name()
         )));
     }
+    if n * m * p < 2 {
+        return Err(Error::Invalid(format!(
+            "block code needs a format that splits the matrices; <{n},{m},{p}> does not"
+        )));
+    }
     if s.dims != [n * m, m * p, n * p] {
         return Err(Error::Invalid(format!(
             "the scheme has dims {} x {} -> {}, not those of <{n},{m},{p}>",

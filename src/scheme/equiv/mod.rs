@@ -93,6 +93,9 @@ pub struct Equivalence {
     /// (name, value for the first scheme, value for the second).
     pub invariants: Vec<(String, String, String)>,
     pub nodes: usize,
+    /// The forms of the first scheme compared (`input`, and for matrix formats the cyclic
+    /// and transposed forms that keep the format).
+    pub forms: Vec<String>,
 }
 
 fn matrix_rank(field: FieldSpec, rows: Vec<Vec<Q>>, cols: usize) -> usize {
@@ -222,6 +225,7 @@ pub fn equivalence(s1: &Scheme, s2: &Scheme, t: &Tensor, params: &EquivParams) -
                     verdict: Verdict::Equivalent(Box::new(tr)),
                     invariants: table,
                     nodes: nodes + n,
+                    forms: forms.iter().map(|f| f.0.clone()).collect(),
                 };
             }
             (None, n) => {
@@ -264,6 +268,7 @@ pub fn equivalence(s1: &Scheme, s2: &Scheme, t: &Tensor, params: &EquivParams) -
         verdict,
         invariants: table,
         nodes,
+        forms: forms.iter().map(|f| f.0.clone()).collect(),
     }
 }
 
