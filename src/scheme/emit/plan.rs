@@ -295,4 +295,49 @@ mod tests {
         let x = p.max_input(&signed_max(64));
         assert!(x > BigInt::from(1_000_000_000u64));
     }
+
+    #[test]
+    fn exact_plans_of_dense_rational_tables_in_a_users_basis() {
+        // the complex numbers and a 3 x 3 polynomial product after a seeded random change of
+        // basis with big entries: dense rational constants; the standard scheme (one
+        // product per constant) has rational coefficients everywhere, and the integral
+        // plan must give den_k * c_k exactly for big integer inputs
+        use crate::tensor::{change_basis, random_invertible};
+        use rand::{Rng, SeedableRng};
+        for (t0, seed) in [(complex(), 1u64), (polymul(3), 2)] {
+            let d = t0.dims();
+            let [p, r, s_] = [0, 1, 2].map(|a| random_invertible(d[a], 1000, seed * 10 + a as u64));
+            let t = change_basis(&t0, &p, &r, &s_).unwrap();
+            assert!(t.entries().any(|(_, _, _, c)| !c.is_integer()));
+            let s = crate::scheme::Scheme::standard(&t);
+            let plan = Plan::new(&s, &t, Arith::Exact);
+            let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+            for _ in 0..20 {
+                let a: Vec<Q> = (0..d[0])
+                    .map(|_| {
+                        Q::from_integer(rng.gen_range(-1_000_000_000i64..=1_000_000_000).into())
+                    })
+                    .collect();
+                let b: Vec<Q> = (0..d[1])
+                    .map(|_| {
+                        Q::from_integer(rng.gen_range(-1_000_000_000i64..=1_000_000_000).into())
+                    })
+                    .collect();
+                let l = evaluate(&plan.left, &a);
+                let r = evaluate(&plan.right, &b);
+                let m: Vec<Q> = l.iter().zip(&r).map(|(x, y)| x * y).collect();
+                let o = evaluate(&plan.out, &m);
+                let want = t.multiply(&a, &b);
+                for k in 0..d[2] {
+                    let got = &o[k] * Q::from_integer(plan.out_mul[k].clone());
+                    // the exact division leaves no remainder
+                    assert!((&got / Q::from_integer(plan.out_div[k].clone())).is_integer());
+                    assert_eq!(
+                        got / Q::from_integer(plan.out_div[k].clone()),
+                        &want[k] * Q::from_integer(plan.out_scale[k].clone())
+                    );
+                }
+            }
+        }
+    }
 }

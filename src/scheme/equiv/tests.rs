@@ -118,3 +118,18 @@ fn polynomial_schemes_under_diagonal_symmetries() {
     let tr = check_equivalent(&k, &x, &t, &EquivParams::default());
     assert!(tr.sandwich.is_none());
 }
+
+#[test]
+fn a_big_random_sandwich_is_recognised() {
+    // Strassen's scheme under a seeded random sandwich with entries up to 10^6: dense
+    // coefficients with big numerators and denominators
+    use crate::tensor::random_invertible;
+    let t = matmul(2, 2, 2);
+    let s = scheme(STRASSEN, &t);
+    let [x, y, z] = [1u64, 2, 3].map(|k| random_invertible(2, 1_000_000, k));
+    let big = crate::scheme::sandwich::apply_sandwich(&s, [2, 2, 2], [&x, &y, &z]).unwrap();
+    assert!(verify(&big, &t).is_ok());
+    let tr = check_equivalent(&s, &big, &t, &params([2, 2, 2]));
+    assert!(tr.sandwich.is_some());
+    check_equivalent(&big, &scheme(WINOGRAD, &t), &t, &params([2, 2, 2]));
+}
