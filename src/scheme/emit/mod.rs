@@ -122,9 +122,23 @@ fn choose_num(plan: &Plan, lang: Lang, params: &EmitParams) -> Result<(Num, Vec<
             "Exact integer arithmetic on Python int (no overflow): a and b hold integers.".into(),
         )
     } else {
+        if plan.largest_constant() > signed_max(64) {
+            return Err(Error::Invalid(
+                "a coefficient of this scheme does not fit in 64 bits; emit Python for unbounded integers"
+                    .into(),
+            ));
+        }
         let x64 = plan.max_input(&signed_max(64));
         let x128 = plan.max_input(&signed_max(128)).min(signed_max(64));
+        let one = BigInt::from(1);
         let wide = match &params.bound {
+            None if x64 < one && x128 >= one => true,
+            None if x64 < one => {
+                return Err(Error::Invalid(
+                    "no input range is free of overflow in 128-bit integers for this scheme; emit Python for unbounded integers"
+                        .into(),
+                ));
+            }
             None => false,
             Some(b) if *b <= x64 => false,
             Some(b) if *b <= x128 => true,

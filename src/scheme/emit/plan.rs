@@ -226,6 +226,20 @@ impl Plan {
         lin.min(quad).min(max.clone())
     }
 
+    /// The largest magnitude of a number the code writes (coefficients, output factors
+    /// and divisors).
+    pub fn largest_constant(&self) -> BigInt {
+        let progs = [&self.left, &self.right, &self.out];
+        let coefs = progs
+            .iter()
+            .flat_map(|p| p.temps.iter().chain(&p.forms).flatten())
+            .map(|(_, c)| c.numer().abs().max(c.denom().clone()));
+        coefs
+            .chain(self.out_mul.iter().cloned())
+            .chain(self.out_div.iter().cloned())
+            .fold(BigInt::zero(), |m, x| m.max(x))
+    }
+
     /// Exact divisions performed by the code (outputs with a divisor other than 1).
     pub fn divisions(&self) -> usize {
         self.out_div.iter().filter(|d| !d.is_one()).count()
