@@ -15,6 +15,8 @@ pub struct IdentifyArgs {
     /// Read the input over this field (`Q`, `GF(p)`).
     #[arg(long)]
     field: Option<String>,
+    #[command(flatten)]
+    read: super::common::ReadArgs,
     /// Do not search for explicit isomorphisms.
     #[arg(long)]
     no_iso: bool,
@@ -31,7 +33,7 @@ pub struct IdentifyArgs {
 
 /// Run `bilin identify`; returns the exit code.
 pub fn run(args: IdentifyArgs) -> i32 {
-    let t = match super::common::load(&args.input, args.field.as_deref()) {
+    let t = match super::common::load_with(&args.input, args.field.as_deref(), &args.read) {
         Ok(t) => t,
         Err(code) => return code,
     };
