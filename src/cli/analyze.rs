@@ -99,8 +99,12 @@ pub fn run(args: Args) -> i32 {
             Ok(o) => o,
             Err(e) => return report_error(&e),
         };
+        // the parts named by --invariants run whatever their cost; the default set keeps
+        // to a budget of a few seconds (a skipped part says so and how to ask for it)
+        let max_work = only.is_none().then_some(QUICK_INVARIANTS_WORK);
         params.invariants = Some(InvariantParams {
             only,
+            max_work,
             ..InvariantParams::default()
         });
     }
@@ -171,6 +175,10 @@ pub fn run(args: Args) -> i32 {
     }
     code
 }
+
+/// The work budget of each default invariant of `analyze` (multiply-adds of a dense
+/// elimination): about 6 seconds on one core.
+const QUICK_INVARIANTS_WORK: f64 = 1e10;
 
 /// A claim of `--laws` and `--expect`: a law or a structural property.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]

@@ -18,10 +18,20 @@ pub fn invariants_section(
 ) -> Result<Section> {
     let r = invariants_report(t, params, progress)?;
     let text = invariants_text::render_text(&r, &t.names()[0]);
+    let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
+    if !r.skipped.is_empty() {
+        let names: Vec<&str> = r.skipped.iter().map(|s| s.part.as_str()).collect();
+        lines.push(String::new());
+        lines.push(format!(
+            "skipped parts are computed when asked for by name, whatever their cost: \
+             `bilin analyze INPUT --invariants {0}` or `bilin invariants INPUT --only {0}`",
+            names.join(",")
+        ));
+    }
     Ok(Section {
         id: "invariants".into(),
         title: "Invariants".into(),
-        lines: text.lines().map(str::to_string).collect(),
+        lines,
         data: serde_json::to_value(&r).unwrap_or_default(),
     })
 }
