@@ -73,8 +73,12 @@ fn the_documented_examples_read_and_appear_in_the_docs() {
     // the table form with slices holds the same numbers under other names
     let sl = load_input(&example("counts_slices.bilin"), None).unwrap();
     assert_eq!(
-        sl.entries().map(|(i, j, k, v)| (i, j, k, v.clone())).collect::<Vec<_>>(),
-        npy.entries().map(|(i, j, k, v)| (i, j, k, v.clone())).collect::<Vec<_>>()
+        sl.entries()
+            .map(|(i, j, k, v)| (i, j, k, v.clone()))
+            .collect::<Vec<_>>(),
+        npy.entries()
+            .map(|(i, j, k, v)| (i, j, k, v.clone()))
+            .collect::<Vec<_>>()
     );
     // brackets give the full table
     let sl2 = load_input(&example("sl2_brackets.bilin"), None).unwrap();
@@ -216,8 +220,8 @@ json.dump(nested, open("t_nested.json", "w"))
         let want = parse_json(&std::fs::read_to_string(dir.join("t.json")).unwrap(), "t").unwrap();
         for f in files {
             let path = dir.join(f);
-            let got = load_input(path.to_str().unwrap(), None)
-                .unwrap_or_else(|e| panic!("{f}: {e}"));
+            let got =
+                load_input(path.to_str().unwrap(), None).unwrap_or_else(|e| panic!("{f}: {e}"));
             assert_eq!(got, want, "{f}");
         }
         if !big {

@@ -43,11 +43,17 @@ fn structure_claims() {
         .iter()
         .find(|p| p["property"] == "nilpotent")
         .unwrap();
-    assert_eq!((nil["holds"].as_bool(), nil["class"].as_u64()), (Some(true), Some(2)));
+    assert_eq!(
+        (nil["holds"].as_bool(), nil["class"].as_u64()),
+        (Some(true), Some(2))
+    );
     let (code, out, err) = analyze(&["sl:2", "--expect", "semisimple,!solvable,!nilpotent"]);
     assert_eq!(code, 0, "{err}");
     // the witness of "not solvable": the last derived term, here all of sl_2
-    assert!(out.contains("witness: the derived series stops at a nonzero term"), "{out}");
+    assert!(
+        out.contains("witness: the derived series stops at a nonzero term"),
+        "{out}"
+    );
     let b2 = scratch(
         "b2.bilin",
         "# upper triangular 2 x 2 matrices under the commutator\nbasis E11 E12 E22\n\
@@ -59,7 +65,10 @@ fn structure_claims() {
     // claim about it is not confirmed
     let (code, _, err) = analyze(&["octonions", "--expect", "semisimple"]);
     assert_eq!(code, 1);
-    assert!(err.contains("`semisimple` was expected to hold but is not decided"), "{err}");
+    assert!(
+        err.contains("`semisimple` was expected to hold but is not decided"),
+        "{err}"
+    );
 }
 
 /// The imaginary octonions under the commutator (here with the central e0) form a Malcev
@@ -70,7 +79,10 @@ fn malcev_claims() {
     assert_eq!(code, 0, "{err}\n{out}");
     let (code, _, err) = analyze(&["octonions", "--laws", "bogus"]);
     assert_eq!(code, 2);
-    assert!(err.starts_with("error: --laws: unknown law `bogus`"), "{err}");
+    assert!(
+        err.starts_with("error: --laws: unknown law `bogus`"),
+        "{err}"
+    );
 }
 
 /// A scrambled 8 x 8 x 8 data array given as a bilinear map gets no law section unless
@@ -98,22 +110,37 @@ fn a_map_is_a_map() {
     );
     let (code, out, _) = analyze(&[&f]);
     assert_eq!(code, 0);
-    assert!(!out.contains("== Laws") && !out.contains("== Structure"), "{out}");
-    assert!(out.contains("laws are not checked for a bilinear map"), "{out}");
+    assert!(
+        !out.contains("== Laws") && !out.contains("== Structure"),
+        "{out}"
+    );
+    assert!(
+        out.contains("laws are not checked for a bilinear map"),
+        "{out}"
+    );
     let (code, out, _) = analyze(&[&f, "--json"]);
     assert_eq!(code, 0);
     let j: serde_json::Value = serde_json::from_str(&out).unwrap();
     assert!(j["laws"].is_null() && j["properties"].is_null(), "{j}");
     let (code, out, _) = analyze(&[&f, "--laws", "associative"]);
     assert_eq!(code, 0);
-    assert!(out.contains("== Laws") && out.contains("read as an algebra"), "{out}");
+    assert!(
+        out.contains("== Laws") && out.contains("read as an algebra"),
+        "{out}"
+    );
     let (code, out, _) = analyze(&["quaternions", "--laws", "none"]);
     assert_eq!(code, 0);
-    assert!(!out.contains("== Laws") && !out.contains("== Structure"), "{out}");
+    assert!(
+        !out.contains("== Laws") && !out.contains("== Structure"),
+        "{out}"
+    );
     // the flattening line of the bounds never contradicts its numbers
     let (code, out, _) = run(&["analyze", "heisenberg:1", "--no-invariants"]);
     assert_eq!(code, 0);
-    assert!(out.contains("left 2 of 3, right 2 of 3, result 1 of 3"), "{out}");
+    assert!(
+        out.contains("left 2 of 3, right 2 of 3, result 1 of 3"),
+        "{out}"
+    );
 }
 
 /// Brackets, declarations and their contradictions, located.
@@ -123,13 +150,21 @@ fn brackets_and_symmetries() {
     let (code, _, err) = run(&["convert", &bad]);
     assert_eq!(code, 2);
     assert!(
-        err.starts_with(&format!("error: {bad}:3:1: a bracket `[x, y]` is anticommutative")),
+        err.starts_with(&format!(
+            "error: {bad}:3:1: a bracket `[x, y]` is anticommutative"
+        )),
         "{err}"
     );
-    let bad = scratch("bad2.bilin", "basis h e f\nanticommutative\ne*f = h\nf*e = h\n");
+    let bad = scratch(
+        "bad2.bilin",
+        "basis h e f\nanticommutative\ne*f = h\nf*e = h\n",
+    );
     let (code, _, err) = run(&["convert", &bad]);
     assert_eq!(code, 2);
-    assert!(err.contains(":4:1: `f*e` = `h` contradicts `anticommutative` (line 2)"), "{err}");
+    assert!(
+        err.contains(":4:1: `f*e` = `h` contradicts `anticommutative` (line 2)"),
+        "{err}"
+    );
     let bad = scratch(
         "bad3.json",
         "{\"kind\": \"algebra\", \"dims\": [2, 2, 2], \"symmetry\": \"anticommutative\",\n \
@@ -137,7 +172,10 @@ fn brackets_and_symmetries() {
     );
     let (code, _, err) = run(&["convert", &bad]);
     assert_eq!(code, 2);
-    assert!(err.contains(":2:28: $.entries[1]: conflicting duplicate"), "{err}");
+    assert!(
+        err.contains(":2:28: $.entries[1]: conflicting duplicate"),
+        "{err}"
+    );
 }
 
 /// The grid form of a map: its slices along a chosen axis, read back the same.
@@ -155,7 +193,12 @@ fn slices_of_a_map_round_trip() {
     let (code, _, err) = run(&["convert", "matmul:2,2,2", "--axis", "left"]);
     assert_eq!(code, 2);
     assert!(err.starts_with("error: --axis:"), "{err}");
-    let (code, _, err) = run(&["convert", "examples/inputs/counts.npy", "--rationalize", "x"]);
+    let (code, _, err) = run(&[
+        "convert",
+        "examples/inputs/counts.npy",
+        "--rationalize",
+        "x",
+    ]);
     assert_eq!(code, 2);
     assert!(err.starts_with("error: --rationalize:"), "{err}");
     let (code, _, _) = run(&["convert", "quaternions", "--field", "gf(3)"]);

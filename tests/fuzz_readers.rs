@@ -352,7 +352,9 @@ fn readers() -> Vec<Reader> {
         env!("CARGO_MANIFEST_DIR")
     ))
     .unwrap();
-    let halves: Vec<u64> = (0..8).map(|x| (f64::from(x) / 2.0 - 1.0).to_bits()).collect();
+    let halves: Vec<u64> = (0..8)
+        .map(|x| (f64::from(x) / 2.0 - 1.0).to_bits())
+        .collect();
     let npy_seeds = vec![
         counts,
         npy("<f8", true, [2, 2, 2], &halves),

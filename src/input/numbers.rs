@@ -62,6 +62,9 @@ impl Rationalize {
 /// fraction `[-]p/q`; `None` when it is not one (or its exponent is above 1000 in size).
 pub fn decimal_value(text: &str) -> Option<Q> {
     if let Some((p, q)) = text.split_once('/') {
+        if p.len() > super::MAX_DIGITS + 1 || q.len() > super::MAX_DIGITS {
+            return None;
+        }
         let p: BigInt = p.parse().ok()?;
         let q: BigInt = q.parse().ok()?;
         if q.is_zero() || !q.is_positive() {
@@ -154,8 +157,32 @@ pub fn f32_value(x: f32, round: Option<&Rationalize>) -> Result<Q, String> {
 /// The value of a decimal text from a JSON number or a CSV cell: an integer is exact at
 /// any size; a decimal or exponent form is accepted when it is exactly its binary64 value.
 pub fn text_value(text: &str, round: Option<&Rationalize>) -> Result<Q, String> {
-    let said = decimal_value(text)
-        .ok_or_else(|| format!("expected a number such as 3, -1/2, 0.25 or 1e3, found `{text}`"))?;
+    let v = text_value_unchecked(text, round)?;
+    super::check_digits(&v).map_err(|_| {
+        format!(
+            "the number `{}` has more than {} digits (the limit of docs/formats.md)",
+            clip(text),
+            super::MAX_DIGITS
+        )
+    })?;
+    Ok(v)
+}
+
+fn clip(s: &str) -> String {
+    if s.chars().count() > 40 {
+        format!("{}...", s.chars().take(40).collect::<String>())
+    } else {
+        s.to_string()
+    }
+}
+
+fn text_value_unchecked(text: &str, round: Option<&Rationalize>) -> Result<Q, String> {
+    let said = decimal_value(text).ok_or_else(|| {
+        format!(
+            "expected a number such as 3, -1/2, 0.25 or 1e3, found `{}`",
+            clip(text)
+        )
+    })?;
     let integer = text
         .trim_start_matches(['-', '+'])
         .bytes()
@@ -165,7 +192,7 @@ pub fn text_value(text: &str, round: Option<&Rationalize>) -> Result<Q, String> 
     }
     let x: f64 = text
         .parse()
-        .map_err(|_| format!("expected a number, found `{text}`"))?;
+        .map_err(|_| format!("expected a number, found `{}`", clip(text)))?;
     if !x.is_finite() {
         return Err(format!(
             "the number {text} is outside the range of floating-point numbers"
