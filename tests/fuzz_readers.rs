@@ -202,7 +202,7 @@ enum Verdict {
 struct Reader {
     name: &'static str,
     seeds: Vec<Vec<u8>>,
-    read: Box<dyn Fn(&[u8]) -> Verdict>,
+    read: ReadFn,
     /// The command line that reads such a file (`{}` is the file), for the binary part.
     cli: &'static [&'static str],
     /// The file name's ending in the binary part (`.csv` selects the CSV reader).
@@ -210,7 +210,10 @@ struct Reader {
 }
 
 /// A reader of text: the bytes must be UTF-8 (located refusal otherwise).
-fn text(read: impl Fn(&str) -> Verdict + 'static) -> Box<dyn Fn(&[u8]) -> Verdict> {
+/// A reader of a file's bytes.
+type ReadFn = Box<dyn Fn(&[u8]) -> Verdict>;
+
+fn text(read: impl Fn(&str) -> Verdict + 'static) -> ReadFn {
     Box::new(move |b: &[u8]| match text_from_bytes(b.to_vec(), "in") {
         Err(e) => Verdict::Refused(e),
         Ok(s) => read(&s),

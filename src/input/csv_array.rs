@@ -156,8 +156,7 @@ fn long_form(source: &str, lines: &[&str], header: usize, opts: &ReadOptions) ->
             ));
         }
         let mut idx = [0usize; 3];
-        for a in 0..3 {
-            let (col, cell) = &r.cells[a];
+        for (a, (col, cell)) in r.cells[..3].iter().enumerate() {
             match cell.parse::<usize>() {
                 Ok(x) if x < MAX_DIM && cell.bytes().all(|b| b.is_ascii_digit()) => idx[a] = x,
                 _ => {

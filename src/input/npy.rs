@@ -357,7 +357,7 @@ pub fn parse_npy(bytes: &[u8], source: &str, opts: &ReadOptions) -> Result<Tenso
             u32::from_le_bytes([bytes[8], bytes[9], bytes[10], bytes[11]]) as usize,
             12,
         ),
-        (Some(1 | 2 | 3), _) => {
+        (Some(1..=3), _) => {
             return Err(err(
                 source,
                 format!("byte {}", bytes.len()),
