@@ -56,6 +56,26 @@ fn cell_columns(raw: &str) -> Vec<usize> {
 /// The records of one block of lines (starting at 1-based line `first`), split by the
 /// csv crate.
 fn records(source: &str, lines: &[&str], first: usize) -> Result<Vec<Record>> {
+    // a quote left open would swallow the rest of the block: refuse it at the quote
+    let mut open: Option<(usize, usize)> = None;
+    for (n, l) in lines.iter().enumerate() {
+        for (c, ch) in l.chars().enumerate() {
+            if ch == '"' {
+                open = match open {
+                    Some(_) => None,
+                    None => Some((n, c)),
+                };
+            }
+        }
+    }
+    if let Some((n, c)) = open {
+        return Err(err(
+            source,
+            first + n,
+            c + 1,
+            "invalid CSV: this quote is not closed",
+        ));
+    }
     let text = lines.join("\n");
     let mut rd = csv::ReaderBuilder::new()
         .has_headers(false)
@@ -361,8 +381,8 @@ mod tests {
                 "i,j,k,value\n0,4096,0,1\n",
                 "s:2:3: expected a 0-based index below 4096",
             ),
-            ("\n \n", "s:2:1: the input is empty"),
-            ("1,\"2\n", "s:1:1: invalid CSV"),
+            ("\n \n", "s:3:1: the input is empty"),
+            ("1,\"2\n", "s:1:3: invalid CSV: this quote is not closed"),
         ] {
             let e = parse_csv(text, "s", &o).unwrap_err().to_string();
             assert!(e.starts_with(want), "{text:?}: {e}");

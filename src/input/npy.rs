@@ -593,7 +593,7 @@ mod tests {
         .unwrap_err()
         .to_string();
         assert!(
-            e.starts_with("z: element [0, 0, 0] (byte 64): the floating-point number 0.1"),
+            e.starts_with("z: element [0, 0, 0] (byte 128): the floating-point number 0.1"),
             "{e}"
         );
         let e = parse_npy(&npy("<c16", false, [1, 1, 1], &[0; 16]), "z", &o).unwrap_err();

@@ -248,9 +248,9 @@ fn json_forms_and_errors() {
             "$.entries[0][3]: division by zero",
         ),
         (
-            "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,0.5]]}",
+            "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,0.1]]}",
             "j:1:52:",
-            "found the number 0.5",
+            "$.entries[0][3]: the floating-point number 0.1 is not exactly 1/10",
         ),
         (
             "{\"field\":\"GF(4)\",\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[]}",
