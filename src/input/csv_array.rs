@@ -18,7 +18,7 @@ use super::npy::kind_for;
 use super::numbers::text_value;
 use crate::error::{Error, Position, Result};
 use crate::scalar::{FieldSpec, Q};
-use crate::tensor::{MAX_DIM, Tensor, check_shape};
+use crate::tensor::{MAX_DIM, Tensor, check_nonzero, check_shape};
 use num_traits::Zero;
 use std::collections::HashMap;
 
@@ -219,6 +219,7 @@ fn long_form(source: &str, lines: &[&str], header: usize, opts: &ReadOptions) ->
             }
             Some(_) => {}
             None => {
+                check_nonzero(order.len() + 1).map_err(|m| err(source, r.line, *vcol, m))?;
                 entries.insert(idx, (v, r.line));
                 order.push(idx);
             }
@@ -269,7 +270,9 @@ fn slices(source: &str, lines: &[&str], opts: &ReadOptions) -> Result<Tensor> {
         blocks.push((s, lines.len()));
     }
     let mut shape: Option<(usize, usize)> = None;
-    let mut values: Vec<Vec<Vec<Q>>> = Vec::new();
+    // per slice, per row: the nonzero (column, value)
+    let mut values: Vec<Vec<Vec<(usize, Q)>>> = Vec::new();
+    let mut nonzero = 0usize;
     for &(s, e) in &blocks {
         let recs = records(source, &lines[s..e], s + 1)?;
         let mut rows = Vec::with_capacity(recs.len());
@@ -291,16 +294,21 @@ fn slices(source: &str, lines: &[&str], opts: &ReadOptions) -> Result<Tensor> {
                     ),
                 ));
             }
-            let row = r
-                .cells
-                .iter()
-                .map(|(col, cell)| cell_value(source, r.line, *col, cell, opts))
-                .collect::<Result<Vec<Q>>>()?;
+            // only the nonzero cells are kept, counted against the limit
+            let mut row = Vec::new();
+            for (j, (col, cell)) in r.cells.iter().enumerate() {
+                let v = cell_value(source, r.line, *col, cell, opts)?;
+                if !v.is_zero() {
+                    nonzero += 1;
+                    check_nonzero(nonzero).map_err(|m| err(source, r.line, *col, m))?;
+                    row.push((j, v));
+                }
+            }
             rows.push(row);
         }
         match shape {
             None => {
-                let sh = (rows.len(), rows[0].len());
+                let sh = (rows.len(), recs[0].cells.len());
                 if let Err(m) = check_shape([sh.0, sh.1, 1]) {
                     return Err(err(source, s + 1, 1, m));
                 }
@@ -335,15 +343,12 @@ fn slices(source: &str, lines: &[&str], opts: &ReadOptions) -> Result<Tensor> {
     let dims = [a, b, values.len()];
     let kind = kind_for(dims, opts).map_err(|m| err(source, 1, 1, m))?;
     let mut t = Tensor::zero(FieldSpec::Rational, kind, dims, None);
-    for i in 0..a {
-        for j in 0..b {
-            let row: Vec<(usize, Q)> = values
-                .iter()
-                .enumerate()
-                .filter(|(_, s)| !s[i][j].is_zero())
-                .map(|(k, s)| (k, s[i][j].clone()))
-                .collect();
-            t.set_product(i, j, row);
+    // slices in order: for each product (i, j), k increases (appends)
+    for (k, slice) in values.into_iter().enumerate() {
+        for (i, row) in slice.into_iter().enumerate() {
+            for (j, v) in row {
+                t.set(i, j, k, v);
+            }
         }
     }
     Ok(t)

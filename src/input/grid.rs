@@ -314,6 +314,7 @@ pub(super) fn parse_slice(
                 ijk[ra] = r;
                 ijk[ca] = c;
                 b.check_coefficient(&v, idx - 1, pos)?;
+                b.count_nonzero(1, idx - 1, pos)?;
                 values.push((ijk[0], ijk[1], ijk[2], v));
             }
         }

@@ -17,7 +17,7 @@ use super::numbers::{Rationalize, text_value};
 use super::table::Symmetry;
 use crate::error::{Error, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
-use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape, default_names};
+use crate::tensor::{Kind, MAX_DIM, Tensor, check_nonzero, check_shape, default_names};
 use std::collections::{HashMap, HashSet};
 
 /// A coefficient in a JSON form: a string in the table format's number syntax (an optional
@@ -296,6 +296,9 @@ pub fn parse_json_with(text: &str, source: &str, opts: &ReadOptions) -> Result<T
                 }
                 return Ok(());
             }
+            if !num_traits::Zero::is_zero(&val) {
+                check_nonzero(seen.len() + 1).map_err(|m| doc.error(e.at, &path, m))?;
+            }
             t.set(idx.0, idx.1, idx.2, val.clone());
             seen.insert(idx, (val, n, mirrored));
             Ok(())
@@ -480,6 +483,7 @@ pub fn parse_nested_list(text: &str, source: &str, opts: &ReadOptions) -> Result
     let kind = super::npy::kind_for(dims, opts).map_err(|m| doc.error(root.at, "$", m))?;
     let mut t = Tensor::zero(FieldSpec::Rational, kind, dims, None);
     let round = opts.rationalize.as_ref();
+    let mut nonzero = 0usize;
     for (i, a) in top.iter().enumerate() {
         let pa = format!("$[{i}]");
         let rows = json_list(&doc, a, &pa, what[1])?;
@@ -510,8 +514,11 @@ pub fn parse_nested_list(text: &str, source: &str, opts: &ReadOptions) -> Result
             }
             let mut row = Vec::new();
             for (k, c) in cells.iter().enumerate() {
-                let v = json_value(&doc, c, &format!("{pr}[{k}]"), round)?;
+                let path = format!("{pr}[{k}]");
+                let v = json_value(&doc, c, &path, round)?;
                 if !num_traits::Zero::is_zero(&v) {
+                    nonzero += 1;
+                    check_nonzero(nonzero).map_err(|m| doc.error(c.at, &path, m))?;
                     row.push((k, v));
                 }
             }

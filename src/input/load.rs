@@ -108,9 +108,36 @@ pub fn parse_bytes(bytes: Vec<u8>, source: &str, opts: &ReadOptions) -> Result<T
     if bytes.starts_with(NPY_MAGIC) {
         return parse_npy(&bytes, source, opts);
     }
-    let csv = Path::new(source)
-        .extension()
-        .is_some_and(|e| e.eq_ignore_ascii_case("csv"));
+    let named = |ext: &str| {
+        Path::new(source)
+            .extension()
+            .is_some_and(|e| e.eq_ignore_ascii_case(ext))
+    };
+    let refuse = |message: String| Error::Data {
+        file: source.to_string(),
+        at: "byte 0".into(),
+        message,
+    };
+    if bytes.starts_with(b"PK\x03\x04") || bytes.starts_with(b"PK\x05\x06") {
+        return Err(refuse(
+            "a zip archive (such as numpy's .npz) is not read: save the one 3-way array \
+             with np.save(\"t.npy\", array) and give that file"
+                .into(),
+        ));
+    }
+    if named("npy") {
+        let first: Vec<String> = bytes.iter().take(6).map(|b| format!("{b:02X}")).collect();
+        return Err(refuse(format!(
+            "not a .npy file: expected the bytes 93 4E 55 4D 50 59 (\\x93NUMPY) that open \
+             every file written by np.save, found {}",
+            if first.is_empty() {
+                "an empty file".to_string()
+            } else {
+                first.join(" ")
+            }
+        )));
+    }
+    let csv = named("csv");
     let text = text_from_bytes(bytes, source)?;
     if csv {
         parse_csv(&text, source, opts)

@@ -10,13 +10,14 @@
 //!
 //! Every refusal is located: a byte offset in the header (`byte 23`), or the index of an
 //! element (`element [2, 0, 1]`). The shape is checked against the limits before any value
-//! is read. Cost: linear in the file.
+//! is read, and the nonzero values are counted (at most [`crate::tensor::MAX_NONZERO`])
+//! before any is stored. Cost: linear in the file.
 
 use super::ReadOptions;
 use super::numbers::{f32_value, float_value};
 use crate::error::{Error, Result};
 use crate::scalar::{FieldSpec, Q};
-use crate::tensor::{Kind, Tensor, check_shape};
+use crate::tensor::{Kind, Tensor, check_nonzero, check_shape};
 use num_bigint::BigInt;
 
 /// The magic bytes that open every `.npy` file.
@@ -486,10 +487,8 @@ pub fn parse_npy(bytes: &[u8], source: &str, opts: &ReadOptions) -> Result<Tenso
             ),
         ));
     }
-    let mut t = Tensor::zero(FieldSpec::Rational, kind, dims, None);
-    // visit in an order where, for each product (i, j), k increases (appends)
-    for (pos, raw) in data.chunks_exact(size).enumerate() {
-        let (i, j, k) = if fortran {
+    let index = |pos: usize| {
+        if fortran {
             (
                 pos % dims[0],
                 (pos / dims[0]) % dims[1],
@@ -501,17 +500,39 @@ pub fn parse_npy(bytes: &[u8], source: &str, opts: &ReadOptions) -> Result<Tenso
                 (pos / dims[2]) % dims[1],
                 pos % dims[2],
             )
-        };
+        }
+    };
+    let at = |pos: usize| {
+        let (i, j, k) = index(pos);
+        format!("element [{i}, {j}, {k}] (byte {})", end + pos * size)
+    };
+    // count the nonzero values before storing any (a float's sign bit alone is -0.0)
+    let sign_byte = if big { 0 } else { size - 1 };
+    let mut nonzero = 0usize;
+    for (pos, raw) in data.chunks_exact(size).enumerate() {
+        let zero = raw.iter().enumerate().all(|(b, &x)| {
+            let x = if matches!(elem, Elem::Float(_)) && b == sign_byte {
+                x & 0x7f
+            } else {
+                x
+            };
+            x == 0
+        });
+        if !zero {
+            nonzero += 1;
+            check_nonzero(nonzero).map_err(|m| err(source, at(pos), m))?;
+        }
+    }
+    let mut t = Tensor::zero(FieldSpec::Rational, kind, dims, None);
+    // visit in an order where, for each product (i, j), k increases (appends)
+    for (pos, raw) in data.chunks_exact(size).enumerate() {
         match element(raw, elem, big, opts) {
             Ok(None) => {}
-            Ok(Some(v)) => t.set(i, j, k, v),
-            Err(m) => {
-                return Err(err(
-                    source,
-                    format!("element [{i}, {j}, {k}] (byte {})", end + pos * size),
-                    m,
-                ));
+            Ok(Some(v)) => {
+                let (i, j, k) = index(pos);
+                t.set(i, j, k, v)
             }
+            Err(m) => return Err(err(source, at(pos), m)),
         }
     }
     Ok(t)
@@ -605,5 +626,31 @@ mod tests {
         assert!(e.to_string().contains("needs 8"), "{e}");
         assert_eq!(f16_to_f32(0x3800), 0.5);
         assert_eq!(f16_to_f32(0xc000), -2.0);
+    }
+}
+
+#[cfg(test)]
+mod limit_tests {
+    use super::tests::npy;
+    use super::*;
+
+    /// More than 2^22 nonzero values are refused at the first one beyond the limit, before
+    /// any is stored; zeros and -0.0 do not count.
+    #[test]
+    fn nonzero_limit_is_checked_before_storing() {
+        let o = ReadOptions::default();
+        let shape = [2048, 2048, 2];
+        let e = parse_npy(&npy("|i1", false, shape, &vec![1u8; 1 << 23]), "z", &o)
+            .unwrap_err()
+            .to_string();
+        assert!(e.starts_with("z: element [1024, 0, 0] (byte "), "{e}");
+        assert!(e.contains("more than 2^22 = 4194304 nonzero"), "{e}");
+        // 2^23 values -0.0 (float16, sign bit only) but three 1.0: three nonzero values
+        let mut data = [0x00, 0x80].repeat(1 << 23);
+        for n in [0, 5, (1 << 23) - 1] {
+            data[2 * n + 1] = 0x3c;
+        }
+        let t = parse_npy(&npy("<f2", false, shape, &data), "z", &o).unwrap();
+        assert_eq!(t.nnz(), 3);
     }
 }

@@ -126,8 +126,25 @@ fn inexact_message(said: &str, value: &Q, exact: &Q) -> String {
          give exact values (integers, fractions such as \"1/10\" in a string), or round \
          every such float to the simplest fraction within a tolerance with \
          --rationalize TOLERANCE,MAX_DENOMINATOR (e.g. --rationalize 1e-9,1000)",
-        q_to_string(value),
-        q_to_string(exact)
+        clip_q(value),
+        clip_q(exact)
+    )
+}
+
+/// A rational for a message: in full when short, else its first and last digits with
+/// the number of digits of its numerator and denominator.
+fn clip_q(v: &Q) -> String {
+    let full = q_to_string(v);
+    if full.len() <= 60 {
+        return full;
+    }
+    let digits = |x: &BigInt| x.magnitude().to_string().len();
+    format!(
+        "{}...{} (a fraction of {} over {} digits)",
+        &full[..20],
+        &full[full.len() - 10..],
+        digits(v.numer()),
+        digits(v.denom())
     )
 }
 
@@ -237,8 +254,8 @@ fn rounded(said: &str, x: &Q, r: &Rationalize) -> Result<Q, String> {
             "--rationalize: no fraction with denominator at most {} lies within {} of {said} \
              (the simplest is {})",
             r.max_denominator,
-            q_to_string(&r.tolerance),
-            q_to_string(&s)
+            clip_q(&r.tolerance),
+            clip_q(&s)
         ))
     }
 }
@@ -294,6 +311,14 @@ mod tests {
         assert_eq!(text_value(big, None).unwrap().numer().to_string(), big);
         assert!(text_value("0.1", None).unwrap_err().contains("not exactly"));
         assert!(text_value("1e999", None).is_err());
+        // long fractions are shortened in messages (1e-400 is 0 as a float, 5e-324 is
+        // 1/2^1074)
+        for e in [
+            text_value("1e-400", None).unwrap_err(),
+            float_value(5e-324, None).unwrap_err(),
+        ] {
+            assert!(e.len() < 500 && e.contains(" digits)"), "{e}");
+        }
     }
 
     #[test]

@@ -228,6 +228,7 @@ impl Builder<'_> {
             }
             return Ok(());
         }
+        self.count_nonzero(v.len(), p.line, p.byte)?;
         let Some(built) = self.built.as_mut() else {
             return Ok(());
         };

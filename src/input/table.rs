@@ -66,6 +66,8 @@ pub(super) struct Builder<'a> {
     pub symmetry: Option<(Symmetry, usize)>,
     /// The slices of a map given by `slice` blocks.
     pub slices: Option<SliceEntries>,
+    /// Nonzero coefficients stored so far (at most [`crate::tensor::MAX_NONZERO`]).
+    pub nonzero: usize,
 }
 
 /// A declared symmetry of the product.
@@ -172,6 +174,13 @@ impl<'a> Builder<'a> {
     }
 
     /// Refuse a coefficient that has no value in the declared field GF(p).
+    /// Count `n` more nonzero coefficients (given at a line and byte), refusing the input
+    /// beyond [`crate::tensor::MAX_NONZERO`] before they are stored.
+    pub(super) fn count_nonzero(&mut self, n: usize, line: usize, byte: usize) -> Result<()> {
+        self.nonzero = self.nonzero.saturating_add(n);
+        crate::tensor::check_nonzero(self.nonzero).map_err(|m| self.err(line, byte, m))
+    }
+
     pub(super) fn check_coefficient(&self, v: &Q, line: usize, byte: usize) -> Result<()> {
         if let Some((FieldSpec::Prime(p), _)) = self.field
             && (v.denom() % p).is_zero()
@@ -259,6 +268,7 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
         statements: 0,
         symmetry: None,
         slices: None,
+        nonzero: 0,
     };
     let mut idx = 0;
     while idx < b.lines.len() {
