@@ -143,6 +143,49 @@ fn a_map_is_a_map() {
     );
 }
 
+/// A dense map too large for a quick report: the cheap sections come first, the costly
+/// invariants are skipped, each named with its estimate, and the report says how to ask
+/// for them with this input's name (a part named by `--invariants` runs whatever its cost).
+#[test]
+fn large_map_skips_costly_invariants_and_says_how_to_ask() {
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(40);
+    let slices: Vec<String> = (0..40)
+        .map(|_| {
+            let rows: Vec<String> = (0..40)
+                .map(|_| {
+                    let row: Vec<String> =
+                        (0..10).map(|_| rng.gen_range(-5..=5).to_string()).collect();
+                    format!("[{}]", row.join(","))
+                })
+                .collect();
+            format!("[{}]", rows.join(","))
+        })
+        .collect();
+    let f = scratch("dense40.json", &format!("[{}]\n", slices.join(",\n")));
+    let (code, out, err) = run(&["analyze", &f, "--no-bounds"]);
+    assert_eq!(code, 0, "{err}");
+    let ranks = out.find("== Ranks").unwrap();
+    let inv = out.find("== Invariants").unwrap();
+    assert!(ranks < inv, "{out}");
+    for part in ["centroid-triples", "derivation-triples", "adjoint-pairs"] {
+        assert!(
+            out.contains(&format!("{part}: skipped: its linear system has")),
+            "{out}"
+        );
+    }
+    assert!(out.contains("left radical {u : T(u,V) = 0}: dim 0"), "{out}");
+    assert!(
+        out.contains(&format!(
+            "run `bilin invariants {f} --only centroid-triples,derivation-triples,adjoint-pairs`"
+        )),
+        "{out}"
+    );
+    let (code, out, err) = run(&["analyze", &f, "--no-bounds", "--invariants", "radicals"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("right radical {v : T(U,v) = 0}: dim 0"), "{out}");
+    assert!(!out.contains("skipped"), "{out}");
+}
+
 /// Brackets, declarations and their contradictions, located.
 #[test]
 fn brackets_and_symmetries() {

@@ -251,7 +251,7 @@ pub fn analyze_streaming(
         report.extra.push(sec);
     }
     if let Some(ip) = &params.invariants {
-        let sec = sections::invariants_section(t, ip, progress)?;
+        let sec = sections::invariants_section(t, source, ip, progress)?;
         emit(Piece::Section(&sec));
         report.extra.push(sec);
     }

@@ -13,6 +13,7 @@ use crate::tensor::Tensor;
 /// otherwise) as a report section. Cost: that of [`invariants_report`].
 pub fn invariants_section(
     t: &Tensor,
+    source: &str,
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
 ) -> Result<Section> {
@@ -22,9 +23,18 @@ pub fn invariants_section(
     if !r.skipped.is_empty() {
         let names: Vec<&str> = r.skipped.iter().map(|s| s.part.as_str()).collect();
         lines.push(String::new());
+        let input = if source
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || "._-/:,+=@".contains(c))
+        {
+            source.to_string()
+        } else {
+            format!("'{}'", source.replace('\'', "'\\''"))
+        };
         lines.push(format!(
-            "skipped parts are computed when asked for by name, whatever their cost: \
-             `bilin analyze INPUT --invariants {0}` or `bilin invariants INPUT --only {0}`",
+            "skipped parts are computed when asked for by name, whatever their cost: add \
+             `--invariants {0}` to this command, or run `bilin invariants {input} --only {0}` \
+             (with the same input options)",
             names.join(",")
         ));
     }
