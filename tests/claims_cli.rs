@@ -173,7 +173,10 @@ fn large_map_skips_costly_invariants_and_says_how_to_ask() {
             "{out}"
         );
     }
-    assert!(out.contains("left radical {u : T(u,V) = 0}: dim 0"), "{out}");
+    assert!(
+        out.contains("left radical {u : T(u,V) = 0}: dim 0"),
+        "{out}"
+    );
     assert!(
         out.contains(&format!(
             "run `bilin invariants {f} --only centroid-triples,derivation-triples,adjoint-pairs`"
@@ -182,7 +185,10 @@ fn large_map_skips_costly_invariants_and_says_how_to_ask() {
     );
     let (code, out, err) = run(&["analyze", &f, "--no-bounds", "--invariants", "radicals"]);
     assert_eq!(code, 0, "{err}");
-    assert!(out.contains("right radical {v : T(U,v) = 0}: dim 0"), "{out}");
+    assert!(
+        out.contains("right radical {v : T(U,v) = 0}: dim 0"),
+        "{out}"
+    );
     assert!(!out.contains("skipped"), "{out}");
 }
 

@@ -409,7 +409,9 @@ fn archives_and_misnamed_arrays() {
         "{e}"
     );
     assert!(e.ends_with("found 62 61 73 69 73 20"), "{e}");
-    let e = parse_bytes(Vec::new(), "t.npy", &o).unwrap_err().to_string();
+    let e = parse_bytes(Vec::new(), "t.npy", &o)
+        .unwrap_err()
+        .to_string();
     assert!(e.ends_with("found an empty file"), "{e}");
     assert!(parse_bytes(b"basis e\ne*e = e\n".to_vec(), "t.txt", &o).is_ok());
 }

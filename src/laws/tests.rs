@@ -359,7 +359,11 @@ fn random_anticommutative(n: usize, density: f64, field: FieldSpec, seed: u64) -
     for i in 0..n {
         for j in 0..n {
             for k in 0..n {
-                let d = if i == j { q(0, 1) } else { &t.get(i, j, k) - &t.get(j, i, k) };
+                let d = if i == j {
+                    q(0, 1)
+                } else {
+                    &t.get(i, j, k) - &t.get(j, i, k)
+                };
                 a.set(i, j, k, d);
             }
         }
