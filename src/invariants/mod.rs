@@ -11,7 +11,8 @@
 //! - [`maps`]: centroid, derivations, inner derivations, adjoint algebra;
 //! - [`radical`]: radical of an associative algebra over Q (trace form), semisimple quotient;
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
-//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map.
+//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map;
+//! - [`structure`]: solvable, nilpotent (with class) and semisimple, with witnesses.
 
 pub mod all;
 pub mod bilinear;
@@ -25,6 +26,7 @@ pub mod maps;
 mod properties;
 pub mod radical;
 pub mod spans;
+pub mod structure;
 #[cfg(test)]
 pub(crate) mod testing;
 

@@ -264,14 +264,17 @@ pub fn decide(images: &mut Images, c: Component, stop_first: bool, max_work: f64
         return out;
     }
     let pairs = images.dense && uses_pairs(c) && pair_table_words(n) <= MAX_PAIR_WORDS;
+    let row = if images.dense {
+        n as f64
+    } else {
+        (images.it.nnz() as f64 / (n * n).max(1) as f64).max(1.0)
+    };
     let per_product = if images.dense {
         (n * n) as f64
     } else {
-        let rows = (n * n).max(1) as f64;
-        let avg = images.it.nnz() as f64 / rows;
-        (avg * avg).max(1.0)
+        row * row
     };
-    let per_instance = plans::products_per_instance(c) * if pairs { 1.0 } else { per_product };
+    let per_instance = plans::products_per_instance(c, row) * if pairs { 1.0 } else { per_product };
     let work = total as f64 * per_instance + if pairs { (n as f64).powi(5) / 2.0 } else { 0.0 };
     if work > max_work || total > 1 << 34 {
         out.skipped = Some(format!(

@@ -231,29 +231,6 @@ pub fn q_to_f64(a: &Q) -> f64 {
     a.to_f64().unwrap_or(f64::NAN)
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn parses_forms() {
-        assert_eq!(parse_rational("-1/3").unwrap(), q(-1, 3));
-        assert_eq!(parse_rational("0.25").unwrap(), q(1, 4));
-        assert_eq!(parse_rational("2e2").unwrap(), q(200, 1));
-        assert!(parse_rational("1/0").is_err());
-        assert!(parse_rational("x").is_err());
-        assert!(parse_rational("").is_err());
-    }
-
-    #[test]
-    fn reconstructs() {
-        let m = BigInt::from(1_000_000_007u64);
-        // -22/7 mod m
-        let inv7 = BigInt::from(7).modpow(&(&m - 2), &m);
-        let a = (BigInt::from(-22) * inv7).mod_floor(&m);
-        assert_eq!(rational_reconstruct(&a, &m), Some(q(-22, 7)));
-    }
-}
 
 /// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
@@ -305,6 +282,30 @@ pub fn crt(residues: &[u64], primes: &[u64]) -> BigInt {
     }
     let [x] = x;
     x
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn parses_forms() {
+        assert_eq!(parse_rational("-1/3").unwrap(), q(-1, 3));
+        assert_eq!(parse_rational("0.25").unwrap(), q(1, 4));
+        assert_eq!(parse_rational("2e2").unwrap(), q(200, 1));
+        assert!(parse_rational("1/0").is_err());
+        assert!(parse_rational("x").is_err());
+        assert!(parse_rational("").is_err());
+    }
+
+    #[test]
+    fn reconstructs() {
+        let m = BigInt::from(1_000_000_007u64);
+        // -22/7 mod m
+        let inv7 = BigInt::from(7).modpow(&(&m - 2), &m);
+        let a = (BigInt::from(-22) * inv7).mod_floor(&m);
+        assert_eq!(rational_reconstruct(&a, &m), Some(q(-22, 7)));
+    }
 }
 
 #[cfg(test)]
