@@ -149,9 +149,9 @@ fn a_map_is_a_map() {
 #[test]
 fn large_map_skips_costly_invariants_and_says_how_to_ask() {
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(40);
-    let slices: Vec<String> = (0..40)
+    let slices: Vec<String> = (0..50)
         .map(|_| {
-            let rows: Vec<String> = (0..40)
+            let rows: Vec<String> = (0..50)
                 .map(|_| {
                     let row: Vec<String> =
                         (0..10).map(|_| rng.gen_range(-5..=5).to_string()).collect();
@@ -161,7 +161,7 @@ fn large_map_skips_costly_invariants_and_says_how_to_ask() {
             format!("[{}]", rows.join(","))
         })
         .collect();
-    let f = scratch("dense40.json", &format!("[{}]\n", slices.join(",\n")));
+    let f = scratch("dense50.json", &format!("[{}]\n", slices.join(",\n")));
     let (code, out, err) = run(&["analyze", &f, "--no-bounds"]);
     assert_eq!(code, 0, "{err}");
     let ranks = out.find("== Ranks").unwrap();
