@@ -121,7 +121,7 @@ fn thread_cpu_seconds() -> Option<f64> {
 fn throughput() {
     let t = matmul(4, 4, 4);
     let s = BitScheme::standard(&t).expect("bits");
-    let mut w = Walker::new(&s, 1);
+    let mut w = Walker::<1>::new(&s, 1);
     let t0 = Instant::now();
     let c0 = thread_cpu_seconds();
     let mut moves = 0u64;
