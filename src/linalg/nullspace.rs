@@ -33,7 +33,8 @@ use super::modular::kernel_primes;
 use super::sparse_echelon::SparseEchelon;
 use super::system::{RowBuf, RowSource, materialize};
 use crate::error::{Error, Result};
-use crate::scalar::{Q, rational_reconstruct};
+use crate::scalar::crt_combine;
+use crate::scalar::{Q, Reconstructor};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, ToPrimitive, Zero};
@@ -46,7 +47,8 @@ use rayon::prelude::*;
 pub struct SolveParams {
     /// Seed of the equation order.
     pub seed: u64,
-    /// Most primes used for lifting.
+    /// Most primes used for lifting (at most [`MAX_KERNEL_PRIMES`]); a component also stops
+    /// once the product of its primes exceeds the Hadamard bound of its solutions.
     pub max_primes: usize,
     /// Bytes the elimination of one component may use.
     pub max_memory: usize,
@@ -56,7 +58,7 @@ impl Default for SolveParams {
     fn default() -> Self {
         SolveParams {
             seed: 0x5eed,
-            max_primes: 64,
+            max_primes: MAX_KERNEL_PRIMES,
             max_memory: default_memory_limit(),
         }
     }
@@ -129,7 +131,7 @@ pub fn solve_nullspace(src: &dyn RowSource, params: &SolveParams) -> Result<Spac
                 "linear systems over GF({q}) need a prime below 2^28"
             )));
         }
-        None => cached_primes()[..params.max_primes.clamp(2, 128)].to_vec(),
+        None => primes_prefix(params.max_primes.max(2)).to_vec(),
     };
     let mut basis = Vec::new();
     if !src.prefers_streaming() && src.estimated_terms() <= MATERIALIZE_TERMS {
@@ -176,6 +178,19 @@ pub fn solve_nullspace(src: &dyn RowSource, params: &SolveParams) -> Result<Spac
     }
     basis.sort_by_key(|v: &SparseQ| v.first().map(|e| e.0));
     Ok(Space { unknowns: n, basis })
+}
+
+/// The number of unknowns of the largest connected component of a system (unknowns
+/// joined by the equations they share), from its pattern modulo the first prime.
+/// Cost: writing the system out once (its terms) and a union-find.
+pub fn largest_component(src: &dyn RowSource) -> usize {
+    let p = src.modulus().unwrap_or(cached_primes()[0]);
+    let rows = materialize(src, p);
+    components(&rows, src.unknowns())
+        .iter()
+        .map(|c| c.unknowns.len())
+        .max()
+        .unwrap_or(0)
 }
 
 /// The exact rank of a system's matrix, `unknowns - nullity`. Fast path: the rank modulo
@@ -239,6 +254,32 @@ pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
 pub fn cached_primes() -> &'static [u64] {
     static PRIMES: std::sync::OnceLock<Vec<u64>> = std::sync::OnceLock::new();
     PRIMES.get_or_init(|| kernel_primes(192))
+}
+
+/// Most kernel primes the engine uses: their product has about 229,000 bits, enough for
+/// the solutions of any system it can eliminate in memory.
+pub const MAX_KERNEL_PRIMES: usize = 8192;
+
+/// The first `count` kernel primes (at most [`MAX_KERNEL_PRIMES`]), the same sequence as
+/// [`cached_primes`]; the longer list is computed once, only when asked for.
+pub fn primes_prefix(count: usize) -> &'static [u64] {
+    let first = cached_primes();
+    if count <= first.len() {
+        return &first[..count];
+    }
+    static MANY: std::sync::OnceLock<Vec<u64>> = std::sync::OnceLock::new();
+    let many = MANY.get_or_init(|| kernel_primes(MAX_KERNEL_PRIMES));
+    &many[..count.min(many.len())]
+}
+
+/// Bits a modulus needs so that rational reconstruction recovers every reduced solution
+/// vector of a system of rank at most `rank`, with integer coefficients of at most
+/// `term_bits` bits and at most `terms` terms per equation: by Cramer's rule each entry is
+/// a ratio of two minors of size at most `rank`, each below `(sqrt(terms) 2^term_bits)^rank`
+/// (Hadamard's inequality), and reconstruction needs a modulus above `2 N D`.
+pub fn hadamard_bits(rank: usize, term_bits: u64, terms: usize) -> u64 {
+    let row = term_bits as f64 + (terms.max(1) as f64).log2() / 2.0;
+    (2.0 * rank as f64 * row).ceil() as u64 + 2
 }
 
 /// A connected component: its unknowns (global ids, ascending) and its rows (ids in the
@@ -305,16 +346,34 @@ struct Solver<'a> {
 }
 
 impl Solver<'_> {
-    /// The written-out system modulo p (the first prime, or a cached further one).
-    fn rows_mod(&self, p: u64) -> &RowBuf {
+    /// The written-out system modulo p: the first prime, a cached further one, or (past
+    /// the cached primes) written out for this call only.
+    fn rows_mod(&self, p: u64) -> Rows<'_> {
         if p == self.first.p {
-            return self.first;
+            return Rows::Shared(self.first);
         }
-        let i = cached_primes()
-            .iter()
-            .position(|&q| q == p)
-            .expect("a kernel prime");
-        self.others[i].get_or_init(|| materialize(self.src, p))
+        match cached_primes().iter().position(|&q| q == p) {
+            Some(i) if i < self.others.len() => {
+                Rows::Shared(self.others[i].get_or_init(|| materialize(self.src, p)))
+            }
+            _ => Rows::Own(materialize(self.src, p)),
+        }
+    }
+}
+
+/// A written-out system, shared from the cache or owned by the caller.
+enum Rows<'a> {
+    Shared(&'a RowBuf),
+    Own(RowBuf),
+}
+
+impl std::ops::Deref for Rows<'_> {
+    type Target = RowBuf;
+    fn deref(&self) -> &RowBuf {
+        match self {
+            Rows::Shared(r) => r,
+            Rows::Own(r) => r,
+        }
     }
 }
 
@@ -410,7 +469,7 @@ impl Solver<'_> {
         }
         let dense_bytes = 4 * m * m;
         if dense_bytes > self.params.max_memory {
-            return Err(Error::Invalid(format!(
+            return Err(Error::TooLarge(format!(
                 "a linear system with {m} connected unknowns needs about {} of memory for \
                  its elimination, above the limit of {} (raise it with --max-memory)",
                 human_bytes(dense_bytes),
@@ -590,7 +649,7 @@ impl Ctx<'_, '_> {
         for &p in &primes[1..] {
             let rows_p = (!self.c.streamed).then(|| self.s.rows_mod(p));
             let mut e = Elim::new(p, m, short);
-            self.feed(p, rows_p, &order, |group| {
+            self.feed(p, rows_p.as_deref(), &order, |group| {
                 e.add(group);
                 e.rank() < m
             });
@@ -614,12 +673,18 @@ impl Ctx<'_, '_> {
             } else {
                 continue;
             }
-            if combined >= next_try || combined == 1 {
+            // past this size of modulus the right pivots would have reconstructed
+            let cap = hadamard_bits(best_rank, self.s.src.term_bits(), m) + 64;
+            let past_cap = modulus.bits() > cap;
+            if combined >= next_try || combined == 1 || past_cap {
                 next_try = combined * 2;
                 if let Some(b) = reconstruct(&residues, &modulus, &best_pivots, &free)
                     && self.check(&b)?
                 {
                     return Ok(b);
+                }
+                if past_cap {
+                    break;
                 }
             }
         }
@@ -638,57 +703,89 @@ impl Ctx<'_, '_> {
     /// Exact check of candidate vectors (local coordinates) against every equation of the
     /// component (see the module documentation).
     fn check(&self, basis: &[SparseQ]) -> Result<bool> {
-        if basis.is_empty() {
-            return Ok(true);
+        if self.c.streamed {
+            return check_solutions(self.s.src, basis);
         }
-        // integer vectors
-        let ints: Vec<Vec<(u32, BigInt)>> = basis
-            .iter()
-            .map(|v| {
-                let l = v
-                    .iter()
-                    .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
-                v.iter()
-                    .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
-                    .collect()
-            })
-            .collect();
-        let xbits = ints
-            .iter()
-            .flatten()
-            .map(|(_, x)| x.bits())
-            .max()
-            .unwrap_or(0);
-        let (check_primes, exact_field) = match self.s.src.modulus() {
-            Some(q) => (vec![q], true),
-            None => (cached_primes().to_vec(), false),
+        let rows_ok = |p: u64, xs: &[Vec<u64>]| {
+            let rows = self.s.rows_mod(p);
+            let ok = self.c.rows.par_iter().all(|&r| {
+                let (cols, vals) = rows.row(r as usize);
+                residual_zero(cols, vals, xs, p, |c| self.local[&c] as usize)
+            });
+            (ok, rows.max_terms)
         };
-        let mut needed = 1usize;
-        let mut k = 0;
-        while k < needed {
-            let p = check_primes
-                .get(k)
-                .copied()
-                .ok_or_else(|| Error::Invalid("the exact check needs too many primes".into()))?;
-            let (ok, max_terms) = self.check_mod(&ints, p);
-            if !ok {
-                return Ok(false);
-            }
-            if k == 0 && !exact_field {
-                let bits = (max_terms.max(1) as f64).log2().ceil() as u64
-                    + self.s.src.term_bits()
-                    + xbits
-                    + 2;
-                needed = (bits as f64 / 27.99).ceil() as usize;
-            }
-            k += 1;
-        }
-        Ok(true)
+        exact_check(
+            self.s.src.modulus(),
+            self.s.src.term_bits(),
+            self.m(),
+            basis,
+            rows_ok,
+        )
     }
+}
 
-    /// All residuals modulo p vanish; also the largest number of terms of a row.
-    fn check_mod(&self, ints: &[Vec<(u32, BigInt)>], p: u64) -> (bool, usize) {
-        let m = self.m();
+/// Whether the residual of one equation vanishes modulo p for every vector of `xs`
+/// (dense residue vectors; `loc` maps a column to its coordinate).
+fn residual_zero(
+    cols: &[u32],
+    vals: &[u32],
+    xs: &[Vec<u64>],
+    p: u64,
+    loc: impl Fn(u32) -> usize,
+) -> bool {
+    xs.iter().all(|x| {
+        let mut acc: u128 = 0;
+        for (&c, &v) in cols.iter().zip(vals) {
+            acc += v as u128 * x[loc(c)] as u128;
+        }
+        acc.is_multiple_of(p as u128)
+    })
+}
+
+/// The exact check of candidate vectors in coordinates `0..m` (see the module
+/// documentation): `residuals(p, xs)` says whether every equation vanishes modulo p on the
+/// vectors reduced mod p, and gives the largest number of terms of an equation.
+fn exact_check(
+    modulus: Option<u64>,
+    term_bits: u64,
+    m: usize,
+    basis: &[SparseQ],
+    residuals: impl Fn(u64, &[Vec<u64>]) -> (bool, usize),
+) -> Result<bool> {
+    if basis.is_empty() {
+        return Ok(true);
+    }
+    // integer vectors
+    let ints: Vec<Vec<(u32, BigInt)>> = basis
+        .iter()
+        .map(|v| {
+            let l = v
+                .iter()
+                .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
+            v.iter()
+                .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
+                .collect()
+        })
+        .collect();
+    let xbits = ints
+        .iter()
+        .flatten()
+        .map(|(_, x)| x.bits())
+        .max()
+        .unwrap_or(0);
+    let exact_field = modulus.is_some();
+    let mut needed = 1usize;
+    let mut k = 0;
+    while k < needed {
+        let p = match modulus {
+            Some(q) => q,
+            None => primes_prefix(k + 1).get(k).copied().ok_or_else(|| {
+                Error::Invalid(format!(
+                    "the exact check of a solution with {xbits}-bit entries needs more than \
+                     {MAX_KERNEL_PRIMES} primes"
+                ))
+            })?,
+        };
         let pb = BigInt::from(p);
         let xs: Vec<Vec<u64>> = ints
             .iter()
@@ -703,70 +800,63 @@ impl Ctx<'_, '_> {
                 d
             })
             .collect();
-        let residual_zero = |cols: &[u32], vals: &[u32], loc: &dyn Fn(u32) -> usize| {
-            xs.iter().all(|x| {
-                let mut acc: u128 = 0;
-                for (&c, &v) in cols.iter().zip(vals) {
-                    acc += v as u128 * x[loc(c)] as u128;
-                }
-                acc.is_multiple_of(p as u128)
-            })
-        };
-        if self.c.streamed {
-            let blocks = self.s.src.blocks();
-            let ok = (0..blocks).into_par_iter().try_fold(
-                || (RowBuf::new(p), 0usize),
-                |(mut b, mt), blk| {
+        let (ok, max_terms) = residuals(p, &xs);
+        if !ok {
+            return Ok(false);
+        }
+        if k == 0 && !exact_field {
+            let bits = (max_terms.max(1) as f64).log2().ceil() as u64 + term_bits + xbits + 2;
+            needed = (bits as f64 / 27.99).ceil() as usize;
+        }
+        k += 1;
+    }
+    Ok(true)
+}
+
+/// Check exactly that vectors (in the system's own coordinates) solve **every** equation
+/// of a system, produced block by block (see the module documentation for the bound).
+/// Cost: per prime used, one pass over all blocks, O(terms x vectors).
+pub fn check_solutions(src: &dyn RowSource, basis: &[SparseQ]) -> Result<bool> {
+    let residuals = |p: u64, xs: &[Vec<u64>]| {
+        let res: std::result::Result<Vec<usize>, ()> = (0..src.blocks())
+            .into_par_iter()
+            .map_init(
+                || RowBuf::new(p),
+                |b, blk| {
                     b.clear();
-                    self.s.src.block(blk, p, &mut b);
+                    src.block(blk, p, b);
                     for r in 0..b.rows() {
                         let (cols, vals) = b.row(r);
-                        if !residual_zero(cols, vals, &|c| c as usize) {
+                        if !residual_zero(cols, vals, xs, p, |c| c as usize) {
                             return Err(());
                         }
                     }
-                    let mt = mt.max(b.max_terms);
-                    Ok((b, mt))
+                    Ok(b.max_terms)
                 },
-            );
-            let res: std::result::Result<Vec<(RowBuf, usize)>, ()> = ok.collect();
-            return match res {
-                Ok(v) => (true, v.iter().map(|x| x.1).max().unwrap_or(0)),
-                Err(()) => (false, 0),
-            };
+            )
+            .collect();
+        match res {
+            Ok(v) => (true, v.into_iter().max().unwrap_or(0)),
+            Err(()) => (false, 0),
         }
-        let rows = self.s.rows_mod(p);
-        let ok = self.c.rows.par_iter().all(|&r| {
-            let (cols, vals) = rows.row(r as usize);
-            residual_zero(cols, vals, &|c| self.local[&c] as usize)
-        });
-        (ok, rows.max_terms)
-    }
+    };
+    exact_check(
+        src.modulus(),
+        src.term_bits(),
+        src.unknowns(),
+        basis,
+        residuals,
+    )
 }
 
 /// A byte count for messages (`1.5 GiB`, `300 MiB`).
 pub fn human_bytes(b: usize) -> String {
-    let gib = b as f64 / (1u64 << 30) as f64;
-    if gib >= 1.0 {
-        format!("{gib:.1} GiB")
-    } else {
-        format!("{:.0} MiB", b as f64 / (1u64 << 20) as f64)
-    }
-}
-
-/// x = a (mod m), x = b (mod p) -> x mod m p, entrywise.
-fn crt_combine(res: &mut [BigInt], m: &BigInt, img: &[u64], p: u64) {
-    let m_mod_p = (m % p).to_u64().expect("small");
-    let minv = BigInt::from(m_mod_p)
-        .extended_gcd(&BigInt::from(p))
-        .x
-        .mod_floor(&BigInt::from(p))
-        .to_u64()
-        .expect("small") as u128;
-    for (a, &b) in res.iter_mut().zip(img) {
-        let a_mod_p = (&*a % p).to_u64().expect("small");
-        let t = ((b + p - a_mod_p) % p) as u128 * minv % p as u128;
-        *a += m * BigInt::from(t as u64);
+    let x = b as f64;
+    match b {
+        0..1024 => format!("{b} bytes"),
+        1024..1_048_576 => format!("{:.0} KiB", x / 1024.0),
+        1_048_576..1_073_741_824 => format!("{:.0} MiB", x / 1_048_576.0),
+        _ => format!("{:.1} GiB", x / 1_073_741_824.0),
     }
 }
 
@@ -807,16 +897,19 @@ fn reconstruct(
     free: &[usize],
 ) -> Option<Vec<SparseQ>> {
     let nf = free.len();
+    let rec = Reconstructor::new(modulus);
     let mut out = Vec::with_capacity(nf);
     for (k, &f) in free.iter().enumerate() {
+        let at: Vec<(usize, &BigInt)> = pivots
+            .iter()
+            .enumerate()
+            .map(|(r, &pc)| (pc, &res[r * nf + k]))
+            .filter(|(_, x)| !x.is_zero())
+            .collect();
+        let xs: Vec<BigInt> = at.iter().map(|(_, x)| (*x).clone()).collect();
+        let qs = rec.reconstruct_many(&xs)?;
         let mut v: SparseQ = vec![(f as u32, Q::one())];
-        for (r, &pc) in pivots.iter().enumerate() {
-            let x = &res[r * nf + k];
-            if !x.is_zero() {
-                let q = rational_reconstruct(x, modulus)?;
-                v.push((pc as u32, -q));
-            }
-        }
+        v.extend(at.iter().zip(qs).map(|((pc, _), q)| (*pc as u32, -q)));
         v.sort_by_key(|e| e.0);
         out.push(v);
     }
