@@ -180,8 +180,8 @@ impl<const W: usize> CyclicWalker<W> {
             let s1 = sigma(o, s.n);
             let s2 = sigma(&s1, s.n);
             for t in [o, &s1, &s2] {
-                for a in 0..3 {
-                    self.f[a].push(widen(&t[a]));
+                for (fa, ta) in self.f.iter_mut().zip(t) {
+                    fa.push(widen(ta));
                 }
             }
         }

@@ -73,13 +73,13 @@ impl Ring {
     fn sub(&self, a: u64, b: u64) -> u64 {
         if a >= b { a - b } else { a + (self.m - b) }
     }
-    fn from_int(&self, n: &BigInt) -> u64 {
+    fn of_int(&self, n: &BigInt) -> u64 {
         n.mod_floor(&BigInt::from(self.m)).to_u64().unwrap_or(0)
     }
     /// A rational whose denominator is prime to p, mod M.
-    fn from_q(&self, x: &Q) -> Option<u64> {
-        let d = self.from_int(x.denom());
-        Some(self.mul(self.from_int(x.numer()), inv_mod(d, self.m)?))
+    fn of_q(&self, x: &Q) -> Option<u64> {
+        let d = self.of_int(x.denom());
+        Some(self.mul(self.of_int(x.numer()), inv_mod(d, self.m)?))
     }
     /// p^k (k <= digits).
     fn pow(&self, k: u32) -> u64 {
@@ -395,7 +395,7 @@ impl Brent {
 
     /// Exact check of candidate values: screened mod M, then verified over Q.
     fn accept(&self, vals: Vec<Q>, t: &Tensor) -> Option<Scheme> {
-        let screen: Option<Vec<u64>> = vals.iter().map(|v| self.ring.from_q(v)).collect();
+        let screen: Option<Vec<u64>> = vals.iter().map(|v| self.ring.of_q(v)).collect();
         if let Some(sc) = screen
             && self.residual(&sc).iter().any(|&v| v != 0)
         {
@@ -451,7 +451,7 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
     let n = rank * len;
     let mut target = vec![0u64; d[0] * d[1] * d[2]];
     for (i, j, k, c) in t.entries() {
-        target[(i * d[1] + j) * d[2] + k] = ring.from_q(c)?;
+        target[(i * d[1] + j) * d[2] + k] = ring.of_q(c)?;
     }
     let brent = Brent {
         dims: d,
@@ -502,12 +502,11 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
         }
         let last = exact || prec >= ring.digits;
         // candidate 2: rational reconstruction of every entry, at a few precisions
-        if last || (prec >= 4 && prec.is_multiple_of(4)) {
-            if let Some(vals) = brent.reconstruct(&x, modulus)
-                && let Some(s) = brent.accept(vals, t)
-            {
-                return Some(s);
-            }
+        if (last || (prec >= 4 && prec.is_multiple_of(4)))
+            && let Some(vals) = brent.reconstruct(&x, modulus)
+            && let Some(s) = brent.accept(vals, t)
+        {
+            return Some(s);
         }
         if last {
             // candidate 3: left and right factors reconstructed, result factors solved
@@ -626,8 +625,8 @@ mod tests {
     #[test]
     fn ring_arithmetic() {
         let r = Ring::new(3, 63);
-        assert!(r.m > 1 << 61 && r.m % 3 == 0);
-        assert_eq!(r.from_q(&q(1, 2)).map(|x| r.mul(x, 2)), Some(1));
+        assert!(r.m > 1 << 61 && r.m.is_multiple_of(3));
+        assert_eq!(r.of_q(&q(1, 2)).map(|x| r.mul(x, 2)), Some(1));
         assert_eq!(inv_mod(2, 9), Some(5));
         assert_eq!(inv_mod(3, 9), None);
         assert_eq!(symmetric(8, 9), -1);

@@ -234,7 +234,7 @@ fn choose_walk(goal: &Tensor, params: &Params) -> Result<Walk> {
         FieldSpec::Prime(p) => p,
         FieldSpec::Rational => params.walk_prime,
     };
-    if !crate::scalar::is_prime(p) || (p > 2 && p >= 1 << 16) {
+    if !crate::scalar::is_prime(p) || p >= 1 << 16 {
         return Err(Error::Invalid(format!(
             "the walk prime must be a prime below 65536, not {p}"
         )));

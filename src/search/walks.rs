@@ -79,7 +79,7 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                         }
                         return ok && r <= target;
                     }
-                    if !improves && !(use_pool && lower) {
+                    if !(improves || use_pool && lower) {
                         return false;
                     }
                     if r >= tried_rank && lift_secs > 0.2 * walk_t0.elapsed().as_secs_f64() {
