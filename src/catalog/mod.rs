@@ -3,6 +3,8 @@
 //! identification of an input against the catalog.
 //!
 //! - [`meta`]: the `#:` metadata lines of an entry (name, aliases, family, sources, facts);
+//! - [`classes`]: the classified ranges (published complete lists) and the separation of
+//!   their entries;
 //! - [`store`]: the embedded entries, lookup by name, each entry's tensor;
 //! - [`fingerprint`]: invariant (key, value) lists, computed exactly;
 //! - [`facts`]: recomputing the stored facts;
@@ -10,6 +12,7 @@
 //! - [`schemes`]: known schemes stored with the entries, verified exactly;
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
+pub mod classes;
 pub mod doc;
 mod entries;
 pub mod facts;
