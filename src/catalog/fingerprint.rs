@@ -229,9 +229,12 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
             }
         }
     }
+    let mut unital = false;
     if let Ok(u) = laws::find_unit(&it, sp) {
-        fp.push("unital", Value::Bool(u.is_some()));
+        unital = u.is_some();
+        fp.push("unital", Value::Bool(unital));
     }
+    let mut centre_space = None;
     for (key, which) in [
         ("annihilator", ElementSpace::Annihilator),
         ("commutant", ElementSpace::CommutativeCentre),
@@ -240,16 +243,32 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
     ] {
         if let Ok(s) = element_space(&it, which, sp) {
             fp.push(key, Value::Int(s.dim()));
+            if which == ElementSpace::Centre {
+                centre_space = Some(s);
+            }
         }
     }
-    let mut centroid_space = None;
+    // The centroid form: tr(X Y) on the centroid. In a unital algebra every centroid map is
+    // multiplication by a central element c = X(1) and conversely (X(a) = X(1 a) = c a =
+    // a c, and X(ab) = c(ab) = (ca)b = a(cb) puts c in the nucleus), so the centroid is the
+    // centre, its form the trace form tr(L_z L_w) restricted to the centre, and the large
+    // centroid system is not needed.
+    let mut centroid_form = None;
     if t.dim() <= params.max_dim_derivations {
         if let Ok(s) = derivations(&it, sp) {
             fp.push("derivations", Value::Int(s.dim()));
         }
-        if let Ok(c) = centroid(t, &it, sp) {
-            fp.push("centroid", Value::Int(c.space.dim()));
-            centroid_space = Some(c.space);
+        match (&centre_space, unital) {
+            (Some(z), true) => {
+                fp.push("centroid", Value::Int(z.dim()));
+                centroid_form = Some(restricted_form(&trace_form(&it, true), z, it.modulus()));
+            }
+            _ => {
+                if let Ok(c) = centroid(t, &it, sp) {
+                    fp.push("centroid", Value::Int(c.space.dim()));
+                    centroid_form = Some(map_trace_form(&c.space, t.dim(), it.modulus()));
+                }
+            }
         }
     }
     if let Ok(d) = squares_dim(&it, sp) {
@@ -282,9 +301,8 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
             let f = form_invariants(t.field(), &map_trace_form(&s, t.dim(), it.modulus()));
             form_keys(fp, "derivations.form", &f);
         }
-        if let Some(c) = &centroid_space {
-            let f = form_invariants(t.field(), &map_trace_form(c, t.dim(), it.modulus()));
-            form_keys(fp, "centroid.form", &f);
+        if let Some(g) = &centroid_form {
+            form_keys(fp, "centroid.form", &form_invariants(t.field(), g));
         }
         let cp = ComponentParams {
             seed: params.seed,
@@ -301,6 +319,43 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
             }
         }
     }
+}
+
+/// The Gram matrix `B^T G B` of a form restricted to a subspace (B: the subspace's basis
+/// scaled to integers, a congruence).
+fn restricted_form(
+    g: &[Vec<num_bigint::BigInt>],
+    space: &crate::invariants::Space,
+    modulus: Option<u64>,
+) -> Vec<Vec<num_bigint::BigInt>> {
+    use crate::invariants::central::integer_vector;
+    use num_integer::Integer;
+    let b: Vec<Vec<num_bigint::BigInt>> = space
+        .dense_basis()
+        .iter()
+        .map(|v| integer_vector(v))
+        .collect();
+    let gb: Vec<Vec<num_bigint::BigInt>> = b
+        .iter()
+        .map(|v| {
+            (0..g.len())
+                .map(|i| g[i].iter().zip(v).map(|(x, y)| x * y).sum())
+                .collect()
+        })
+        .collect();
+    b.iter()
+        .map(|u| {
+            gb.iter()
+                .map(|w| {
+                    let s: num_bigint::BigInt = u.iter().zip(w).map(|(x, y)| x * y).sum();
+                    match modulus {
+                        Some(q) => s.mod_floor(&num_bigint::BigInt::from(q)),
+                        None => s,
+                    }
+                })
+                .collect()
+        })
+        .collect()
 }
 
 /// `KEY.rank`, `KEY.signature`, `KEY.discriminant` of a form.

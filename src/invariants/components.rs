@@ -3,8 +3,9 @@
 //! centre as an algebra of its own.
 //!
 //! Method: for a seeded random element z of the centre Z (a proven basis from
-//! [`element_space`]), the vectors `1, z, z^2, ..., z^d` (d = dim Z) are computed exactly
-//! and their first linear relation is found by [`solve_nullspace`]. When that relation has
+//! [`element_space`]), the powers `1, z, z^2, ..., z^d` (d = dim Z) are computed exactly
+//! (as primitive integer vectors times rational factors) and their first linear relation is
+//! found by [`solve_nullspace`]. When that relation has
 //! degree d (z generates Z; otherwise another z is drawn), Z is isomorphic to `Q[t]/(m)`,
 //! m the minimal polynomial of z. Z is semisimple exactly when m is squarefree, and then
 //! its simple components are the fields `Q[t]/(g)` for the irreducible factors g of m
@@ -90,7 +91,7 @@ pub fn centre_components(
                 })
             })
             .collect();
-        let Some(m) = minimal_polynomial(t, &one, &z, d, &params.solve)? else {
+        let Some(m) = minimal_polynomial(it, &one, &z, d, &params.solve)? else {
             continue;
         };
         let mi = crate::poly::factor::from_rationals(&m);
@@ -106,51 +107,86 @@ pub fn centre_components(
     Ok(None)
 }
 
-/// The coefficients (constant term first, monic) of the minimal polynomial of z when it has
-/// degree `d`, else `None`.
+/// The coefficients (constant term first, monic) of the minimal polynomial of z when it
+/// has degree `d`, else `None`. The powers are kept as primitive integer vectors `w_k`
+/// with rational factors `c_k`, `w_k = c_k z^k`, computed with the integer-scaled constants
+/// (no big rational arithmetic), and the relation of the `w_k` is rescaled by the `c_k`.
 fn minimal_polynomial(
-    t: &Tensor,
+    it: &IntegralTensor,
     one: &[Q],
     z: &[Q],
     d: usize,
     params: &SolveParams,
 ) -> Result<Option<Vec<Q>>> {
-    let n = t.dim();
-    let mut powers = vec![one.to_vec()];
+    use crate::invariants::central::integer_vector;
+    let n = it.dims[0];
+    let zi = integer_vector(z);
+    // z = zs * zi with zs rational; the integer product is x *' y = D (x y)
+    let zs = z
+        .iter()
+        .zip(&zi)
+        .find(|(_, b)| !b.is_zero())
+        .map(|(a, b)| a / Q::from_integer(b.clone()))
+        .unwrap_or_else(Q::one);
+    let d_scale = Q::from_integer(it.scale.clone());
+    // w_k = c_k z^k with w_k a primitive integer vector and c_k rational
+    let first = integer_vector(one);
+    let c0 = first
+        .iter()
+        .zip(one)
+        .find(|(b, _)| !b.is_zero())
+        .map(|(b, a)| Q::from_integer(b.clone()) / a)
+        .unwrap_or_else(Q::one);
+    let mut powers = vec![first];
+    let mut scales = vec![c0];
     for _ in 0..d {
-        let next = t.multiply(z, powers.last().expect("a power"));
+        let prev = powers.last().expect("a power");
+        let mut next = vec![BigInt::zero(); n];
+        for (i, a) in zi.iter().enumerate() {
+            if a.is_zero() {
+                continue;
+            }
+            for (j, b) in prev.iter().enumerate() {
+                if b.is_zero() {
+                    continue;
+                }
+                let f = a * b;
+                for (k, c) in it.product(i, j) {
+                    next[*k as usize] += &f * c;
+                }
+            }
+        }
+        // next = D zi w_{k-1} = (D / zs) c_{k-1} z^k; divide out the content g
+        let g = next.iter().fold(BigInt::zero(), |g, x| g.gcd(x));
+        if g.is_zero() {
+            return Ok(None);
+        }
+        for x in next.iter_mut() {
+            *x /= &g;
+        }
+        let c = scales.last().expect("a scale") * &d_scale / &zs / Q::from_integer(g);
         powers.push(next);
-    }
-    // scale each power to integers; a relation of the scaled columns gives one of the powers
-    let mut scales = Vec::with_capacity(d + 1);
-    let mut cols = Vec::with_capacity(d + 1);
-    for v in &powers {
-        let s = v.iter().fold(BigInt::one(), |s, x| s.lcm(x.denom()));
-        cols.push(
-            v.iter()
-                .map(|x| x.numer() * (&s / x.denom()))
-                .collect::<Vec<_>>(),
-        );
-        scales.push(s);
+        scales.push(c);
     }
     let rows: Vec<Vec<BigInt>> = (0..n)
-        .map(|i| cols.iter().map(|c| c[i].clone()).collect())
+        .map(|i| powers.iter().map(|c| c[i].clone()).collect())
         .collect();
     let null = solve_nullspace(&IntegerRows::new(d + 1, rows), params)?;
     if null.dim() != 1 {
         return Ok(None);
     }
-    let rel = null.dense(0);
-    let coeffs: Vec<Q> = rel
+    // sum b_k w_k = 0 means sum (b_k c_k) z^k = 0
+    let rel: Vec<Q> = null
+        .dense(0)
         .iter()
         .zip(&scales)
-        .map(|(a, s)| a * Q::from_integer(s.clone()))
+        .map(|(b, c)| b * c)
         .collect();
-    let lead = coeffs[d].clone();
+    let lead = rel[d].clone();
     if lead.is_zero() {
         return Ok(None);
     }
-    Ok(Some(coeffs.iter().map(|c| c / &lead).collect()))
+    Ok(Some(rel.iter().map(|c| c / &lead).collect()))
 }
 
 /// The Gram matrix (scaled to integers by a square) of the trace form of `Q[t]/(m)` in the
