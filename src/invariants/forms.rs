@@ -264,23 +264,6 @@ pub fn square_class_text(a: &Q) -> String {
     }
 }
 
-#[cfg(test)]
-mod tests {
-    use super::*;
-    use crate::scalar::q;
-
-    #[test]
-    fn square_classes() {
-        // common practice: a b is a square iff a and b lie in one square class
-        assert!(same_square_class(&q(2, 1), &q(8, 1)));
-        assert!(same_square_class(&q(3, 4), &q(12, 1)));
-        assert!(!same_square_class(&q(2, 1), &q(3, 1)));
-        assert!(!same_square_class(&q(-1, 1), &q(1, 1)));
-        assert_eq!(square_class_text(&q(-12, 1)), "-3");
-        assert_eq!(square_class_text(&q(50, 9)), "2");
-    }
-}
-
 /// The Gram matrix of the trace form `(X, Y) -> tr(X Y)` on a space of linear maps of an
 /// n-dimensional space (each basis vector holds a map's matrix, `X[l][i]` at `l n + i`, as
 /// in [`crate::invariants::maps`]). Each basis map is first scaled to integer entries (a
@@ -332,4 +315,21 @@ pub fn map_trace_form(
         }
     }
     g
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::scalar::q;
+
+    #[test]
+    fn square_classes() {
+        // common practice: a b is a square iff a and b lie in one square class
+        assert!(same_square_class(&q(2, 1), &q(8, 1)));
+        assert!(same_square_class(&q(3, 4), &q(12, 1)));
+        assert!(!same_square_class(&q(2, 1), &q(3, 1)));
+        assert!(!same_square_class(&q(-1, 1), &q(1, 1)));
+        assert_eq!(square_class_text(&q(-12, 1)), "-3");
+        assert_eq!(square_class_text(&q(50, 9)), "2");
+    }
 }

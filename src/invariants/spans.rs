@@ -386,10 +386,13 @@ impl Term {
     }
 }
 
+/// For each term, its words' vectors modulo one prime.
+type WordVectors = std::sync::Arc<Vec<Vec<Vec<u32>>>>;
+
 /// The words' vectors of some terms modulo each prime asked, computed once per prime.
 struct TermVectors<'a> {
     terms: Vec<&'a Term>,
-    cache: std::sync::Mutex<Vec<(u64, std::sync::Arc<Vec<Vec<Vec<u32>>>>)>>,
+    cache: std::sync::Mutex<Vec<(u64, WordVectors)>>,
 }
 
 impl<'a> TermVectors<'a> {
@@ -400,7 +403,7 @@ impl<'a> TermVectors<'a> {
         }
     }
 
-    fn get(&self, t: &ModTable) -> std::sync::Arc<Vec<Vec<Vec<u32>>>> {
+    fn get(&self, t: &ModTable) -> WordVectors {
         let mut c = self.cache.lock().expect("an unpoisoned cache");
         if let Some((_, v)) = c.iter().find(|(p, _)| *p == t.p) {
             return v.clone();
