@@ -22,6 +22,7 @@ pub mod components;
 pub mod elements;
 pub mod equations;
 pub mod forms;
+pub mod generated;
 pub mod lie;
 pub mod maps;
 #[cfg(test)]
