@@ -5,12 +5,11 @@
 //!
 //! [`separate_pairs`] decides, for every pair of entries of one range and one dimension,
 //! whether a fingerprint key separates them (the first such key is reported) or, when the
-//! fingerprints agree, whether an explicit isomorphism is found ([`super::iso`]); a pair
+//! fingerprints agree, whether an explicit isomorphism is found
+//! ([`super::identify::search_isomorphism`]); a pair
 //! with neither is reported as undecided.
 
-use super::fingerprint::FingerprintParams;
-use super::identify::entry_fingerprint;
-use super::iso::{IsoParams, find_isomorphism};
+use super::identify::{IdentifyParams, IsoOutcome, entry_fingerprint, search_isomorphism};
 use super::store::{Entry, all_entries};
 use crate::error::Error;
 use crate::linalg::Matrix;
@@ -167,11 +166,7 @@ pub struct PairOutcome {
 /// Decide every pair of entries of one range and one dimension (see the module
 /// documentation). Cost: one (cached) fingerprint per entry, plus one isomorphism search
 /// per pair with equal fingerprints.
-pub fn separate_pairs(
-    range: &str,
-    fingerprint: &FingerprintParams,
-    iso: &IsoParams,
-) -> Result<Vec<PairOutcome>, Error> {
+pub fn separate_pairs(range: &str, params: &IdentifyParams) -> Result<Vec<PairOutcome>, Error> {
     let mut by_dim: BTreeMap<usize, Vec<&Entry>> = BTreeMap::new();
     for (e, _) in members(range)? {
         by_dim.entry(e.tensor()?.dims()[0]).or_default().push(e);
@@ -180,7 +175,7 @@ pub fn separate_pairs(
     for (dim, es) in by_dim {
         let fps = es
             .iter()
-            .map(|e| entry_fingerprint(e, fingerprint))
+            .map(|e| entry_fingerprint(e, &params.fingerprint))
             .collect::<Result<Vec<_>, _>>()?;
         for a in 0..es.len() {
             for b in a + 1..es.len() {
@@ -190,10 +185,13 @@ pub fn separate_pairs(
                         let v = |i: usize| fps[i].get(k).map(|v| v.to_string()).unwrap_or_default();
                         PairDecision::Separated(k.clone(), v(a), v(b))
                     }
-                    None => match find_isomorphism(&es[a].tensor()?, &es[b].tensor()?, iso) {
-                        Some(m) => PairDecision::Isomorphic(m),
-                        None => PairDecision::Undecided,
-                    },
+                    None => {
+                        let (ta, tb) = (es[a].tensor()?, es[b].tensor()?);
+                        match search_isomorphism(&ta, &tb, &fps[b], params) {
+                            IsoOutcome::Found(m) => PairDecision::Isomorphic(m),
+                            _ => PairDecision::Undecided,
+                        }
+                    }
                 };
                 out.push(PairOutcome {
                     first: es[a].meta.name.clone(),

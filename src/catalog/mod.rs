@@ -19,6 +19,7 @@ pub mod facts;
 pub mod fingerprint;
 pub mod identify;
 pub mod iso;
+pub mod lie_iso;
 pub mod meta;
 pub mod rank_facts;
 pub mod schemes;
@@ -28,6 +29,7 @@ pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
+pub use lie_iso::{LieIsoParams, find_nilpotent_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
 pub use schemes::{STORED_SCHEMES, StoredScheme, stored_schemes};
 pub use store::{

@@ -246,7 +246,7 @@ fn pairs(range: Option<String>, all: bool) -> i32 {
     };
     let mut undecided_total = 0;
     for r in chosen {
-        let out = match separate_pairs(r.id, &FingerprintParams::default(), &Default::default()) {
+        let out = match separate_pairs(r.id, &Default::default()) {
             Ok(o) => o,
             Err(e) => {
                 eprintln!("error: {e}");

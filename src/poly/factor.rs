@@ -121,28 +121,86 @@ pub fn is_squarefree(f: &[BigInt]) -> bool {
         }
     }
     // exact: gcd over Q by the Euclidean algorithm on rationals
-    let mut a: Vec<Q> = f.iter().map(|c| Q::from_integer(c.clone())).collect();
-    let mut b: Vec<Q> = derivative(&f)
+    let a: Vec<Q> = f.iter().map(|c| Q::from_integer(c.clone())).collect();
+    let b: Vec<Q> = derivative(&f)
         .iter()
         .map(|c| Q::from_integer(c.clone()))
         .collect();
-    while !b.is_empty() {
-        let mut r = a.clone();
-        while r.len() >= b.len() {
-            let c = r.last().expect("nonempty") / b.last().expect("nonempty");
-            let off = r.len() - b.len();
-            for (j, y) in b.iter().enumerate() {
-                r[off + j] -= &c * y;
-            }
-            r.pop();
-            while r.last().is_some_and(Zero::is_zero) {
-                r.pop();
-            }
+    gcd_q(&a, &b).len() == 1
+}
+
+/// Quotient and remainder of a by b (b nonzero) over Q, coefficients from the constant
+/// term up, without trailing zeros.
+fn divrem_q(a: &[Q], b: &[Q]) -> (Vec<Q>, Vec<Q>) {
+    let mut r = a.to_vec();
+    let mut quotient = vec![Q::zero(); a.len().saturating_sub(b.len()) + 1];
+    while r.len() >= b.len() && !r.is_empty() {
+        let c = r.last().expect("nonempty") / b.last().expect("nonempty");
+        let off = r.len() - b.len();
+        for (j, y) in b.iter().enumerate() {
+            r[off + j] -= &c * y;
         }
+        quotient[off] = c;
+        r.pop();
+        while r.last().is_some_and(Zero::is_zero) {
+            r.pop();
+        }
+    }
+    while quotient.last().is_some_and(Zero::is_zero) {
+        quotient.pop();
+    }
+    (quotient, r)
+}
+
+/// A greatest common divisor over Q (Euclidean algorithm on rationals; not normalised).
+pub fn gcd_q(a: &[Q], b: &[Q]) -> Vec<Q> {
+    let (mut a, mut b) = (a.to_vec(), b.to_vec());
+    while a.last().is_some_and(Zero::is_zero) {
+        a.pop();
+    }
+    while b.last().is_some_and(Zero::is_zero) {
+        b.pop();
+    }
+    while !b.is_empty() {
+        let (_, r) = divrem_q(&a, &b);
         a = b;
         b = r;
     }
-    a.len() == 1
+    a
+}
+
+/// The distinct rational roots of a nonzero polynomial over Q: the linear factors over Q
+/// of its squarefree part `f / gcd(f, f')` ([`factor_over_q`]). Empty for a nonzero
+/// constant; exact.
+pub fn rational_roots(f: &[Q]) -> Vec<Q> {
+    let mut f = f.to_vec();
+    while f.last().is_some_and(Zero::is_zero) {
+        f.pop();
+    }
+    if f.len() < 2 {
+        return Vec::new();
+    }
+    let df: Vec<Q> = f
+        .iter()
+        .enumerate()
+        .skip(1)
+        .map(|(i, c)| c * Q::from_integer(BigInt::from(i)))
+        .collect();
+    let (square_free, _) = divrem_q(&f, &gcd_q(&f, &df));
+    let ints = from_rationals(&square_free);
+    if ints.len() < 2 {
+        return Vec::new();
+    }
+    let factors = if ints.len() == 2 {
+        vec![ints]
+    } else {
+        factor_over_q(&ints).unwrap_or_default()
+    };
+    factors
+        .iter()
+        .filter(|g| g.len() == 2)
+        .map(|g| Q::new(-g[0].clone(), g[1].clone()))
+        .collect()
 }
 
 /// Odd primes 3, 5, 7, ...
@@ -392,6 +450,19 @@ mod tests {
             .iter()
             .map(|g| g.len() - 1)
             .collect()
+    }
+
+    #[test]
+    fn rational_roots_of_a_polynomial_with_repeated_factors() {
+        // x^2 (2x - 3)^2 (x^2 - 2): roots 0 and 3/2 (sqrt 2 is irrational, Euclid)
+        let f: Vec<Q> = [0, 0, -18, 24, 1, -12, 4]
+            .iter()
+            .map(|&c| Q::from_integer(BigInt::from(c)))
+            .collect();
+        let mut r = rational_roots(&f);
+        r.sort();
+        assert_eq!(r, vec![Q::zero(), Q::new(3.into(), 2.into())]);
+        assert!(rational_roots(&[Q::one()]).is_empty());
     }
 
     #[test]
