@@ -228,3 +228,28 @@ fn nilpotent_entries_get_an_explicit_isomorphism_in_a_random_basis() {
         assert!(back.entries().eq(u.entries()), "{name}: the map does not verify");
     }
 }
+
+/// The whole nilpotent range through the isomorphism solver, each entry in a random basis
+/// with entries up to 10^6 (seed `BILIN_RANGE_SEED`, default 7); prints which entries get
+/// an explicit isomorphism. Minutes: run with `-- --ignored --nocapture`.
+#[test]
+#[ignore]
+fn nilpotent_range_isomorphism_sweep() {
+    use bilin::catalog::{LieIsoParams, find_nilpotent_isomorphism};
+    let seed = env("BILIN_RANGE_SEED", 7);
+    let (mut found, mut missed) = (Vec::new(), Vec::new());
+    for (e, label) in classes::members("nilpotent-lie").unwrap() {
+        let t = e.tensor().unwrap();
+        let u = change_basis_algebra(&t, &random_invertible(t.dim(), 1_000_000, seed)).unwrap();
+        let t0 = std::time::Instant::now();
+        let m = find_nilpotent_isomorphism(&u, &t, &LieIsoParams::default());
+        println!("{label}: {} ({:?})", m.is_some(), t0.elapsed());
+        if let Some(m) = m {
+            assert!(change_basis_algebra(&t, &m).unwrap().entries().eq(u.entries()));
+            found.push(label);
+        } else {
+            missed.push(label);
+        }
+    }
+    println!("found {}: {found:?}\nnot found {}: {missed:?}", found.len(), missed.len());
+}

@@ -119,7 +119,21 @@ fn ranges_section(out: &mut String) -> Result<(), Error> {
          entry of a range carries a `#: class` line with the paper's label (also an alias). \
          `bilin catalog ranges` prints the counts below, `bilin catalog pairs` shows how every \
          pair of entries of one range and dimension is told apart, and `bilin identify` names \
-         the entry an input is isomorphic to.\n"
+         the entry an input is isomorphic to.\n\n\
+         For a nilpotent Lie algebra over Q, `bilin identify` also proves the match: it solves \
+         for an isomorphism adapted to the lower central series (the images of the entry's \
+         generators: their leading parts from the relations modulo the third term, which are \
+         linear, the deeper parts layer by layer from linear systems, the scale of each \
+         generator a rational root of what those systems leave over) and verifies it exactly. \
+         In a random basis with coefficients up to 10^6 (seed 7) it proves 32 of the 54 \
+         entries: every entry of dimension at most 5 except L_{{5,8}}; in dimension 6 the \
+         labels without a parameter except L_{{6,8}}, L_{{6,13}} to L_{{6,16}} and L_{{6,20}}, \
+         and L_{{6,21}}(0). For the others (among them every member of L_{{6,19}}, L_{{6,22}} \
+         and L_{{6,24}}) the report says that no isomorphism was found, which is not a proof \
+         either way; the invariants still name the entry.\n\n\
+         Unital associative algebras of dimension at most 3 over Q are not a classified range \
+         here: over Q they include every quadratic and cubic number field, so no finite list \
+         exists, and we know of no published list over Q to cite.\n"
     );
     for r in RANGES {
         let _ = writeln!(
@@ -130,6 +144,7 @@ fn ranges_section(out: &mut String) -> Result<(), Error> {
         let mems = members(r.id)?;
         for (d, count, what, source) in r.published {
             let what = match what {
+                Counted::Classes if *count == 1 => "isomorphism class",
                 Counted::Classes => "isomorphism classes",
                 Counted::Labels => "labels",
             };
