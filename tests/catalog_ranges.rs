@@ -225,7 +225,10 @@ fn nilpotent_entries_get_an_explicit_isomorphism_in_a_random_basis() {
             panic!("{name}: no isomorphism ({:?})", m.iso);
         };
         let back = change_basis_algebra(&t, p).unwrap();
-        assert!(back.entries().eq(u.entries()), "{name}: the map does not verify");
+        assert!(
+            back.entries().eq(u.entries()),
+            "{name}: the map does not verify"
+        );
     }
 }
 
@@ -245,11 +248,20 @@ fn nilpotent_range_isomorphism_sweep() {
         let m = find_nilpotent_isomorphism(&u, &t, &LieIsoParams::default());
         println!("{label}: {} ({:?})", m.is_some(), t0.elapsed());
         if let Some(m) = m {
-            assert!(change_basis_algebra(&t, &m).unwrap().entries().eq(u.entries()));
+            assert!(
+                change_basis_algebra(&t, &m)
+                    .unwrap()
+                    .entries()
+                    .eq(u.entries())
+            );
             found.push(label);
         } else {
             missed.push(label);
         }
     }
-    println!("found {}: {found:?}\nnot found {}: {missed:?}", found.len(), missed.len());
+    println!(
+        "found {}: {found:?}\nnot found {}: {missed:?}",
+        found.len(),
+        missed.len()
+    );
 }

@@ -470,7 +470,11 @@ impl Search<'_> {
             }
             let mut lead: Vec<Vector> = ys.iter().map(|y| self.adapted.layer_part(y, 1)).collect();
             lead.push(self.adapted.layer_part(&y, 1));
-            if rank_q(&Matrix::from_rows(lead, place.first().map_or(0, |p| p.len()))) != i + 1 {
+            if rank_q(&Matrix::from_rows(
+                lead,
+                place.first().map_or(0, |p| p.len()),
+            )) != i + 1
+            {
                 continue;
             }
             ys.push(y);
@@ -502,7 +506,11 @@ impl Search<'_> {
 
 /// The solutions t of `r0 + sum_k t_k columns[k] = 0`: a particular one and a basis of
 /// the homogeneous ones; `None` when there is none.
-fn affine_solutions(r0: &[Q], columns: &[Vector], unknowns: usize) -> Option<(Vector, Vec<Vector>)> {
+fn affine_solutions(
+    r0: &[Q],
+    columns: &[Vector],
+    unknowns: usize,
+) -> Option<(Vector, Vec<Vector>)> {
     if r0.is_empty() || unknowns == 0 {
         if !r0.iter().all(Zero::is_zero) {
             return None;

@@ -66,7 +66,10 @@ pub fn run(args: IdentifyArgs) -> i32 {
         );
     }
     let nilpotent_lie = id.fingerprint.get("nilpotency.class").is_some()
-        && id.fingerprint.get("lie").is_some_and(|v| v.to_string() == "yes");
+        && id
+            .fingerprint
+            .get("lie")
+            .is_some_and(|v| v.to_string() == "yes");
     for m in &id.matches {
         match &m.iso {
             IsoOutcome::Found(mat) => {

@@ -34,7 +34,8 @@ impl RowSource for Preimage<'_> {
         self.it.modulus()
     }
     fn block(&self, j: usize, p: u64, out: &mut RowBuf) {
-        let t = self.it.residues(p);
+        let residues = self.it.residues(p);
+        let t = &*residues;
         let n = self.it.dims[0];
         let pb = BigInt::from(p);
         let fs: Vec<Vec<u64>> = self

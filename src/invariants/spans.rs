@@ -455,7 +455,8 @@ impl RowSource for TermSystem<'_> {
         self.it.modulus()
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
-        let t = self.it.residues(p);
+        let residues = self.it.residues(p);
+        let t = &*residues;
         let n = t.dims[0];
         let all = self.vecs.get(t);
         let range = b * TERM_BLOCK..((b + 1) * TERM_BLOCK).min(self.dims.0);
