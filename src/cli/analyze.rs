@@ -6,9 +6,9 @@
 use super::common::{generators_help, load, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::laws::Law;
+use bilin::ranks::BoundsParams;
 use bilin::report::invariants::{InvariantParams, Part};
 use bilin::report::{Params, analyze_with_progress, render_json, render_text};
-use bilin::scheme::bounds::BoundsParams;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]

@@ -2,7 +2,7 @@
 
 use super::EXIT_OK;
 use super::scheme_io::{fail, load_tensor};
-use bilin::scheme::bounds::{BoundsParams, lower_bounds};
+use bilin::ranks::{BoundsParams, lower_bounds};
 
 #[derive(clap::Args)]
 pub struct Args {

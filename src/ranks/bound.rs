@@ -1,0 +1,201 @@
+//! The common form of a lower bound, and [`lower_bounds`], which runs every bound that
+//! applies to a tensor.
+//!
+//! A [`Bound`] states `R(T) >= value` or `border rank >= value` (which implies the same
+//! for the rank), over which field it holds (the tensor's field, and whether also over
+//! every extension field), the theorem it rests on, whether it is proven (every result of
+//! [`lower_bounds`] is; a certificate that fails its re-check would be reported as
+//! evidence), how the value was obtained, and, for the bounds that have one, a
+//! certificate a separate check confirms.
+//!
+//! Invariant: every bound in a [`Bounds`] holds for the tensor over its own field.
+
+use super::{alder_strassen, flattening, slice_span};
+use crate::scalar::FieldSpec;
+use crate::tensor::Tensor;
+use serde::Serialize;
+
+/// What a bound bounds.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Measure {
+    /// The tensor rank R(T).
+    Rank,
+    /// The border rank (a lower bound for it is also one for the rank).
+    BorderRank,
+}
+
+/// How much a bound is worth.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Status {
+    /// Proven: exact arithmetic, and the certificate (if any) passed its separate check.
+    Proven,
+    /// Evidence only: the computation suggests the bound but its proof did not go through.
+    Evidence,
+}
+
+/// The theorem behind a bound.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Method {
+    Flattening,
+    SliceSpan,
+    AlderStrassen,
+}
+
+impl Method {
+    /// The short name shown in reports.
+    pub fn name(self) -> &'static str {
+        match self {
+            Method::Flattening => "flattening",
+            Method::SliceSpan => "slice span",
+            Method::AlderStrassen => "Alder-Strassen",
+        }
+    }
+
+    /// The theorem and its source.
+    pub fn theorem(self) -> &'static str {
+        match self {
+            Method::Flattening => flattening::THEOREM,
+            Method::SliceSpan => slice_span::THEOREM,
+            Method::AlderStrassen => alder_strassen::THEOREM,
+        }
+    }
+}
+
+/// One lower bound (see the module documentation).
+#[derive(Clone, Debug, PartialEq, Serialize)]
+pub struct Bound {
+    /// The rank (or border rank) is at least this.
+    pub value: usize,
+    pub measure: Measure,
+    /// The field the statement holds over (the tensor's field).
+    #[serde(serialize_with = "field_name")]
+    pub field: FieldSpec,
+    /// The statement also holds over every extension field.
+    pub extensions: bool,
+    pub status: Status,
+    pub method: Method,
+    /// Short name: `flattening`, `Koszul-Young`, ...
+    pub name: String,
+    /// The theorem and its source.
+    pub theorem: String,
+    /// How the value was obtained.
+    pub detail: String,
+    /// A certificate that [`super::certificate`] or [`super::minor`] re-checks, when the
+    /// method has one.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub certificate: Option<serde_json::Value>,
+}
+
+fn field_name<S: serde::Serializer>(f: &FieldSpec, s: S) -> Result<S::Ok, S::Error> {
+    s.serialize_str(&f.name())
+}
+
+impl Bound {
+    /// A proven bound by `method` over `field` (its name and theorem filled in).
+    pub fn proven(
+        method: Method,
+        value: usize,
+        measure: Measure,
+        field: FieldSpec,
+        extensions: bool,
+        detail: String,
+    ) -> Bound {
+        Bound {
+            value,
+            measure,
+            field,
+            extensions,
+            status: Status::Proven,
+            method,
+            name: method.name().into(),
+            theorem: method.theorem().into(),
+            detail,
+            certificate: None,
+        }
+    }
+
+    /// The scope in words: `rank over GF(2)`, `border rank over Q and its extensions`.
+    pub fn scope(&self) -> String {
+        let what = match self.measure {
+            Measure::Rank => "rank",
+            Measure::BorderRank => "border rank",
+        };
+        let ext = if self.extensions {
+            " and every extension"
+        } else {
+            ""
+        };
+        format!("{what} over {}{ext}", self.field.name())
+    }
+}
+
+/// All bounds that apply, plus notes on those that do not (and why).
+#[derive(Clone, Debug, Serialize)]
+pub struct Bounds {
+    pub bounds: Vec<Bound>,
+    pub notes: Vec<String>,
+}
+
+impl Bounds {
+    /// The best proven lower bound for the rank over the tensor's field (border-rank
+    /// bounds count: R(T) >= border rank).
+    pub fn best(&self) -> usize {
+        self.proven().map(|b| b.value).max().unwrap_or(0)
+    }
+
+    /// The best proven lower bound for the border rank.
+    pub fn best_border(&self) -> usize {
+        self.proven()
+            .filter(|b| b.measure == Measure::BorderRank)
+            .map(|b| b.value)
+            .max()
+            .unwrap_or(0)
+    }
+
+    /// The bound that gives [`Bounds::best`] (the first one on ties).
+    pub fn best_bound(&self) -> Option<&Bound> {
+        let best = self.best();
+        self.proven().find(|b| b.value == best)
+    }
+
+    fn proven(&self) -> impl Iterator<Item = &Bound> {
+        self.bounds.iter().filter(|b| b.status == Status::Proven)
+    }
+}
+
+/// Parameters of [`lower_bounds`].
+#[derive(Clone, Debug)]
+pub struct BoundsParams {
+    /// Seed of every random choice (slice combinations, projections, primitive elements).
+    pub seed: u64,
+    /// Random slice combinations tried per axis.
+    pub slice_trials: usize,
+    /// Algebras above this dimension skip the Alder-Strassen computation (cost O(n^4)).
+    pub max_algebra_dim: usize,
+}
+
+impl Default for BoundsParams {
+    fn default() -> Self {
+        BoundsParams {
+            seed: 1,
+            slice_trials: 3,
+            max_algebra_dim: 64,
+        }
+    }
+}
+
+/// Compute every applicable lower bound. Cost: three exact flattening ranks, a few slice
+/// ranks, and for algebras of dimension n at most `max_algebra_dim` O(n^4) field operations.
+pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
+    let mut bounds = vec![flattening::bound(t)];
+    let mut notes = Vec::new();
+    bounds.push(slice_span::bound(t, params));
+    match alder_strassen::alder_strassen(t, params) {
+        Ok(b) => bounds.push(b),
+        Err(why) => notes.push(format!("Alder-Strassen bound not applied: {why}")),
+    }
+    Bounds { bounds, notes }
+}
