@@ -209,6 +209,13 @@ pub fn rank_of_system(src: &dyn RowSource) -> Result<usize> {
 /// The rank of a system's matrix modulo p (a lower bound for the rank over Q of an
 /// integer system), stopping once it is full. Cost: O(rows m rank) word operations.
 pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
+    echelon_modulo(src, p).rank()
+}
+
+/// The reduced echelon form modulo p of a system's equations, fed in order and stopping
+/// once the rank is full: its pivot columns are independent columns of the matrix.
+/// Cost: O(rows m rank) word operations.
+pub fn echelon_modulo(src: &dyn RowSource, p: u64) -> DenseEchelon {
     let m = src.unknowns();
     let mut e = DenseEchelon::new(p, m);
     let mut buf = RowBuf::new(p);
@@ -232,7 +239,7 @@ pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
             }
         }
     }
-    e.rank()
+    e
 }
 
 /// The first kernel primes, computed once.

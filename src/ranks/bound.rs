@@ -10,9 +10,9 @@
 //!
 //! Invariant: every bound in a [`Bounds`] holds for the tensor over its own field.
 
-use super::{alder_strassen, flattening, slice_span};
+use super::{alder_strassen, flattening, isotope, koszul_young, slice_span, strassen};
 use crate::scalar::FieldSpec;
-use crate::tensor::Tensor;
+use crate::tensor::{Kind, Tensor};
 use serde::Serialize;
 
 /// What a bound bounds.
@@ -42,6 +42,8 @@ pub enum Method {
     Flattening,
     SliceSpan,
     AlderStrassen,
+    KoszulYoung,
+    StrassenCommutator,
 }
 
 impl Method {
@@ -51,6 +53,8 @@ impl Method {
             Method::Flattening => "flattening",
             Method::SliceSpan => "slice span",
             Method::AlderStrassen => "Alder-Strassen",
+            Method::KoszulYoung => "Koszul-Young",
+            Method::StrassenCommutator => "Strassen commutator",
         }
     }
 
@@ -60,6 +64,8 @@ impl Method {
             Method::Flattening => flattening::THEOREM,
             Method::SliceSpan => slice_span::THEOREM,
             Method::AlderStrassen => alder_strassen::THEOREM,
+            Method::KoszulYoung => koszul_young::THEOREM,
+            Method::StrassenCommutator => strassen::THEOREM,
         }
     }
 }
@@ -175,6 +181,11 @@ pub struct BoundsParams {
     pub slice_trials: usize,
     /// Algebras above this dimension skip the Alder-Strassen computation (cost O(n^4)).
     pub max_algebra_dim: usize,
+    /// Bilinear maps above this dimension skip the search for a unital isotope.
+    pub max_isotope_dim: usize,
+    /// Koszul-Young flattenings are computed when their smaller side has at most this many
+    /// rows (cost about its cube in word operations).
+    pub max_koszul_young_size: usize,
 }
 
 impl Default for BoundsParams {
@@ -183,19 +194,40 @@ impl Default for BoundsParams {
             seed: 1,
             slice_trials: 3,
             max_algebra_dim: 64,
+            max_isotope_dim: 32,
+            max_koszul_young_size: 400,
         }
     }
 }
 
 /// Compute every applicable lower bound. Cost: three exact flattening ranks, a few slice
-/// ranks, and for algebras of dimension n at most `max_algebra_dim` O(n^4) field operations.
+/// ranks, the Alder-Strassen computation for algebras (O(n^4)), Koszul-Young flattenings
+/// up to `max_koszul_young_size` rows (cube of the size each), and the commutator bound
+/// (cube of the slice size).
 pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
     let mut bounds = vec![flattening::bound(t)];
     let mut notes = Vec::new();
     bounds.push(slice_span::bound(t, params));
-    match alder_strassen::alder_strassen(t, params) {
+    let direct = if t.kind() == Kind::Algebra {
+        alder_strassen::alder_strassen(t, params)
+    } else {
+        Err("the input is a bilinear map, not an algebra".into())
+    };
+    match direct {
         Ok(b) => bounds.push(b),
-        Err(why) => notes.push(format!("Alder-Strassen bound not applied: {why}")),
+        Err(why) => match isotope::alder_strassen_of_isotope(t, params) {
+            Ok(b) => bounds.push(b),
+            Err(iso) => notes.push(format!("Alder-Strassen bound not applied: {why}; {iso}")),
+        },
+    }
+    match koszul_young::bound(t, params) {
+        Ok(Some(b)) => bounds.push(b),
+        Ok(None) => {}
+        Err(why) => notes.push(format!("Koszul-Young bound not applied: {why}")),
+    }
+    match strassen::bound(t, params) {
+        Ok(b) => bounds.push(b),
+        Err(why) => notes.push(format!("Strassen commutator bound not applied: {why}")),
     }
     Bounds { bounds, notes }
 }

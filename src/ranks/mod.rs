@@ -7,13 +7,20 @@
 //!   field, rank or border rank, proven or evidence) and [`lower_bounds`], which runs
 //!   every bound that applies.
 //! - One file per bound, each opening with its theorem: [`flattening`], [`slice_span`],
-//!   [`alder_strassen`].
+//!   [`alder_strassen`] (with [`isotope`] for bilinear maps), [`koszul_young`],
+//!   [`strassen`] (the commutator bound).
+//! - [`minor`]: a nonzero minor modulo a prime, the certificate of a rank lower bound for
+//!   a matrix of integers.
 
 pub mod alder_strassen;
 pub mod bound;
 pub mod flattening;
+pub mod isotope;
+pub mod koszul_young;
+pub mod minor;
 pub mod slice_span;
 mod slices;
+pub mod strassen;
 
 pub use bound::{Bound, Bounds, BoundsParams, Measure, Method, Status, lower_bounds};
 pub use slices::{AxisSlices, Params, RankReport, SpanRank, combination_rank, compute_ranks};
