@@ -1,8 +1,14 @@
-//! `bilin bounds INPUT [--json]`: proven lower bounds for the tensor rank.
+//! `bilin bounds INPUT [--json] [--proof-out FILE] [--check-proof FILE]`: proven lower
+//! bounds for the tensor rank, and the certificates of exhaustive proofs over GF(2).
 
-use super::EXIT_OK;
+use super::common::write_output;
 use super::scheme_io::{fail, load_tensor};
+use super::{EXIT_FALSE, EXIT_OK};
+use bilin::error::{Error, Position};
+use bilin::ranks::exhaustive::ExhaustiveParams;
+use bilin::ranks::rank_proof::{Certificate, check};
 use bilin::ranks::{BoundsParams, lower_bounds};
+use bilin::tensor::Tensor;
 
 #[derive(clap::Args)]
 pub struct Args {
@@ -17,6 +23,56 @@ pub struct Args {
     /// Seed of the random slice combinations.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// Work budget of the exhaustive proofs over GF(2), in millions of rank-one matrices
+    /// reduced against a space (0 leaves them out).
+    #[arg(long, default_value_t = 100, value_name = "MILLIONS")]
+    pub exhaustive_work: u64,
+    /// Spaces one level of an exhaustive proof may hold (each about 200 bytes).
+    #[arg(long, default_value_t = 500_000, value_name = "COUNT")]
+    pub exhaustive_spaces: usize,
+    /// Write the certificate of the best exhaustive proof to this file (JSON).
+    #[arg(long, value_name = "FILE")]
+    pub proof_out: Option<String>,
+    /// Check a certificate of an exhaustive proof against INPUT instead of computing
+    /// bounds: exit 0 when it holds, 1 when it is refuted, 2 when it cannot be read.
+    #[arg(long, value_name = "FILE")]
+    pub check_proof: Option<String>,
+}
+
+/// Read a certificate file (JSON), with the position of a syntax error.
+fn read_certificate(path: &str) -> Result<Certificate, Error> {
+    let text = bilin::input::read_text_file(path)?;
+    let v: serde_json::Value = serde_json::from_str(&text).map_err(|e| Error::Parse {
+        at: Position {
+            source: path.to_string(),
+            line: e.line(),
+            column: e.column(),
+        },
+        message: format!("not valid JSON: {e}"),
+    })?;
+    Certificate::from_json(&v).map_err(|m| Error::Invalid(format!("{path}: {m}")))
+}
+
+fn check_file(t: &Tensor, path: &str) -> i32 {
+    let cert = match read_certificate(path) {
+        Ok(c) => c,
+        Err(e) => return fail(&e),
+    };
+    match check(t, &cert) {
+        Ok(()) => {
+            println!(
+                "certificate holds: R > {} over GF(2), so R >= {} (spaces per level {:?})",
+                cert.rank_above,
+                cert.rank_above + 1,
+                cert.level_sizes()
+            );
+            EXIT_OK
+        }
+        Err(why) => {
+            println!("certificate refuted: {why}");
+            EXIT_FALSE
+        }
+    }
 }
 
 pub fn run(a: &Args) -> i32 {
@@ -24,19 +80,42 @@ pub fn run(a: &Args) -> i32 {
         Ok(t) => t,
         Err(e) => return fail(&e),
     };
+    if let Some(path) = &a.check_proof {
+        return check_file(&t, path);
+    }
+    let exhaustive = (a.exhaustive_work > 0).then(|| ExhaustiveParams {
+        max_work: a.exhaustive_work.saturating_mul(1_000_000),
+        max_nodes: a.exhaustive_spaces,
+        ..ExhaustiveParams::default()
+    });
     let b = lower_bounds(
         &t,
         &BoundsParams {
             seed: a.seed,
+            exhaustive,
             ..BoundsParams::default()
         },
     );
+    if let Some(path) = &a.proof_out {
+        match &b.rank_proof {
+            Some(cert) => {
+                let text = serde_json::to_string(&cert.to_json(&t)).unwrap_or_default() + "\n";
+                if let Err(code) = write_output(path, &text) {
+                    return code;
+                }
+            }
+            None => eprintln!(
+                "note: no exhaustive proof to write to {path} (they run over GF(2) only; see the notes)"
+            ),
+        }
+    }
     if a.json {
         let v = serde_json::json!({
             "input": a.input,
             "field": t.field().name(),
             "dims": t.dims(),
             "best": b.best(),
+            "exhaustive_upper": b.exhaustive_upper,
             "bounds": b.bounds,
             "notes": b.notes,
         });

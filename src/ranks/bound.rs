@@ -10,6 +10,8 @@
 //!
 //! Invariant: every bound in a [`Bounds`] holds for the tensor over its own field.
 
+use super::exhaustive::{self, ExhaustiveParams};
+use super::rank_proof::Certificate;
 use super::{alder_strassen, flattening, isotope, koszul_young, slice_span, strassen};
 use crate::scalar::FieldSpec;
 use crate::tensor::{Kind, Tensor};
@@ -44,6 +46,7 @@ pub enum Method {
     AlderStrassen,
     KoszulYoung,
     StrassenCommutator,
+    Exhaustive,
 }
 
 impl Method {
@@ -55,6 +58,7 @@ impl Method {
             Method::AlderStrassen => "Alder-Strassen",
             Method::KoszulYoung => "Koszul-Young",
             Method::StrassenCommutator => "Strassen commutator",
+            Method::Exhaustive => "exhaustive search",
         }
     }
 
@@ -66,6 +70,7 @@ impl Method {
             Method::AlderStrassen => alder_strassen::THEOREM,
             Method::KoszulYoung => koszul_young::THEOREM,
             Method::StrassenCommutator => strassen::THEOREM,
+            Method::Exhaustive => exhaustive::THEOREM,
         }
     }
 }
@@ -143,6 +148,12 @@ impl Bound {
 pub struct Bounds {
     pub bounds: Vec<Bound>,
     pub notes: Vec<String>,
+    /// The certificate of the exhaustive proof, when one ran (written on request).
+    #[serde(skip)]
+    pub rank_proof: Option<Certificate>,
+    /// `R(T) <= r` over GF(2) from a checked decomposition the exhaustive search found.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub exhaustive_upper: Option<usize>,
 }
 
 impl Bounds {
@@ -186,6 +197,8 @@ pub struct BoundsParams {
     /// Koszul-Young flattenings are computed when their smaller side has at most this many
     /// rows (cost about its cube in word operations).
     pub max_koszul_young_size: usize,
+    /// Budget of the exhaustive proofs over GF(2); `None` leaves them out.
+    pub exhaustive: Option<ExhaustiveParams>,
 }
 
 impl Default for BoundsParams {
@@ -196,6 +209,7 @@ impl Default for BoundsParams {
             max_algebra_dim: 64,
             max_isotope_dim: 32,
             max_koszul_young_size: 400,
+            exhaustive: Some(ExhaustiveParams::default()),
         }
     }
 }
@@ -229,5 +243,29 @@ pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
         Ok(b) => bounds.push(b),
         Err(why) => notes.push(format!("Strassen commutator bound not applied: {why}")),
     }
-    Bounds { bounds, notes }
+    let mut out = Bounds {
+        bounds,
+        notes,
+        rank_proof: None,
+        exhaustive_upper: None,
+    };
+    if let Some(ep) = &params.exhaustive
+        && t.field() == FieldSpec::Prime(2)
+    {
+        match exhaustive::bound(t, out.best(), ep) {
+            Ok(found) => {
+                if let Some((b, cert)) = found.proof {
+                    out.bounds.push(b);
+                    out.rank_proof = Some(cert);
+                }
+                out.exhaustive_upper = found.upper;
+                out.notes
+                    .extend(found.note.map(|n| format!("exhaustive search: {n}")));
+            }
+            Err(why) => out
+                .notes
+                .push(format!("exhaustive search not applied: {why}")),
+        }
+    }
+    out
 }

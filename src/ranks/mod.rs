@@ -9,15 +9,20 @@
 //! - One file per bound, each opening with its theorem: [`flattening`], [`slice_span`],
 //!   [`alder_strassen`] (with [`isotope`] for bilinear maps), [`koszul_young`],
 //!   [`strassen`] (the commutator bound).
+//! - [`exhaustive`]: exhaustive proofs of `R > r` over GF(2) on the slice spaces, with
+//!   certificates that [`rank_proof`] re-checks; [`gf2`] holds their packed matrices.
 //! - [`minor`]: a nonzero minor modulo a prime, the certificate of a rank lower bound for
 //!   a matrix of integers.
 
 pub mod alder_strassen;
 pub mod bound;
+pub mod exhaustive;
 pub mod flattening;
+pub mod gf2;
 pub mod isotope;
 pub mod koszul_young;
 pub mod minor;
+pub mod rank_proof;
 pub mod slice_span;
 mod slices;
 pub mod strassen;
