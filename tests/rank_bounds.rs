@@ -325,3 +325,61 @@ fn stored_certificates_still_hold() {
         assert!(out.contains(&format!("R > {above} over GF(2)")), "{out}");
     }
 }
+
+/// A random integer matrix of determinant 1 (unit lower times unit upper triangular, 0/1
+/// entries), so invertible over GF(2) as well.
+fn unimodular(n: usize, seed: u64) -> bilin::linalg::Matrix<bilin::scalar::Q> {
+    use rand::{Rng, SeedableRng};
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+    let mut bits = |i: usize, j: usize| i64::from(i == j || rng.gen_bool(0.5));
+    let l: Vec<i64> = (0..n * n)
+        .map(|x| {
+            if x % n <= x / n {
+                bits(x / n, x % n)
+            } else {
+                0
+            }
+        })
+        .collect();
+    let u: Vec<i64> = (0..n * n)
+        .map(|x| {
+            if x % n >= x / n {
+                bits(x / n, x % n)
+            } else {
+                0
+            }
+        })
+        .collect();
+    bilin::linalg::Matrix {
+        rows: n,
+        cols: n,
+        data: (0..n * n)
+            .map(|x| {
+                let (i, j) = (x / n, x % n);
+                bilin::scalar::Q::from_integer(
+                    (0..n)
+                        .map(|k| l[i * n + k] * u[k * n + j])
+                        .sum::<i64>()
+                        .into(),
+                )
+            })
+            .collect(),
+    }
+}
+
+#[test]
+fn exhaustive_bounds_survive_a_change_of_basis_over_gf2() {
+    // common practice: the rank does not depend on the bases; three random changes of
+    // basis over GF(2) (integer matrices of determinant 1, reduced mod 2)
+    let q = gf2("matmul:2,2,2").with_field(FieldSpec::Rational).unwrap();
+    for seed in 0..3u64 {
+        let [p, r, s] = [0, 1, 2].map(|i| unimodular(4, seed * 3 + i));
+        let u = change_basis(&q, &p, &r, &s)
+            .unwrap()
+            .with_field(FieldSpec::Prime(2))
+            .unwrap();
+        let b = bounds_up_to(&u, 7);
+        assert_eq!(exhaustive(&b), Some(7), "seed {seed}: {:?}", b.notes);
+        check(&u, b.rank_proof.as_ref().unwrap()).unwrap();
+    }
+}

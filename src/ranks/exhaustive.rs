@@ -32,7 +32,7 @@ use super::gf2::{self, Span, left_stabilizer, orbit_minima, rank_ones};
 use super::rank_proof::{Certificate, Level, Node};
 use crate::scalar::FieldSpec;
 use crate::tensor::{AXES, Tensor};
-use std::collections::HashMap;
+use std::collections::HashSet;
 
 /// Budget of one exhaustive proof.
 #[derive(Clone, Debug)]
@@ -129,18 +129,21 @@ pub fn decide_rank(space: &SliceSpace, r: usize, params: &ExhaustiveParams) -> O
         }
     }
     let mut work = 0u64;
-    let mut level: HashMap<Span, Vec<usize>> = HashMap::from([(s.clone(), vec![])]);
+    // each level in a fixed order (so the certificate is deterministic), deduplicated
+    let mut level: Vec<(Span, Vec<usize>)> = vec![(s.clone(), vec![])];
+    let mut keyed: Vec<(u64, usize)> = Vec::with_capacity(ones.len());
     for depth in 0..m {
         cert.levels.push(Level {
             nodes: level
-                .values()
-                .map(|path| Node {
+                .iter()
+                .map(|(_, path)| Node {
                     factors: path.iter().map(|&i| (ones[i].0, ones[i].1)).collect(),
                 })
                 .collect(),
         });
         let last = depth + 1 == m;
-        let mut next: HashMap<Span, Vec<usize>> = HashMap::new();
+        let mut next: Vec<(Span, Vec<usize>)> = Vec::new();
+        let mut seen: HashSet<Span> = HashSet::new();
         for (w, path) in &level {
             work += ones.len() as u64 * (w.dim() as u64 + 1);
             if work > params.max_work {
@@ -150,29 +153,28 @@ pub fn decide_rank(space: &SliceSpace, r: usize, params: &ExhaustiveParams) -> O
                     depth + 1
                 ));
             }
-            let candidates: &[usize] = if depth == 0 { &first } else { &[] };
-            let mut cosets: HashMap<u64, Vec<usize>> = HashMap::new();
-            let mut inside = Vec::new();
-            for (i, &(_, _, x)) in ones.iter().enumerate() {
-                let key = w.reduce(x);
-                if key == 0 {
-                    inside.push(i);
-                } else {
-                    cosets.entry(key).or_default().push(i);
-                }
-            }
-            work += cosets.len() as u64 * (w.dim() as u64 + 8);
+            // the rank-one matrices grouped by their coset modulo W (key 0: inside W)
+            keyed.clear();
+            keyed.extend(ones.iter().enumerate().map(|(i, o)| (w.reduce(o.2), i)));
+            keyed.sort_unstable();
+            let split = keyed.partition_point(|k| k.0 == 0);
+            let (inside, outside) = keyed.split_at(split);
+            let cosets = outside.chunk_by(|x, y| x.0 == y.0);
             if last {
                 let mut base = Span::default();
                 let mut base_used = Vec::new();
-                for &i in &inside {
+                for &(_, i) in inside {
                     if base.insert(ones[i].2) {
                         base_used.push(i);
                     }
                 }
-                for members in cosets.values() {
+                for members in cosets {
+                    if base.dim() + members.len() < r {
+                        continue; // too few rank-one matrices to span W + E
+                    }
+                    work += w.dim() as u64 + 8;
                     let (mut u, mut used) = (base.clone(), base_used.clone());
-                    for &i in members {
+                    for &(_, i) in members {
                         if u.insert(ones[i].2) {
                             used.push(i);
                         }
@@ -184,18 +186,19 @@ pub fn decide_rank(space: &SliceSpace, r: usize, params: &ExhaustiveParams) -> O
                 }
                 continue;
             }
-            for members in cosets.values() {
+            for members in cosets {
                 let pick = if depth == 0 {
-                    match members.iter().find(|i| candidates.contains(i)) {
-                        Some(&i) => i,
+                    match members.iter().find(|(_, i)| first.contains(i)) {
+                        Some(&(_, i)) => i,
                         None => continue,
                     }
                 } else {
-                    members[0]
+                    members[0].1
                 };
+                work += w.dim() as u64 + 8;
                 let mut child = w.clone();
                 child.insert(ones[pick].2);
-                if !next.contains_key(&child) {
+                if !seen.contains(&child) {
                     if next.len() >= params.max_nodes {
                         return Outcome::OutOfBudget(format!(
                             "more than {} spaces at level {}",
@@ -205,7 +208,8 @@ pub fn decide_rank(space: &SliceSpace, r: usize, params: &ExhaustiveParams) -> O
                     }
                     let mut p = path.clone();
                     p.push(pick);
-                    next.insert(child, p);
+                    seen.insert(child.clone());
+                    next.push((child, p));
                 }
             }
         }

@@ -27,7 +27,7 @@ use super::exhaustive::SliceSpace;
 use super::gf2::{self, Span, from_bits, outer, to_bits};
 use crate::scalar::FieldSpec;
 use crate::tensor::{AXES, Tensor, others};
-use std::collections::{HashMap, HashSet};
+use std::collections::HashSet;
 
 /// The format name written in every certificate.
 pub const FORMAT: &str = "bilin rank proof";
@@ -331,30 +331,25 @@ pub fn check(t: &Tensor, c: &Certificate) -> Result<(), String> {
         }
     }
     // 5. closure of the last level
+    let mut keyed: Vec<(u64, u64)> = Vec::with_capacity(ones.len());
     for w in &spaces[m - 1] {
-        let mut cosets: HashMap<u64, Span> = HashMap::new();
-        let inside = Span::of(ones.iter().map(|o| o.2).filter(|&x| w.contains(x)));
-        for &(_, _, x) in &ones {
-            let key = w.reduce(x);
-            if key != 0 {
-                cosets
-                    .entry(key)
-                    .or_insert_with(|| inside.clone())
-                    .insert(x);
+        keyed.clear();
+        keyed.extend(ones.iter().map(|o| (w.reduce(o.2), o.2)));
+        keyed.sort_unstable();
+        let split = keyed.partition_point(|k| k.0 == 0);
+        let inside = Span::of(keyed[..split].iter().map(|k| k.1));
+        for coset in keyed[split..].chunk_by(|x, y| x.0 == y.0) {
+            let mut u = inside.clone();
+            for &(_, x) in coset {
+                u.insert(x);
             }
-        }
-        if let Some(open) = cosets.values().find(|u| u.dim() > r - 1) {
-            let e = open
-                .rows
-                .iter()
-                .find(|&&x| !w.contains(x))
-                .copied()
-                .unwrap_or(0);
-            return Err(format!(
-                "a branch stays open: a space of dimension {r} holding the slices is spanned \
-                 by rank-one matrices (one of them: {})",
-                to_bits(e, a * b)
-            ));
+            if u.dim() >= r {
+                return Err(format!(
+                    "a branch stays open: a space of dimension {r} holding the slices is \
+                     spanned by rank-one matrices (one of them outside the listed space: {})",
+                    to_bits(coset[0].1, a * b)
+                ));
+            }
         }
     }
     Ok(())

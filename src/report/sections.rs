@@ -57,6 +57,16 @@ pub fn bounds_lines(b: &Bounds) -> Vec<String> {
         b.best(),
         b.best_border()
     ));
+    if let Some(u) = b.exhaustive_upper {
+        let exact = if u == b.best() {
+            format!(", so R = {u} over GF(2) exactly")
+        } else {
+            String::new()
+        };
+        lines.push(format!(
+            "upper bound: R <= {u} over GF(2) (a decomposition the exhaustive search found, checked){exact}"
+        ));
+    }
     lines
 }
 
@@ -71,6 +81,7 @@ pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
         data: serde_json::json!({
             "best": b.best(),
             "best_border": b.best_border(),
+            "exhaustive_upper": b.exhaustive_upper,
             "bounds": b.bounds,
             "notes": b.notes,
         }),
