@@ -255,6 +255,23 @@ fn bounds_writes_and_checks_certificates() {
     ]);
     assert_eq!(c, 0);
     assert!(out.contains("certificate holds: R > 6"), "{out}");
+    // a weaker proof never replaces a stronger one: GF(8) proves R > 5, and with no room
+    // for a second level only R > 4
+    let g8 = dir.join("gf8.json");
+    let g = g8.to_str().unwrap();
+    assert_eq!(run(&["bounds", "GF8", "--proof-out", g]).0, 0);
+    let (c, _, err) = run(&[
+        "bounds",
+        "GF8",
+        "--exhaustive-spaces",
+        "0",
+        "--proof-out",
+        g,
+    ]);
+    assert_eq!(c, 0);
+    assert!(err.contains("already proves R > 5; kept it"), "{err}");
+    let (_, out, _) = run(&["bounds", "GF8", "--check-proof", g]);
+    assert!(out.contains("R > 5"), "{out}");
     // a certificate for another tensor is refuted (exit 1)
     let (c, out, _) = run(&["bounds", "poly:2,3", "--field", "GF(2)", "--check-proof", f]);
     assert_eq!(c, 1, "{out}");

@@ -1,7 +1,6 @@
 //! `bilin bounds INPUT [--json] [--proof-out FILE] [--check-proof FILE]`: proven lower
 //! bounds for the tensor rank, and the certificates of exhaustive proofs over GF(2).
 
-use super::common::write_output;
 use super::scheme_io::{fail, load_tensor};
 use super::{EXIT_FALSE, EXIT_OK};
 use bilin::error::{Error, Position};
@@ -53,6 +52,44 @@ fn read_certificate(path: &str) -> Result<Certificate, Error> {
     Certificate::from_json(&v).map_err(|m| Error::Invalid(format!("{path}: {m}")))
 }
 
+/// Write a certificate unless the file already holds a proof of a stronger claim for the
+/// same slices (a better result is never written over). Prints what it did.
+fn write_certificate(path: &str, cert: &Certificate, t: &Tensor) -> Result<(), i32> {
+    let text = serde_json::to_string(&cert.to_json(t)).unwrap_or_default() + "\n";
+    let mut kept = None;
+    let outcome = bilin::output::Target::resolve(path).and_then(|target| {
+        target.replace(|old| {
+            let better = old
+                .and_then(|o| serde_json::from_str::<serde_json::Value>(&o).ok())
+                .and_then(|v| Certificate::from_json(&v).ok())
+                .filter(|o| o.space == cert.space && o.rank_above >= cert.rank_above);
+            match better {
+                Some(o) => {
+                    kept = Some(o.rank_above);
+                    Ok(None)
+                }
+                None => Ok(Some(text.clone())),
+            }
+        })
+    });
+    if let Err(e) = outcome {
+        // never lose a proof: print it when it cannot be written
+        println!(
+            "{}",
+            serde_json::to_string(&cert.to_json(t)).unwrap_or_default()
+        );
+        return Err(fail(&e));
+    }
+    match kept {
+        Some(r) => eprintln!("note: {path} already proves R > {r}; kept it"),
+        None => eprintln!(
+            "note: certificate of R > {} written to {path}",
+            cert.rank_above
+        ),
+    }
+    Ok(())
+}
+
 fn check_file(t: &Tensor, path: &str) -> i32 {
     let cert = match read_certificate(path) {
         Ok(c) => c,
@@ -99,8 +136,7 @@ pub fn run(a: &Args) -> i32 {
     if let Some(path) = &a.proof_out {
         match &b.rank_proof {
             Some(cert) => {
-                let text = serde_json::to_string(&cert.to_json(&t)).unwrap_or_default() + "\n";
-                if let Err(code) = write_output(path, &text) {
+                if let Err(code) = write_certificate(path, cert, &t) {
                     return code;
                 }
             }
