@@ -42,7 +42,6 @@ fn bounds_with(t: &Tensor, goal: usize, symmetry: usize) -> Bounds {
                 max_symmetry_dim: symmetry,
                 max_work: 400_000_000,
                 max_nodes: 400_000,
-                ..ExhaustiveParams::default()
             }),
             ..BoundsParams::default()
         },

@@ -60,7 +60,7 @@ fn write_certificate(path: &str, cert: &Certificate, t: &Tensor) -> Result<(), i
     let outcome = bilin::output::Target::resolve(path).and_then(|target| {
         target.replace(|old| {
             let better = old
-                .and_then(|o| serde_json::from_str::<serde_json::Value>(&o).ok())
+                .and_then(|o| serde_json::from_str::<serde_json::Value>(o).ok())
                 .and_then(|v| Certificate::from_json(&v).ok())
                 .filter(|o| o.space == cert.space && o.rank_above >= cert.rank_above);
             match better {

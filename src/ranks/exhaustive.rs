@@ -265,7 +265,7 @@ pub fn express(space: &SliceSpace, factors: &[(u64, u64)]) -> Option<Vec<u64>> {
         }
         if x != 0 {
             rows.push((x, t));
-            rows.sort_by(|p, q| q.0.cmp(&p.0));
+            rows.sort_by_key(|r| std::cmp::Reverse(r.0));
         }
     }
     let mut out = Vec::new();
