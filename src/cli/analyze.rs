@@ -7,11 +7,11 @@ use super::common::{generators_help, load_with, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::invariants::structure::Property;
 use bilin::laws::Law;
+use bilin::ranks::BoundsParams;
 use bilin::report::invariants::{InvariantParams, Part};
 use bilin::report::{
     Params, Piece, analyze_streaming, render_head, render_json, render_notes, render_section,
 };
-use bilin::scheme::bounds::BoundsParams;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]

@@ -39,7 +39,7 @@ pub struct Params {
     /// The invariants section; `None` leaves it out.
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
-    pub bounds: Option<crate::scheme::bounds::BoundsParams>,
+    pub bounds: Option<crate::ranks::BoundsParams>,
 }
 
 impl Default for Params {

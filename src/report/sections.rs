@@ -6,7 +6,7 @@ use super::Section;
 use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
-use crate::scheme::bounds::{Bounds, BoundsParams, lower_bounds};
+use crate::ranks::{Bounds, BoundsParams, Measure, Status, lower_bounds};
 use crate::tensor::Tensor;
 
 /// The invariants of `t` (all parts that apply to its kind unless `params.only` says
@@ -46,17 +46,47 @@ pub fn invariants_section(
     })
 }
 
-/// Text lines of a set of lower bounds, each with its theorem.
+/// Text lines of a set of lower bounds, each with what it bounds, over which field,
+/// whether it is proven, and its theorem.
 pub fn bounds_lines(b: &Bounds) -> Vec<String> {
     let mut lines = Vec::new();
     for x in &b.bounds {
-        lines.push(format!("R >= {:<4} {}: {}", x.value, x.name, x.detail));
+        let what = match x.measure {
+            Measure::Rank => "R",
+            Measure::BorderRank => "border R",
+        };
+        let status = match x.status {
+            Status::Proven => "proven",
+            Status::Evidence => "evidence only",
+        };
+        lines.push(format!(
+            "{what} >= {:<4} {} ({}; {status}): {}",
+            x.value,
+            x.name,
+            x.scope(),
+            x.detail
+        ));
         lines.push(format!("          theorem: {}", x.theorem));
     }
     for n in &b.notes {
         lines.push(format!("note: {n}"));
     }
-    lines.push(format!("best lower bound: {}", b.best()));
+    let field = b.bounds.first().map(|x| x.field.name()).unwrap_or_default();
+    lines.push(format!(
+        "best lower bound: {} (rank over {field}); for the border rank: {}",
+        b.best(),
+        b.best_border()
+    ));
+    if let Some(u) = b.exhaustive_upper {
+        let exact = if u == b.best() {
+            format!(", so R = {u} over GF(2) exactly")
+        } else {
+            String::new()
+        };
+        lines.push(format!(
+            "upper bound: R <= {u} over GF(2) (a decomposition the exhaustive search found, checked){exact}"
+        ));
+    }
     lines
 }
 
@@ -68,6 +98,12 @@ pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
         id: "lower-bounds".into(),
         title: "Lower bounds for the tensor rank".into(),
         lines: bounds_lines(&b),
-        data: serde_json::json!({ "best": b.best(), "bounds": b.bounds, "notes": b.notes }),
+        data: serde_json::json!({
+            "best": b.best(),
+            "best_border": b.best_border(),
+            "exhaustive_upper": b.exhaustive_upper,
+            "bounds": b.bounds,
+            "notes": b.notes,
+        }),
     }
 }
