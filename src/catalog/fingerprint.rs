@@ -43,8 +43,8 @@ use crate::invariants::forms::{
     trace_form,
 };
 use crate::invariants::spans::{
-    Term, annihilator_of_term, derived_terms, lower_central_terms, products_dim,
-    squares_dim, term_centre_dim,
+    Term, annihilator_of_term, derived_terms, lower_central_terms, products_dim, squares_dim,
+    term_centre_dim,
 };
 use crate::invariants::{ElementSpace, SolveParams, centroid, derivations, element_space};
 use crate::laws::{self, Law};

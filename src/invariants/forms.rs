@@ -17,9 +17,9 @@
 use crate::linalg::nullspace::cached_primes;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
 use crate::scalar::{crt_combine, residue};
-use num_integer::Integer;
 use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
+use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The congruence invariants of a symmetric bilinear form.

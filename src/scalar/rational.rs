@@ -231,7 +231,6 @@ pub fn q_to_f64(a: &Q) -> f64 {
     a.to_f64().unwrap_or(f64::NAN)
 }
 
-
 /// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
 /// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
