@@ -241,8 +241,23 @@ pub fn compute_invariants(
         let mut compute = || -> Result<()> {
             match part {
                 Part::Centre => {
-                    r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
-                    r.centre = Some(es(ElementSpace::Centre)?);
+                    let comm = es(ElementSpace::CommutativeCentre)?;
+                    // in an associative algebra (proven by the law engine) every element
+                    // associates with everything, so Z(A) = Comm(A)
+                    r.centre = Some(if r.associative == Some(true) {
+                        comm.clone()
+                    } else {
+                        es(ElementSpace::Centre)?
+                    });
+                    r.commutative_centre = Some(comm);
+                }
+                Part::Nuclei if r.associative == Some(true) => {
+                    // every associator vanishes: each nucleus is A itself
+                    let whole = Space::whole(n);
+                    r.left_nucleus = Some(whole.clone());
+                    r.middle_nucleus = Some(whole.clone());
+                    r.right_nucleus = Some(whole.clone());
+                    r.nucleus = Some(whole);
                 }
                 Part::Nuclei => {
                     r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
