@@ -22,6 +22,7 @@ pub mod laws;
 pub mod linalg;
 pub mod output;
 pub mod picture;
+pub mod poly;
 pub mod ranks;
 pub mod report;
 pub mod scalar;
