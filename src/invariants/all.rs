@@ -273,11 +273,7 @@ pub fn compute_invariants(
                 } else {
                     match radical(t, &it, sp)? {
                         Some(rad) => RadicalPart::Computed(rad),
-                        None => RadicalPart::NotAvailable(
-                            "not available over GF(p): the trace-form criterion needs \
-                             characteristic 0"
-                                .into(),
-                        ),
+                        None => RadicalPart::NotAvailable("not available over this field".into()),
                     }
                 })
             }

@@ -9,7 +9,8 @@
 //!
 //! - [`elements`]: centre, commutative centre, nuclei, annihilators, unit;
 //! - [`maps`]: centroid, derivations, inner derivations, adjoint algebra;
-//! - [`radical`]: radical of an associative algebra over Q (trace form), semisimple quotient;
+//! - [`radical`]: radical of an associative algebra over Q (trace form) and over GF(p)
+//!   ([`radical_modp`]), semisimple quotient ([`quotient`]);
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
 //! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map.
 
@@ -22,7 +23,9 @@ pub mod lie;
 pub mod maps;
 #[cfg(test)]
 mod properties;
+pub mod quotient;
 pub mod radical;
+pub mod radical_modp;
 pub mod spans;
 #[cfg(test)]
 pub(crate) mod testing;

@@ -185,7 +185,12 @@ mod tests {
         // x^4 - 1 over GF(5) = (x-1)(x-2)(x-3)(x-4): Fermat (common practice)
         assert_eq!(
             factors(5, &[4, 0, 0, 0, 1]),
-            vec![(vec![1, 1], 1), (vec![2, 1], 1), (vec![3, 1], 1), (vec![4, 1], 1)]
+            vec![
+                (vec![1, 1], 1),
+                (vec![2, 1], 1),
+                (vec![3, 1], 1),
+                (vec![4, 1], 1)
+            ]
         );
         // x^4 + 1 over GF(2) = (x + 1)^4 (Frobenius, common practice)
         assert_eq!(factors(2, &[1, 0, 0, 0, 1]), vec![(vec![1, 1], 4)]);

@@ -114,10 +114,7 @@ pub fn lift_factors(f: &[BigInt], factors: &[Vec<u64>], p: u64, big_m: &BigInt) 
     if factors.len() == 1 {
         // f / lc(f) modulo M
         let lc = f.last().expect("nonzero").mod_floor(big_m);
-        let inv = lc
-            .extended_gcd(big_m)
-            .x
-            .mod_floor(big_m);
+        let inv = lc.extended_gcd(big_m).x.mod_floor(big_m);
         return vec![nonneg_mod(
             &f.iter().map(|c| c * &inv).collect::<Vec<_>>(),
             big_m,

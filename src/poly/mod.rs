@@ -169,7 +169,11 @@ pub fn ext_gcd<F: Field>(
         None => (r0, s0, t0),
         Some(l) => {
             let inv = f.inv(l).expect("nonzero");
-            (scale(f, &inv, &r0), scale(f, &inv, &s0), scale(f, &inv, &t0))
+            (
+                scale(f, &inv, &r0),
+                scale(f, &inv, &s0),
+                scale(f, &inv, &t0),
+            )
         }
     }
 }
@@ -212,7 +216,9 @@ pub fn powmod_bits<F: Field>(
 
 /// `a^e mod m`.
 pub fn powmod<F: Field>(f: &F, a: &[F::Elem], e: u64, m: &[F::Elem]) -> Vec<F::Elem> {
-    let bits = (0..64 - e.leading_zeros()).rev().map(move |i| (e >> i) & 1 == 1);
+    let bits = (0..64 - e.leading_zeros())
+        .rev()
+        .map(move |i| (e >> i) & 1 == 1);
     powmod_bits(f, a, bits, m)
 }
 
@@ -307,7 +313,10 @@ pub fn to_rationals<F: Field>(f: &F, a: &[F::Elem]) -> Vec<Q> {
 
 /// The reverse of [`to_rationals`]; `None` when a denominator vanishes in the field.
 pub fn from_rationals<F: Field>(f: &F, a: &[Q]) -> Option<Vec<F::Elem>> {
-    let mut v: Vec<F::Elem> = a.iter().map(|c| f.from_rational(c)).collect::<Option<_>>()?;
+    let mut v: Vec<F::Elem> = a
+        .iter()
+        .map(|c| f.from_rational(c))
+        .collect::<Option<_>>()?;
     trim(f, &mut v);
     Some(v)
 }
@@ -345,7 +354,10 @@ mod tests {
         let (qq, r) = divrem(&QQ, &p(&[1, 0, 0, 1]), &p(&[1, 1]));
         assert_eq!((qq, r), (p(&[1, -1, 1]), Vec::new()));
         assert_eq!(derivative(&QQ, &p(&[5, 3, 0, 2])), p(&[3, 0, 6]));
-        assert_eq!(to_text(&[q(2, 1), q(-1, 2), q(0, 1), q(1, 1)], "x"), "x^3 - 1/2 x + 2");
+        assert_eq!(
+            to_text(&[q(2, 1), q(-1, 2), q(0, 1), q(1, 1)], "x"),
+            "x^3 - 1/2 x + 2"
+        );
         let f7 = PrimeField::new(7).unwrap();
         // x^7 = x mod (x^2 + 1) over GF(7)? x^2 = -1, x^7 = x (x^2)^3 = -x
         assert_eq!(powmod(&f7, &[0, 1], 7, &[1, 0, 1]), vec![0, 6]);

@@ -114,7 +114,10 @@ fn choose_prime(g: &[BigInt]) -> Option<(u64, Vec<Vec<u64>>)> {
     let lc = g.last()?;
     let mut best: Option<(u64, Vec<Vec<u64>>)> = None;
     let mut compared = 0;
-    for p in (3u64..).filter(|&p| crate::scalar::is_prime(p)).take(CANDIDATE_PRIMES) {
+    for p in (3u64..)
+        .filter(|&p| crate::scalar::is_prime(p))
+        .take(CANDIDATE_PRIMES)
+    {
         if (lc % p).is_zero() {
             continue;
         }

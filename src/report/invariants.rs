@@ -84,8 +84,10 @@ pub struct DerivationsReport {
 #[derive(Clone, Debug, Serialize)]
 pub struct RadicalReport {
     pub available: bool,
-    /// Why not available (not associative, or not over Q).
+    /// Why not available (not associative).
     pub note: Option<String>,
+    /// How the radical was computed (`null` when not available).
+    pub method: Option<String>,
     pub radical: Option<VectorSpaceReport>,
     pub semisimple: Option<bool>,
     pub quotient_dim: Option<usize>,
@@ -294,6 +296,7 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
             RadicalPart::NotAvailable(note) => RadicalReport {
                 available: false,
                 note: Some(note.clone()),
+                method: None,
                 radical: None,
                 semisimple: None,
                 quotient_dim: None,
@@ -302,6 +305,7 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
             RadicalPart::Computed(rad) => RadicalReport {
                 available: true,
                 note: None,
+                method: Some(rad.method.clone()),
                 radical: Some(vectors(&rad.space, names, omit)),
                 semisimple: Some(rad.semisimple),
                 quotient_dim: Some(rad.quotient_dim),

@@ -116,11 +116,8 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
     }
     if let Some(rad) = &r.radical {
         if rad.available {
-            vs(
-                &mut s,
-                "radical (trace form Tr(L_xy), char 0)",
-                &rad.radical,
-            );
+            let title = format!("radical ({})", rad.method.as_deref().unwrap_or(""));
+            vs(&mut s, &title, &rad.radical);
             s += &format!(
                 "  semisimple: {}   dim A/rad = {}   dim centre of A/rad = {}\n",
                 yes_no(rad.semisimple),
