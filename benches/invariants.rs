@@ -2,8 +2,8 @@
 //! Target: every invariant of a dimension-64 algebra within seconds on one core.
 use bilin::input::load_input;
 use bilin::invariants::{SolveParams, centroid, derivations};
-use bilin::tensor::IntegralTensor;
 use bilin::report::invariants::{InvariantParams, invariants_report};
+use bilin::tensor::IntegralTensor;
 use criterion::{Criterion, criterion_group, criterion_main};
 
 fn bench(c: &mut Criterion) {

@@ -42,6 +42,10 @@ pub struct Args {
     /// Leave out the lower bounds for the tensor rank.
     #[arg(long)]
     pub no_bounds: bool,
+    /// Leave out the structure section (blocks, radical and simple components, Lie
+    /// structure; see `bilin split`).
+    #[arg(long)]
+    pub no_structure: bool,
     /// Also write a picture of the tensor (its slices, SVG) to this file.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<String>,
@@ -99,6 +103,12 @@ pub fn run(args: Args) -> i32 {
         params.invariants = Some(InvariantParams {
             only,
             ..InvariantParams::default()
+        });
+    }
+    if !args.no_structure {
+        params.structure = Some(bilin::structure::StructureParams {
+            seed: args.seed,
+            ..Default::default()
         });
     }
     if !args.no_bounds {

@@ -1,4 +1,5 @@
 //! The `analyze` report: everything bilin computes about one product, as data.
+//! ([`structure`] is the report of `bilin split`, also a section of `analyze`.)
 //!
 //! [`analyze`] gathers the input summary, the laws (for an algebra or a square map) and
 //! the ranks into an [`AnalyzeReport`]. It renders as aligned text ([`render_text`]) or
@@ -12,6 +13,8 @@ pub mod identify;
 pub mod invariants;
 mod invariants_text;
 pub mod sections;
+pub mod structure;
+mod structure_text;
 mod text;
 
 pub use text::render_text;
@@ -34,6 +37,9 @@ pub struct Params {
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
     pub bounds: Option<crate::scheme::bounds::BoundsParams>,
+    /// The structure section (blocks, radical and simple components, Lie structure);
+    /// `None` leaves it out.
+    pub structure: Option<crate::structure::StructureParams>,
 }
 
 /// What was analysed.
@@ -118,6 +124,9 @@ pub fn analyze_with_progress(
     if let Some(bp) = &params.bounds {
         progress("lower bounds");
         extra.push(sections::bounds_section(t, bp));
+    }
+    if let Some(sp) = &params.structure {
+        extra.push(sections::structure_section(t, sp, progress)?);
     }
     let mut notes = Vec::new();
     let laws = if t.is_square() {

@@ -1,12 +1,15 @@
 //! Extra sections of the `analyze` report contributed by other analyses: the invariant
-//! algebras ([`invariants_section`]) and the proven lower bounds for the tensor rank
-//! ([`bounds_section`]). Each section carries text lines and the same content as JSON.
+//! algebras ([`invariants_section`]), the proven lower bounds for the tensor rank
+//! ([`bounds_section`]) and the structure: blocks, radical, simple components, Lie
+//! structure ([`structure_section`]). Each section carries text lines and the same content
+//! as JSON.
 
 use super::Section;
 use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
 use crate::scheme::bounds::{Bounds, BoundsParams, lower_bounds};
+use crate::structure::StructureParams;
 use crate::tensor::Tensor;
 
 /// The invariants of `t` (all parts that apply to its kind unless `params.only` says
@@ -50,4 +53,22 @@ pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
         lines: bounds_lines(&b),
         data: serde_json::json!({ "best": b.best(), "bounds": b.bounds, "notes": b.notes }),
     }
+}
+
+/// The structure of `t` (blocks, radical and simple components, Lie structure: the parts
+/// that apply) as a report section, the content of `bilin split`. Cost: that of
+/// [`super::structure::split_report`].
+pub fn structure_section(
+    t: &Tensor,
+    params: &StructureParams,
+    progress: &mut dyn FnMut(&str),
+) -> Result<Section> {
+    let (r, _) = super::structure::split_report(t, params, progress)?;
+    let text = super::structure::render_text(&r);
+    Ok(Section {
+        id: "structure".into(),
+        title: "Structure: blocks, radical, simple components".into(),
+        lines: text.lines().skip(1).map(str::to_string).collect(),
+        data: serde_json::to_value(&r).unwrap_or_default(),
+    })
 }

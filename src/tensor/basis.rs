@@ -13,8 +13,30 @@ use num_traits::Zero;
 
 /// Apply (P, R, S) as above. Returns `None` if S is singular or a shape does not match.
 /// The tensor must be over Q or the matrices over the tensor's field (integer
-/// representatives); entries are reduced into the field. Cost: O(nnz * d^3) worst case.
+/// representatives); entries are reduced into the field. Computed through word-size
+/// primes ([`super::basis_modular`]) when the dense result fits, else directly.
+/// Cost: O(d^4) word operations per prime, or O(nnz * d^2 + d^4) exact operations.
 pub fn change_basis(t: &Tensor, p: &Matrix<Q>, r: &Matrix<Q>, s: &Matrix<Q>) -> Option<Tensor> {
+    let d = t.dims();
+    if p.rows != d[0] || p.cols != d[0] || r.rows != d[1] || r.cols != d[1] {
+        return None;
+    }
+    if s.rows != d[2] || s.cols != d[2] {
+        return None;
+    }
+    match super::basis_modular::change_basis_modular(t, p, r, s) {
+        Some(result) => result,
+        None => change_basis_direct(t, p, r, s),
+    }
+}
+
+/// [`change_basis`] by exact rational sums (the reference for the modular path).
+pub(crate) fn change_basis_direct(
+    t: &Tensor,
+    p: &Matrix<Q>,
+    r: &Matrix<Q>,
+    s: &Matrix<Q>,
+) -> Option<Tensor> {
     let d = t.dims();
     if p.rows != d[0] || p.cols != d[0] || r.rows != d[1] || r.cols != d[1] {
         return None;
