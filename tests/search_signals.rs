@@ -336,7 +336,7 @@ fn a_better_or_foreign_file_is_kept() {
     assert_eq!(std::fs::read_to_string(&out).unwrap(), strassen);
     // a file that is not a result for the tensor is refused before work, or replaced with
     // --overwrite
-    let other = dir.join("notes.txt");
+    let other = dir.join("notes.md");
     std::fs::write(&other, "my notes\n").unwrap();
     let (code, _, err) = search_poly(&["--out", s(&other)]);
     assert_eq!(code, 2, "{err}");

@@ -13,6 +13,7 @@ pub mod common;
 mod convert;
 mod draw;
 mod emit;
+mod equiv;
 mod identify;
 mod invariants;
 mod manual;
@@ -49,9 +50,10 @@ enum Command {
     Verify(verify::Args),
     /// Proven lower bounds for the tensor rank, each with its theorem.
     Bounds(bounds::Args),
-    /// Emit a verified scheme as C, Rust, Python or LaTeX.
+    /// Emit a verified scheme as exact C, Rust or Python (block code for matrix formats), or LaTeX.
     Emit(emit::Args),
-    /// Schemes as data: convert, cost, polish, kron, sum, permute, cyclic, transpose, restrict.
+    /// Schemes as data: convert, cost, polish, equiv, kron, sum, permute, cyclic, transpose,
+    /// restrict.
     Scheme(scheme::Args),
     /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
     Invariants(invariants::Args),

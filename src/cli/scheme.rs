@@ -1,12 +1,12 @@
-//! `bilin scheme ...`: work with schemes as data — convert, cost, polish, and build new
-//! schemes (kron, sum, permute, cyclic, transpose, restrict, standard). Every scheme printed
-//! is verified exactly against its tensor first.
+//! `bilin scheme ...`: work with schemes as data — convert, cost, polish, equivalence, and
+//! build new schemes (kron, sum, permute, cyclic, transpose, restrict, standard). Every
+//! scheme printed is verified exactly against its tensor first.
 
 use super::scheme_io::{fail, load_scheme, load_tensor, matmul_format};
 use super::{EXIT_FALSE, EXIT_OK};
 use bilin::error::Error;
 use bilin::scheme::construct as cs;
-use bilin::scheme::cost::count_cost;
+use bilin::scheme::cost::{Objective, count_cost};
 use bilin::scheme::polish::{PolishParams, exponent, polish};
 use bilin::scheme::{Scheme, json, text, verify};
 use bilin::tensor::Tensor;
@@ -58,7 +58,9 @@ pub enum Op {
         #[arg(long)]
         json: bool,
     },
-    /// Count additions (naive and after common-subexpression elimination).
+    /// Every measure of the cost model: multiplications, additions before and after
+    /// common-subexpression elimination, multiplications by constants, nonzeros, the
+    /// largest numerator and denominator.
     Cost {
         #[command(flatten)]
         one: One,
@@ -66,12 +68,45 @@ pub enum Op {
         #[arg(long)]
         format: Option<String>,
     },
-    /// Simplify and rescale a scheme to fewer non-(+-1) coefficients; re-verified.
+    /// Search the tensor's symmetries for a scheme better on an objective (never worse);
+    /// re-verified.
     Polish {
         #[command(flatten)]
         one: One,
+        /// The matrix format n,m,p (default: from a matmul:n,m,p input): enables the
+        /// sandwich moves and the cyclic and transposed forms.
         #[arg(long)]
         format: Option<String>,
+        /// What to lower: multiplications, additions, scalings (multiplications by
+        /// constants other than +-1), nonzeros or coefficients (largest denominator, then
+        /// numerator).
+        #[arg(long, default_value = "additions")]
+        objective: String,
+        /// Most candidate schemes to evaluate (bounds the work).
+        #[arg(long, default_value_t = 3000)]
+        evaluations: usize,
+    },
+    /// Decide whether two schemes of one tensor are equivalent under its symmetries
+    /// (exit 0: equivalent, with a verified transformation; 1: not equivalent, with a
+    /// separating invariant, or undecided).
+    Equiv {
+        /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
+        input: String,
+        /// The first scheme file.
+        scheme1: String,
+        /// The second scheme file.
+        scheme2: String,
+        #[arg(long)]
+        field: Option<String>,
+        /// The matrix format n,m,p (default: from a matmul:n,m,p input).
+        #[arg(long)]
+        format: Option<String>,
+        /// Most search nodes per form of the first scheme.
+        #[arg(long, default_value_t = 200_000)]
+        max_nodes: usize,
+        /// Print a JSON report.
+        #[arg(long)]
+        json: bool,
     },
     /// Kronecker product; with --matmul both inputs are matmul:n,m,p and the result is
     /// reordered to matmul:nn',mm',pp'.
@@ -202,8 +237,10 @@ fn run_op(op: &Op) -> Result<i32, Error> {
             let fmt = matmul_format(&one.input, format.as_deref());
             if one.json {
                 let v = serde_json::json!({
-                    "rank": s.rank(), "cost": c, "naive_additions_total": c.naive_total(),
-                    "additions_total": c.total(), "scalings_total": c.scalings_total(),
+                    "schema": "bilin.scheme-cost/1",
+                    "input": one.input,
+                    "rank": s.rank(),
+                    "cost": c.to_json(),
                     "exponent": fmt.map(|f| exponent(s.rank(), f)),
                 });
                 println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
@@ -217,24 +254,9 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                     d[1],
                     d[2]
                 );
-                println!(
-                    "additions, naive: {} (left {}, right {}, output {})",
-                    c.naive_total(),
-                    c.naive_additions[0],
-                    c.naive_additions[1],
-                    c.naive_additions[2]
-                );
-                println!(
-                    "additions after greedy CSE: {} (left {}, right {}, output {})",
-                    c.total(),
-                    c.additions[0],
-                    c.additions[1],
-                    c.additions[2]
-                );
-                println!(
-                    "scalar multiplications (coefficients other than +-1): {}",
-                    c.scalings_total()
-                );
+                for l in c.lines() {
+                    println!("{l}");
+                }
                 if let Some(f) = fmt {
                     println!(
                         "exponent 3 log r / log(nmp) for <{},{},{}>: {:.4}",
@@ -247,34 +269,71 @@ fn run_op(op: &Op) -> Result<i32, Error> {
             }
             EXIT_OK
         }
-        Op::Polish { one, format } => {
+        Op::Polish {
+            one,
+            format,
+            objective,
+            evaluations,
+        } => {
             let (t, s) = both(one)?;
             let fmt = matmul_format(&one.input, format.as_deref());
             let params = PolishParams {
+                objective: Objective::parse(objective)?,
                 matmul: fmt,
+                evaluations: *evaluations,
                 ..PolishParams::default()
             };
             let p = polish(&s, &t, &params)?;
-            let mut title = format!(
-                "polished scheme for {}: rank {} -> {}, nonzeros {} -> {}, coefficients other than +-1 {} -> {}, additions (CSE) {} -> {}",
+            let mut title = vec![format!(
+                "polished scheme for {} (objective: {}; {}; {} candidates evaluated)",
                 one.input,
-                p.rank_before,
-                p.scheme.rank(),
-                p.nnz_before,
-                p.nnz_after,
-                p.nonunit_before,
-                p.nonunit_after,
-                p.cost_before.total(),
-                p.cost_after.total()
-            );
+                params.objective.name(),
+                if p.improved() {
+                    format!("improved, from the {} form", p.start)
+                } else {
+                    "no better scheme found, the input is kept".to_string()
+                },
+                p.evaluations
+            )];
+            title.extend(p.before.compare_lines(&p.after));
             if let Some(f) = fmt {
-                title.push_str(&format!(
-                    "\nexponent 3 log r / log(nmp): {:.4}",
+                title.push(format!(
+                    "exponent 3 log r / log(nmp): {:.4}",
                     exponent(p.scheme.rank(), f)
                 ));
             }
+            let title = title.join("\n");
             eprintln!("{title}");
             show(&p.scheme, &t, &title, one.json)
+        }
+        Op::Equiv {
+            input,
+            scheme1,
+            scheme2,
+            field,
+            format,
+            max_nodes,
+            json,
+        } => {
+            let t = load_tensor(input, field.as_deref())?;
+            let s1 = load_scheme(scheme1, &t)?;
+            let s2 = load_scheme(scheme2, &t)?;
+            for (path, s) in [(scheme1, &s1), (scheme2, &s2)] {
+                if let Err(m) = verify(s, &t) {
+                    eprintln!(
+                        "error: {path} does not verify for {input} ({} wrong coefficients; `bilin verify` shows them)",
+                        m.count
+                    );
+                    return Ok(EXIT_FALSE);
+                }
+            }
+            let params = bilin::scheme::equiv::EquivParams {
+                matmul: matmul_format(input, format.as_deref()),
+                max_nodes: *max_nodes,
+                ..Default::default()
+            };
+            let e = bilin::scheme::equiv::equivalence(&s1, &s2, &t, &params);
+            super::equiv::render(&e, &t, [&s1, &s2], [scheme1, scheme2], *json)
         }
         Op::Kron { two, matmul } => {
             let f = two.field.as_deref();

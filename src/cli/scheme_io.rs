@@ -19,8 +19,18 @@ pub fn load_tensor(spec: &str, field: Option<&str>) -> Result<Tensor, Error> {
 
 /// Read a scheme file (text or JSON form) against a tensor, within the input size limit.
 pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
+    read_scheme_file(path, t).map(|x| x.0)
+}
+
+/// Read a scheme file against a tensor, keeping the lines of the text form (`None` for a
+/// JSON file) and the file's text.
+pub fn read_scheme_file(
+    path: &str,
+    t: &Tensor,
+) -> Result<(Scheme, Option<bilin::scheme::text::LineMap>, String), Error> {
     let text = bilin::input::read_text_file(path)?;
-    bilin::scheme::parse_scheme(&text, path, t)
+    let (s, lines) = bilin::scheme::parse_scheme_located(&text, path, t)?;
+    Ok((s, lines, text))
 }
 
 /// `<n,m,p>` from a spec `matmul:n,m,p`, or from an explicit `n,m,p`.

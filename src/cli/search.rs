@@ -47,8 +47,8 @@ pub struct SearchArgs {
     /// Number of runs (random starts / walks) in this job.
     #[arg(long)]
     pub restarts: Option<u64>,
-    /// Write the best scheme here (JSON); default: standard output. An existing better
-    /// result in the file is kept.
+    /// Write the best scheme here (the text form for a `.txt` name, JSON otherwise);
+    /// default: standard output (JSON). An existing better result in the file is kept.
     #[arg(long)]
     pub out: Option<String>,
     /// Resume from a checkpoint (its seed, shard and progress) or start from a scheme file.

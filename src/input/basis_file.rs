@@ -18,7 +18,6 @@ use crate::error::{Error, Position, Result};
 use crate::linalg::{Matrix, determinant};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q};
 use crate::tensor::{Kind, MAX_DIM, Tensor, change_basis, random_invertible};
-use num_traits::Zero;
 use std::collections::HashSet;
 
 /// One `matrix` block: the matrix and the position of its `matrix` keyword.
@@ -354,7 +353,7 @@ fn check_block(b: &MatrixBlock, what: &str, n: usize, field: FieldSpec) -> Resul
         ));
     }
     let singular = match field {
-        FieldSpec::Rational => determinant(&crate::scalar::Rationals, &b.matrix).is_zero(),
+        FieldSpec::Rational => crate::linalg::rank_q(&b.matrix) < n,
         FieldSpec::Prime(p) => {
             let f = PrimeField::new(p).expect("a prime field");
             if b.matrix.data.iter().any(|x| f.denominator_vanishes(x)) {

@@ -13,12 +13,13 @@
 
 use super::elements::{ElementSpace, element_space};
 use super::equations::{Eq, System};
+use super::generated::{Kind, solve_by_generators};
 use crate::error::Result;
 use crate::linalg::Matrix;
-use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
+use crate::linalg::nullspace::{SolveParams, Space, largest_component, solve_nullspace};
 use crate::scalar::Q;
 use crate::tensor::IntegralTensor;
-use crate::tensor::{Tensor, flattening, rank_over};
+use crate::tensor::Tensor;
 use num_traits::{One, Zero};
 
 /// The centroid and its properties.
@@ -39,11 +40,11 @@ pub struct Centroid {
 /// ch. X); otherwise the basis maps are multiplied exactly (when n <= 32 and dim <= 32).
 pub fn centroid(t: &Tensor, k: &IntegralTensor, params: &SolveParams) -> Result<Centroid> {
     let n = k.dims[0];
-    let space = solve_nullspace(&System::new(k, &[Eq::Centroid]), params)?;
+    let space = solve_maps(k, Kind::Centroid, params)?;
     let d = space.dim();
     let (commutative, reason) = if d <= 1 {
         (Some(true), "dimension at most 1".to_string())
-    } else if rank_over(t.field(), &flattening(t, 2)) == n {
+    } else if crate::tensor::flatten::flattening_ranks_of(k)[2] == n {
         (
             Some(true),
             "A^2 = A, so the centroid is commutative (theorem)".to_string(),
@@ -85,7 +86,27 @@ fn maps_commute(t: &Tensor, space: &Space, n: usize) -> bool {
 
 /// The derivation algebra Der(A) (proven basis).
 pub fn derivations(k: &IntegralTensor, params: &SolveParams) -> Result<Space> {
-    solve_nullspace(&System::new(k, &[Eq::Derivations]), params)
+    solve_maps(k, Kind::Derivations, params)
+}
+
+/// Derivations or the centroid: through generators ([`super::generated`]) when the plain
+/// system (n^2 unknowns) would be eliminated as one large block: dense tables, or sparse
+/// ones whose largest connected block of unknowns is large; otherwise the plain system,
+/// block by block. Both answers are proven by the same exact check.
+fn solve_maps(k: &IntegralTensor, kind: Kind, params: &SolveParams) -> Result<Space> {
+    let n = k.dims[0];
+    let plain = System::new(
+        k,
+        &[match kind {
+            Kind::Derivations => Eq::Derivations,
+            Kind::Centroid => Eq::Centroid,
+        }],
+    );
+    let worth = n >= 8 && (k.dense || largest_component(&plain) > 8 * n);
+    if worth && let Some(space) = solve_by_generators(k, kind, params)? {
+        return Ok(space);
+    }
+    solve_nullspace(&plain, params)
 }
 
 /// The adjoint algebra: pairs (f, g) with `f(a) b = a g(b)`; a vector holds f (first n^2

@@ -19,6 +19,7 @@ pub mod bilinear;
 pub mod elements;
 pub mod equations;
 pub mod forms;
+pub mod generated;
 pub mod lie;
 pub mod maps;
 #[cfg(test)]

@@ -13,7 +13,7 @@ use super::{Matrix, echelon};
 use crate::scalar::{Q, Rationals};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, ToPrimitive};
+use num_traits::{One, ToPrimitive, Zero};
 
 pub use super::kernels::KERNEL_PRIME_BITS;
 const LAZY_STEPS: usize = 127;
@@ -126,6 +126,104 @@ fn integer_rows(m: &Matrix<Q>) -> Vec<Vec<BigInt>> {
         .collect()
 }
 
+/// The inverse of a square rational matrix, exactly, or `None` when it is singular.
+///
+/// Method: the rows are scaled to integers (`M = D^-1 A`, D diagonal); `A^-1` is computed
+/// modulo successive 28-bit primes (Gauss-Jordan on `[A | I]`), combined by the Chinese
+/// remainder theorem and read back by rational reconstruction (with shared denominators),
+/// and accepted only when `A X = I` holds exactly over the integers; then
+/// `M^-1 = X D`. A matrix singular modulo the first prime is checked by an exact rank.
+/// Cost per prime: O(n^3) word operations; the check O(n^3) big-integer operations.
+pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
+    let n = m.rows;
+    if m.cols != n {
+        return None;
+    }
+    if n == 0 {
+        return Some(m.clone());
+    }
+    let ints = integer_rows(m);
+    // row scales: M[i] = A[i] / d_i
+    let scales: Vec<BigInt> = (0..n)
+        .map(|i| {
+            m.row(i)
+                .iter()
+                .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()))
+        })
+        .collect();
+    let primes = super::nullspace::cached_primes();
+    let mut residues: Vec<BigInt> = Vec::new();
+    let mut modulus = BigInt::one();
+    let mut previous: Option<Vec<Q>> = None;
+    for (k, &p) in primes.iter().enumerate() {
+        let pb = BigInt::from(p);
+        let mut aug = vec![0u64; n * 2 * n];
+        for i in 0..n {
+            for j in 0..n {
+                let x = &ints[i][j];
+                aug[i * 2 * n + j] = match x.to_i64() {
+                    Some(v) => v.rem_euclid(p as i64) as u64,
+                    None => x.mod_floor(&pb).to_u64().unwrap_or(0),
+                };
+            }
+            aug[i * 2 * n + n + i] = 1;
+        }
+        let piv = rref_mod(&mut aug, n, 2 * n, p, true);
+        if piv.len() < n || piv[n - 1] != n - 1 {
+            if k == 0 && rank_q(m) < n {
+                return None;
+            }
+            continue;
+        }
+        let img: Vec<u64> = (0..n)
+            .flat_map(|i| (0..n).map(move |j| (i, j)))
+            .map(|(i, j)| aug[i * 2 * n + n + j])
+            .collect();
+        if residues.is_empty() {
+            residues = img.iter().map(|&x| BigInt::from(x)).collect();
+            modulus = pb;
+        } else {
+            crt_combine(&mut residues, &modulus, &img, p);
+            modulus *= p;
+        }
+        let rec = crate::scalar::Reconstructor::new(&modulus);
+        let Some(x) = rec.reconstruct_many(&residues) else {
+            continue;
+        };
+        if previous.as_ref() != Some(&x) {
+            previous = Some(x);
+            continue;
+        }
+        // exact check: A X = I
+        let den = x.iter().fold(BigInt::one(), |acc, q| acc.lcm(q.denom()));
+        let xi: Vec<BigInt> = x.iter().map(|q| q.numer() * (&den / q.denom())).collect();
+        let ok = (0..n).all(|i| {
+            (0..n).all(|j| {
+                let mut s = BigInt::zero();
+                for (l, a) in ints[i].iter().enumerate() {
+                    if !a.is_zero() {
+                        s += a * &xi[l * n + j];
+                    }
+                }
+                if i == j { s == den } else { s.is_zero() }
+            })
+        });
+        if ok {
+            // M^-1 = A^-1 D: column j scaled by d_j
+            let data = (0..n)
+                .flat_map(|i| (0..n).map(move |j| (i, j)))
+                .map(|(i, j)| &x[i * n + j] * Q::from_integer(scales[j].clone()))
+                .collect();
+            return Some(Matrix {
+                rows: n,
+                cols: n,
+                data,
+            });
+        }
+    }
+    echelon::inverse(&Rationals, m)
+}
+
 /// Rank over Q, proven. Fast path: rank modulo a 28-bit prime (a lower bound); when it is
 /// not already maximal, the nullspace is computed and checked (see [`nullspace_q`]).
 /// Cost: one modular elimination for full-rank input; otherwise that of [`nullspace_q`].
@@ -155,7 +253,15 @@ pub fn rank_q(m: &Matrix<Q>) -> usize {
     if r == m.rows.min(m.cols) {
         return r;
     }
-    m.cols - nullspace_ints(m.cols, ints).len()
+    let sys = super::system::IntegerRows::new(m.cols, ints);
+    let params = super::nullspace::SolveParams {
+        max_memory: usize::MAX,
+        ..Default::default()
+    };
+    match super::nullspace::solve_nullspace(&sys, &params) {
+        Ok(sp) => m.cols - sp.dim(),
+        Err(_) => echelon::rank(&Rationals, m),
+    }
 }
 
 /// A basis of the right nullspace {x in Q^c : m x = 0}, in reduced form (one vector per
@@ -167,6 +273,17 @@ pub fn nullspace_q(m: &Matrix<Q>) -> Vec<Vec<Q>> {
         return Vec::new();
     }
     nullspace_ints(m.cols, integer_rows(m))
+}
+
+/// x = a (mod m) and x = b (mod p) -> x mod (m p), entry by entry.
+fn crt_combine(res: &mut [BigInt], m: &BigInt, img: &[u64], p: u64) {
+    let m_mod_p = (m % p).to_u64().unwrap_or(0);
+    let minv = inv_mod(m_mod_p, p);
+    for (a, &b) in res.iter_mut().zip(img) {
+        let a_mod_p = (&*a % p).to_u64().unwrap_or(0);
+        let t = ((b + p - a_mod_p) % p) * minv % p;
+        *a += m * t;
+    }
 }
 
 fn nullspace_ints(cols: usize, rows: Vec<Vec<BigInt>>) -> Vec<Vec<Q>> {

@@ -33,7 +33,7 @@ use super::modular::kernel_primes;
 use super::sparse_echelon::SparseEchelon;
 use super::system::{RowBuf, RowSource, materialize};
 use crate::error::{Error, Result};
-use crate::scalar::{Q, rational_reconstruct};
+use crate::scalar::{Q, Reconstructor};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, ToPrimitive, Zero};
@@ -176,6 +176,19 @@ pub fn solve_nullspace(src: &dyn RowSource, params: &SolveParams) -> Result<Spac
     }
     basis.sort_by_key(|v: &SparseQ| v.first().map(|e| e.0));
     Ok(Space { unknowns: n, basis })
+}
+
+/// The number of unknowns of the largest connected component of a system (unknowns
+/// joined by the equations they share), from its pattern modulo the first prime.
+/// Cost: writing the system out once (its terms) and a union-find.
+pub fn largest_component(src: &dyn RowSource) -> usize {
+    let p = src.modulus().unwrap_or(cached_primes()[0]);
+    let rows = materialize(src, p);
+    components(&rows, src.unknowns())
+        .iter()
+        .map(|c| c.unknowns.len())
+        .max()
+        .unwrap_or(0)
 }
 
 /// The exact rank of a system's matrix, `unknowns - nullity`. Fast path: the rank modulo
@@ -638,57 +651,87 @@ impl Ctx<'_, '_> {
     /// Exact check of candidate vectors (local coordinates) against every equation of the
     /// component (see the module documentation).
     fn check(&self, basis: &[SparseQ]) -> Result<bool> {
-        if basis.is_empty() {
-            return Ok(true);
+        if self.c.streamed {
+            return check_solutions(self.s.src, basis);
         }
-        // integer vectors
-        let ints: Vec<Vec<(u32, BigInt)>> = basis
-            .iter()
-            .map(|v| {
-                let l = v
-                    .iter()
-                    .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
-                v.iter()
-                    .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
-                    .collect()
-            })
-            .collect();
-        let xbits = ints
-            .iter()
-            .flatten()
-            .map(|(_, x)| x.bits())
-            .max()
-            .unwrap_or(0);
-        let (check_primes, exact_field) = match self.s.src.modulus() {
-            Some(q) => (vec![q], true),
-            None => (cached_primes().to_vec(), false),
+        let rows_ok = |p: u64, xs: &[Vec<u64>]| {
+            let rows = self.s.rows_mod(p);
+            let ok = self.c.rows.par_iter().all(|&r| {
+                let (cols, vals) = rows.row(r as usize);
+                residual_zero(cols, vals, xs, p, |c| self.local[&c] as usize)
+            });
+            (ok, rows.max_terms)
         };
-        let mut needed = 1usize;
-        let mut k = 0;
-        while k < needed {
-            let p = check_primes
-                .get(k)
-                .copied()
-                .ok_or_else(|| Error::Invalid("the exact check needs too many primes".into()))?;
-            let (ok, max_terms) = self.check_mod(&ints, p);
-            if !ok {
-                return Ok(false);
-            }
-            if k == 0 && !exact_field {
-                let bits = (max_terms.max(1) as f64).log2().ceil() as u64
-                    + self.s.src.term_bits()
-                    + xbits
-                    + 2;
-                needed = (bits as f64 / 27.99).ceil() as usize;
-            }
-            k += 1;
-        }
-        Ok(true)
+        exact_check(
+            self.s.src.modulus(),
+            self.s.src.term_bits(),
+            self.m(),
+            basis,
+            rows_ok,
+        )
     }
+}
 
-    /// All residuals modulo p vanish; also the largest number of terms of a row.
-    fn check_mod(&self, ints: &[Vec<(u32, BigInt)>], p: u64) -> (bool, usize) {
-        let m = self.m();
+/// Whether the residual of one equation vanishes modulo p for every vector of `xs`
+/// (dense residue vectors; `loc` maps a column to its coordinate).
+fn residual_zero(
+    cols: &[u32],
+    vals: &[u32],
+    xs: &[Vec<u64>],
+    p: u64,
+    loc: impl Fn(u32) -> usize,
+) -> bool {
+    xs.iter().all(|x| {
+        let mut acc: u128 = 0;
+        for (&c, &v) in cols.iter().zip(vals) {
+            acc += v as u128 * x[loc(c)] as u128;
+        }
+        acc.is_multiple_of(p as u128)
+    })
+}
+
+/// The exact check of candidate vectors in coordinates `0..m` (see the module
+/// documentation): `residuals(p, xs)` says whether every equation vanishes modulo p on the
+/// vectors reduced mod p, and gives the largest number of terms of an equation.
+fn exact_check(
+    modulus: Option<u64>,
+    term_bits: u64,
+    m: usize,
+    basis: &[SparseQ],
+    residuals: impl Fn(u64, &[Vec<u64>]) -> (bool, usize),
+) -> Result<bool> {
+    if basis.is_empty() {
+        return Ok(true);
+    }
+    // integer vectors
+    let ints: Vec<Vec<(u32, BigInt)>> = basis
+        .iter()
+        .map(|v| {
+            let l = v
+                .iter()
+                .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
+            v.iter()
+                .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
+                .collect()
+        })
+        .collect();
+    let xbits = ints
+        .iter()
+        .flatten()
+        .map(|(_, x)| x.bits())
+        .max()
+        .unwrap_or(0);
+    let (check_primes, exact_field) = match modulus {
+        Some(q) => (vec![q], true),
+        None => (cached_primes().to_vec(), false),
+    };
+    let mut needed = 1usize;
+    let mut k = 0;
+    while k < needed {
+        let p = check_primes
+            .get(k)
+            .copied()
+            .ok_or_else(|| Error::Invalid("the exact check needs too many primes".into()))?;
         let pb = BigInt::from(p);
         let xs: Vec<Vec<u64>> = ints
             .iter()
@@ -703,45 +746,53 @@ impl Ctx<'_, '_> {
                 d
             })
             .collect();
-        let residual_zero = |cols: &[u32], vals: &[u32], loc: &dyn Fn(u32) -> usize| {
-            xs.iter().all(|x| {
-                let mut acc: u128 = 0;
-                for (&c, &v) in cols.iter().zip(vals) {
-                    acc += v as u128 * x[loc(c)] as u128;
-                }
-                acc.is_multiple_of(p as u128)
-            })
-        };
-        if self.c.streamed {
-            let blocks = self.s.src.blocks();
-            let ok = (0..blocks).into_par_iter().try_fold(
-                || (RowBuf::new(p), 0usize),
-                |(mut b, mt), blk| {
+        let (ok, max_terms) = residuals(p, &xs);
+        if !ok {
+            return Ok(false);
+        }
+        if k == 0 && !exact_field {
+            let bits = (max_terms.max(1) as f64).log2().ceil() as u64 + term_bits + xbits + 2;
+            needed = (bits as f64 / 27.99).ceil() as usize;
+        }
+        k += 1;
+    }
+    Ok(true)
+}
+
+/// Check exactly that vectors (in the system's own coordinates) solve **every** equation
+/// of a system, produced block by block (see the module documentation for the bound).
+/// Cost: per prime used, one pass over all blocks, O(terms x vectors).
+pub fn check_solutions(src: &dyn RowSource, basis: &[SparseQ]) -> Result<bool> {
+    let residuals = |p: u64, xs: &[Vec<u64>]| {
+        let res: std::result::Result<Vec<usize>, ()> = (0..src.blocks())
+            .into_par_iter()
+            .map_init(
+                || RowBuf::new(p),
+                |b, blk| {
                     b.clear();
-                    self.s.src.block(blk, p, &mut b);
+                    src.block(blk, p, b);
                     for r in 0..b.rows() {
                         let (cols, vals) = b.row(r);
-                        if !residual_zero(cols, vals, &|c| c as usize) {
+                        if !residual_zero(cols, vals, xs, p, |c| c as usize) {
                             return Err(());
                         }
                     }
-                    let mt = mt.max(b.max_terms);
-                    Ok((b, mt))
+                    Ok(b.max_terms)
                 },
-            );
-            let res: std::result::Result<Vec<(RowBuf, usize)>, ()> = ok.collect();
-            return match res {
-                Ok(v) => (true, v.iter().map(|x| x.1).max().unwrap_or(0)),
-                Err(()) => (false, 0),
-            };
+            )
+            .collect();
+        match res {
+            Ok(v) => (true, v.into_iter().max().unwrap_or(0)),
+            Err(()) => (false, 0),
         }
-        let rows = self.s.rows_mod(p);
-        let ok = self.c.rows.par_iter().all(|&r| {
-            let (cols, vals) = rows.row(r as usize);
-            residual_zero(cols, vals, &|c| self.local[&c] as usize)
-        });
-        (ok, rows.max_terms)
-    }
+    };
+    exact_check(
+        src.modulus(),
+        src.term_bits(),
+        src.unknowns(),
+        basis,
+        residuals,
+    )
 }
 
 /// A byte count for messages (`1.5 GiB`, `300 MiB`).
@@ -807,16 +858,19 @@ fn reconstruct(
     free: &[usize],
 ) -> Option<Vec<SparseQ>> {
     let nf = free.len();
+    let rec = Reconstructor::new(modulus);
     let mut out = Vec::with_capacity(nf);
     for (k, &f) in free.iter().enumerate() {
+        let at: Vec<(usize, &BigInt)> = pivots
+            .iter()
+            .enumerate()
+            .map(|(r, &pc)| (pc, &res[r * nf + k]))
+            .filter(|(_, x)| !x.is_zero())
+            .collect();
+        let xs: Vec<BigInt> = at.iter().map(|(_, x)| (*x).clone()).collect();
+        let qs = rec.reconstruct_many(&xs)?;
         let mut v: SparseQ = vec![(f as u32, Q::one())];
-        for (r, &pc) in pivots.iter().enumerate() {
-            let x = &res[r * nf + k];
-            if !x.is_zero() {
-                let q = rational_reconstruct(x, modulus)?;
-                v.push((pc as u32, -q));
-            }
-        }
+        v.extend(at.iter().zip(qs).map(|((pc, _), q)| (*pc as u32, -q)));
         v.sort_by_key(|e| e.0);
         out.push(v);
     }

@@ -148,23 +148,82 @@ impl Field for Rationals {
 /// `a mod m`, find `n/d` with `n = a d (mod m)`, `|n|, d <= sqrt(m/2)`. Returns `None` if no
 /// such fraction exists. Cost: O(log m) big-integer steps.
 pub fn rational_reconstruct(a: &BigInt, m: &BigInt) -> Option<Q> {
-    let a = a.mod_floor(m);
-    let bound = (m >> 1u32).sqrt();
-    let (mut r0, mut r1) = (m.clone(), a);
+    Reconstructor::new(m).reconstruct(a)
+}
+
+/// [`rational_reconstruct`] for many residues modulo one `m` (the bound `sqrt(m/2)` is
+/// computed once).
+pub struct Reconstructor {
+    m: BigInt,
+    bound: BigInt,
+}
+
+impl Reconstructor {
+    pub fn new(m: &BigInt) -> Self {
+        Reconstructor {
+            m: m.clone(),
+            bound: (m >> 1u32).sqrt(),
+        }
+    }
+
+    /// [`Self::reconstruct`] of many residues that share denominators (as the entries of a
+    /// reduced echelon form do): a running common denominator D is kept, and an entry x is
+    /// first tried as `(x D mod m) / D` with the symmetric residue below the bound; only
+    /// otherwise is the extended Euclidean algorithm run (on `x D`) and D enlarged.
+    /// Each fraction returned is congruent to its residue modulo m. `None` if an entry
+    /// has no reconstruction.
+    pub fn reconstruct_many(&self, xs: &[BigInt]) -> Option<Vec<Q>> {
+        let (m, bound) = (&self.m, &self.bound);
+        let mut den = BigInt::one();
+        let mut out = Vec::with_capacity(xs.len());
+        let half = m >> 1u32;
+        for x in xs {
+            let mut y = (x * &den).mod_floor(m);
+            if y > half {
+                y -= m;
+            }
+            if &y.abs() <= bound {
+                out.push(Q::new(y, den.clone()));
+                continue;
+            }
+            let q = self.reconstruct(&(x * &den))?;
+            let d = &den * q.denom();
+            if &d > bound {
+                // the running denominator is no longer unique: this entry alone
+                let q = self.reconstruct(x)?;
+                den = q.denom().clone();
+                out.push(q);
+                continue;
+            }
+            den = d;
+            out.push(Q::new(q.numer().clone(), den.clone()));
+        }
+        Some(out)
+    }
+
+    /// The fraction `n/d` congruent to `a` modulo m with `|n|, d <= sqrt(m/2)`, if any.
+    pub fn reconstruct(&self, a: &BigInt) -> Option<Q> {
+        let (m, bound) = (&self.m, &self.bound);
+        let a = a.mod_floor(m);
+        if &a <= bound {
+            return Some(Q::from_integer(a));
+        }
+        let (mut r0, mut r1) = (m.clone(), a);
     let (mut t0, mut t1) = (BigInt::zero(), BigInt::one());
-    while r1 > bound {
-        let (qq, r) = r0.div_rem(&r1);
-        r0 = std::mem::replace(&mut r1, r);
-        let t = &t0 - &qq * &t1;
-        t0 = std::mem::replace(&mut t1, t);
+        while &r1 > bound {
+            let (qq, r) = r0.div_rem(&r1);
+            r0 = std::mem::replace(&mut r1, r);
+            let t = &t0 - &qq * &t1;
+            t0 = std::mem::replace(&mut t1, t);
+        }
+        if t1.is_zero() || &t1.abs() > bound {
+            return None;
+        }
+        if !r1.gcd(&t1).is_one() {
+            return None;
+        }
+        Some(Q::new(r1, t1))
     }
-    if t1.is_zero() || t1.abs() > bound {
-        return None;
-    }
-    if !r1.gcd(&t1).is_one() {
-        return None;
-    }
-    Some(Q::new(r1, t1))
 }
 
 /// `a` as f64 (nearest), for numerical methods that only *find*, never confirm.

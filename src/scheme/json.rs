@@ -28,7 +28,7 @@ pub fn to_json(s: &Scheme) -> Value {
                 .collect(),
         )
     };
-    json!({
+    let mut v = json!({
         "schema": SCHEMA,
         "field": s.field.name(),
         "dims": s.dims,
@@ -36,7 +36,11 @@ pub fn to_json(s: &Scheme) -> Value {
         "u": m(&s.u),
         "v": m(&s.v),
         "w": m(&s.w),
-    })
+    });
+    if !s.labels.is_empty() {
+        v["labels"] = json!(s.labels);
+    }
+    v
 }
 
 /// The JSON text of a scheme, one multiplication per line inside each matrix.
@@ -55,8 +59,16 @@ pub fn write_json(s: &Scheme) -> String {
         let lines: Vec<String> = rows.iter().map(|r| format!("    {}", row(r))).collect();
         format!("[\n{}\n  ]", lines.join(",\n"))
     };
+    let labels = if s.labels.is_empty() {
+        String::new()
+    } else {
+        format!(
+            ",\n  \"labels\": {}",
+            serde_json::to_string(&s.labels).unwrap_or_default()
+        )
+    };
     format!(
-        "{{\n  \"schema\": \"{SCHEMA}\",\n  \"field\": \"{}\",\n  \"dims\": [{}, {}, {}],\n  \"rank\": {},\n  \"u\": {},\n  \"v\": {},\n  \"w\": {}\n}}\n",
+        "{{\n  \"schema\": \"{SCHEMA}\",\n  \"field\": \"{}\",\n  \"dims\": [{}, {}, {}],\n  \"rank\": {},\n  \"u\": {},\n  \"v\": {},\n  \"w\": {}{labels}\n}}\n",
         s.field.name(),
         s.dims[0],
         s.dims[1],
@@ -102,7 +114,7 @@ pub fn from_node(
         doc,
         v,
         path,
-        &["schema", "field", "dims", "rank", "u", "v", "w"],
+        &["schema", "field", "dims", "rank", "u", "v", "w", "labels"],
     )?;
     if let Some(sc) = v.get("schema")
         && sc.value != JValue::Str(SCHEMA.into())
@@ -186,12 +198,44 @@ pub fn from_node(
             format!("found {} but there are {} rows", r.describe(), u.len()),
         ));
     }
+    let labels = match v.get("labels") {
+        None => Vec::new(),
+        Some(l) if matches!(l.value, JValue::Null) => Vec::new(),
+        Some(l) => {
+            let lp = key("labels");
+            let items = json_list(doc, l, &lp, "a list of product labels")?;
+            if items.len() != u.len() {
+                return Err(doc.error(
+                    l.at,
+                    &lp,
+                    format!(
+                        "{} labels, expected {} (one per product)",
+                        items.len(),
+                        u.len()
+                    ),
+                ));
+            }
+            items
+                .iter()
+                .enumerate()
+                .map(|(i, x)| match &x.value {
+                    JValue::Str(s) => Ok(s.clone()),
+                    _ => Err(doc.error(
+                        x.at,
+                        &format!("{lp}[{i}]"),
+                        format!("expected a string, found {}", x.describe()),
+                    )),
+                })
+                .collect::<Result<Vec<_>, _>>()?
+        }
+    };
     Ok(Scheme {
         field,
         dims,
         u,
         v: v_rows,
         w,
+        labels,
     })
 }
 

@@ -11,17 +11,20 @@
 pub mod bounds;
 pub mod construct;
 pub mod cost;
+pub mod diagnose;
 pub mod emit;
+pub mod equiv;
 pub mod json;
-mod latex;
 pub mod polish;
 pub mod sandwich;
+pub mod symmetry;
+pub mod terms;
 #[cfg(test)]
 pub(crate) mod testkit;
 pub mod text;
 mod verify;
 
-pub use verify::{Mismatch, verify};
+pub use verify::{Mismatch, Wrong, scheme_tensor, verify, wrong_coefficients};
 
 use crate::scalar::{FieldSpec, Q};
 
@@ -38,6 +41,10 @@ pub struct Scheme {
     pub v: Vec<Vec<Q>>,
     /// `w[t]` has length `dims[2]`: where product t is added into the result.
     pub w: Vec<Vec<Q>>,
+    /// The user's names of the products (`p0`, `pinf`, ...), kept from the text form into
+    /// written schemes and emitted code; empty when the products carry the default names
+    /// `m1..mr`. When not empty it has one entry per product.
+    pub labels: Vec<String>,
 }
 
 impl Scheme {
@@ -49,6 +56,16 @@ impl Scheme {
             u: Vec::new(),
             v: Vec::new(),
             w: Vec::new(),
+            labels: Vec::new(),
+        }
+    }
+
+    /// The name of product t: the user's label, or `{prefix}{t+1}` when the scheme has no
+    /// labels (see [`text::product_prefix`] for the prefix of a tensor).
+    pub fn label(&self, t: usize, prefix: &str) -> String {
+        match self.labels.get(t) {
+            Some(l) if self.labels.len() == self.rank() => l.clone(),
+            _ => format!("{prefix}{}", t + 1),
         }
     }
 
@@ -57,7 +74,8 @@ impl Scheme {
         self.u.len()
     }
 
-    /// Append a rank-one term.
+    /// Append a rank-one term. A labelled scheme loses its labels (the new product has
+    /// none); use [`Scheme::push_labelled`] to keep them.
     pub fn push(&mut self, u: Vec<Q>, v: Vec<Q>, w: Vec<Q>) {
         assert_eq!(u.len(), self.dims[0]);
         assert_eq!(v.len(), self.dims[1]);
@@ -65,6 +83,18 @@ impl Scheme {
         self.u.push(u);
         self.v.push(v);
         self.w.push(w);
+        self.labels.clear();
+    }
+
+    /// Append a rank-one term with a label (kept only while every product has one).
+    pub fn push_labelled(&mut self, u: Vec<Q>, v: Vec<Q>, w: Vec<Q>, label: Option<String>) {
+        let mut labels = std::mem::take(&mut self.labels);
+        let keep = labels.len() == self.rank() && label.is_some();
+        self.push(u, v, w);
+        if keep {
+            labels.extend(label);
+            self.labels = labels;
+        }
     }
 
     /// The same scheme over another field: over GF(p) every coefficient is reduced to
@@ -92,6 +122,7 @@ impl Scheme {
             u: conv(&self.u)?,
             v: conv(&self.v)?,
             w: conv(&self.w)?,
+            labels: self.labels.clone(),
         })
     }
 
@@ -126,6 +157,12 @@ impl Scheme {
     }
 }
 
+/// `x` reduced into `field` (over Q: itself); a value whose denominator vanishes mod p
+/// is returned unchanged (callers only reduce values that are defined).
+pub(crate) fn red(field: FieldSpec, x: Q) -> Q {
+    reduce_into(field, &x).unwrap_or(x)
+}
+
 /// A rational number as an element of `field`, written as a rational (over GF(p): the
 /// integer in `0..p`). Errors when the denominator vanishes mod p.
 pub fn reduce_into(field: FieldSpec, x: &Q) -> crate::Result<Q> {
@@ -152,6 +189,15 @@ pub fn reduce_into(field: FieldSpec, x: &Q) -> crate::Result<Q> {
 /// Every refusal is an [`crate::Error::Parse`] at a line and column of `source` (a JSON
 /// path too for the JSON form); an input with no statement at all is refused.
 pub fn parse_scheme(text: &str, source: &str, t: &crate::tensor::Tensor) -> crate::Result<Scheme> {
+    parse_scheme_located(text, source, t).map(|x| x.0)
+}
+
+/// [`parse_scheme`], also returning the lines of a text-form file (`None` for JSON).
+pub fn parse_scheme_located(
+    text: &str,
+    source: &str,
+    t: &crate::tensor::Tensor,
+) -> crate::Result<(Scheme, Option<text::LineMap>)> {
     if text
         .trim_start_matches('\u{feff}')
         .trim_start()
@@ -176,8 +222,22 @@ pub fn parse_scheme(text: &str, source: &str, t: &crate::tensor::Tensor) -> crat
                 ),
             ));
         }
-        Ok(s)
+        Ok((s, None))
     } else {
-        text::parse_text(text, source, t)
+        let (s, lines) = text::parse_text_located(text, source, t)?;
+        Ok((s, Some(lines)))
+    }
+}
+
+/// The text of a scheme for a file named `path`: the text form (with `title` as comment
+/// lines) when the name ends in `.txt`, the JSON form on one line otherwise.
+pub fn write_for_path(path: &str, s: &Scheme, t: &crate::tensor::Tensor, title: &str) -> String {
+    let is_text = std::path::Path::new(path)
+        .extension()
+        .is_some_and(|e| e.eq_ignore_ascii_case("txt"));
+    if is_text {
+        text::write_text(s, t, title)
+    } else {
+        format!("{}\n", json::to_json(s))
     }
 }

@@ -1,45 +1,66 @@
-//! Polishing a verified scheme: moves that keep it valid and make it cheaper or nicer.
+//! Polishing a verified scheme: a search over the tensor's symmetry group for a scheme
+//! that is better on a chosen [`Objective`], never worse.
 //!
-//! - *Simplify*: drop terms with a zero factor; merge two terms whose left factors and right
+//! Every candidate is a scheme of the same tensor, obtained by exact moves:
+//! - *Simplify* ([`super::terms`]): drop terms with a zero factor; merge two terms whose left factors and right
 //!   factors are proportional (`u_s = a u_t`, `v_s = b v_t` gives
 //!   `u_t (x) v_t (x) (w_t + a b w_s)`), and likewise for the pairs (u, w) and (v, w). This
 //!   can lower the rank.
-//! - *Rescale*: the symmetry `(u_t, v_t, w_t) -> (l u_t, m v_t, w_t / (l m))` keeps every
-//!   scheme valid. A greedy pass chooses, term by term, the (l, m) among the inverses of
-//!   the coefficients that minimise the number of coefficients other than +-1, then the
-//!   size of the coefficients; the first nonzero entries of u_t and v_t are made positive.
-//! - *Sandwich* (matrix multiplication only, when the format is given): the greedy
-//!   descent of [`super::sandwich`] with elementary matrices, lowering the number of
-//!   nonzeros and then of non-(+-1) coefficients.
+//! - *Rescale* ([`super::terms`], applied to every candidate): the symmetry
+//!   `(u_t, v_t, w_t) -> (l u_t, m v_t, w_t / (l m))`; term by term the (l, m) among the
+//!   inverses of the coefficients that minimise the number of coefficients other than +-1,
+//!   then their size; the first nonzero entries of u_t and v_t are made positive.
+//! - *Sandwich* (matrix multiplication <n,m,p>): elementary X, Y, Z of
+//!   [`super::sandwich`] — transvections `I +- E_ab` and scalings of one row or column by
+//!   -1, 2, 3, their inverses and the coefficients of the input — and, as starting
+//!   points, the cyclic and transposed forms that keep the format
+//!   ([`super::symmetry::discrete_forms`]).
+//! - *Diagonal symmetries* (any other tensor): `lambda^e` for an integer basis e of the
+//!   diagonal symmetries ([`super::symmetry::diagonal_symmetries`]) and the same lambdas.
 //!
-//! The number of nonzeros is invariant under rescaling; simplification and the sandwich
-//! search can only lower it.
-//! Every polished scheme is re-verified exactly before it is returned.
+//! From each starting point a greedy descent takes the move with the smallest key while
+//! it improves, first along the objective's [`Objective::key`], then along the keys of the
+//! other objectives (such a descent often passes through schemes that are better on the
+//! objective), all within a deterministic budget of evaluated candidates. The result is the
+//! best scheme seen on the objective's key if that key is smaller than the input's, else
+//! the input itself: polish never returns a scheme worse on the objective (nor, on
+//! ties of the objective, on the measures after it in the key). Every returned scheme is
+//! re-verified exactly. All measures come from [`super::cost::count_cost`].
 
-use super::cost::{Cost, count_cost};
-use super::{Scheme, reduce_into, verify};
+use super::cost::{Cost, Objective, QKey, count_cost, is_unit};
+use super::sandwich::{apply_move, elementary_moves};
+use super::symmetry::{apply_diagonal, diagonal_symmetries, discrete_forms};
+use super::terms::rescale_term;
+pub use super::terms::{count_nonunit, rescale, simplify};
+use super::{Scheme, red, verify};
 use crate::error::Error;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::Tensor;
+use num_bigint::BigInt;
 use num_traits::{One, Signed, Zero};
+use std::collections::HashMap;
 
 /// Parameters of [`polish`].
 #[derive(Clone, Debug)]
 pub struct PolishParams {
-    /// Rounds of simplify + rescale (each round is deterministic).
-    pub rounds: usize,
-    /// The format <n,m,p> when the tensor is matrix multiplication (enables sandwiching).
+    /// What to lower.
+    pub objective: Objective,
+    /// The format <n,m,p> when the tensor is matrix multiplication (enables the sandwich
+    /// moves and the cyclic and transposed forms).
     pub matmul: Option<[usize; 3]>,
-    /// Most elementary sandwich moves per round.
-    pub sandwich_steps: usize,
+    /// Most improving moves from one starting point.
+    pub steps: usize,
+    /// Most candidate schemes evaluated in all (bounds the work deterministically).
+    pub evaluations: usize,
 }
 
 impl Default for PolishParams {
     fn default() -> Self {
         PolishParams {
-            rounds: 3,
+            objective: Objective::Additions,
             matmul: None,
-            sandwich_steps: 200,
+            steps: 60,
+            evaluations: 3000,
         }
     }
 }
@@ -48,176 +69,151 @@ impl Default for PolishParams {
 #[derive(Clone, Debug)]
 pub struct Polished {
     pub scheme: Scheme,
-    pub rank_before: usize,
-    pub nnz_before: usize,
-    pub nonunit_before: usize,
-    pub cost_before: Cost,
-    pub nnz_after: usize,
-    pub nonunit_after: usize,
-    pub cost_after: Cost,
+    pub objective: Objective,
+    pub before: Cost,
+    pub after: Cost,
+    /// The starting point of the best scheme (`input`, `cyclic`, `transposed`, ...).
+    pub start: String,
+    /// Candidate schemes evaluated.
+    pub evaluations: usize,
 }
 
-fn is_unit(field: FieldSpec, c: &Q) -> bool {
-    c.is_one()
-        || (-c).is_one()
-        || matches!(field, FieldSpec::Prime(p) if *c == Q::from_integer((p - 1).into()))
-}
-
-/// Number of coefficients other than 0, +1, -1.
-pub fn count_nonunit(s: &Scheme) -> usize {
-    [&s.u, &s.v, &s.w]
-        .iter()
-        .flat_map(|m| m.iter().flatten())
-        .filter(|c| !c.is_zero() && !is_unit(s.field, c))
-        .count()
-}
-
-fn red(field: FieldSpec, x: Q) -> Q {
-    reduce_into(field, &x).unwrap_or(x)
-}
-
-fn scale(field: FieldSpec, x: &[Q], l: &Q) -> Vec<Q> {
-    x.iter().map(|c| red(field, c * l)).collect()
-}
-
-/// `Some(a)` with `y = a x` (x nonzero), else `None`.
-fn proportional(field: FieldSpec, x: &[Q], y: &[Q]) -> Option<Q> {
-    let i = x.iter().position(|c| !c.is_zero())?;
-    let a = red(field, &y[i] / &x[i]);
-    if a.is_zero() {
-        return None;
+impl Polished {
+    /// True when the result differs from the input (it is then strictly better on the
+    /// objective's key).
+    pub fn improved(&self) -> bool {
+        self.objective.key(&self.after) < self.objective.key(&self.before)
     }
-    (x.iter().zip(y).all(|(xi, yi)| red(field, xi * &a) == *yi)).then_some(a)
 }
 
-/// Drop zero terms and merge terms with two proportional factors (see module docs).
-/// Cost: O(r^2 (d0 + d1 + d2)) per merge.
-pub fn simplify(s: &Scheme) -> Scheme {
+/// A move of the search: one symmetry applied to the current scheme.
+enum Step {
+    Sandwich(super::sandwich::Move),
+    Diagonal(usize, Q),
+    Simplify,
+}
+
+/// The scalings tried: -1, 2, 1/2, 3, 1/3 and the non-unit coefficients of `s` and their
+/// inverses (at most 8 more), all nonzero in the field.
+fn scalings(s: &Scheme) -> Vec<Q> {
     let f = s.field;
-    let mut terms: Vec<[Vec<Q>; 3]> = (0..s.rank())
-        .map(|t| [s.u[t].clone(), s.v[t].clone(), s.w[t].clone()])
-        .collect();
-    let nonzero = |x: &[Q]| x.iter().any(|c| !c.is_zero());
-    loop {
-        terms.retain(|tr| tr.iter().all(|x| nonzero(x)));
-        let mut merged = false;
-        'outer: for a in 0..terms.len() {
-            for b in a + 1..terms.len() {
-                for free in [2usize, 1, 0] {
-                    let (p, q) = match free {
-                        2 => (0, 1),
-                        1 => (0, 2),
-                        _ => (1, 2),
-                    };
-                    let (Some(x), Some(y)) = (
-                        proportional(f, &terms[a][p], &terms[b][p]),
-                        proportional(f, &terms[a][q], &terms[b][q]),
-                    ) else {
-                        continue;
-                    };
-                    let xy = red(f, x * y);
-                    let add: Vec<Q> = terms[a][free]
-                        .iter()
-                        .zip(&terms[b][free])
-                        .map(|(c, d)| red(f, c + &xy * d))
-                        .collect();
-                    terms[a][free] = add;
-                    terms.remove(b);
-                    merged = true;
-                    break 'outer;
-                }
-            }
+    let mut out: Vec<Q> = Vec::new();
+    let add = |out: &mut Vec<Q>, x: Q| {
+        let x = red(f, x);
+        if !x.is_zero() && !x.is_one() && !out.contains(&x) {
+            out.push(x);
         }
-        if !merged {
+    };
+    for (a, b) in [(-1, 1), (2, 1), (1, 2), (3, 1), (1, 3)] {
+        add(&mut out, crate::scalar::q(a, b));
+    }
+    let base = out.len();
+    for c in [&s.u, &s.v, &s.w]
+        .into_iter()
+        .flat_map(|m| m.iter().flatten())
+    {
+        if c.is_zero() || is_unit(f, c) {
+            continue;
+        }
+        add(&mut out, c.abs());
+        add(&mut out, c.abs().recip());
+        if out.len() >= base + 8 {
             break;
         }
     }
-    let mut out = Scheme::empty(f, s.dims);
-    for [u, v, w] in terms {
-        out.push(u, v, w);
-    }
     out
 }
 
-fn size(c: &Q) -> usize {
-    (c.numer().bits() + c.denom().bits()) as usize
+/// The search state: a cache of rescaled terms, the evaluation budget and the best
+/// scheme seen under the objective.
+struct Search {
+    objective: Objective,
+    budget: usize,
+    evaluations: usize,
+    rescaled: HashMap<QKey, [Vec<Q>; 3]>,
+    field: FieldSpec,
+    best: Option<(Vec<BigInt>, Scheme, Cost, String)>,
 }
 
-/// Cost of a term for rescaling: (non-unit coefficients, total bit size).
-fn term_cost(field: FieldSpec, vs: [&[Q]; 3]) -> (usize, usize) {
-    let shown = |c: &Q| super::text::display_coef(field, c);
-    let mut n = 0;
-    let mut b = 0;
-    for x in vs {
-        for c in x.iter().filter(|c| !c.is_zero()) {
-            if !is_unit(field, c) {
-                n += 1;
-            }
-            b += size(&shown(c));
+impl Search {
+    /// Rescale every term (memoised), measure, and remember the scheme if it is the best
+    /// seen under the objective. `None` when the budget is used up.
+    fn evaluate(&mut self, s: &Scheme, start: &str) -> Option<(Scheme, Cost)> {
+        if self.evaluations >= self.budget {
+            return None;
         }
-    }
-    (n, b)
-}
-
-fn candidates(field: FieldSpec, x: &[Q]) -> Vec<Q> {
-    let mut out = vec![Q::one()];
-    for c in x.iter().filter(|c| !c.is_zero()) {
-        let l = red(field, c.recip());
-        if !out.contains(&l) {
-            out.push(l);
+        self.evaluations += 1;
+        if self.rescaled.len() > 50_000 {
+            self.rescaled.clear(); // bounds the memory of the cache
         }
+        let mut out = s.clone();
+        for t in 0..s.rank() {
+            let key = QKey([&s.u[t][..], &s.v[t], &s.w[t]].concat());
+            let field = self.field;
+            let [u, v, w] = self
+                .rescaled
+                .entry(key)
+                .or_insert_with(|| rescale_term(field, &s.u[t], &s.v[t], &s.w[t]))
+                .clone();
+            out.u[t] = u;
+            out.v[t] = v;
+            out.w[t] = w;
+        }
+        let c = count_cost(&out);
+        let k = self.objective.key(&c);
+        if self.best.as_ref().is_none_or(|b| k < b.0) {
+            self.best = Some((k, out.clone(), c.clone(), start.to_string()));
+        }
+        Some((out, c))
     }
-    out
-}
 
-/// Greedy rescaling of every term (see module docs). Keeps validity exactly.
-pub fn rescale(s: &Scheme) -> Scheme {
-    let f = s.field;
-    let mut out = Scheme::empty(f, s.dims);
-    for t in 0..s.rank() {
-        let (u, v, w) = (&s.u[t], &s.v[t], &s.w[t]);
-        let mut best = (term_cost(f, [u, v, w]), u.clone(), v.clone(), w.clone());
-        let ls = candidates(f, u);
-        let ms = candidates(f, v);
-        for l in &ls {
-            let mut mus = ms.clone();
-            for c in w.iter().filter(|c| !c.is_zero()) {
-                mus.push(red(f, c / l)); // makes that entry of w equal to 1
-            }
-            for m in &mus {
-                let lm = red(f, l * m);
-                if lm.is_zero() {
-                    continue;
-                }
-                let (u2, v2, w2) = (
-                    scale(f, u, l),
-                    scale(f, v, m),
-                    scale(f, w, &red(f, lm.recip())),
-                );
-                let c = term_cost(f, [&u2, &v2, &w2]);
-                if c < best.0 {
-                    best = (c, u2, v2, w2);
+    /// Greedy descent from `start` along the order of `guide`.
+    fn descend(&mut self, start: &Scheme, name: &str, guide: Objective, moves: &Moves) {
+        let Some((mut cur, c)) = self.evaluate(start, name) else {
+            return;
+        };
+        let mut key = guide.key(&c);
+        for _ in 0..moves.steps {
+            let mut next: Option<(Vec<BigInt>, Scheme)> = None;
+            for step in &moves.steps_list {
+                let cand = moves.apply(step, &cur);
+                let Some((sc, c)) = self.evaluate(&cand, name) else {
+                    return;
+                };
+                let k = guide.key(&c);
+                if k < next.as_ref().map_or_else(|| key.clone(), |n| n.0.clone()) {
+                    next = Some((k, sc));
                 }
             }
-        }
-        let (_, mut u2, mut v2, mut w2) = best;
-        // sign normalisation: first nonzero of u and of v positive (as displayed)
-        for x in [&mut u2, &mut v2] {
-            if let Some(c) = x.iter().find(|c| !c.is_zero())
-                && super::text::display_coef(f, c).is_negative()
-            {
-                let m1 = red(f, -Q::one());
-                *x = scale(f, x, &m1);
-                w2 = scale(f, &w2, &m1);
+            match next {
+                Some((k, sc)) => (key, cur) = (k, sc),
+                None => return,
             }
         }
-        out.push(u2, v2, w2);
     }
-    out
 }
 
-/// Polish a scheme for `t`: check it, simplify and rescale for `rounds` rounds, re-verify.
-/// Errors if the input does not verify (or, which would be a bug, the output).
+/// The moves of a search and how to apply them.
+struct Moves {
+    steps_list: Vec<Step>,
+    steps: usize,
+    nmp: Option<[usize; 3]>,
+    diagonal: Vec<[Vec<BigInt>; 3]>,
+}
+
+impl Moves {
+    fn apply(&self, step: &Step, s: &Scheme) -> Scheme {
+        match step {
+            Step::Simplify => simplify(s),
+            Step::Sandwich(mv) => apply_move(s, self.nmp.unwrap_or_default(), mv),
+            Step::Diagonal(e, l) => apply_diagonal(s, &self.diagonal[*e], l),
+        }
+    }
+}
+
+/// Polish a scheme for `t` towards `params.objective` (see the module docs). Errors if the
+/// input does not verify (or, which would be a bug, the output). Cost: at most
+/// `params.evaluations` cost evaluations (each three CSE runs) plus the moves.
 pub fn polish(s: &Scheme, t: &Tensor, params: &PolishParams) -> Result<Polished, Error> {
     if let Err(m) = verify(s, t) {
         return Err(Error::Invalid(format!(
@@ -225,34 +221,77 @@ pub fn polish(s: &Scheme, t: &Tensor, params: &PolishParams) -> Result<Polished,
             m.count
         )));
     }
-    let mut cur = s.clone();
-    for _ in 0..params.rounds.max(1) {
-        let mut next = simplify(&cur);
-        if let Some(nmp) = params.matmul
-            && next.dims == [nmp[0] * nmp[1], nmp[1] * nmp[2], nmp[0] * nmp[2]]
-        {
-            next = super::sandwich::sandwich_greedy(&next, nmp, params.sandwich_steps).0;
+    let before = count_cost(s);
+    let key0 = params.objective.key(&before);
+    let mut search = Search {
+        objective: params.objective,
+        budget: params.evaluations.max(1),
+        evaluations: 0,
+        rescaled: HashMap::new(),
+        field: s.field,
+        best: None,
+    };
+    let nmp = params
+        .matmul
+        .filter(|f| s.dims == [f[0] * f[1], f[1] * f[2], f[0] * f[2]]);
+    let scales = scalings(s);
+    let mut steps_list: Vec<Step> = vec![Step::Simplify];
+    let diagonal = if nmp.is_none() {
+        diagonal_symmetries(t)
+    } else {
+        Vec::new()
+    };
+    match nmp {
+        Some(f) => steps_list.extend(elementary_moves(f, &scales).into_iter().map(Step::Sandwich)),
+        None => {
+            for e in 0..diagonal.len() {
+                for l in &scales {
+                    steps_list.push(Step::Diagonal(e, l.clone()));
+                }
+            }
         }
-        let next = rescale(&next);
-        if next == cur {
-            break;
-        }
-        cur = next;
     }
-    if verify(&cur, t).is_err() {
+    let moves = Moves {
+        steps_list,
+        steps: params.steps,
+        nmp,
+        diagonal,
+    };
+    let mut starts = vec![("input".to_string(), s.clone())];
+    if let Some(f) = nmp {
+        starts.extend(discrete_forms(s, t, f));
+    }
+    // guides: the objective's own order first, then the others (a descent along another
+    // order often passes through schemes that are better on the objective)
+    let mut guides = vec![params.objective];
+    guides.extend(
+        Objective::ALL
+            .iter()
+            .copied()
+            .filter(|o| *o != params.objective),
+    );
+    for guide in guides {
+        for (name, start) in &starts {
+            search.descend(start, name, guide, &moves);
+        }
+    }
+    let evaluations = search.evaluations;
+    let (scheme, after, start) = match search.best {
+        Some((key, sc, c, name)) if key < key0 => (sc, c, name),
+        _ => (s.clone(), before.clone(), "input".to_string()),
+    };
+    if verify(&scheme, t).is_err() {
         return Err(Error::Invalid(
             "internal error: the polished scheme does not verify".into(),
         ));
     }
     Ok(Polished {
-        rank_before: s.rank(),
-        nnz_before: s.nnz(),
-        nonunit_before: count_nonunit(s),
-        cost_before: count_cost(s),
-        nnz_after: cur.nnz(),
-        nonunit_after: count_nonunit(&cur),
-        cost_after: count_cost(&cur),
-        scheme: cur,
+        scheme,
+        objective: params.objective,
+        before,
+        after,
+        start,
+        evaluations,
     })
 }
 
@@ -267,7 +306,16 @@ pub fn exponent(rank: usize, nmp: [usize; 3]) -> f64 {
 mod tests {
     use super::*;
     use crate::scalar::q;
+    use crate::scheme::terms::scale;
     use crate::scheme::testkit::*;
+
+    fn mm(nmp: [usize; 3], objective: Objective) -> PolishParams {
+        PolishParams {
+            objective,
+            matmul: Some(nmp),
+            ..PolishParams::default()
+        }
+    }
 
     #[test]
     fn rescaling_removes_needless_fractions() {
@@ -282,11 +330,21 @@ mod tests {
         }
         assert!(verify(&bad, &t).is_ok());
         assert!(count_nonunit(&bad) > 0);
-        let p = polish(&bad, &t, &PolishParams::default()).unwrap();
-        assert_eq!(p.nonunit_after, 0);
-        assert_eq!(p.scheme.rank(), 7);
-        assert_eq!(p.cost_after.total(), 18);
-        assert!(verify(&p.scheme, &t).is_ok());
+        for obj in Objective::ALL {
+            let p = polish(
+                &bad,
+                &t,
+                &PolishParams {
+                    objective: obj,
+                    ..PolishParams::default()
+                },
+            )
+            .unwrap();
+            assert_eq!(count_nonunit(&p.scheme), 0, "{obj:?}");
+            assert_eq!(p.scheme.rank(), 7);
+            assert!(p.after.total() <= 18);
+            assert!(verify(&p.scheme, &t).is_ok());
+        }
     }
 
     #[test]
@@ -303,36 +361,79 @@ mod tests {
         );
         s.push(u.clone(), vec![Q::zero(); 4], w.clone());
         assert!(verify(&s, &t).is_ok());
-        let p = polish(&s, &t, &PolishParams::default()).unwrap();
+        let params = PolishParams {
+            objective: Objective::Multiplications,
+            ..PolishParams::default()
+        };
+        let p = polish(&s, &t, &params).unwrap();
         assert_eq!(p.scheme.rank(), 8);
-        assert_eq!(p.nonunit_after, 0);
+        assert_eq!(count_nonunit(&p.scheme), 0);
         // GF(p) too
         let t7 = t.with_field(FieldSpec::Prime(7)).unwrap();
         let s7 = s.with_field(FieldSpec::Prime(7)).unwrap();
-        let p7 = polish(&s7, &t7, &PolishParams::default()).unwrap();
+        let p7 = polish(&s7, &t7, &params).unwrap();
         assert_eq!(p7.scheme.rank(), 8);
-        assert_eq!(p7.nonunit_after, 0);
+        assert_eq!(count_nonunit(&p7.scheme), 0);
     }
 
     #[test]
-    fn sandwich_polish_lowers_nonzeros() {
+    fn never_worse_and_winograd_keeps_15_additions() {
+        // Winograd's variant: 15 additions (Probert 1976, from memory); the additions
+        // objective must keep them, the nonzeros objective may trade them
+        let t = matmul(2, 2, 2);
+        let w = scheme(WINOGRAD, &t);
+        let p = polish(&w, &t, &mm([2, 2, 2], Objective::Additions)).unwrap();
+        assert_eq!(p.after.total(), 15);
+        for (s, _) in [(scheme(STRASSEN, &t), 0), (w, 1)] {
+            for obj in Objective::ALL {
+                let p = polish(&s, &t, &mm([2, 2, 2], obj)).unwrap();
+                assert!(obj.value(&p.after) <= obj.value(&p.before), "{obj:?}");
+                assert!(obj.key(&p.after) <= obj.key(&p.before), "{obj:?}");
+            }
+        }
+    }
+
+    #[test]
+    fn sandwich_scalings_remove_fractions_of_an_equivalent_scheme() {
+        // Strassen's scheme transformed by X = diag(1, 3/2), Y = diag(2/3, 1): fractions
+        // that term rescaling alone cannot remove
+        use crate::scheme::sandwich::Side;
         let t = matmul(2, 2, 2);
         let s = scheme(STRASSEN, &t);
-        let mv = crate::scheme::sandwich::Move {
-            side: crate::scheme::sandwich::Side::X,
-            a: 0,
-            b: 1,
-            c: Q::one(),
-        };
-        let scr = crate::scheme::sandwich::apply_move(&s, [2, 2, 2], &mv);
-        assert!(scr.nnz() > s.nnz());
-        let params = PolishParams {
-            matmul: Some([2, 2, 2]),
-            ..PolishParams::default()
-        };
-        let p = polish(&scr, &t, &params).unwrap();
-        assert!(p.nnz_after < p.nnz_before);
-        assert!(p.nnz_after <= s.nnz());
+        let x = moved(
+            &s,
+            [2, 2, 2],
+            &[(Side::X, 1, 1, q(3, 2)), (Side::Y, 0, 0, q(2, 3))],
+        );
+        assert!(verify(&x, &t).is_ok());
+        assert!(count_nonunit(&rescale(&x)) > 0);
+        let p = polish(&x, &t, &mm([2, 2, 2], Objective::Coefficients)).unwrap();
+        assert_eq!(count_nonunit(&p.scheme), 0);
+        assert_eq!(p.after.max_denominator, BigInt::from(1));
+    }
+
+    #[test]
+    fn diagonal_symmetries_polish_polynomial_schemes() {
+        // Karatsuba with x -> 2x applied: coefficients 2 and 1/2 come back to +-1
+        let t = polymul(2);
+        let k = scheme(KARATSUBA, &t);
+        let e = &crate::scheme::symmetry::diagonal_symmetries(&t);
+        let mut x = k.clone();
+        for sym in e {
+            x = crate::scheme::symmetry::apply_diagonal(&x, sym, &q(2, 1));
+        }
+        assert!(verify(&x, &t).is_ok());
+        let p = polish(
+            &x,
+            &t,
+            &PolishParams {
+                objective: Objective::Coefficients,
+                ..PolishParams::default()
+            },
+        )
+        .unwrap();
+        assert_eq!(p.after.max_numerator, BigInt::from(1));
+        assert_eq!(p.after.max_denominator, BigInt::from(1));
     }
 
     #[test]

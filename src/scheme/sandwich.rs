@@ -1,16 +1,17 @@
-//! The sandwich symmetry of matrix multiplication schemes, and a greedy search with it.
+//! The sandwich symmetry of matrix multiplication schemes, one elementary move at a time.
 //!
 //! For invertible X (n x n), Y (m x m), Z (p x p), `tr(A B G^T)` is unchanged under
 //! `A -> X A Y^-1`, `B -> Y B Z^-1`, `G -> X^-T G Z^T`; hence a scheme `(U_t, V_t, W_t)` for
 //! <n,m,p> (factors read as n x m, m x p, n x p matrices, row-major as in the generator)
 //! gives the scheme `(X^T U_t Y^-T, Y^T V_t Z^-T, X^-1 W_t Z)` of the same rank.
-//! The greedy search applies elementary moves (X, Y or Z = I + c E_ab, c = +-1) while one
-//! lowers (number of nonzero coefficients, number of coefficients other than +-1).
-//! Callers re-verify (see [`super::polish`]).
+//! A [`Move`] is one elementary matrix on one side: `I + c E_ab` (a != b, a transvection)
+//! or `I + (c - 1) E_aa` (a == b, scaling row/column a by c != 0). The search that uses
+//! them is [`super::polish`]; callers re-verify.
 
-use super::{Scheme, reduce_into};
-use crate::scalar::{FieldSpec, Q};
-use num_traits::{One, Zero};
+use super::{Scheme, red};
+use crate::linalg::Matrix;
+use crate::scalar::{Field, FieldSpec, Q, Rationals};
+use num_traits::Zero;
 
 /// Which of X, Y, Z a move changes.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -20,17 +21,13 @@ pub enum Side {
     Z,
 }
 
-/// An elementary move: the matrix `I + c E_ab` on one side.
+/// An elementary move: the matrix `I + c E_ab` (a != b) or `I + (c - 1) E_aa` on one side.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Move {
     pub side: Side,
     pub a: usize,
     pub b: usize,
     pub c: Q,
-}
-
-fn red(f: FieldSpec, x: Q) -> Q {
-    reduce_into(f, &x).unwrap_or(x)
 }
 
 /// `row[dst] += c * row[src]` of a rows x cols matrix stored row-major.
@@ -53,13 +50,47 @@ fn add_col(f: FieldSpec, m: &mut [Q], rows: usize, cols: usize, dst: usize, src:
     }
 }
 
-/// Apply one move to a scheme for <n,m,p> (see the module docs for the formulas).
-/// Cost: O(r (n + m + p) max(n, m, p)).
+/// `row[r] *= c`.
+fn scale_row(f: FieldSpec, m: &mut [Q], cols: usize, r: usize, c: &Q) {
+    for x in &mut m[r * cols..(r + 1) * cols] {
+        *x = red(f, &*x * c);
+    }
+}
+
+/// `col[k] *= c`.
+fn scale_col(f: FieldSpec, m: &mut [Q], cols: usize, k: usize, c: &Q) {
+    for x in m.iter_mut().skip(k).step_by(cols) {
+        *x = red(f, &*x * c);
+    }
+}
+
+/// Apply one move to a scheme for <n,m,p> (see the module docs for the formulas); a
+/// scaling move needs c != 0 in the scheme's field. Cost: O(r (n + m + p) max(n, m, p)).
 pub fn apply_move(s: &Scheme, [n, m, p]: [usize; 3], mv: &Move) -> Scheme {
     let f = s.field;
     let mut out = s.clone();
     let (a, b) = (mv.a, mv.b);
     let c = red(f, mv.c.clone());
+    if a == b {
+        let ci = red(f, Q::from_integer(1.into()) / &c);
+        for t in 0..s.rank() {
+            match mv.side {
+                Side::X => {
+                    scale_row(f, &mut out.u[t], m, a, &c); // X^T U
+                    scale_row(f, &mut out.w[t], p, a, &ci); // X^-1 W
+                }
+                Side::Y => {
+                    scale_col(f, &mut out.u[t], m, a, &ci); // U Y^-T
+                    scale_row(f, &mut out.v[t], p, a, &c); // Y^T V
+                }
+                Side::Z => {
+                    scale_col(f, &mut out.v[t], p, a, &ci); // V Z^-T
+                    scale_col(f, &mut out.w[t], p, a, &c); // W Z
+                }
+            }
+        }
+        return out;
+    }
     let mc = red(f, -mv.c.clone());
     for t in 0..s.rank() {
         match mv.side {
@@ -80,48 +111,55 @@ pub fn apply_move(s: &Scheme, [n, m, p]: [usize; 3], mv: &Move) -> Scheme {
     out
 }
 
-/// (nonzeros, coefficients other than +-1): the quantity the search lowers.
-pub fn score(s: &Scheme) -> (usize, usize) {
-    (s.nnz(), super::polish::count_nonunit(s))
-}
-
-/// Greedy descent with elementary sandwich moves, at most `max_steps` moves. Returns the
-/// improved scheme and the moves applied. Cost per step: O(moves * r * d^2) with
-/// 2 (n^2 + m^2 + p^2) candidate moves.
-pub fn sandwich_greedy(s: &Scheme, nmp: [usize; 3], max_steps: usize) -> (Scheme, Vec<Move>) {
-    let [n, m, p] = nmp;
-    let mut cur = s.clone();
-    let mut cur_score = score(&cur);
-    let mut applied = Vec::new();
-    for _ in 0..max_steps {
-        let mut best: Option<(Scheme, (usize, usize), Move)> = None;
-        for (side, d) in [(Side::X, n), (Side::Y, m), (Side::Z, p)] {
-            for a in 0..d {
-                for b in 0..d {
-                    if a == b {
-                        continue;
-                    }
-                    for c in [Q::one(), -Q::one()] {
-                        let mv = Move { side, a, b, c };
-                        let next = apply_move(&cur, nmp, &mv);
-                        let sc = score(&next);
-                        if sc < best.as_ref().map_or(cur_score, |x| x.1) {
-                            best = Some((next, sc, mv));
-                        }
-                    }
+/// The elementary moves polish tries for <n,m,p>: transvections with c = +-1 on every
+/// side and scalings of one row or column by each of `scales`.
+pub fn elementary_moves(nmp: [usize; 3], scales: &[Q]) -> Vec<Move> {
+    let mut out = Vec::new();
+    for (side, d) in [(Side::X, nmp[0]), (Side::Y, nmp[1]), (Side::Z, nmp[2])] {
+        for a in 0..d {
+            for b in 0..d {
+                let cs: Vec<Q> = if a == b {
+                    scales.to_vec()
+                } else {
+                    vec![Q::from_integer(1.into()), Q::from_integer((-1).into())]
+                };
+                for c in cs {
+                    out.push(Move { side, a, b, c });
                 }
             }
         }
-        match best {
-            Some((next, sc, mv)) => {
-                cur = next;
-                cur_score = sc;
-                applied.push(mv);
-            }
-            None => break,
-        }
     }
-    (cur, applied)
+    out
+}
+
+/// The sandwich by whole matrices: `(X^T U_t Y^-T, Y^T V_t Z^-T, X^-1 W_t Z)` for every
+/// term (see the module docs); `None` when X, Y or Z is not invertible in the scheme's
+/// field. Cost: O(r (n + m + p)^3).
+pub fn apply_sandwich(
+    s: &Scheme,
+    [n, m, p]: [usize; 3],
+    [x, y, z]: [&Matrix<Q>; 3],
+) -> Option<Scheme> {
+    let f = s.field;
+    let inv = |a: &Matrix<Q>| -> Option<Matrix<Q>> {
+        crate::with_field!(f, fl => {
+            let e = a.map(|v| fl.from_rational(v).expect("reduced"));
+            crate::linalg::inverse(fl, &e).map(|i| i.map(|v| fl.to_rational(v)))
+        })
+    };
+    let mul = |a: &Matrix<Q>, b: &Matrix<Q>| a.mul(&Rationals, b).map(|v| red(f, v.clone()));
+    let as_mat = |v: &[Q], r: usize, c: usize| {
+        Matrix::from_rows((0..r).map(|i| v[i * c..(i + 1) * c].to_vec()).collect(), c)
+    };
+    let (xi, yi, zi) = (inv(x)?, inv(y)?, inv(z)?);
+    let (xt, yt, yit, zit) = (x.transpose(), y.transpose(), yi.transpose(), zi.transpose());
+    let mut out = s.clone();
+    for t in 0..s.rank() {
+        out.u[t] = mul(&mul(&xt, &as_mat(&s.u[t], n, m)), &yit).data;
+        out.v[t] = mul(&mul(&yt, &as_mat(&s.v[t], m, p)), &zit).data;
+        out.w[t] = mul(&mul(&xi, &as_mat(&s.w[t], n, p)), z).data;
+    }
+    Some(out)
 }
 
 #[cfg(test)]
@@ -129,9 +167,10 @@ mod tests {
     use super::*;
     use crate::scheme::testkit::*;
     use crate::scheme::verify;
+    use num_traits::One;
 
     #[test]
-    fn moves_keep_schemes_valid_and_greedy_undoes_scrambling() {
+    fn moves_keep_schemes_valid() {
         let t = matmul(2, 3, 2);
         let s = Scheme::standard(&t);
         let mut scrambled = s.clone();
@@ -165,10 +204,13 @@ mod tests {
             scrambled = apply_move(&scrambled, [2, 3, 2], mv);
             assert!(verify(&scrambled, &t).is_ok(), "{mv:?}");
         }
-        assert!(score(&scrambled) > score(&s));
-        let (back, _) = sandwich_greedy(&scrambled, [2, 3, 2], 50);
-        assert!(verify(&back, &t).is_ok());
-        assert!(score(&back) < score(&scrambled));
+        assert!(scrambled.nnz() > s.nnz());
+        // a scaling move and its inverse cancel
+        let q = crate::scalar::q;
+        let once = moved(&s, [2, 3, 2], &[(Side::Y, 1, 1, q(3, 2))]);
+        assert!(verify(&once, &t).is_ok());
+        let back = moved(&once, [2, 3, 2], &[(Side::Y, 1, 1, q(2, 3))]);
+        assert_eq!(back, s);
         // Strassen over GF(5) stays valid under moves
         let t5 = matmul(2, 2, 2).with_field(FieldSpec::Prime(5)).unwrap();
         let s5 = scheme(STRASSEN, &matmul(2, 2, 2))

@@ -122,3 +122,24 @@ i = m3 - m1 - m2
 pub fn scheme(text: &str, t: &Tensor) -> Scheme {
     super::text::parse_text(text, "test", t).unwrap()
 }
+
+/// Apply sandwich moves `(side, a, b, c)` one after another (see
+/// [`super::sandwich::apply_move`]).
+pub fn moved(
+    s: &Scheme,
+    nmp: [usize; 3],
+    moves: &[(super::sandwich::Side, usize, usize, Q)],
+) -> Scheme {
+    moves.iter().fold(s.clone(), |x, (side, a, b, c)| {
+        super::sandwich::apply_move(
+            &x,
+            nmp,
+            &super::sandwich::Move {
+                side: *side,
+                a: *a,
+                b: *b,
+                c: c.clone(),
+            },
+        )
+    })
+}

@@ -1,4 +1,5 @@
-//! Exact verification of a scheme against a tensor (the Brent equations).
+//! Exact verification of a scheme against a tensor (the Brent equations): the first
+//! mismatch with a count ([`verify`]) or every wrong coefficient ([`wrong_coefficients`]).
 
 use super::Scheme;
 use crate::scalar::{FieldSpec, Q};
@@ -18,6 +19,67 @@ pub struct Mismatch {
     pub count: usize,
 }
 
+/// One coefficient where a scheme and a tensor disagree.
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Wrong {
+    /// The basis triple (left i, right j, result k): the coefficient of result k in the
+    /// product of left basis vector i and right basis vector j.
+    pub index: [usize; 3],
+    /// The tensor's coefficient.
+    pub expected: Q,
+    /// The scheme's coefficient `sum_t u_t[i] v_t[j] w_t[k]`.
+    pub got: Q,
+}
+
+/// The tensor a scheme computes, `sum_t u_t (x) v_t (x) w_t`, reduced into `field`
+/// (normally the scheme's own), dense with index `(i * d1 + j) * d2 + k`.
+/// Cost: O(r * d0 * d1 * d2), skipping zeros.
+pub fn scheme_tensor(s: &Scheme, field: FieldSpec) -> Vec<Q> {
+    let d = s.dims;
+    let mut acc = vec![Q::zero(); d[0] * d[1] * d[2]];
+    for t_ in 0..s.rank() {
+        for (i, ui) in s.u[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+            for (j, vj) in s.v[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                let uv = ui * vj;
+                for (k, wk) in s.w[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                    acc[(i * d[1] + j) * d[2] + k] += &uv * wk;
+                }
+            }
+        }
+    }
+    if let FieldSpec::Prime(_) = field {
+        for x in acc.iter_mut() {
+            *x = super::reduce_into(field, x).unwrap_or_else(|_| x.clone());
+        }
+    }
+    acc
+}
+
+/// Every coefficient where `s` and `t` disagree, in lexicographic (i, j, k) order; empty
+/// exactly when the scheme is correct. The shapes must agree (checked by [`verify`]).
+/// Cost: that of [`scheme_tensor`].
+pub fn wrong_coefficients(s: &Scheme, t: &Tensor) -> Vec<Wrong> {
+    let d = t.dims();
+    let acc = scheme_tensor(s, t.field());
+    let mut out = Vec::new();
+    for i in 0..d[0] {
+        for j in 0..d[1] {
+            for k in 0..d[2] {
+                let got = &acc[(i * d[1] + j) * d[2] + k];
+                let expected = t.get(i, j, k);
+                if *got != expected {
+                    out.push(Wrong {
+                        index: [i, j, k],
+                        expected,
+                        got: got.clone(),
+                    });
+                }
+            }
+        }
+    }
+    out
+}
+
 /// Check `sum_t u_t (x) v_t (x) w_t == T` exactly, over the tensor's field.
 /// Returns `Ok(())` or the first mismatch (lexicographic in (i, j, k)) with the total count.
 /// Shapes must agree (a shape mismatch is reported at index [0, 0, 0] with count = usize::MAX).
@@ -33,53 +95,14 @@ pub fn verify(s: &Scheme, t: &Tensor) -> Result<(), Mismatch> {
             count: usize::MAX,
         });
     }
-    let mut acc = vec![Q::zero(); d[0] * d[1] * d[2]];
-    for t_ in 0..s.rank() {
-        for (i, ui) in s.u[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-            for (j, vj) in s.v[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                let uv = ui * vj;
-                for (k, wk) in s.w[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                    acc[(i * d[1] + j) * d[2] + k] += &uv * wk;
-                }
-            }
-        }
-    }
-    let reduce = |x: &Q| -> Q {
-        match t.field() {
-            FieldSpec::Rational => x.clone(),
-            FieldSpec::Prime(p) => {
-                use crate::scalar::{Field, PrimeField};
-                let f = PrimeField::new(p).expect("prime");
-                match f.from_rational(x) {
-                    Some(e) => f.to_rational(&e),
-                    None => x.clone(),
-                }
-            }
-        }
-    };
-    let mut first = None;
-    let mut count = 0;
-    for i in 0..d[0] {
-        for j in 0..d[1] {
-            for k in 0..d[2] {
-                let got = reduce(&acc[(i * d[1] + j) * d[2] + k]);
-                let expected = t.get(i, j, k);
-                if got != expected {
-                    count += 1;
-                    if first.is_none() {
-                        first = Some(([i, j, k], expected, got));
-                    }
-                }
-            }
-        }
-    }
-    match first {
+    let wrong = wrong_coefficients(s, t);
+    match wrong.first() {
         None => Ok(()),
-        Some((index, expected, got)) => Err(Mismatch {
-            index,
-            expected,
-            got,
-            count,
+        Some(w) => Err(Mismatch {
+            index: w.index,
+            expected: w.expected.clone(),
+            got: w.got.clone(),
+            count: wrong.len(),
         }),
     }
 }

@@ -9,7 +9,7 @@
 //! under the lock of [`crate::output::Target::replace`], so concurrent writers of one file
 //! keep the best of all of them.
 
-use super::json::{Checkpoint, Saved, checkpoint_to_json, parse_saved, scheme_to_json};
+use super::json::{Checkpoint, Saved, checkpoint_to_json, parse_saved};
 use crate::error::{Error, Result};
 use crate::output::{Replaced, Target};
 use crate::scheme::{Scheme, verify};
@@ -45,9 +45,21 @@ pub fn judge(text: Option<&str>, source: &str, goal: &Tensor) -> Held {
     let Some(text) = text.filter(|t| !t.trim().is_empty()) else {
         return Held::Nothing;
     };
-    let saved = match parse_saved(text, source) {
-        Ok(s) => s,
-        Err(e) => return Held::Foreign(format!("not a scheme or checkpoint: {e}")),
+    let is_json = text
+        .trim_start_matches('\u{feff}')
+        .trim_start()
+        .starts_with('{');
+    let saved = if is_json {
+        match parse_saved(text, source) {
+            Ok(s) => s,
+            Err(e) => return Held::Foreign(format!("not a scheme or checkpoint: {e}")),
+        }
+    } else {
+        // the text form of a scheme (written for an output named X.txt)
+        match crate::scheme::parse_scheme(text, source, goal) {
+            Ok(s) => Saved::Scheme(s),
+            Err(e) => return Held::Foreign(format!("not a scheme or checkpoint: {e}")),
+        }
     };
     if let Some(s) = saved.best() {
         if s.field != goal.field() {
@@ -116,7 +128,12 @@ fn refuse_foreign(target: &Target, why: &str) -> Error {
 /// whatever is there. A device or a FIFO is written through.
 pub fn store_result(target: &Target, s: &Scheme, goal: &Tensor, overwrite: bool) -> Result<Stored> {
     let mut kept = None;
-    let text = format!("{}\n", scheme_to_json(s));
+    let text = crate::scheme::write_for_path(
+        &target.path,
+        s,
+        goal,
+        "found by bilin search, verified exactly",
+    );
     let r = target.replace(|current| {
         if overwrite {
             return Ok(Some(text));
@@ -173,6 +190,7 @@ mod tests {
     use super::*;
     use crate::generators::generate;
     use crate::scalar::FieldSpec;
+    use crate::search::json::scheme_to_json;
 
     fn scratch(name: &str) -> std::path::PathBuf {
         let d = std::env::temp_dir().join(format!("bilin-store-{name}-{}", std::process::id()));

@@ -9,7 +9,6 @@
 //! three dimensions and name lists are equal.
 
 mod basis;
-mod basis_modular;
 pub mod flatten;
 pub mod integral;
 pub mod products;

@@ -28,3 +28,77 @@ pub fn run(args: &[&str]) -> (i32, String, String) {
     let o = bilin(args);
     (o.status.code().unwrap_or(-1), stdout(&o), stderr(&o))
 }
+
+/// A fresh temporary directory for one test (`tag` and the process id in its name).
+pub fn tmpdir(tag: &str) -> std::path::PathBuf {
+    let d = std::env::temp_dir().join(format!("bilin-test-{tag}-{}", std::process::id()));
+    std::fs::create_dir_all(&d).expect("temp dir");
+    d
+}
+
+/// True when `cmd ARGS` runs and succeeds (the tool is installed).
+pub fn have(cmd: &str, args: &[&str]) -> bool {
+    Command::new(cmd)
+        .args(args)
+        .output()
+        .is_ok_and(|o| o.status.success())
+}
+
+/// Write `source` to `dir`, compile it (`c`: `cc -O2`, `rust`: `rustc -O`, warnings as
+/// errors) and run it; `python`: run it with python3. Panics with the compiler's message
+/// when it does not compile.
+pub fn build_and_run(dir: &std::path::Path, lang: &str, source: &str) -> Output {
+    let (file, compiler, args): (&str, &str, Vec<&str>) = match lang {
+        "c" => (
+            "t.c",
+            "cc",
+            vec!["-O2", "-Wall", "-Werror", "-o", "t", "t.c"],
+        ),
+        "rust" => (
+            "t.rs",
+            "rustc",
+            vec![
+                "--edition",
+                "2021",
+                "-O",
+                "-D",
+                "warnings",
+                "-o",
+                "t",
+                "t.rs",
+            ],
+        ),
+        _ => ("t.py", "", Vec::new()),
+    };
+    std::fs::write(dir.join(file), source).expect("write the program");
+    if compiler.is_empty() {
+        return Command::new("python3")
+            .arg(dir.join(file))
+            .output()
+            .expect("run python3");
+    }
+    let o = Command::new(compiler)
+        .current_dir(dir)
+        .args(&args)
+        .output()
+        .expect("run the compiler");
+    assert!(
+        o.status.success(),
+        "the {lang} program does not compile cleanly:\n{}",
+        String::from_utf8_lossy(&o.stderr)
+    );
+    Command::new(dir.join("t"))
+        .output()
+        .expect("run the program")
+}
+
+/// A harness printed `lines` lines, each ending in `mismatches 0`.
+pub fn assert_no_mismatches(out: &Output, lines: usize) {
+    let text = stdout(out);
+    assert!(out.status.success(), "{text}\n{}", stderr(out));
+    let got: Vec<&str> = text.lines().collect();
+    assert_eq!(got.len(), lines, "{text}");
+    for l in got {
+        assert!(l.ends_with("mismatches 0"), "{l}");
+    }
+}

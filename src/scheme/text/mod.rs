@@ -18,10 +18,17 @@
 
 use super::{Scheme, reduce_into};
 use crate::error::{Error, Position};
-use crate::scalar::{FieldSpec, Q, parse_rational, q_to_string};
+use crate::scalar::{FieldSpec, Q, parse_rational};
 use crate::tensor::Tensor;
-use num_traits::{One, Signed, Zero};
+use num_traits::{One, Zero};
 use std::collections::HashMap;
+
+mod write;
+
+pub(crate) use write::display_coef;
+pub use write::{
+    output_line, product_labels, product_line, product_prefix, write_combination, write_text,
+};
 
 /// A parsed term: coefficient, name (None for a bare number), column.
 type Term = (Q, Option<String>, usize);
@@ -238,9 +245,27 @@ impl Cur<'_> {
 
 /// Parse the text form against a tensor (names resolve in its three bases). The scheme is
 /// over the declared field (default: the tensor's field); coefficients over GF(p) are
-/// reduced to `0..p`. Errors: [`Error::Parse`] with line and column. Cost: linear in the
+/// reduced to `0..p`. Product labels other than the default `m1..mr` are kept in
+/// [`Scheme::labels`]. Errors: [`Error::Parse`] with line and column. Cost: linear in the
 /// text plus O(r (d0 + d1 + d2)).
 pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error> {
+    parse_text_located(text, source, t).map(|(s, _)| s)
+}
+
+/// Where each part of a scheme was read: the 1-based line of every product line and of
+/// every output line (`None` for a result coordinate without one).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct LineMap {
+    pub products: Vec<usize>,
+    pub outputs: Vec<Option<usize>>,
+}
+
+/// [`parse_text`], also returning the line of every product and output.
+pub fn parse_text_located(
+    text: &str,
+    source: &str,
+    t: &Tensor,
+) -> Result<(Scheme, LineMap), Error> {
     let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let dims = t.dims();
     let index = |axis: usize| -> HashMap<&str, usize> {
@@ -254,6 +279,11 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
     let field = t.field();
     let mut declared_rank: Option<(usize, usize)> = None;
     let mut labels: HashMap<String, usize> = HashMap::new();
+    let mut label_list: Vec<String> = Vec::new();
+    let mut lines = LineMap {
+        products: Vec::new(),
+        outputs: vec![None; dims[2]],
+    };
     let mut scheme = Scheme::empty(field, dims);
     // output lines kept until all labels are known: (line, result index, terms)
     let mut outputs: Vec<(usize, usize, Vec<Term>)> = Vec::new();
@@ -352,6 +382,7 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
                 ));
             }
             seen_out[k] = true;
+            lines.outputs[k] = Some(ln);
             let terms = cur.combination(&[])?;
             outputs.push((ln, k, terms));
             continue;
@@ -398,7 +429,9 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             }
             vecs.push(vec);
         }
-        labels.insert(head, scheme.rank());
+        labels.insert(head.clone(), scheme.rank());
+        label_list.push(head);
+        lines.products.push(ln);
         let w = vec![Q::zero(); dims[2]];
         let v = vecs.pop().expect("two factors");
         let u = vecs.pop().expect("two factors");
@@ -459,7 +492,15 @@ pub fn parse_text(text: &str, source: &str, t: &Tensor) -> Result<Scheme, Error>
             ),
         });
     }
-    Ok(scheme)
+    let pre = product_prefix(t);
+    let default = label_list
+        .iter()
+        .enumerate()
+        .all(|(i, l)| *l == format!("{pre}{}", i + 1));
+    if !default {
+        scheme.labels = label_list;
+    }
+    Ok((scheme, lines))
 }
 
 fn preview(names: &[String]) -> String {
@@ -468,114 +509,6 @@ fn preview(names: &[String]) -> String {
         s.push_str(" ...");
     }
     s
-}
-
-/// The symmetric representative of a coefficient for display (over GF(p): in (-p/2, p/2]).
-pub(crate) fn display_coef(field: FieldSpec, c: &Q) -> Q {
-    match field {
-        FieldSpec::Prime(p) if c.is_integer() => {
-            let pq = Q::from_integer(p.into());
-            if c > &(&pq / Q::from_integer(2.into())) {
-                c - pq
-            } else {
-                c.clone()
-            }
-        }
-        _ => c.clone(),
-    }
-}
-
-/// Write a combination `sum c_i name_i` as `a11 - 1/2 a22`; `0` when empty.
-pub fn write_combination(field: FieldSpec, terms: &[(Q, &str)]) -> String {
-    let mut s = String::new();
-    for (c, n) in terms {
-        let c = display_coef(field, c);
-        if c.is_zero() {
-            continue;
-        }
-        let neg = c.is_negative();
-        let a = c.abs();
-        if s.is_empty() {
-            if neg {
-                s.push('-');
-            }
-        } else {
-            s.push_str(if neg { " - " } else { " + " });
-        }
-        if !a.is_one() {
-            s.push_str(&q_to_string(&a));
-            s.push(' ');
-        }
-        s.push_str(n);
-    }
-    if s.is_empty() { "0".into() } else { s }
-}
-
-/// A label prefix for the products that clashes with no result name.
-pub(crate) fn product_prefix(t: &Tensor) -> &'static str {
-    let r = t.names()[2].iter();
-    ["m", "p", "q", "mult", "t_"]
-        .into_iter()
-        .find(|p| {
-            !r.clone().any(|n| {
-                n.strip_prefix(p)
-                    .is_some_and(|d| d.chars().all(|c| c.is_ascii_digit()))
-            })
-        })
-        .unwrap_or("mult_")
-}
-
-/// Write a scheme in the text form, with the tensor's basis names. Lines: a comment, the
-/// field, one product line per multiplication, one output line per nonzero result
-/// coordinate. `parse_text(write_text(s, t), _, t) == s`. Cost: O(r (d0 + d1 + d2)).
-pub fn write_text(s: &Scheme, t: &Tensor, title: &str) -> String {
-    let names = t.names();
-    let pre = product_prefix(t);
-    let mut out = String::new();
-    if !title.is_empty() {
-        for l in title.lines() {
-            out.push_str(&format!("# {l}\n"));
-        }
-    }
-    out.push_str(&format!("field {}\n", s.field.name()));
-    out.push_str(&format!("dims {} {} {}\n", s.dims[0], s.dims[1], s.dims[2]));
-    out.push_str(&format!("rank {}\n", s.rank()));
-    let factor = |vec: &[Q], axis: usize| -> String {
-        let terms: Vec<(Q, &str)> = vec
-            .iter()
-            .enumerate()
-            .filter(|(_, c)| !c.is_zero())
-            .map(|(i, c)| (c.clone(), names[axis][i].as_str()))
-            .collect();
-        if terms.len() == 1 && display_coef(s.field, &terms[0].0).is_one() {
-            terms[0].1.to_string()
-        } else {
-            format!("({})", write_combination(s.field, &terms))
-        }
-    };
-    for tt in 0..s.rank() {
-        out.push_str(&format!(
-            "{pre}{} = {}*{}\n",
-            tt + 1,
-            factor(&s.u[tt], 0),
-            factor(&s.v[tt], 1)
-        ));
-    }
-    let labels: Vec<String> = (1..=s.rank()).map(|i| format!("{pre}{i}")).collect();
-    for (k, name) in names[2].iter().enumerate() {
-        let terms: Vec<(Q, &str)> = (0..s.rank())
-            .filter(|&tt| !s.w[tt][k].is_zero())
-            .map(|tt| (s.w[tt][k].clone(), labels[tt].as_str()))
-            .collect();
-        if !terms.is_empty() {
-            out.push_str(&format!(
-                "{} = {}\n",
-                name,
-                write_combination(s.field, &terms)
-            ));
-        }
-    }
-    out
 }
 
 #[cfg(test)]
@@ -638,6 +571,25 @@ mod tests {
         assert_eq!(s.rank(), 3);
         assert!(verify(&s, &t).is_ok());
         assert_eq!(s, parse_text(KARATSUBA, "k", &t).unwrap());
+    }
+
+    #[test]
+    fn labels_survive_text_and_json() {
+        // Karatsuba and Ofman 1962 with labels of its own
+        let t = polymul(2);
+        let txt = "p0 = a0*b0\npinf = a1*b1\np1 = (a0 + a1)*(b0 + b1)\n\
+                   c0 = p0\nc1 = p1 - p0 - pinf\nc2 = pinf\n";
+        let (s, lines) = parse_text_located(txt, "k", &t).unwrap();
+        assert_eq!(s.labels, ["p0", "pinf", "p1"]);
+        assert_eq!(lines.products, [1, 2, 3]);
+        assert_eq!(lines.outputs, [Some(4), Some(5), Some(6)]);
+        let written = write_text(&s, &t, "");
+        assert!(written.contains("pinf = a1*b1") && written.contains("c1 = -p0 - pinf + p1"));
+        assert_eq!(parse_text(&written, "rt", &t).unwrap(), s);
+        let json = crate::scheme::json::write_json(&s);
+        assert_eq!(crate::scheme::json::parse_json(&json, "j").unwrap(), s);
+        // default labels are not stored
+        assert!(scheme(KARATSUBA, &t).labels.is_empty());
     }
 
     #[test]

@@ -2,9 +2,9 @@
 //! outputs, basis names typeset with subscripts (`a11` -> `a_{11}`, `a1_2` -> `a_{1,2}`).
 //! Coefficients over GF(p) are shown as symmetric representatives with a `(mod p)` note.
 
-use super::Scheme;
-use super::cost::{Form, side_forms};
 use crate::scalar::FieldSpec;
+use crate::scheme::Scheme;
+use crate::scheme::cost::{Form, side_forms};
 use crate::tensor::Tensor;
 use num_traits::{One, Signed};
 
@@ -23,7 +23,7 @@ fn latex_name(n: &str) -> String {
 fn latex_form(field: FieldSpec, f: &Form, name: &dyn Fn(usize) -> String, paren: bool) -> String {
     let mut s = String::new();
     for (i, c) in f {
-        let c = super::text::display_coef(field, c);
+        let c = crate::scheme::text::display_coef(field, c);
         let neg = c.is_negative();
         let a = c.abs();
         let coef = if a.is_one() {
@@ -56,22 +56,20 @@ fn latex_form(field: FieldSpec, f: &Form, name: &dyn Fn(usize) -> String, paren:
 pub(crate) fn emit_latex(s: &Scheme, t: &Tensor, head: &[String]) -> String {
     let field = s.field;
     let [l, r, o] = side_forms(s);
-    let mut out = String::new();
-    for h in head {
-        out.push_str(&format!("% {h}\n"));
-    }
+    let labels = crate::scheme::text::product_labels(s, t);
+    let mut out = super::syntax::header(head, super::Lang::Latex);
     out.push_str("\\begin{align*}\n");
     let name = |axis: usize| move |i: usize| latex_name(t.name(axis, i));
     let mut lines = Vec::new();
     for tt in 0..s.rank() {
         lines.push(format!(
-            "m_{{{}}} &= {}\\,{}",
-            tt + 1,
+            "{} &= {}\\,{}",
+            latex_name(&labels[tt]),
             latex_form(field, &l[tt], &name(0), true),
             latex_form(field, &r[tt], &name(1), true)
         ));
     }
-    let mname = |i: usize| format!("m_{{{}}}", i + 1);
+    let mname = |i: usize| latex_name(&labels[i]);
     for (k, f) in o.iter().enumerate() {
         lines.push(format!(
             "{} &= {}",

@@ -1,0 +1,524 @@
+//! Derivations and the centroid from their values on generators.
+//!
+//! A derivation D satisfies `D(ab) = D(a) b + a D(b)`, an element X of the centroid
+//! `X(ab) = X(a) b`; so both are fixed by their values on a set of generators
+//! `g_1 .. g_s` of the algebra: with *words* `w_1 .. w_n` (each a generator or a product of
+//! two earlier words) forming a basis, `D(w_c) = M_c u` for the unknown
+//! `u = (D(g_1), .., D(g_s))` and matrices `M_c` built by the rule itself
+//! (`M_{ab} = R_b M_a + L_a M_b` for D, `M_{ab} = R_b M_a` for X). The map is a
+//! derivation (centroid element) iff the rule holds on every pair of words:
+//! `sum_c gamma_c M_c - R_{w_b} M_a - L_{w_a} M_b = 0` with `w_a w_b = sum_c gamma_c w_c`
+//! (and `... - R_{w_b} M_a = 0 = ... - L_{w_a} M_b` for X): n equations in `s n` unknowns
+//! per pair, instead of n^2 unknowns for the plain system.
+//!
+//! Soundness. Everything is computed modulo word primes on the integer-scaled constants;
+//! generators have small integer coordinates and words are products, so a word is an
+//! integer vector the same for every prime. Every equation of a pair is a consequence of
+//! the definition, so over any subset of pairs the solution space modulo p has dimension
+//! at least that over Q (rank mod p <= rank over Q). The candidate basis read off it is
+//! lifted to Q (canonical reduced form, Chinese remaindering, rational reconstruction) and
+//! **checked exactly against every equation of the plain system** (the engine's check);
+//! a checked basis of that size is the whole space. Pairs are fed in a seeded random order
+//! and the elimination stops once the rank has not grown for a while; if the lifted
+//! candidates fail the check, more pairs are fed. The plain system remains the answer
+//! when the generators do not pay (many generators) or when a prime is unlucky for the
+//! words.
+//!
+//! Cost for s generators, dense dimension n: the words n (2 + 2s) n^3, each pair 3 s n^3,
+//! usually a few pairs; then the check, one pass over the plain system per prime.
+
+use super::equations::{Eq, System};
+use crate::error::Result;
+use crate::linalg::dense_echelon::DenseEchelon;
+use crate::linalg::kernels::{LazyAcc, Modulus};
+use crate::linalg::modular::rref_mod;
+use crate::linalg::nullspace::{SolveParams, Space, SparseQ, cached_primes, check_solutions};
+use crate::scalar::{Q, Reconstructor};
+use crate::tensor::{IntegralTensor, ModTable};
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, ToPrimitive, Zero};
+use rand::seq::SliceRandom;
+use rand::{Rng, SeedableRng};
+
+/// Which maps.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Kind {
+    Derivations,
+    Centroid,
+}
+
+/// A word: a generator (small integer coordinates) or the product of two earlier words.
+#[derive(Clone, Debug)]
+enum Word {
+    Gen(usize),
+    Mul(usize, usize),
+}
+
+/// Generators and words spanning the algebra.
+#[derive(Clone, Debug)]
+struct Words {
+    gens: Vec<Vec<i64>>,
+    words: Vec<Word>,
+}
+
+/// Residue vector of `x y` modulo the table's prime (dense vectors).
+fn product(t: &ModTable, m: &Modulus, x: &[u32], y: &[u32]) -> Vec<u32> {
+    let n = t.dims[2];
+    let mut acc = LazyAcc::new(n, t.p);
+    let ys: Vec<(usize, u32)> = y
+        .iter()
+        .copied()
+        .enumerate()
+        .filter(|(_, v)| *v != 0)
+        .collect();
+    for (a, &xa) in x.iter().enumerate() {
+        if xa == 0 {
+            continue;
+        }
+        for &(b, yb) in &ys {
+            let s = m.mul(xa, yb);
+            let (ks, vs) = t.row(a, b);
+            acc.room(1);
+            for (&k, &v) in ks.iter().zip(vs) {
+                acc.add_at(k as usize, s, v);
+            }
+        }
+    }
+    acc.finish().iter().map(|&v| v as u32).collect()
+}
+
+/// The vectors of the words modulo the table's prime.
+fn eval_words(t: &ModTable, w: &Words) -> Vec<Vec<u32>> {
+    let m = Modulus::new(t.p);
+    let mut out: Vec<Vec<u32>> = Vec::with_capacity(w.words.len());
+    for word in &w.words {
+        let v = match word {
+            Word::Gen(g) => w.gens[*g]
+                .iter()
+                .map(|&c| c.rem_euclid(t.p as i64) as u32)
+                .collect(),
+            Word::Mul(a, b) => product(t, &m, &out[*a], &out[*b]),
+        };
+        out.push(v);
+    }
+    out
+}
+
+/// Rank modulo p of some vectors.
+fn rank_of(vs: &[Vec<u32>], n: usize, p: u64) -> usize {
+    let mut data: Vec<u64> = vs.iter().flatten().map(|&x| x as u64).collect();
+    rref_mod(&mut data, vs.len(), n, p, false).len()
+}
+
+/// Choose generators and words modulo `p` (see the module documentation): generators are
+/// seeded random elements with coordinates in -3..3 while the words do not span, then
+/// products of the words so far, greedily keeping those that raise the rank.
+/// `None` when more than `max_gens` generators would be needed.
+fn choose_words(t: &ModTable, seed: u64, max_gens: usize) -> Option<Words> {
+    let n = t.dims[0];
+    let p = t.p;
+    let md = Modulus::new(p);
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+    let mut w = Words {
+        gens: Vec::new(),
+        words: Vec::new(),
+    };
+    let mut vecs: Vec<Vec<u32>> = Vec::new();
+    // an incremental echelon form of the words so far: a vector raises the rank iff it
+    // is independent of them
+    let mut ech = DenseEchelon::new(p, n);
+    let raises = |ech: &mut DenseEchelon, v: &[u32]| {
+        let before = ech.rank();
+        let mut row = v.to_vec();
+        ech.add_rows(&mut row);
+        ech.rank() > before
+    };
+    while vecs.len() < n {
+        if w.gens.len() >= max_gens {
+            return None;
+        }
+        // a new generator outside the span so far
+        let g: Vec<i64> = (0..n).map(|_| rng.gen_range(-3..=3)).collect();
+        let gv: Vec<u32> = g.iter().map(|&c| c.rem_euclid(p as i64) as u32).collect();
+        if !raises(&mut ech, &gv) {
+            continue;
+        }
+        w.gens.push(g);
+        w.words.push(Word::Gen(w.gens.len() - 1));
+        vecs.push(gv);
+        // close under products, breadth first
+        let mut next = 0;
+        while next < vecs.len() && vecs.len() < n {
+            let a = next;
+            next += 1;
+            for b in 0..=a {
+                for (x, y) in [(a, b), (b, a)] {
+                    if vecs.len() == n {
+                        break;
+                    }
+                    let v = product(t, &md, &vecs[x], &vecs[y]);
+                    if raises(&mut ech, &v) {
+                        vecs.push(v);
+                        w.words.push(Word::Mul(x, y));
+                    }
+                }
+            }
+        }
+    }
+    Some(w)
+}
+
+/// `L_x` (left = true: `y -> x y`) or `R_x` (`y -> y x`) as an n x n row-major matrix
+/// acting on column vectors: entry `[k][i]` = coefficient of `e_k` in `x e_i` (or `e_i x`).
+fn mult_matrix(t: &ModTable, x: &[u32], left: bool) -> Vec<u32> {
+    let n = t.dims[0];
+    let p = t.p;
+    let mut acc = vec![0u64; n * n];
+    let md = Modulus::new(p);
+    for (m, &xm) in x.iter().enumerate() {
+        if xm == 0 {
+            continue;
+        }
+        for i in 0..n {
+            let (ks, vs) = if left { t.row(m, i) } else { t.row(i, m) };
+            for (&k, &v) in ks.iter().zip(vs) {
+                let cell = &mut acc[k as usize * n + i];
+                *cell = md.reduce(*cell + xm as u64 * v as u64);
+            }
+        }
+    }
+    acc.into_iter().map(|v| v as u32).collect()
+}
+
+/// `A B` for row-major `A` (r x k) and `B` (k x c) modulo p.
+fn mat_mul(a: &[u32], b: &[u32], r: usize, k: usize, c: usize, p: u64) -> Vec<u32> {
+    let mut out = Vec::with_capacity(r * c);
+    let mut acc = LazyAcc::new(c, p);
+    for i in 0..r {
+        acc.clear();
+        acc.vec_mat(&a[i * k..(i + 1) * k], b);
+        out.extend(acc.finish().iter().map(|&v| v as u32));
+    }
+    out
+}
+
+/// The inverse of a row-major n x n matrix modulo p (`None` if singular).
+fn inverse(a: &[u32], n: usize, p: u64) -> Option<Vec<u32>> {
+    let mut aug = vec![0u64; n * 2 * n];
+    for i in 0..n {
+        for j in 0..n {
+            aug[i * 2 * n + j] = a[i * n + j] as u64;
+        }
+        aug[i * 2 * n + n + i] = 1;
+    }
+    let piv = rref_mod(&mut aug, n, 2 * n, p, true);
+    if piv.len() < n || piv[n - 1] != n - 1 {
+        return None;
+    }
+    Some(
+        (0..n)
+            .flat_map(|i| (0..n).map(move |j| (i, j)))
+            .map(|(i, j)| aug[i * 2 * n + n + j] as u32)
+            .collect(),
+    )
+}
+
+/// One prime's computation: the reduced echelon form (pivots, rows) of the candidate
+/// space in the coordinates of the plain system (`X[l][i]` at `l n + i`), or `None` when
+/// the words are dependent modulo p.
+struct Candidate {
+    pivots: Vec<usize>,
+    /// rows x n^2 residues
+    rows: Vec<u32>,
+}
+
+fn candidate_mod(
+    it: &IntegralTensor,
+    words: &Words,
+    kind: Kind,
+    p: u64,
+    order: &[(usize, usize)],
+    pairs_fed: usize,
+) -> Option<Candidate> {
+    let t = it.residues(p);
+    let n = it.dims[0];
+    let s = words.gens.len();
+    let m = s * n;
+    let wv = eval_words(t, words);
+    if rank_of(&wv, n, p) < n {
+        return None;
+    }
+    // W: rows are the words; gamma = x W^{-1}
+    let wflat: Vec<u32> = wv.iter().flatten().copied().collect();
+    let winv = inverse(&wflat, n, p)?;
+    let lm: Vec<Vec<u32>> = wv.iter().map(|x| mult_matrix(t, x, true)).collect();
+    let rm: Vec<Vec<u32>> = wv.iter().map(|x| mult_matrix(t, x, false)).collect();
+    // M_c, n x m each
+    let mut mc: Vec<Vec<u32>> = Vec::with_capacity(n);
+    for (c, word) in words.words.iter().enumerate() {
+        let mat = match word {
+            Word::Gen(g) => {
+                let mut z = vec![0u32; n * m];
+                for k in 0..n {
+                    z[k * m + g * n + k] = 1;
+                }
+                z
+            }
+            Word::Mul(a, b) => {
+                let x = mat_mul(&rm[*b], &mc[*a], n, n, m, p);
+                match kind {
+                    Kind::Derivations => {
+                        let y = mat_mul(&lm[*a], &mc[*b], n, n, m, p);
+                        x.iter()
+                            .zip(&y)
+                            .map(|(&u, &v)| ((u as u64 + v as u64) % p) as u32)
+                            .collect()
+                    }
+                    Kind::Centroid => x,
+                }
+            }
+        };
+        debug_assert_eq!(c, mc.len());
+        mc.push(mat);
+    }
+    // M by rows: [k][c][..m]
+    let mut mk = vec![0u32; n * n * m];
+    for (c, mat) in mc.iter().enumerate() {
+        for k in 0..n {
+            mk[(k * n + c) * m..(k * n + c + 1) * m].copy_from_slice(&mat[k * m..(k + 1) * m]);
+        }
+    }
+    let md = Modulus::new(p);
+    let neg = |v: &[u32]| -> Vec<u32> { v.iter().map(|&x| ((p - x as u64) % p) as u32).collect() };
+    let mut ech = DenseEchelon::new(p, m);
+    let mut batch: Vec<u32> = Vec::new();
+    let mut acc = LazyAcc::new(m, p);
+    for &(a, b) in order.iter().take(pairs_fed) {
+        let prod = product(t, &md, &wv[a], &wv[b]);
+        let gamma = mat_mul(&prod, &winv, 1, n, n, p);
+        let nr = neg(&rm[b]);
+        let nl = neg(&lm[a]);
+        for k in 0..n {
+            // sum_c gamma_c M_c[k]
+            acc.clear();
+            acc.vec_mat(&gamma, &mk[k * n * m..(k + 1) * n * m]);
+            let base: Vec<u64> = acc.finish().to_vec();
+            let right = {
+                acc.clear();
+                acc.vec_mat(&nr[k * n..(k + 1) * n], &mc[a]);
+                acc.finish().to_vec()
+            };
+            let left = {
+                acc.clear();
+                acc.vec_mat(&nl[k * n..(k + 1) * n], &mc[b]);
+                acc.finish().to_vec()
+            };
+            match kind {
+                Kind::Derivations => {
+                    batch.extend(
+                        (0..m).map(|j| ((base[j] + right[j] + left[j]) % p) as u32),
+                    );
+                }
+                Kind::Centroid => {
+                    batch.extend((0..m).map(|j| ((base[j] + right[j]) % p) as u32));
+                    batch.extend((0..m).map(|j| ((base[j] + left[j]) % p) as u32));
+                }
+            }
+        }
+        if batch.len() >= 256 * m {
+            ech.add_rows(&mut batch);
+        }
+        if ech.rank() == m {
+            break;
+        }
+    }
+    ech.add_rows(&mut batch);
+    // the candidates: one per free column of the u-space
+    let free = ech.free_columns();
+    let pivots = ech.pivot_columns();
+    let img = ech.image(&free);
+    let nf = free.len();
+    let mut maps: Vec<Vec<u32>> = Vec::with_capacity(nf);
+    for (fi, &f) in free.iter().enumerate() {
+        let mut u = vec![0u32; m];
+        u[f] = 1;
+        for (r, &pc) in pivots.iter().enumerate() {
+            let e = img[r * nf + fi];
+            u[pc] = ((p - e) % p) as u32;
+        }
+        // D(w_c) = M_c u, then D(e_j) = sum_c Winv[j][c] D(w_c)
+        let dw: Vec<Vec<u32>> = mc.iter().map(|mat| mat_mul(mat, &u, n, m, 1, p)).collect();
+        // dwt: n (c) x n (l): row c is D(w_c)
+        let dwt: Vec<u32> = dw.into_iter().flatten().collect();
+        let de = mat_mul(&winv, &dwt, n, n, n, p); // row j: D(e_j)
+        // X[l][j] at l n + j
+        let mut x = vec![0u32; n * n];
+        for j in 0..n {
+            for l in 0..n {
+                x[l * n + j] = de[j * n + l];
+            }
+        }
+        maps.push(x);
+    }
+    // canonical form: reduced echelon form of the candidate maps
+    let k = maps.len();
+    let mut data: Vec<u64> = maps.iter().flatten().map(|&x| x as u64).collect();
+    let piv = rref_mod(&mut data, k, n * n, p, true);
+    let r = piv.len();
+    Some(Candidate {
+        pivots: piv,
+        rows: data[..r * n * n].iter().map(|&x| x as u32).collect(),
+    })
+}
+
+/// The derivation algebra or the centroid through generators, proven by the exact check
+/// against the plain system; `None` when the method does not apply (too many generators
+/// for the dimension, or no lift within the primes), and the caller solves the plain
+/// system.
+pub fn solve_by_generators(
+    it: &IntegralTensor,
+    kind: Kind,
+    params: &SolveParams,
+) -> Result<Option<Space>> {
+    let n = it.dims[0];
+    if n < 4 {
+        return Ok(None);
+    }
+    let primes: Vec<u64> = match it.modulus() {
+        Some(q) if q < 1 << crate::linalg::kernels::KERNEL_PRIME_BITS => vec![q],
+        Some(_) => return Ok(None),
+        None => cached_primes()[..params.max_primes.clamp(2, 128)].to_vec(),
+    };
+    let max_gens = (n / 4).max(1);
+    let Some(words) = choose_words(it.residues(primes[0]), params.seed, max_gens) else {
+        return Ok(None);
+    };
+    let mut order: Vec<(usize, usize)> = (0..n)
+        .flat_map(|a| (0..n).map(move |b| (a, b)))
+        .filter(|&(a, b)| {
+            // pairs that define a word satisfy the derivation rule by construction
+            kind == Kind::Centroid
+                || !words
+                    .words
+                    .iter()
+                    .any(|w| matches!(w, Word::Mul(x, y) if (*x, *y) == (a, b)))
+        })
+        .collect();
+    order.shuffle(&mut rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ 0xdead));
+    let plain = System::new(
+        it,
+        &[match kind {
+            Kind::Derivations => Eq::Derivations,
+            Kind::Centroid => Eq::Centroid,
+        }],
+    );
+    let s = words.gens.len();
+    let mut fed = (2 * s).max(4).min(order.len());
+    loop {
+        if let Some(space) = lift(it, &words, kind, &primes, &order, fed, &plain)? {
+            return Ok(Some(space));
+        }
+        if fed == order.len() {
+            return Ok(None);
+        }
+        fed = (fed * 4).min(order.len());
+    }
+}
+
+/// Candidates modulo successive primes, combined and reconstructed, checked exactly.
+fn lift(
+    it: &IntegralTensor,
+    words: &Words,
+    kind: Kind,
+    primes: &[u64],
+    order: &[(usize, usize)],
+    fed: usize,
+    plain: &System,
+) -> Result<Option<Space>> {
+    let n = it.dims[0];
+    let nn = n * n;
+    let exact_field = it.modulus().is_some();
+    let mut best: Option<Vec<usize>> = None;
+    let mut residues: Vec<BigInt> = Vec::new();
+    let mut modulus = BigInt::one();
+    let mut previous_probe: Option<Vec<Q>> = None;
+    for &p in primes {
+        let Some(c) = candidate_mod(it, words, kind, p, order, fed) else {
+            continue;
+        };
+        let better = match &best {
+            None => true,
+            Some(b) => c.pivots.len() < b.len() || (c.pivots.len() == b.len() && c.pivots > *b),
+        };
+        if better {
+            best = Some(c.pivots.clone());
+            residues = c.rows.iter().map(|&x| BigInt::from(x)).collect();
+            modulus = BigInt::from(p);
+            previous_probe = None;
+        } else if best.as_ref() == Some(&c.pivots) {
+            let m_mod_p = (&modulus % p).to_u64().expect("small");
+            let minv = BigInt::from(m_mod_p)
+                .extended_gcd(&BigInt::from(p))
+                .x
+                .mod_floor(&BigInt::from(p))
+                .to_u64()
+                .expect("small") as u128;
+            for (a, &b) in residues.iter_mut().zip(&c.rows) {
+                let am = (&*a % p).to_u64().expect("small");
+                let t = ((b as u64 + p - am) % p) as u128 * minv % p as u128;
+                *a += &modulus * BigInt::from(t as u64);
+            }
+            modulus *= p;
+        } else {
+            continue;
+        }
+        let pivots = best.as_ref().expect("set");
+        let rec = Reconstructor::new(&modulus);
+        // a few probe entries first: the whole reconstruction only once they are stable
+        let probe: Option<Vec<Q>> = residues
+            .iter()
+            .filter(|x| !x.is_zero())
+            .take(8)
+            .map(|x| {
+                if exact_field {
+                    Some(Q::from_integer(x.clone()))
+                } else {
+                    rec.reconstruct(x)
+                }
+            })
+            .collect();
+        let probe_stable = probe.is_some() && probe == previous_probe;
+        previous_probe = probe;
+        if !probe_stable && !exact_field {
+            continue;
+        }
+        let basis: Option<Vec<SparseQ>> = (0..pivots.len())
+            .map(|r| {
+                let row = &residues[r * nn..(r + 1) * nn];
+                let cols: Vec<usize> = (0..nn).filter(|&c| !row[c].is_zero()).collect();
+                let xs: Vec<BigInt> = cols.iter().map(|&c| row[c].clone()).collect();
+                let qs = if exact_field {
+                    xs.into_iter().map(Q::from_integer).collect()
+                } else {
+                    rec.reconstruct_many(&xs)?
+                };
+                Some(cols.iter().map(|&c| c as u32).zip(qs).collect())
+            })
+            .collect();
+        let stable = exact_field || basis.is_some();
+        if stable
+            && let Some(basis) = &basis
+            && check_solutions(plain, basis)?
+        {
+            return Ok(Some(Space {
+                unknowns: nn,
+                basis: basis.clone(),
+            }));
+        }
+        if exact_field {
+            return Ok(None);
+        }
+    }
+    Ok(None)
+}
