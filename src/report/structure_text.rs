@@ -139,16 +139,22 @@ fn components(s: &mut String, c: &ComponentsReport) {
         c.quotient_dim.unwrap_or(0)
     );
     let dims: Vec<String> = c.components.iter().map(|x| x.dim.to_string()).collect();
-    let _ = writeln!(
-        s,
-        "\nsimple components of A/rad A: {} (dimensions {})",
-        c.components.len(),
-        if dims.is_empty() {
-            "none".to_string()
-        } else {
+    if dims.is_empty() {
+        let _ = writeln!(s, "\nsimple components of A/rad A: none (A is its radical)");
+    } else {
+        let _ = writeln!(
+            s,
+            "\nsimple components of A/rad A: {} (dimensions {})",
+            c.components.len(),
             dims.join(" + ")
-        }
-    );
+        );
+    }
+    // idempotents and generators live in A/rad A: say so when it differs from A
+    let modulo = if c.radical.as_ref().is_some_and(|r| r.dim > 0) {
+        " (modulo the radical)"
+    } else {
+        ""
+    };
     for (i, x) in c.components.iter().enumerate() {
         let _ = writeln!(s, "  [{}] dim {}: {}", i + 1, x.dim, x.shape);
         let _ = writeln!(
@@ -157,7 +163,7 @@ fn components(s: &mut String, c: &ComponentsReport) {
             x.centre.field, x.centre.degree, x.centre.polynomial
         );
         let _ = writeln!(s, "      {}", x.reason);
-        let _ = writeln!(s, "      central idempotent: {}", x.idempotent);
+        let _ = writeln!(s, "      central idempotent{modulo}: {}", x.idempotent);
     }
 }
 

@@ -12,6 +12,9 @@ use crate::linalg::nullspace::SolveParams;
 use crate::linalg::subspace::{Subspace, field_spec, kernel, span};
 use crate::scalar::{Field, Q};
 use crate::tensor::{Table, Tensor};
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Zero};
 
 /// An algebra of dimension n over the field context `f` (see the module documentation).
 #[derive(Clone, Debug)]
@@ -19,16 +22,92 @@ pub struct Alg<F: Field> {
     pub f: F,
     pub n: usize,
     pub table: Table<F::Elem>,
+    /// Over Q, the structure constants over a common denominator, so that a product
+    /// costs integer multiply-adds and one reduction per coordinate instead of a gcd per
+    /// term (the constants of a user's dense basis have hundreds of bits).
+    integer: Option<IntegerTable>,
+}
+
+/// Structure constants `c_abk = products[a n + b][k] / den` with integer numerators.
+#[derive(Clone, Debug)]
+struct IntegerTable {
+    products: Vec<Vec<(usize, BigInt)>>,
+    den: BigInt,
+}
+
+impl IntegerTable {
+    fn new<F: Field>(f: &F, table: &Table<F::Elem>) -> Option<IntegerTable> {
+        if f.characteristic() != 0 {
+            return None;
+        }
+        let den = table
+            .products
+            .iter()
+            .flatten()
+            .fold(BigInt::one(), |acc, (_, c)| acc.lcm(f.to_rational(c).denom()));
+        let products = table
+            .products
+            .iter()
+            .map(|row| {
+                row.iter()
+                    .map(|(k, c)| {
+                        let q = f.to_rational(c);
+                        (*k, q.numer() * (&den / q.denom()))
+                    })
+                    .collect()
+            })
+            .collect();
+        Some(IntegerTable { products, den })
+    }
+
+    /// A vector of rationals as integers over a common denominator.
+    fn integer_vector<F: Field>(f: &F, x: &[F::Elem]) -> (Vec<BigInt>, BigInt) {
+        let q: Vec<Q> = x.iter().map(|c| f.to_rational(c)).collect();
+        let den = q.iter().fold(BigInt::one(), |acc, c| acc.lcm(c.denom()));
+        let ints = q.iter().map(|c| c.numer() * (&den / c.denom())).collect();
+        (ints, den)
+    }
+
+    /// `x y` over Q. Cost: O(|supp x| |supp y| nnz per product) big-integer multiply-adds
+    /// and n reductions.
+    fn mul<F: Field>(&self, f: &F, n: usize, out_len: usize, x: &[F::Elem], y: &[F::Elem]) -> Vec<F::Elem> {
+        let (xi, dx) = Self::integer_vector(f, x);
+        let (yi, dy) = Self::integer_vector(f, y);
+        let mut acc = vec![BigInt::zero(); out_len];
+        for (i, a) in xi.iter().enumerate() {
+            if a.is_zero() {
+                continue;
+            }
+            for (j, b) in yi.iter().enumerate() {
+                if b.is_zero() {
+                    continue;
+                }
+                let s = a * b;
+                for (k, c) in &self.products[i * n + j] {
+                    acc[*k] += &s * c;
+                }
+            }
+        }
+        let den = dx * dy * &self.den;
+        acc.into_iter()
+            .map(|a| {
+                f.from_rational(&Q::new(a, den.clone()))
+                    .expect("a rational in Q")
+            })
+            .collect()
+    }
 }
 
 impl<F: Field> Alg<F> {
     /// The algebra of a tensor (an algebra or a square map read on its left basis), in the
     /// field context f matching the tensor's field.
     pub fn from_tensor(f: &F, t: &Tensor) -> Self {
+        let table = t.table(f);
         Alg {
             f: f.clone(),
             n: t.dim(),
-            table: t.table(f),
+            integer: IntegerTable::new(f, &table),
+            table,
         }
     }
 
@@ -46,13 +125,15 @@ impl<F: Field> Alg<F> {
                 );
             }
         }
+        let table = Table {
+            dims: [n; 3],
+            products,
+        };
         Alg {
             f: f.clone(),
             n,
-            table: Table {
-                dims: [n; 3],
-                products,
-            },
+            integer: IntegerTable::new(f, &table),
+            table,
         }
     }
 
@@ -109,7 +190,10 @@ impl<F: Field> Alg<F> {
     }
 
     pub fn mul(&self, x: &[F::Elem], y: &[F::Elem]) -> Vec<F::Elem> {
-        self.table.mul(&self.f, x, y)
+        match &self.integer {
+            Some(it) => it.mul(&self.f, self.table.dims[1], self.table.dims[2], x, y),
+            None => self.table.mul(&self.f, x, y),
+        }
     }
 
     pub fn add(&self, x: &[F::Elem], y: &[F::Elem]) -> Vec<F::Elem> {

@@ -60,7 +60,7 @@ pub struct BlockParams {
 impl Default for BlockParams {
     fn default() -> Self {
         BlockParams {
-            solve: SolveParams::default(),
+            solve: super::default_solve_params(),
             seed: 1,
             certify: true,
         }

@@ -202,6 +202,7 @@ fn split_rec<F: Field>(
         // seen (the smallest polynomial among them); a random one is taken at once
         if best.is_some() && i + 1 >= dim {
             let (generator, poly) = best.expect("certified");
+            let (generator, poly) = normalise_quadratic(z, one, generator, poly);
             return Ok(vec![FieldPart {
                 idempotent: one.to_vec(),
                 degree: dim,
@@ -213,6 +214,46 @@ fn split_rec<F: Field>(
     Err(Error::Invalid(
         "could not certify the field components (no primitive element found)".into(),
     ))
+}
+
+/// Over Q, a generator y of a quadratic field with minimal polynomial `x^2 + c1 x + c0`
+/// is replaced by `y' = (v / m)(y + c1 / 2)`, a root of `x^2 - D` with D a squarefree
+/// integer, the usual defining polynomial of `Q(sqrt D)` (common practice): with
+/// `(y + c1/2)^2 = u / v` in lowest terms and `u v = D m^2`
+/// ([`super::quaternion::square_decomposition`]). Unchanged when `u v` cannot be so
+/// decomposed, over GF(p) and in other degrees.
+fn normalise_quadratic<F: Field>(
+    z: &Alg<F>,
+    one: &[F::Elem],
+    y: Vec<F::Elem>,
+    g: Vec<Q>,
+) -> (Vec<F::Elem>, Vec<Q>) {
+    let f = &z.f;
+    if g.len() != 3 || field_spec(f) != FieldSpec::Rational {
+        return (y, g);
+    }
+    let t = &g[1] / Q::from_integer(2.into());
+    let delta = &t * &t - &g[0];
+    let Some((d, m)) = super::quaternion::square_decomposition(&(delta.numer() * delta.denom()))
+    else {
+        return (y, g);
+    };
+    let scale = Q::new(delta.denom().clone(), m);
+    let Some((tf, sf)) = f.from_rational(&t).zip(f.from_rational(&scale)) else {
+        return (y, g);
+    };
+    let shifted = z.add(&y, &one.iter().map(|u| f.mul(&tf, u)).collect::<Vec<_>>());
+    let y2: Vec<F::Elem> = shifted.iter().map(|c| f.mul(&sf, c)).collect();
+    // checked exactly: y'^2 = D
+    let Some(df) = f.from_rational(&Q::from_integer(d.clone())) else {
+        return (y, g);
+    };
+    let d_one: Vec<F::Elem> = one.iter().map(|u| f.mul(&df, u)).collect();
+    if z.mul(&y2, &y2) != d_one {
+        return (y, g);
+    }
+    let poly = vec![-Q::from_integer(d), Q::zero(), Q::from_integer(1.into())];
+    (y2, poly)
 }
 
 /// The size of a rational polynomial: the largest coefficient of its primitive integer
@@ -245,7 +286,7 @@ pub fn field_decision<F: Field>(
     if c.n == 1 {
         return Ok(FieldDecision::Field {
             degree: 1,
-            poly: vec![Q::zero(), Q::from_integer(1.into())],
+            poly: vec![-Q::from_integer(1.into()), Q::from_integer(1.into())],
         });
     }
     if !c.is_commutative() {

@@ -72,7 +72,7 @@ pub struct LieParams {
 impl Default for LieParams {
     fn default() -> Self {
         LieParams {
-            solve: SolveParams::default(),
+            solve: super::default_solve_params(),
             seed: 1,
             tries: 6,
         }

@@ -56,6 +56,17 @@ pub fn centroid_is_field(
     })
 }
 
+/// The engine's parameters for the structure: its default with room for the long
+/// rationals of nested computations (idempotents, components, generators) in a user's
+/// dense basis with large coefficients. Primes are added only while the lifted solution
+/// keeps changing, so small inputs cost no more (128 is the engine's ceiling).
+pub fn default_solve_params() -> SolveParams {
+    SolveParams {
+        max_primes: 128,
+        ..SolveParams::default()
+    }
+}
+
 /// A part of the structure report (the names of `--only`).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Part {
@@ -114,7 +125,7 @@ impl Default for StructureParams {
     fn default() -> Self {
         StructureParams {
             only: None,
-            solve: SolveParams::default(),
+            solve: default_solve_params(),
             seed: 1,
             certify_blocks: true,
         }

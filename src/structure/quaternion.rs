@@ -21,9 +21,13 @@ pub fn quaternion_is_division(a: &Q, b: &Q) -> Option<bool> {
     if a.is_negative() && b.is_negative() {
         return Some(true); // ramified at the real place
     }
-    // integers in the same square classes
-    let a: BigInt = a.numer() * a.denom();
-    let b: BigInt = b.numer() * b.denom();
+    // squarefree integers in the same square classes
+    let (Some((a, _)), Some((b, _))) = (
+        square_decomposition(&(a.numer() * a.denom())),
+        square_decomposition(&(b.numer() * b.denom())),
+    ) else {
+        return None;
+    };
     let mut primes: Vec<BigInt> = vec![BigInt::from(2)];
     for x in [&a, &b] {
         for (p, _) in factor_integer(&x.abs())? {
@@ -79,8 +83,45 @@ fn legendre(x: &BigInt, p: &BigInt) -> i32 {
     if r.is_one() { 1 } else { -1 }
 }
 
+/// `n = d m^2` with d squarefree (of the sign of n) and m > 0, for n != 0: the primes below
+/// 2^16 by trial division, then a cofactor that is a perfect square or that factors
+/// ([`factor_integer`]); `None` otherwise. The square class of n is that of d.
+pub fn square_decomposition(n: &BigInt) -> Option<(BigInt, BigInt)> {
+    if n.is_zero() {
+        return None;
+    }
+    let (mut d, mut m) = (BigInt::from(n.signum()), BigInt::one());
+    let mut r = n.abs();
+    let mut p = 2u64;
+    while p < 1 << 16 && r > BigInt::one() {
+        let bp = BigInt::from(p);
+        let mut e = 0u32;
+        while (&r % &bp).is_zero() {
+            r /= &bp;
+            e += 1;
+        }
+        if e % 2 == 1 {
+            d *= &bp;
+        }
+        m *= bp.pow(e / 2);
+        p += if p == 2 { 1 } else { 2 };
+    }
+    let root = r.sqrt();
+    if &root * &root == r {
+        return Some((d, m * root));
+    }
+    for (q, e) in factor_integer(&r)? {
+        if e % 2 == 1 {
+            d *= &q;
+        }
+        m *= q.pow(e / 2);
+    }
+    Some((d, m))
+}
+
 /// The prime factorisation of a positive integer, or `None` when a cofactor above 2^63
-/// is left after trial division by the primes below 2^16.
+/// does not split into proven primes (trial division below 2^16, then the rho method;
+/// every prime reported is below 2^63 and proven by a deterministic test, or below 2^16).
 pub fn factor_integer(n: &BigInt) -> Option<Vec<(BigInt, u32)>> {
     let mut out: Vec<(BigInt, u32)> = Vec::new();
     let mut m = n.clone();
@@ -98,24 +139,83 @@ pub fn factor_integer(n: &BigInt) -> Option<Vec<(BigInt, u32)>> {
         }
         d += if d == 2 { 1 } else { 2 };
     }
-    if m.is_one() {
-        return Some(out);
-    }
-    let small = m.to_u64().filter(|&x| x < 1 << 63)?;
-    let mut stack = vec![small];
+    let mut stack = vec![m];
     while let Some(x) = stack.pop() {
-        if x == 1 {
+        if x.is_one() {
             continue;
         }
-        if is_prime(x) {
-            push(BigInt::from(x), &mut out);
+        if let Some(small) = x.to_u64().filter(|&v| v < 1 << 63) {
+            if is_prime(small) {
+                push(x, &mut out);
+                continue;
+            }
+            let d = pollard_rho(small)?;
+            stack.push(BigInt::from(d));
+            stack.push(BigInt::from(small / d));
             continue;
         }
-        let d = pollard_rho(x)?;
+        // above 2^63: a factor by the big-integer rho method; a cofactor that does not
+        // split within the budget (a probable prime, or a product of large primes) stays
+        // unproven and the factorisation fails
+        let d = pollard_rho_big(&x)?;
+        stack.push(x.clone() / &d);
         stack.push(d);
-        stack.push(x / d);
     }
     Some(out)
+}
+
+/// Iterations of the big-integer rho method per constant.
+const RHO_BIG_STEPS: u64 = 1 << 18;
+
+/// A nontrivial factor of an odd composite n > 2^63, by Brent's variant of the rho method
+/// (Brent 1980, An improved Monte Carlo factorization algorithm) with products of 128
+/// differences per gcd; `None` when none is found within [`RHO_BIG_STEPS`] steps for each
+/// of a few constants (always for a prime n). Cost: O(RHO_BIG_STEPS) multiplications of
+/// big integers per constant.
+fn pollard_rho_big(n: &BigInt) -> Option<BigInt> {
+    if n.is_even() {
+        return Some(BigInt::from(2));
+    }
+    for c in 1..4u32 {
+        let c = BigInt::from(c);
+        let g = |x: &BigInt| (x * x + &c) % n;
+        let (mut y, mut r, mut q) = (BigInt::from(2), 1u64, BigInt::one());
+        let (mut x, mut ys) = (y.clone(), y.clone());
+        let mut steps = 0u64;
+        let mut d = BigInt::one();
+        while d.is_one() && steps < RHO_BIG_STEPS {
+            x = y.clone();
+            for _ in 0..r {
+                y = g(&y);
+            }
+            let mut k = 0;
+            while k < r && d.is_one() {
+                ys = y.clone();
+                for _ in 0..128.min(r - k) {
+                    y = g(&y);
+                    q = (q * (&x - &y).abs()) % n;
+                }
+                d = q.gcd(n);
+                k += 128;
+                steps += 128;
+            }
+            r *= 2;
+        }
+        if d == *n {
+            // back up one step at a time from the last saved point
+            loop {
+                ys = g(&ys);
+                d = (&x - &ys).abs().gcd(n);
+                if !d.is_one() {
+                    break;
+                }
+            }
+        }
+        if !d.is_one() && d != *n {
+            return Some(d);
+        }
+    }
+    None
 }
 
 /// A nontrivial factor of a composite n < 2^63 (Pollard 1975, with Floyd's cycle
@@ -166,5 +266,20 @@ mod tests {
                 (BigInt::from(998_244_353), 1)
             ])
         );
+        // above 2^63: (10^12 + 39)(10^12 + 61)(2^31 - 1) splits (primes: sympy isprime)
+        let (p1, p2, p3) = (1_000_000_000_039u64, 1_000_000_000_061u64, 2_147_483_647u64);
+        let n = BigInt::from(p1) * p2 * p3;
+        let mut f = factor_integer(&n).unwrap();
+        f.sort();
+        let want = vec![(BigInt::from(p3), 1), (BigInt::from(p1), 1), (BigInt::from(p2), 1)];
+        assert_eq!(f, want);
+        // 12 * (10^12 + 39)^2 = 3 (2 (10^12 + 39))^2
+        let p1b = BigInt::from(p1);
+        assert_eq!(
+            square_decomposition(&(BigInt::from(-12) * &p1b * &p1b)),
+            Some((BigInt::from(-3), BigInt::from(2) * &p1b))
+        );
+        // 2^64 - 59, a prime (sympy isprime), cannot be proven here: no factorisation
+        assert_eq!(factor_integer(&BigInt::from(18_446_744_073_709_551_557u64)), None);
     }
 }

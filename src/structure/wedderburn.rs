@@ -32,10 +32,11 @@ use crate::invariants::quotient::{QuotientMap, quotient_in};
 use crate::invariants::{ElementSpace, element_space};
 use crate::laws::find_unit;
 use crate::linalg::nullspace::SolveParams;
-use crate::linalg::subspace::{Subspace, field_spec, kernel, rank_of, reduce, span};
+use crate::linalg::subspace::{Subspace, field_spec, rank_of, reduce, span};
 use crate::poly;
 use crate::scalar::{Field, FieldSpec, Q};
 use crate::tensor::{IntegralTensor, Tensor};
+use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::Zero;
 use rand::{Rng, SeedableRng};
@@ -87,7 +88,7 @@ pub struct WedderburnParams {
 impl Default for WedderburnParams {
     fn default() -> Self {
         WedderburnParams {
-            solve: SolveParams::default(),
+            solve: super::default_solve_params(),
             seed: 1,
             tries: 24,
         }
@@ -287,7 +288,7 @@ fn decide_shape<F: Field>(
         }
     }
     if big_n == 2 && k == 1 && !zero_divisor {
-        return quaternion_shape(f, s, e, comp, sp);
+        return quaternion_shape(f, s, e, comp);
     }
     let what = if zero_divisor {
         format!("not a division algebra; the index divides {g}")
@@ -311,7 +312,6 @@ fn quaternion_shape<F: Field>(
     s: &Alg<F>,
     e: &[F::Elem],
     comp: &Subspace<F::Elem>,
-    sp: &SolveParams,
 ) -> Result<(Option<usize>, Option<usize>, String)> {
     // reduced trace: trd(y) = Tr(L_y on the component) / 2
     let trd2 = |y: &[F::Elem]| {
@@ -330,54 +330,85 @@ fn quaternion_shape<F: Field>(
         (ce == x).then_some(c)
     };
     let not_decided = |why: &str| Ok((None, None, format!("not decided: {why}")));
-    // i: a pure quaternion (trace 0, not a scalar)
-    let Some(i) = comp.basis.iter().find_map(|y| {
+    // i: a pure quaternion (trace 0, not a scalar), j = iy - yi (anticommutes with i), for
+    // y among the projections of the basis of S (short vectors in the user's basis);
+    // a = i^2 and b = j^2 as integers of their square classes (numerator times
+    // denominator), tried from the smallest so that their factorisation is cheap
+    let pure = |y: &[F::Elem]| {
         let t = f.mul(&trd2(y), &half); // trd(y) / 2
-        let pure = s.sub(y, &e.iter().map(|u| f.mul(&t, u)).collect::<Vec<_>>());
-        (!s.is_zero(&pure)).then_some(pure)
-    }) else {
-        return not_decided("no pure quaternion found");
+        s.sub(y, &e.iter().map(|u| f.mul(&t, u)).collect::<Vec<_>>())
     };
-    let Some(a) = scalar(&s.mul(&i, &i)) else {
-        return not_decided("a pure quaternion does not square to a scalar");
-    };
-    // j: anticommuting with i
-    let rows: Vec<Vec<F::Elem>> = (0..comp.ambient)
-        .map(|c| {
-            comp.basis
-                .iter()
-                .map(|b| {
-                    let v = s.add(&s.mul(&i, b), &s.mul(b, &i));
-                    v[c].clone()
-                })
-                .collect()
-        })
+    let projections: Vec<Vec<F::Elem>> = (0..s.n)
+        .map(|t| s.mul(&s.basis(t), e))
+        .filter(|y| !s.is_zero(y))
         .collect();
-    let ker = kernel(f, &rows, comp.dim(), sp)?;
-    let Some(j) = ker.basis.first().map(|c| comp.combine(f, c)) else {
-        return not_decided("no element anticommutes with a pure quaternion");
+    let class = |x: &F::Elem| {
+        let q = f.to_rational(x);
+        q.numer() * q.denom()
     };
-    let Some(b) = scalar(&s.mul(&j, &j)) else {
-        return not_decided("an anticommuting element does not square to a scalar");
-    };
-    let (a, b) = (f.to_rational(&a), f.to_rational(&b));
-    if a.is_zero() || b.is_zero() {
-        return Ok((Some(2), Some(1), "a nonzero nilpotent element".into()));
+    // the pure quaternions i of the projections, smallest a first; for the first few, the
+    // anticommuting j = iy - yi, smallest b first
+    let mut is: Vec<(u64, Vec<F::Elem>, BigInt)> = Vec::new();
+    for y in &projections {
+        let i = pure(y);
+        if s.is_zero(&i) {
+            continue;
+        }
+        let Some(a) = scalar(&s.mul(&i, &i)) else {
+            return not_decided("a pure quaternion does not square to a scalar");
+        };
+        let ca = class(&a);
+        if ca.is_zero() {
+            return Ok((Some(2), Some(1), "a nonzero nilpotent element".into()));
+        }
+        is.push((ca.bits(), i, ca));
     }
-    let sym = format!(
-        "the quaternion algebra ({}, {})_Q (Hilbert symbols)",
-        crate::scalar::q_to_string(&a),
-        crate::scalar::q_to_string(&b)
-    );
-    Ok(match quaternion_is_division(&a, &b) {
-        Some(true) => (Some(1), Some(4), format!("a division algebra: {sym}")),
-        Some(false) => (Some(2), Some(1), format!("split, M_2(Q): {sym}")),
-        None => (
-            None,
-            None,
-            format!("not decided: {sym}, a number could not be factored"),
-        ),
-    })
+    is.sort_by_key(|x| x.0);
+    let mut pairs: Vec<(u64, Q, Q)> = Vec::new();
+    for (abits, i, ca) in is.iter().take(3) {
+        for y2 in &projections {
+            let j = s.sub(&s.mul(i, y2), &s.mul(y2, i));
+            if s.is_zero(&j) {
+                continue;
+            }
+            let Some(b) = scalar(&s.mul(&j, &j)) else {
+                return not_decided("an anticommuting element does not square to a scalar");
+            };
+            let cb = class(&b);
+            if cb.is_zero() {
+                return Ok((Some(2), Some(1), "a nonzero nilpotent element".into()));
+            }
+            pairs.push((abits + cb.bits(), Q::from_integer(ca.clone()), Q::from_integer(cb)));
+        }
+    }
+    if pairs.is_empty() {
+        return not_decided("no pure quaternion with an anticommuting element found");
+    }
+    pairs.sort_by_key(|p| p.0);
+    pairs.dedup_by(|x, y| x.1 == y.1 && x.2 == y.2);
+    let mut last = None;
+    let squarefree = |x: Q| {
+        super::quaternion::square_decomposition(x.numer())
+            .map_or(x, |(d, _)| Q::from_integer(d))
+    };
+    for (_, a, b) in pairs.into_iter().take(8) {
+        // (a, b)_Q depends on the square classes only
+        let (a, b) = (squarefree(a), squarefree(b));
+        let sym = format!(
+            "the quaternion algebra ({}, {})_Q (Hilbert symbols)",
+            crate::scalar::q_to_string(&a),
+            crate::scalar::q_to_string(&b)
+        );
+        match quaternion_is_division(&a, &b) {
+            Some(true) => return Ok((Some(1), Some(4), format!("a division algebra: {sym}"))),
+            Some(false) => return Ok((Some(2), Some(1), format!("split, M_2(Q): {sym}"))),
+            None => last = Some(sym),
+        }
+    }
+    not_decided(&format!(
+        "{}, a number could not be factored",
+        last.unwrap_or_default()
+    ))
 }
 
 /// A cheap test before an exact minimal polynomial over Q: the minimal polynomial modulo a
