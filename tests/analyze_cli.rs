@@ -154,7 +154,13 @@ fn invariants_and_bounds_sections() {
         .find(|s| s["id"] == "lower-bounds")
         .expect("bounds section");
     assert_eq!(lb["data"]["best"], 7);
-    let j = json(&["analyze", "quaternions", "--no-invariants", "--no-bounds"]);
+    let j = json(&[
+        "analyze",
+        "quaternions",
+        "--no-invariants",
+        "--no-bounds",
+        "--no-structure",
+    ]);
     assert!(j["extra"].as_array().unwrap().is_empty());
     let (code, _, err) = run(&["analyze", "quaternions", "--invariants", "nonsense"]);
     assert_eq!(code, 2, "{err}");

@@ -121,7 +121,8 @@ pub fn square_decomposition(n: &BigInt) -> Option<(BigInt, BigInt)> {
 
 /// The prime factorisation of a positive integer, or `None` when a cofactor above 2^63
 /// does not split into proven primes (trial division below 2^16, then the rho method;
-/// every prime reported is below 2^63 and proven by a deterministic test, or below 2^16).
+/// every prime reported is below 2^63 and proven by a deterministic test, or below 2^16),
+/// in increasing order of the primes.
 pub fn factor_integer(n: &BigInt) -> Option<Vec<(BigInt, u32)>> {
     let mut out: Vec<(BigInt, u32)> = Vec::new();
     let mut m = n.clone();
@@ -161,6 +162,7 @@ pub fn factor_integer(n: &BigInt) -> Option<Vec<(BigInt, u32)>> {
         stack.push(x.clone() / &d);
         stack.push(d);
     }
+    out.sort();
     Some(out)
 }
 
@@ -269,8 +271,7 @@ mod tests {
         // above 2^63: (10^12 + 39)(10^12 + 61)(2^31 - 1) splits (primes: sympy isprime)
         let (p1, p2, p3) = (1_000_000_000_039u64, 1_000_000_000_061u64, 2_147_483_647u64);
         let n = BigInt::from(p1) * p2 * p3;
-        let mut f = factor_integer(&n).unwrap();
-        f.sort();
+        let f = factor_integer(&n).unwrap();
         let want = vec![(BigInt::from(p3), 1), (BigInt::from(p1), 1), (BigInt::from(p2), 1)];
         assert_eq!(f, want);
         // 12 * (10^12 + 39)^2 = 3 (2 (10^12 + 39))^2
