@@ -44,7 +44,14 @@ fn rational_s3_in_json() {
 /// F_2[C_4] = F_2[x]/((x - 1)^4) is local, radical of dimension 3 (common practice).
 #[test]
 fn radical_over_gf2_in_text() {
-    let (code, out, err) = run(&["split", "cyclic:4", "--field", "GF(2)", "--only", "components"]);
+    let (code, out, err) = run(&[
+        "split",
+        "cyclic:4",
+        "--field",
+        "GF(2)",
+        "--only",
+        "components",
+    ]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("): dim 3"), "{out}");
     assert!(out.contains("dim A/rad A = 1"), "{out}");
@@ -89,7 +96,12 @@ fn basis_out_makes_the_table_block_diagonal() {
     ]);
     assert_eq!(code, 0, "{err}");
     assert!(std::fs::read_to_string(&svg).unwrap().contains("<svg"));
-    let (code, out, err) = run(&["transform", "dihedral:3", "--basis", basis.to_str().unwrap()]);
+    let (code, out, err) = run(&[
+        "transform",
+        "dihedral:3",
+        "--basis",
+        basis.to_str().unwrap(),
+    ]);
     assert_eq!(code, 0, "{err}");
     // the new basis names are f{block}_{i}: a product of two different blocks is absent and
     // every product lands in its own block
@@ -113,7 +125,14 @@ fn bad_requests_exit_2() {
     assert!(err.contains("unknown part"), "{err}");
     let (code, _, _) = run(&["split", "no-such-input-anywhere"]);
     assert_eq!(code, 2);
-    let (code, _, err) = run(&["split", "symmetric:3", "--only", "lie", "--basis-out", "x.txt"]);
+    let (code, _, err) = run(&[
+        "split",
+        "symmetric:3",
+        "--only",
+        "lie",
+        "--basis-out",
+        "x.txt",
+    ]);
     assert_eq!(code, 2);
     assert!(err.contains("blocks"), "{err}");
 }

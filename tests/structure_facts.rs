@@ -8,8 +8,7 @@ use bilin::input::load_input;
 use bilin::scalar::FieldSpec;
 use bilin::scheme::construct::direct_sum_tensor;
 use bilin::structure::{
-    Decomposition, LieStructure, Outcome, Structure, StructureParams, Wedderburn,
-    compute_structure,
+    Decomposition, LieStructure, Outcome, Structure, StructureParams, Wedderburn, compute_structure,
 };
 use bilin::tensor::{Kind, Tensor, change_basis, change_basis_algebra, random_invertible};
 use proptest::prelude::*;
@@ -19,7 +18,11 @@ fn load(spec: &str, field: FieldSpec) -> Tensor {
         Some(e) => e.tensor().unwrap(),
         None => load_input(spec, None).unwrap(),
     };
-    if t.field() == field { t } else { t.with_field(field).unwrap() }
+    if t.field() == field {
+        t
+    } else {
+        t.with_field(field).unwrap()
+    }
 }
 
 fn structure(t: &Tensor) -> Structure {
@@ -138,7 +141,14 @@ fn rational_cyclic_group_algebras_are_cyclotomic_fields() {
         got.sort();
         assert_eq!(got, want, "Q[C_{n}]");
         assert!(w.components.iter().all(|c| c.dim == c.centre_degree));
-        let mut blocks: Vec<usize> = s.blocks.as_ref().unwrap().blocks.iter().map(|b| b.dims[0]).collect();
+        let mut blocks: Vec<usize> = s
+            .blocks
+            .as_ref()
+            .unwrap()
+            .blocks
+            .iter()
+            .map(|b| b.dims[0])
+            .collect();
         blocks.sort();
         assert_eq!(blocks, want, "blocks of Q[C_{n}]");
     }
@@ -228,7 +238,10 @@ fn lie_direct_sum() {
     assert_eq!(l.radical.len(), 3);
     assert_eq!(l.nilradical.len(), 3);
     assert_eq!(l.cartan_dim, Some(4));
-    assert_eq!(block_shapes(s.blocks.as_ref().unwrap()), vec![[3, 3, 3], [3, 3, 3]]);
+    assert_eq!(
+        block_shapes(s.blocks.as_ref().unwrap()),
+        vec![[3, 3, 3], [3, 3, 3]]
+    );
 }
 
 /// The rank of sl_n (dimension of a Cartan subalgebra) is n - 1; gl_n has the centre as
@@ -242,7 +255,10 @@ fn lie_ranks() {
         assert_eq!(l.levi_dim, n * n - 1);
         let s = structure(&load(&format!("gl:{n}"), FieldSpec::Rational));
         let l = lie(&s);
-        assert_eq!((l.radical.len(), l.nilradical.len(), l.levi_dim), (1, 1, n * n - 1));
+        assert_eq!(
+            (l.radical.len(), l.nilradical.len(), l.levi_dim),
+            (1, 1, n * n - 1)
+        );
         assert_eq!(l.cartan_dim, Some(n));
     }
     // so(4) = sl_2 + sl_2 over the reals and so(4) is of rank 2 (Humphreys 1972; from memory)
@@ -259,8 +275,12 @@ fn centroid_decided_a_field() {
     use bilin::invariants::all::{Params, compute_invariants};
     use bilin::structure::FieldDecision;
     let decide = |spec: &str| {
-        let r = compute_invariants(&load(spec, FieldSpec::Rational), &Params::default(), &mut |_| {})
-            .unwrap();
+        let r = compute_invariants(
+            &load(spec, FieldSpec::Rational),
+            &Params::default(),
+            &mut |_| {},
+        )
+        .unwrap();
         r.centroid_field.unwrap()
     };
     for (spec, degree) in [("quotient:-2,0,0,1", 3usize), ("Cl3-0", 2), ("matrix:3", 1)] {
@@ -286,7 +306,10 @@ fn planted(pick: usize) -> (Tensor, Vec<[usize; 3]>) {
         ("sl:2", FieldSpec::Rational),
     ];
     let a = load(specs[pick % specs.len()].0, FieldSpec::Rational);
-    let b = load(specs[(pick / specs.len()) % specs.len()].0, FieldSpec::Rational);
+    let b = load(
+        specs[(pick / specs.len()) % specs.len()].0,
+        FieldSpec::Rational,
+    );
     let t = direct_sum_tensor(&a, &b).unwrap();
     let mut want = vec![a.dims(), b.dims()];
     want.sort();
@@ -331,12 +354,18 @@ proptest! {
 /// matrix is singular mod p is skipped).
 #[test]
 fn structure_over_gf_p_unchanged_by_a_change_of_basis() {
-    for (spec, p) in [("symmetric:3", 3u64), ("cyclic:4", 2), ("dihedral:3", 2), ("cyclic:6", 3)] {
+    for (spec, p) in [
+        ("symmetric:3", 3u64),
+        ("cyclic:4", 2),
+        ("dihedral:3", 2),
+        ("cyclic:6", 3),
+    ] {
         let t = load(spec, FieldSpec::Prime(p));
         let want = fingerprint(&t);
         let mut tried = 0;
         for seed in 0..20u64 {
-            let Some(u) = change_basis_algebra(&t, &random_invertible(t.dim(), 1_000_000, seed)) else {
+            let Some(u) = change_basis_algebra(&t, &random_invertible(t.dim(), 1_000_000, seed))
+            else {
                 continue;
             };
             assert_eq!(fingerprint(&u), want, "{spec} over GF({p}), seed {seed}");

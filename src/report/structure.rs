@@ -288,9 +288,9 @@ fn shape(field: FieldSpec, c: &crate::structure::Component) -> String {
         (Some(1), Some(d)) => {
             format!("a division algebra of dimension {d} over {base} with centre {k}")
         }
-        (Some(n), Some(d)) => format!(
-            "M_{n}(D), D a division algebra of dimension {d} over {base} with centre {k}"
-        ),
+        (Some(n), Some(d)) => {
+            format!("M_{n}(D), D a division algebra of dimension {d} over {base} with centre {k}")
+        }
         _ => format!(
             "a central simple algebra of dimension {} over {k}",
             c.dim / c.centre_degree.max(1)

@@ -44,7 +44,9 @@ impl IntegerTable {
             .products
             .iter()
             .flatten()
-            .fold(BigInt::one(), |acc, (_, c)| acc.lcm(f.to_rational(c).denom()));
+            .fold(BigInt::one(), |acc, (_, c)| {
+                acc.lcm(f.to_rational(c).denom())
+            });
         let products = table
             .products
             .iter()
@@ -70,7 +72,14 @@ impl IntegerTable {
 
     /// `x y` over Q. Cost: O(|supp x| |supp y| nnz per product) big-integer multiply-adds
     /// and n reductions.
-    fn mul<F: Field>(&self, f: &F, n: usize, out_len: usize, x: &[F::Elem], y: &[F::Elem]) -> Vec<F::Elem> {
+    fn mul<F: Field>(
+        &self,
+        f: &F,
+        n: usize,
+        out_len: usize,
+        x: &[F::Elem],
+        y: &[F::Elem],
+    ) -> Vec<F::Elem> {
         let (xi, dx) = Self::integer_vector(f, x);
         let (yi, dy) = Self::integer_vector(f, y);
         let mut acc = vec![BigInt::zero(); out_len];
@@ -228,9 +237,8 @@ impl<F: Field> Alg<F> {
 
     /// True when every pair of basis elements commutes.
     pub fn is_commutative(&self) -> bool {
-        (0..self.n).all(|a| {
-            (a + 1..self.n).all(|b| self.table.product(a, b) == self.table.product(b, a))
-        })
+        (0..self.n)
+            .all(|a| (a + 1..self.n).all(|b| self.table.product(a, b) == self.table.product(b, a)))
     }
 
     /// `x^e` with `x^0 = one`, by repeated squaring.
@@ -392,7 +400,11 @@ pub fn map_algebra<F: Field>(f: &F, sub: &Subspace<F::Elem>, sizes: &[usize]) ->
 }
 
 /// The span of the products `e_i e_j` (rows of the result flattening).
-pub fn products_span<F: Field>(f: &F, t: &Tensor, params: &SolveParams) -> Result<Subspace<F::Elem>> {
+pub fn products_span<F: Field>(
+    f: &F,
+    t: &Tensor,
+    params: &SolveParams,
+) -> Result<Subspace<F::Elem>> {
     let d = t.dims();
     let tab = t.table(f);
     let rows: Vec<Vec<F::Elem>> = tab
@@ -409,4 +421,3 @@ pub fn products_span<F: Field>(f: &F, t: &Tensor, params: &SolveParams) -> Resul
         .collect();
     span(f, &rows, d[2], params)
 }
-

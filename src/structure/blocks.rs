@@ -60,7 +60,7 @@ pub struct BlockParams {
 impl Default for BlockParams {
     fn default() -> Self {
         BlockParams {
-            solve: super::default_solve_params(),
+            solve: SolveParams::default(),
             seed: 1,
             certify: true,
         }
@@ -142,7 +142,11 @@ pub fn decompose(t: &Tensor, params: &BlockParams) -> Result<Decomposition> {
 fn support_components(t: &Tensor) -> Vec<[Vec<usize>; 3]> {
     let d = t.dims();
     let alg = t.kind() == Kind::Algebra;
-    let off = if alg { [0, 0, 0] } else { [0, d[0], d[0] + d[1]] };
+    let off = if alg {
+        [0, 0, 0]
+    } else {
+        [0, d[0], d[0] + d[1]]
+    };
     let total = if alg { d[0] } else { d[0] + d[1] + d[2] };
     let mut parent: Vec<usize> = (0..total).collect();
     fn find(p: &mut [usize], mut x: usize) -> usize {
@@ -318,7 +322,8 @@ fn primitive_vector<F: Field>(f: &F, v: &[F::Elem]) -> Vec<F::Elem> {
     // `primitive` makes the last nonzero entry positive; keep the sign of the first
     // nonzero entry of v instead
     let first = v.iter().position(|x| !f.is_zero(x)).expect("nonzero");
-    let flip = (f.to_rational(&v[first]) < Q::default()) != (z[first] < num_bigint::BigInt::default());
+    let flip =
+        (f.to_rational(&v[first]) < Q::default()) != (z[first] < num_bigint::BigInt::default());
     (0..v.len())
         .map(|i| {
             let x = z.get(i).cloned().unwrap_or_default();
@@ -372,7 +377,11 @@ fn split_algebra<F: Field>(
     let n = sub.dim();
     let sp = &params.solve;
     let it = IntegralTensor::from_tensor(sub);
-    let ann = reduce(f, n, from_space(f, &element_space(&it, ElementSpace::Annihilator, sp)?));
+    let ann = reduce(
+        f,
+        n,
+        from_space(f, &element_space(&it, ElementSpace::Annihilator, sp)?),
+    );
     if ann.dim() > 0 {
         let sq = products_span(f, sub, sp)?;
         // lines of the annihilator independent modulo A^2
@@ -441,8 +450,16 @@ fn split_map<F: Field>(f: &F, sub: &Tensor, params: &BlockParams) -> Result<Vec<
     let d = sub.dims();
     let sp = &params.solve;
     let it = IntegralTensor::from_tensor(sub);
-    let lrad = reduce(f, d[0], from_space(f, &map_invariant(&it, MapInvariant::LeftRadical, sp)?));
-    let rrad = reduce(f, d[1], from_space(f, &map_invariant(&it, MapInvariant::RightRadical, sp)?));
+    let lrad = reduce(
+        f,
+        d[0],
+        from_space(f, &map_invariant(&it, MapInvariant::LeftRadical, sp)?),
+    );
+    let rrad = reduce(
+        f,
+        d[1],
+        from_space(f, &map_invariant(&it, MapInvariant::RightRadical, sp)?),
+    );
     let image = products_span(f, sub, sp)?;
     if lrad.dim() > 0 || rrad.dim() > 0 || image.dim() < d[2] {
         let pu: Vec<Vec<F::Elem>> = lrad
@@ -782,7 +799,11 @@ fn new_names<F: Field>(
     block_of: &[Vec<usize>; 3],
 ) -> [Vec<String>; 3] {
     let alg = t.kind() == Kind::Algebra;
-    let prefix = if alg { ["f", "f", "f"] } else { ["u", "v", "w"] };
+    let prefix = if alg {
+        ["f", "f", "f"]
+    } else {
+        ["u", "v", "w"]
+    };
     [0, 1, 2].map(|a| {
         let mut used = std::collections::HashSet::new();
         let mut within = vec![0usize; block_of[a].iter().max().map_or(0, |m| m + 1)];

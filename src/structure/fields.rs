@@ -290,9 +290,7 @@ pub fn field_decision<F: Field>(
         });
     }
     if !c.is_commutative() {
-        return Ok(FieldDecision::NotField(
-            "it is not commutative".into(),
-        ));
+        return Ok(FieldDecision::NotField("it is not commutative".into()));
     }
     let t = c.to_tensor("c");
     let it = crate::tensor::IntegralTensor::from_tensor(&t);

@@ -72,7 +72,7 @@ pub struct LieParams {
 impl Default for LieParams {
     fn default() -> Self {
         LieParams {
-            solve: super::default_solve_params(),
+            solve: SolveParams::default(),
             seed: 1,
             tries: 6,
         }
@@ -288,9 +288,7 @@ impl RowSource for TracePowers<'_> {
             .map(|v| ad_mod(self.it, &residues(v, p), p))
             .collect();
         let ady = ad_mod(self.it, &residues(&self.y, p), p);
-        let mut power: Vec<u64> = (0..n * n)
-            .map(|i| u64::from(i % (n + 1) == 0))
-            .collect();
+        let mut power: Vec<u64> = (0..n * n).map(|i| u64::from(i % (n + 1) == 0)).collect();
         for k in 0..n {
             for (j, a) in ads.iter().enumerate() {
                 // Tr(A P) = sum_{l,i} A[l][i] P[i][l]
@@ -310,7 +308,12 @@ impl RowSource for TracePowers<'_> {
     fn term_bits(&self) -> u64 {
         let n = self.it.dims[0] as u64;
         let logn = 64 - n.leading_zeros() as u64;
-        let ra = self.r.iter().map(|v| ad_bits(self.it, v)).max().unwrap_or(1);
+        let ra = self
+            .r
+            .iter()
+            .map(|v| ad_bits(self.it, v))
+            .max()
+            .unwrap_or(1);
         let ya = ad_bits(self.it, &self.y);
         2 * logn + ra + n.saturating_sub(1) * (logn + ya) + 1
     }
@@ -337,7 +340,11 @@ fn nilradical_candidate(
             *yi += x * cj;
         }
     }
-    let sys = TracePowers { it, r: r.clone(), y };
+    let sys = TracePowers {
+        it,
+        r: r.clone(),
+        y,
+    };
     let alphas = solve_nullspace(&sys, sp)?;
     // the unknowns are the coefficients of the integer-scaled basis vectors
     let fixed: Vec<Vec<Q>> = (0..alphas.dim())

@@ -56,17 +56,6 @@ pub fn centroid_is_field(
     })
 }
 
-/// The engine's parameters for the structure: its default with room for the long
-/// rationals of nested computations (idempotents, components, generators) in a user's
-/// dense basis with large coefficients. Primes are added only while the lifted solution
-/// keeps changing, so small inputs cost no more (128 is the engine's ceiling).
-pub fn default_solve_params() -> SolveParams {
-    SolveParams {
-        max_primes: 128,
-        ..SolveParams::default()
-    }
-}
-
 /// A part of the structure report (the names of `--only`).
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Part {
@@ -100,10 +89,7 @@ impl Part {
                     .map(|(p, _)| *p)
                     .ok_or_else(|| {
                         let names: Vec<&str> = Part::ALL.iter().map(|(_, n)| *n).collect();
-                        Error::Invalid(format!(
-                            "unknown part `{w}` (known: {})",
-                            names.join(", ")
-                        ))
+                        Error::Invalid(format!("unknown part `{w}` (known: {})", names.join(", ")))
                     })
             })
             .collect()
@@ -125,7 +111,7 @@ impl Default for StructureParams {
     fn default() -> Self {
         StructureParams {
             only: None,
-            solve: default_solve_params(),
+            solve: SolveParams::default(),
             seed: 1,
             certify_blocks: true,
         }

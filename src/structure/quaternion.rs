@@ -58,14 +58,26 @@ pub fn hilbert_symbol(a: &BigInt, b: &BigInt, p: &BigInt) -> i32 {
     let (alpha, u) = split(a);
     let (beta, v) = split(b);
     if p == &BigInt::from(2) {
-        let eps = |x: &BigInt| ((x - 1u32) / 2u32).mod_floor(&BigInt::from(2)).to_u32().unwrap_or(0);
-        let omega =
-            |x: &BigInt| ((x * x - 1u32) / 8u32).mod_floor(&BigInt::from(2)).to_u32().unwrap_or(0);
+        let eps = |x: &BigInt| {
+            ((x - 1u32) / 2u32)
+                .mod_floor(&BigInt::from(2))
+                .to_u32()
+                .unwrap_or(0)
+        };
+        let omega = |x: &BigInt| {
+            ((x * x - 1u32) / 8u32)
+                .mod_floor(&BigInt::from(2))
+                .to_u32()
+                .unwrap_or(0)
+        };
         let s = eps(&u) * eps(&v) + alpha * omega(&v) + beta * omega(&u);
         return if s % 2 == 0 { 1 } else { -1 };
     }
     let leg = |x: &BigInt| legendre(x, p);
-    let ep = ((p - 1u32) / 2u32).mod_floor(&BigInt::from(2)).to_u32().unwrap_or(0);
+    let ep = ((p - 1u32) / 2u32)
+        .mod_floor(&BigInt::from(2))
+        .to_u32()
+        .unwrap_or(0);
     let mut s = if (alpha * beta * ep) % 2 == 0 { 1 } else { -1 };
     if beta % 2 == 1 {
         s *= leg(&u);
@@ -126,8 +138,7 @@ pub fn square_decomposition(n: &BigInt) -> Option<(BigInt, BigInt)> {
 pub fn factor_integer(n: &BigInt) -> Option<Vec<(BigInt, u32)>> {
     let mut out: Vec<(BigInt, u32)> = Vec::new();
     let mut m = n.clone();
-    let push = |p: BigInt, out: &mut Vec<(BigInt, u32)>| match out.iter_mut().find(|x| x.0 == p)
-    {
+    let push = |p: BigInt, out: &mut Vec<(BigInt, u32)>| match out.iter_mut().find(|x| x.0 == p) {
         Some(x) => x.1 += 1,
         None => out.push((p, 1)),
     };
@@ -272,7 +283,11 @@ mod tests {
         let (p1, p2, p3) = (1_000_000_000_039u64, 1_000_000_000_061u64, 2_147_483_647u64);
         let n = BigInt::from(p1) * p2 * p3;
         let f = factor_integer(&n).unwrap();
-        let want = vec![(BigInt::from(p3), 1), (BigInt::from(p1), 1), (BigInt::from(p2), 1)];
+        let want = vec![
+            (BigInt::from(p3), 1),
+            (BigInt::from(p1), 1),
+            (BigInt::from(p2), 1),
+        ];
         assert_eq!(f, want);
         // 12 * (10^12 + 39)^2 = 3 (2 (10^12 + 39))^2
         let p1b = BigInt::from(p1);
@@ -281,6 +296,9 @@ mod tests {
             Some((BigInt::from(-3), BigInt::from(2) * &p1b))
         );
         // 2^64 - 59, a prime (sympy isprime), cannot be proven here: no factorisation
-        assert_eq!(factor_integer(&BigInt::from(18_446_744_073_709_551_557u64)), None);
+        assert_eq!(
+            factor_integer(&BigInt::from(18_446_744_073_709_551_557u64)),
+            None
+        );
     }
 }

@@ -88,7 +88,7 @@ pub struct WedderburnParams {
 impl Default for WedderburnParams {
     fn default() -> Self {
         WedderburnParams {
-            solve: super::default_solve_params(),
+            solve: SolveParams::default(),
             seed: 1,
             tries: 24,
         }
@@ -177,7 +177,9 @@ fn wedderburn_in<F: Field>(f: &F, t: &Tensor, params: &WedderburnParams) -> Resu
     for (part, e) in parts.iter().zip(&idems) {
         let comp_space = span(
             f,
-            &(0..n).map(|j| salg.mul(&salg.basis(j), e)).collect::<Vec<_>>(),
+            &(0..n)
+                .map(|j| salg.mul(&salg.basis(j), e))
+                .collect::<Vec<_>>(),
             n,
             sp,
         )?;
@@ -196,8 +198,17 @@ fn wedderburn_in<F: Field>(f: &F, t: &Tensor, params: &WedderburnParams) -> Resu
                  degree {k}"
             )));
         };
-        let (matrix_size, division_dim, reason) =
-            decide_shape(f, &salg, e, &comp_space, k, big_n, params, &filter, &mut rng)?;
+        let (matrix_size, division_dim, reason) = decide_shape(
+            f,
+            &salg,
+            e,
+            &comp_space,
+            k,
+            big_n,
+            params,
+            &filter,
+            &mut rng,
+        )?;
         out.components.push(Component {
             idempotent: poly::to_rationals(f, e),
             dim,
@@ -238,7 +249,11 @@ fn decide_shape<F: Field>(
         ));
     }
     if big_n == 1 {
-        return Ok((Some(1), Some(k), "the component is its centre, a field".into()));
+        return Ok((
+            Some(1),
+            Some(k),
+            "the component is its centre, a field".into(),
+        ));
     }
     // zero divisors and idempotents from minimal polynomials of elements
     let mut g = big_n;
@@ -378,7 +393,11 @@ fn quaternion_shape<F: Field>(
             if cb.is_zero() {
                 return Ok((Some(2), Some(1), "a nonzero nilpotent element".into()));
             }
-            pairs.push((abits + cb.bits(), Q::from_integer(ca.clone()), Q::from_integer(cb)));
+            pairs.push((
+                abits + cb.bits(),
+                Q::from_integer(ca.clone()),
+                Q::from_integer(cb),
+            ));
         }
     }
     if pairs.is_empty() {
@@ -388,8 +407,7 @@ fn quaternion_shape<F: Field>(
     pairs.dedup_by(|x, y| x.1 == y.1 && x.2 == y.2);
     let mut last = None;
     let squarefree = |x: Q| {
-        super::quaternion::square_decomposition(x.numer())
-            .map_or(x, |(d, _)| Q::from_integer(d))
+        super::quaternion::square_decomposition(x.numer()).map_or(x, |(d, _)| Q::from_integer(d))
     };
     for (_, a, b) in pairs.into_iter().take(8) {
         // (a, b)_Q depends on the square classes only
@@ -449,7 +467,9 @@ impl ModularFilter {
             return Ok(false);
         };
         let red = |v: &[F::Elem]| -> Option<Vec<u64>> {
-            v.iter().map(|x| fp.from_rational(&f.to_rational(x))).collect()
+            v.iter()
+                .map(|x| fp.from_rational(&f.to_rational(x)))
+                .collect()
         };
         let (Some(yp), Some(ep)) = (red(y), red(e)) else {
             return Ok(false);
