@@ -106,23 +106,25 @@ fn picture_layout(d: &Decomposition) -> BlockLayout {
     let mut sizes: [Vec<usize>; 3] = [Vec::new(), Vec::new(), Vec::new()];
     let mut rest = [0usize; 3];
     for b in &d.blocks {
-        if b.dims.iter().all(|&x| x > 0) {
-            for a in 0..3 {
-                sizes[a].push(b.dims[a]);
+        let target = if b.dims.iter().all(|&x| x > 0) {
+            for (axis, &x) in sizes.iter_mut().zip(&b.dims) {
+                axis.push(x);
             }
+            continue;
         } else {
-            for a in 0..3 {
-                rest[a] += b.dims[a];
-            }
+            &mut rest
+        };
+        for (r, &x) in target.iter_mut().zip(&b.dims) {
+            *r += x;
         }
     }
     if rest.iter().all(|&x| x > 0) || sizes[0].is_empty() {
-        for a in 0..3 {
-            sizes[a].push(rest[a]);
+        for (axis, &x) in sizes.iter_mut().zip(&rest) {
+            axis.push(x);
         }
     } else {
-        for a in 0..3 {
-            *sizes[a].last_mut().expect("a block") += rest[a];
+        for (axis, &x) in sizes.iter_mut().zip(&rest) {
+            *axis.last_mut().expect("a block") += x;
         }
     }
     BlockLayout::in_place(d.tensor.dims(), sizes)

@@ -21,10 +21,13 @@ use crate::scalar::PrimeField;
 use num_bigint::BigUint;
 use rand::{Rng, SeedableRng};
 
+/// Monic polynomials over GF(p) with multiplicities.
+pub type FactorsModP = Vec<(Vec<u64>, usize)>;
+
 /// The factorisation of a nonzero `a` over GF(p): its leading coefficient and the monic
 /// irreducible factors with multiplicities, sorted by (degree, coefficients).
 /// Errors: `a` is zero. The product of the factors is checked against `a`.
-pub fn factor_mod_p(fp: &PrimeField, a: &[u64]) -> Result<(u64, Vec<(Vec<u64>, usize)>)> {
+pub fn factor_mod_p(fp: &PrimeField, a: &[u64]) -> Result<(u64, FactorsModP)> {
     let a = super::trimmed(fp, a);
     let Some(&lc) = a.last() else {
         return Err(Error::Invalid("cannot factor the zero polynomial".into()));

@@ -148,12 +148,11 @@ pub fn gcd<F: Field>(f: &F, a: &[F::Elem], b: &[F::Elem]) -> Vec<F::Elem> {
     monic(f, &a)
 }
 
+/// Three polynomials `(g, s, t)`.
+pub type GcdTriple<E> = (Vec<E>, Vec<E>, Vec<E>);
+
 /// Extended Euclid: `(g, s, t)` with `s a + t b = g = gcd(a, b)` monic.
-pub fn ext_gcd<F: Field>(
-    f: &F,
-    a: &[F::Elem],
-    b: &[F::Elem],
-) -> (Vec<F::Elem>, Vec<F::Elem>, Vec<F::Elem>) {
+pub fn ext_gcd<F: Field>(f: &F, a: &[F::Elem], b: &[F::Elem]) -> GcdTriple<F::Elem> {
     let (mut r0, mut r1) = (trimmed(f, a), trimmed(f, b));
     let (mut s0, mut s1) = (one(f), Vec::new());
     let (mut t0, mut t1) = (Vec::new(), one(f));

@@ -175,8 +175,8 @@ fn support_components(t: &Tensor) -> Vec<[Vec<usize>; 3]> {
         }
         let c = comp_of[r];
         if alg {
-            for a in 0..3 {
-                comps[c][a].push(x);
+            for axis in comps[c].iter_mut() {
+                axis.push(x);
             }
         } else {
             let axis = if x < off[1] {
@@ -575,6 +575,9 @@ fn centroid_blocks<F: Field>(
     Ok(out)
 }
 
+/// Primitive orthogonal idempotents, with the certificate of a local algebra.
+pub type Idempotents<E> = (Vec<Vec<E>>, Option<Certificate>);
+
 /// A complete set of primitive orthogonal idempotents of an associative algebra with unit
 /// whose quotient by the radical is commutative (see the module documentation, step 3);
 /// when there is only one (the algebra is local), also its certificate.
@@ -582,7 +585,7 @@ pub fn primitive_idempotents<F: Field>(
     c: &Alg<F>,
     one: &[F::Elem],
     params: &BlockParams,
-) -> Result<(Vec<Vec<F::Elem>>, Option<Certificate>)> {
+) -> Result<Idempotents<F::Elem>> {
     let f = &c.f;
     let k = c.n;
     if k == 1 {

@@ -200,8 +200,9 @@ fn split_rec<F: Field>(
         }
         // a certificate from a basis element is kept only after all basis elements were
         // seen (the smallest polynomial among them); a random one is taken at once
-        if best.is_some() && i + 1 >= dim {
-            let (generator, poly) = best.expect("certified");
+        if i + 1 >= dim
+            && let Some((generator, poly)) = best.take()
+        {
             let (generator, poly) = normalise_quadratic(z, one, generator, poly);
             return Ok(vec![FieldPart {
                 idempotent: one.to_vec(),

@@ -102,7 +102,7 @@ pub fn square_decomposition(n: &BigInt) -> Option<(BigInt, BigInt)> {
     if n.is_zero() {
         return None;
     }
-    let (mut d, mut m) = (BigInt::from(n.signum()), BigInt::one());
+    let (mut d, mut m) = (n.signum(), BigInt::one());
     let mut r = n.abs();
     let mut p = 2u64;
     while p < 1 << 16 && r > BigInt::one() {
