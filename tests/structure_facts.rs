@@ -134,7 +134,10 @@ fn rational_group_algebra_of_s3() {
 fn rational_cyclic_group_algebras_are_cyclotomic_fields() {
     for n in [5usize, 6, 8, 12] {
         let s = structure(&load(&format!("cyclic:{n}"), FieldSpec::Rational));
-        let mut want: Vec<usize> = (1..=n).filter(|d| n.is_multiple_of(*d)).map(euler_phi).collect();
+        let mut want: Vec<usize> = (1..=n)
+            .filter(|d| n.is_multiple_of(*d))
+            .map(euler_phi)
+            .collect();
         want.sort();
         let w = components(&s);
         let mut got: Vec<usize> = w.components.iter().map(|c| c.centre_degree).collect();
