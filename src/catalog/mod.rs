@@ -26,7 +26,7 @@ pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
-pub use schemes::{STORED_SCHEMES, StoredScheme, stored_schemes};
+pub use schemes::{STORED_SCHEMES, StoredScheme, find_stored, stored_schemes};
 pub use store::{
     Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
 };

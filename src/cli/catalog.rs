@@ -188,6 +188,25 @@ fn show(e: &Entry, recompute: bool) -> i32 {
             f.key, f.value, f.source
         );
     }
+    let stored = catalog::stored_schemes(&m.name);
+    if !stored.is_empty() {
+        println!("\nschemes (use the name with emit, verify, scheme cost):");
+    }
+    for s in stored {
+        let name = s.file.trim_end_matches(".txt");
+        match s.read() {
+            Ok(sc) => println!(
+                "  {name}: rank {}, over {}, verified exactly\n      source: {}",
+                sc.rank(),
+                sc.field.name(),
+                s.source()
+            ),
+            Err(err) => {
+                bad = true;
+                println!("  {name}: DOES NOT VERIFY: {err}");
+            }
+        }
+    }
     match &m.generate {
         Some(g) => {
             let d = t.dims();

@@ -13,8 +13,10 @@ use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
+use bilin::search::flip::FlipParams;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
-use bilin::search::{Method, Params, Progress, search_scheme};
+use bilin::search::pool::PoolParams;
+use bilin::search::{Method, Params, Progress, Symmetry, search_scheme};
 use clap::Args;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -29,9 +31,28 @@ pub struct SearchArgs {
     /// Target rank: stop when a verified scheme of at most this rank is found.
     #[arg(long)]
     pub rank: Option<usize>,
-    /// Search engine: `flip` (GF(2) flip graph, lifted to Q) or `als` (numerical, over Q).
+    /// Search engine: `flip` (flip-graph walks, lifted to Q), `lm` (Levenberg-Marquardt
+    /// and rounding, over Q), `als` (alternating least squares and rounding, over Q) or
+    /// `auto` (walks and Levenberg-Marquardt runs in turn).
     #[arg(long, default_value = "flip")]
     pub method: String,
+    /// Walk over GF(P) and lift p-adically to Q (default 2); an odd prime finds schemes
+    /// whose denominators are even.
+    #[arg(long, value_name = "P")]
+    pub prime: Option<u64>,
+    /// Keep a symmetry in the walks: `cyclic` (square formats matmul:n,n,n) or `none`.
+    #[arg(long, default_value = "none")]
+    pub symmetry: String,
+    /// Schemes kept at the lowest rank reached, from which walks restart (0: every walk
+    /// starts from the standard scheme).
+    #[arg(long, value_name = "N")]
+    pub pool: Option<usize>,
+    /// Moves per walk.
+    #[arg(long, value_name = "MOVES")]
+    pub walk_moves: Option<u64>,
+    /// Moves without a lower rank before a plus transition.
+    #[arg(long, value_name = "MOVES")]
+    pub plateau: Option<u64>,
     /// Field the scheme must hold over (default: the tensor's field), e.g. `GF(2)`.
     #[arg(long)]
     pub field: Option<String>,
@@ -85,6 +106,16 @@ fn best_and_rate(last: &mut (Duration, u64), p: &Progress) -> (String, f64) {
     (best, rate)
 }
 
+/// `, walk at rank N` when the walks went below the best verified rank (schemes over the
+/// walk's field that have not lifted to Q).
+fn walk_note(p: &Progress) -> String {
+    match (p.walk_rank, &p.best) {
+        (Some(w), Some(b)) if w < b.rank() => format!(", walk at rank {w}"),
+        (Some(w), None) => format!(", walk at rank {w}"),
+        _ => String::new(),
+    }
+}
+
 /// Progress for a log (standard error is not a terminal): at most one line per interval
 /// with the best rank so far, the moves per second since the last line and the time elapsed.
 struct LogProgress {
@@ -108,8 +139,9 @@ impl LogProgress {
         }
         let (best, rate) = best_and_rate(&mut last, p);
         eprintln!(
-            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s",
-            p.elapsed.as_secs_f64()
+            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s{}",
+            p.elapsed.as_secs_f64(),
+            walk_note(p)
         );
     }
 }
@@ -163,16 +195,36 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(t) => t,
         Err(code) => return code,
     };
-    let method = match a.method.as_str() {
-        "flip" => Method::Flip,
-        "als" => Method::Als,
-        m => {
+    let method = match Method::parse(&a.method) {
+        Ok(m) => m,
+        Err(e) => return usage_error("--method", e.to_string()),
+    };
+    let symmetry = match a.symmetry.to_ascii_lowercase().as_str() {
+        "none" => Symmetry::None,
+        "cyclic" => Symmetry::Cyclic,
+        s => {
             return usage_error(
-                "--method",
-                format!("unknown method `{m}` (expected flip or als)"),
+                "--symmetry",
+                format!("unknown symmetry `{s}` (expected cyclic or none)"),
             );
         }
     };
+    if let Some(p) = a.prime
+        && !(bilin::scalar::is_prime(p) && p < 1 << 16)
+    {
+        return usage_error(
+            "--prime",
+            format!("expected a prime below 65536, found {p}"),
+        );
+    }
+    if a.walk_moves == Some(0) || a.plateau == Some(0) {
+        let opt = if a.walk_moves == Some(0) {
+            "--walk-moves"
+        } else {
+            "--plateau"
+        };
+        return usage_error(opt, "expected a positive number of moves");
+    }
     let shard_arg = match a.shard.as_deref().map(parse_shard).transpose() {
         Ok(s) => s,
         Err(e) => return usage_error("--shard", e),
@@ -207,6 +259,7 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(f) => f,
         Err(code) => return code,
     };
+    let defaults = Params::default();
     let params = Params {
         target_rank: a.rank,
         time_limit: a.time.map(Duration::from_secs_f64),
@@ -217,7 +270,18 @@ pub fn run(a: SearchArgs) -> i32 {
         field: None,
         shard,
         first_run,
-        ..Params::default()
+        walk_prime: a.prime.unwrap_or(2),
+        symmetry,
+        walk_budget: a.walk_moves.unwrap_or(defaults.walk_budget),
+        pool: PoolParams {
+            size: a.pool.unwrap_or(defaults.pool.size),
+            ..defaults.pool.clone()
+        },
+        flip: FlipParams {
+            plateau: a.plateau.unwrap_or(defaults.flip.plateau),
+            ..defaults.flip.clone()
+        },
+        ..defaults
     };
     let stop = Arc::new(AtomicBool::new(false));
     let signals = Arc::new(AtomicUsize::new(0));
@@ -255,10 +319,11 @@ pub fn run(a: SearchArgs) -> i32 {
             let (best, rate) =
                 best_and_rate(&mut last_moves.lock().unwrap_or_else(|e| e.into_inner()), p);
             eprint!(
-                "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ",
+                "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s{}   ",
                 p.moves as f64,
                 rate,
-                p.elapsed.as_secs_f64()
+                p.elapsed.as_secs_f64(),
+                walk_note(p)
             );
         }
         let mut lw = last_write.lock().unwrap_or_else(|e| e.into_inner());

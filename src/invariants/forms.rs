@@ -16,9 +16,9 @@
 
 use crate::linalg::nullspace::cached_primes;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
+use crate::scalar::{crt_combine, residue};
 use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
-use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The congruence invariants of a symmetric bilinear form.
@@ -48,7 +48,6 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
     let grams: Vec<Vec<u64>> = primes
         .iter()
         .map(|&p| {
-            let pb = BigInt::from(p);
             // m[i] = the matrix M_i as (a, b, residue) triples
             let mats: Vec<Vec<(usize, usize, u64)>> = (0..n)
                 .map(|i| {
@@ -60,7 +59,7 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
                             it.product(b, i)
                         };
                         for (a, x) in row {
-                            let x = x.mod_floor(&pb).to_u64().expect("reduced");
+                            let x = residue(x, p);
                             if x != 0 {
                                 v.push((*a as usize, b, x));
                             }
@@ -89,22 +88,20 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
             g
         })
         .collect();
-    let modulus: BigInt = primes.iter().map(|&p| BigInt::from(p)).product();
+    // Chinese remaindering of the Gram matrices, entry by entry
+    let mut entries: Vec<BigInt> = grams[0].iter().map(|&x| BigInt::from(x)).collect();
+    let mut modulus = BigInt::from(primes[0]);
+    for (g, &p) in grams.iter().zip(&primes).skip(1) {
+        crt_combine(&mut entries, &modulus, g, p);
+        modulus *= p;
+    }
     let half = &modulus >> 1u32;
+    let mut entries = entries.into_iter();
     (0..n)
-        .map(|i| {
+        .map(|_| {
             (0..n)
-                .map(|j| {
-                    let mut x = BigInt::zero();
-                    let mut m = BigInt::one();
-                    for (g, &p) in grams.iter().zip(&primes) {
-                        let pb = BigInt::from(p);
-                        let xm = (&x % &pb).to_u64().expect("small");
-                        let inv = (&m % &pb).extended_gcd(&pb).x.mod_floor(&pb);
-                        let t = (BigInt::from((g[i * n + j] + p - xm) % p) * inv).mod_floor(&pb);
-                        x += &m * t;
-                        m *= pb;
-                    }
+                .map(|_| {
+                    let mut x = entries.next().expect("n^2 entries");
                     if it.modulus().is_none() && x > half {
                         x -= &modulus;
                     }

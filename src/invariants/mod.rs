@@ -12,7 +12,8 @@
 //! - [`radical`]: radical of an associative algebra over Q (trace form) and over GF(p)
 //!   ([`radical_modp`]), semisimple quotient ([`quotient`]);
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
-//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map.
+//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map;
+//! - [`structure`]: solvable, nilpotent (with class) and semisimple, with witnesses.
 
 pub mod all;
 pub mod bilinear;
@@ -28,6 +29,7 @@ pub mod quotient;
 pub mod radical;
 pub mod radical_modp;
 pub mod spans;
+pub mod structure;
 #[cfg(test)]
 pub(crate) mod testing;
 

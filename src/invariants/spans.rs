@@ -17,10 +17,15 @@
 //! each at most `supp x supp x (row length)` operations modulo each prime used.
 
 use crate::error::Result;
+use crate::linalg::Matrix;
 use crate::linalg::modular::rref_mod;
 use crate::linalg::nullspace::{SolveParams, solve_nullspace};
 use crate::linalg::system::{RowBuf, RowSource};
+use crate::scalar::{Field, Q};
 use crate::tensor::{IntegralTensor, ModTable};
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Zero};
 
 /// A factor of a word of the next term: a basis word of the current term or a basis
 /// element of the algebra.
@@ -203,7 +208,7 @@ fn chain(
     it: &IntegralTensor,
     params: &SolveParams,
     next: impl Fn(usize) -> Vec<Gen>,
-) -> Result<Vec<usize>> {
+) -> Result<(Vec<usize>, Option<Basis>)> {
     let n = it.dims[0];
     let mut dims = vec![n];
     let mut basis: Option<Basis> = None;
@@ -223,6 +228,7 @@ fn chain(
         }
         dims.push(dim);
         if dim == 0 || dims.len() > n + 1 {
+            basis = None;
             break;
         }
         depth = level.depth;
@@ -230,15 +236,122 @@ fn chain(
         chain.push((chosen, depth));
         basis = Some(Basis { chain });
     }
-    Ok(dims)
+    Ok((dims, basis))
+}
+
+/// A series of subspaces: the dimensions of its terms until it stabilises, and a basis of
+/// its last term when that term is not zero (the witness that the series does not reach
+/// 0: a nonzero term equal to the next one).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct Series {
+    pub dims: Vec<usize>,
+    /// Exact coordinates of a basis of the last term, in reduced echelon form (empty when
+    /// the series reaches 0). Over GF(q) the representatives in `0..q`.
+    pub last: Vec<Vec<Q>>,
+}
+
+/// The series and the basis of its last term (see [`Series`]). The last term's words
+/// are evaluated exactly (integers for the scaled constants; a word with k products is
+/// `D^k` times the true one, which does not change the span) and brought to reduced
+/// echelon form. Cost: the series, plus one exact evaluation of each word of the chain
+/// (at most n words per term, each `supp x supp x (row length)` big-integer operations).
+fn series(
+    it: &IntegralTensor,
+    params: &SolveParams,
+    next: impl Fn(usize) -> Vec<Gen>,
+) -> Result<Series> {
+    let (dims, basis) = chain(it, params, next)?;
+    let n = it.dims[0];
+    let last = if dims.last() == Some(&0) {
+        Vec::new()
+    } else {
+        let mut cur: Vec<Vec<BigInt>> = (0..n)
+            .map(|i| {
+                let mut v = vec![BigInt::zero(); n];
+                v[i] = BigInt::one();
+                v
+            })
+            .collect();
+        for (gens, _) in basis.iter().flat_map(|b| &b.chain) {
+            cur = gens.iter().map(|g| exact_gen(it, g, &cur)).collect();
+        }
+        echelon_basis(it, cur)
+    };
+    Ok(Series { dims, last })
+}
+
+/// The exact vector of one generator over the previous words `prev` (scaled constants;
+/// over GF(q) reduced modulo q).
+fn exact_gen(it: &IntegralTensor, g: &Gen, prev: &[Vec<BigInt>]) -> Vec<BigInt> {
+    let n = it.dims[0];
+    let vec_of = |f: Factor| match f {
+        Factor::Word(i) => prev[i as usize].clone(),
+        Factor::Basis(i) => {
+            let mut v = vec![BigInt::zero(); n];
+            v[i as usize] = BigInt::one();
+            v
+        }
+    };
+    let (x, y) = (vec_of(g.a), vec_of(g.b));
+    let mut out = vec![BigInt::zero(); n];
+    let mut add = |x: &[BigInt], y: &[BigInt]| {
+        for (a, xa) in x.iter().enumerate().filter(|(_, v)| !v.is_zero()) {
+            for (b, yb) in y.iter().enumerate().filter(|(_, v)| !v.is_zero()) {
+                let s = xa * yb;
+                for (k, c) in it.product(a, b) {
+                    out[*k as usize] += &s * c;
+                }
+            }
+        }
+    };
+    add(&x, &y);
+    if g.symmetric && g.a != g.b {
+        add(&y, &x);
+    }
+    if let Some(q) = it.modulus() {
+        let q = BigInt::from(q);
+        for v in &mut out {
+            *v = v.mod_floor(&q);
+        }
+    }
+    out
+}
+
+/// A basis of the span of `rows` in reduced echelon form over the tensor's field.
+fn echelon_basis(it: &IntegralTensor, rows: Vec<Vec<BigInt>>) -> Vec<Vec<Q>> {
+    let n = it.dims[0];
+    crate::with_field!(it.field, f => {
+        let elems: Vec<Vec<_>> = rows
+            .iter()
+            .map(|r| {
+                r.iter()
+                    .map(|x| f.from_rational(&Q::from_integer(x.clone())).unwrap_or_else(|| f.zero()))
+                    .collect()
+            })
+            .collect();
+        let mut m = Matrix::from_rows(elems, n);
+        let pivots = crate::linalg::rref(f, &mut m);
+        (0..pivots.len())
+            .map(|i| m.row(i).iter().map(|x| f.to_rational(x)).collect())
+            .collect()
+    })
 }
 
 /// Dimensions of the derived series `A, AA, (AA)(AA), ...` until it stabilises.
 /// For a Lie algebra this is `L, [L,L], ...`.
 pub fn derived_series(it: &IntegralTensor, params: &SolveParams) -> Result<Vec<usize>> {
-    let n = it.dims[0];
+    Ok(chain(it, params, derived_gens(it.dims[0]))?.0)
+}
+
+/// [`derived_series`] with a basis of its last term (see [`Series`]).
+pub fn derived_series_terms(it: &IntegralTensor, params: &SolveParams) -> Result<Series> {
+    series(it, params, derived_gens(it.dims[0]))
+}
+
+/// The generators of the next term of the derived series.
+fn derived_gens(n: usize) -> impl Fn(usize) -> Vec<Gen> {
     let first = std::cell::Cell::new(true);
-    chain(it, params, |r| {
+    move |r| {
         let f = |i: usize| {
             if first.get() {
                 Factor::Basis(i as u32)
@@ -257,15 +370,24 @@ pub fn derived_series(it: &IntegralTensor, params: &SolveParams) -> Result<Vec<u
             .collect();
         first.set(false);
         g
-    })
+    }
 }
 
 /// Dimensions of the lower central series `A, A^2, A A^2 + A^2 A, ...` until it
 /// stabilises. For a Lie algebra this is `L, [L,L], [L,[L,L]], ...`.
 pub fn lower_central_series(it: &IntegralTensor, params: &SolveParams) -> Result<Vec<usize>> {
-    let n = it.dims[0];
+    Ok(chain(it, params, lower_central_gens(it.dims[0]))?.0)
+}
+
+/// [`lower_central_series`] with a basis of its last term (see [`Series`]).
+pub fn lower_central_series_terms(it: &IntegralTensor, params: &SolveParams) -> Result<Series> {
+    series(it, params, lower_central_gens(it.dims[0]))
+}
+
+/// The generators of the next term of the lower central series.
+fn lower_central_gens(n: usize) -> impl Fn(usize) -> Vec<Gen> {
     let first = std::cell::Cell::new(true);
-    chain(it, params, |r| {
+    move |r| {
         let g = if first.get() {
             (0..n)
                 .flat_map(|a| (0..n).map(move |b| (a, b)))
@@ -296,7 +418,7 @@ pub fn lower_central_series(it: &IntegralTensor, params: &SolveParams) -> Result
         };
         first.set(false);
         g
-    })
+    }
 }
 
 /// `dim span {x x : x in A}`: spanned by `e_i e_i` and `e_i e_j + e_j e_i` (i < j).

@@ -11,12 +11,15 @@
 //!   engine of [`nullspace`]; [`charpoly`]: characteristic polynomials (Hessenberg form).
 
 pub mod charpoly;
+mod components;
 pub mod dense_echelon;
 pub mod echelon;
+mod exact_check;
 pub mod kernels;
 mod matrix;
 pub mod modular;
 pub mod nullspace;
+mod primes;
 pub mod sparse_echelon;
 pub mod subspace;
 pub mod system;

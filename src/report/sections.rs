@@ -16,15 +16,35 @@ use crate::tensor::Tensor;
 /// otherwise) as a report section. Cost: that of [`invariants_report`].
 pub fn invariants_section(
     t: &Tensor,
+    source: &str,
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
 ) -> Result<Section> {
     let r = invariants_report(t, params, progress)?;
     let text = invariants_text::render_text(&r, &t.names()[0]);
+    let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
+    if !r.skipped.is_empty() {
+        let names: Vec<&str> = r.skipped.iter().map(|s| s.part.as_str()).collect();
+        lines.push(String::new());
+        let input = if source
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || "._-/:,+=@".contains(c))
+        {
+            source.to_string()
+        } else {
+            format!("'{}'", source.replace('\'', "'\\''"))
+        };
+        lines.push(format!(
+            "skipped parts are computed when asked for by name, whatever their cost: add \
+             `--invariants {0}` to this command, or run `bilin invariants {input} --only {0}` \
+             (with the same input options)",
+            names.join(",")
+        ));
+    }
     Ok(Section {
         id: "invariants".into(),
         title: "Invariants".into(),
-        lines: text.lines().map(str::to_string).collect(),
+        lines,
         data: serde_json::to_value(&r).unwrap_or_default(),
     })
 }

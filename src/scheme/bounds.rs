@@ -91,8 +91,14 @@ pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
         name: "flattening".into(),
         theorem: format!("R(T) >= rank of each flattening ({src})"),
         detail: format!(
-            "flattening ranks: left {}, right {}, result {} (result: independent result coordinates)",
-            fr[0], fr[1], fr[2]
+            "flattening ranks: left {} of {}, right {} of {}, result {} of {} (the rank of \
+             each flattening against the dimension of its space)",
+            fr[0],
+            t.dims()[0],
+            fr[1],
+            t.dims()[1],
+            fr[2],
+            t.dims()[2]
         ),
     });
     let (val, axis) = slice_span_rank(t, params);
