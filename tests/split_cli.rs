@@ -69,14 +69,27 @@ fn analyze_has_the_structure_section() {
         .find(|s| s["id"] == "structure")
         .expect("a structure section");
     // Q[Q_8] = 4 Q + H (common practice)
-    let comps = s["data"]["components"]["components"].as_array().unwrap();
+    let comps = s["data"]["split"]["components"]["components"]
+        .as_array()
+        .unwrap();
     assert_eq!(comps.len(), 5);
     assert_eq!(comps.iter().filter(|c| c["division_dim"] == 4).count(), 1);
     let (code, out, _) = run(&["analyze", "Q8", "--no-bounds", "--no-invariants"]);
     assert_eq!(code, 0);
-    assert!(out.contains("== Structure"), "{out}");
+    // one structure section: the verdicts first, then the blocks and components
+    assert_eq!(out.matches("== Structure").count(), 1, "{out}");
+    let (verdicts, blocks) = (
+        out.find("semisimple  ").unwrap(),
+        out.find("block 1").unwrap(),
+    );
+    assert!(verdicts < blocks, "{out}");
+    // without the costly part the section keeps the verdicts only
     let (_, out, _) = run(&["analyze", "Q8", "--no-structure", "--no-bounds"]);
-    assert!(!out.contains("== Structure"), "{out}");
+    assert!(
+        out.contains("== Structure") && out.contains("semisimple  "),
+        "{out}"
+    );
+    assert!(!out.contains("block 1"), "{out}");
 }
 
 /// `--basis-out` writes the change of basis; `transform --basis` applies it and the table

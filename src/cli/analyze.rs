@@ -1,17 +1,17 @@
 //! `bilin analyze INPUT [--json] [--field F] [--laws a,b] [--expect a,!b] [--seed N]`: laws,
 //! ranks and the rest of the analysis of one product, as text or JSON (schema
-//! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false, and
+//! `bilin.analyze/2`). With `--expect`, exit code 1 when a claimed law verdict is false, and
 //! `all N claims hold` on standard error when every one is true.
 
 use super::common::{generators_help, load_with, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::invariants::structure::Property;
 use bilin::laws::Law;
+use bilin::ranks::BoundsParams;
 use bilin::report::invariants::{InvariantParams, Part};
 use bilin::report::{
     Params, Piece, analyze_streaming, render_head, render_json, render_notes, render_section,
 };
-use bilin::scheme::bounds::BoundsParams;
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -19,7 +19,7 @@ pub struct Args {
     /// A file (table format or JSON), a generator spec such as `octonions` or
     /// `matmul:2,2,2`, or a catalog name.
     pub input: String,
-    /// Print the report as JSON (schema `bilin.analyze/1`, see docs/report-json.md).
+    /// Print the report as JSON (schema `bilin.analyze/2`, see docs/report-json.md).
     #[arg(long)]
     pub json: bool,
     /// Read the input over this field (`Q` or `GF(p)`).

@@ -66,6 +66,11 @@ pub fn run(args: IdentifyArgs) -> i32 {
             "catalog entries with the same fingerprint (evidence of isomorphism, not a proof):"
         );
     }
+    let nilpotent_lie = id.fingerprint.get("nilpotency.class").is_some()
+        && id
+            .fingerprint
+            .get("lie")
+            .is_some_and(|v| v.to_string() == "yes");
     for m in &id.matches {
         match &m.iso {
             IsoOutcome::Found(mat) => {
@@ -89,6 +94,10 @@ pub fn run(args: IdentifyArgs) -> i32 {
                     );
                 }
             }
+            IsoOutcome::NotFound if nilpotent_lie => println!(
+                "  {}: fingerprint matches; the solver along the lower central series found no isomorphism (not a proof either way)",
+                m.name
+            ),
             IsoOutcome::NotFound => println!(
                 "  {}: fingerprint matches; no isomorphism with coordinates in -{b}..{b} found (not a proof either way)",
                 m.name,

@@ -19,6 +19,7 @@ use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
 use crate::scalar::{crt_combine, residue};
 use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
+use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
 
 /// The congruence invariants of a symmetric bilinear form.
@@ -259,6 +260,59 @@ pub fn square_class_text(a: &Q) -> String {
     } else {
         format!("{sign}{} (mod squares)", a.numer() * a.denom())
     }
+}
+
+/// The Gram matrix of the trace form `(X, Y) -> tr(X Y)` on a space of linear maps of an
+/// n-dimensional space (each basis vector holds a map's matrix, `X[l][i]` at `l n + i`, as
+/// in [`crate::invariants::maps`]). Each basis map is first scaled to integer entries (a
+/// congruence), so rank, signature and discriminant class are those of the form on the
+/// space. Over GF(q) the entries are residues. For the derivation algebra this form is
+/// invariant under automorphisms of the algebra, so its congruence class is an invariant.
+/// Cost: O(dim^2 nnz) big-integer operations.
+pub fn map_trace_form(
+    space: &crate::linalg::nullspace::Space,
+    n: usize,
+    modulus: Option<u64>,
+) -> Vec<Vec<BigInt>> {
+    let d = space.dim();
+    let maps: Vec<Vec<(usize, usize, BigInt)>> = (0..d)
+        .map(|a| {
+            let v = &space.basis[a];
+            let den = v.iter().fold(BigInt::one(), |s, (_, x)| s.lcm(x.denom()));
+            v.iter()
+                .map(|(c, x)| {
+                    let c = *c as usize;
+                    (c / n, c % n, x.numer() * (&den / x.denom()))
+                })
+                .collect()
+        })
+        .collect();
+    let mut dense = vec![BigInt::zero(); n * n];
+    let mut g = vec![vec![BigInt::zero(); d]; d];
+    for b in 0..d {
+        for (l, i, x) in &maps[b] {
+            dense[l * n + i] = x.clone();
+        }
+        for a in 0..=b {
+            // tr(X_a X_b) = sum X_a[l][i] X_b[i][l]
+            let mut s = BigInt::zero();
+            for (l, i, x) in &maps[a] {
+                let y = &dense[i * n + l];
+                if !y.is_zero() {
+                    s += x * y;
+                }
+            }
+            if let Some(q) = modulus {
+                s = s.mod_floor(&BigInt::from(q));
+            }
+            g[a][b] = s.clone();
+            g[b][a] = s;
+        }
+        for (l, i, _) in &maps[b] {
+            dense[l * n + i] = BigInt::zero();
+        }
+    }
+    g
 }
 
 #[cfg(test)]

@@ -445,6 +445,7 @@ fn lift(
     let mut residues: Vec<BigInt> = Vec::new();
     let mut modulus = BigInt::one();
     let mut previous_probe: Option<Vec<Q>> = None;
+    let mut previous_basis: Option<Vec<SparseQ>> = None;
     // past the Hadamard bound of the full system the candidate cannot stabilise
     let cap = hadamard_bits(nn, crate::linalg::system::RowSource::term_bits(plain), nn) + 64;
     for &p in primes {
@@ -503,14 +504,19 @@ fn lift(
             })
             .collect();
         let stable = exact_field || basis.is_some();
-        if stable
-            && let Some(basis) = &basis
-            && check_solutions(plain, basis)?
-        {
-            return Ok(Some(Space {
-                unknowns: nn,
-                basis: basis.clone(),
-            }));
+        if stable && let Some(basis) = &basis {
+            if check_solutions(plain, basis)? {
+                return Ok(Some(Space {
+                    unknowns: nn,
+                    basis: basis.clone(),
+                }));
+            }
+            // the same reconstruction from two moduli, and still not a solution: the
+            // candidate space itself is too large (too few pairs fed), not its lift
+            if previous_basis.as_ref() == Some(basis) {
+                return Ok(None);
+            }
+            previous_basis = Some(basis.clone());
         }
         if exact_field {
             return Ok(None);

@@ -223,6 +223,13 @@ pub fn rank_of_system(src: &dyn RowSource) -> Result<usize> {
 /// The rank of a system's matrix modulo p (a lower bound for the rank over Q of an
 /// integer system), stopping once it is full. Cost: O(rows m rank) word operations.
 pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
+    echelon_modulo(src, p).rank()
+}
+
+/// The reduced echelon form modulo p of a system's equations, fed in order and stopping
+/// once the rank is full: its pivot columns are independent columns of the matrix.
+/// Cost: O(rows m rank) word operations.
+pub fn echelon_modulo(src: &dyn RowSource, p: u64) -> DenseEchelon {
     let m = src.unknowns();
     let mut e = DenseEchelon::new(p, m);
     let mut buf = RowBuf::new(p);
@@ -246,7 +253,7 @@ pub fn rank_modulo(src: &dyn RowSource, p: u64) -> usize {
             }
         }
     }
-    e.rank()
+    e
 }
 
 /// A byte count for messages (`1.5 GiB`, `300 MiB`).

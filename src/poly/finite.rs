@@ -221,6 +221,14 @@ mod tests {
         a = mul(&f3, &a, &[2, 1]);
         let fs = factors(3, &a);
         assert_eq!(fs.iter().map(|f| f.1).sum::<usize>(), 8, "{fs:?}");
+        // x^4 + 1 splits modulo every prime though irreducible over Q (common practice):
+        // into 4 linear factors mod 17 (17 = 1 mod 8), into two quadratics mod 3
+        assert_eq!(factors(17, &[1, 0, 0, 0, 1]).len(), 4);
+        let two: Vec<usize> = factors(3, &[1, 0, 0, 0, 1])
+            .iter()
+            .map(|f| f.0.len() - 1)
+            .collect();
+        assert_eq!(two, vec![2, 2]);
         // a big prime
         let big = (1u64 << 61) - 1;
         let fb = PrimeField::new(big).unwrap();

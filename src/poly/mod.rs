@@ -11,7 +11,8 @@
 //!   factorisation and Cantor and Zassenhaus's equal-degree splitting (1981);
 //! - over Q ([`rational`]): Yun's squarefree factorisation, then Zassenhaus's method
 //!   (1969): factor modulo a prime, Hensel-lift the factors ([`hensel`]) beyond the Mignotte
-//!   bound, and recombine them by trial division in Z[x] ([`integer`]).
+//!   bound, and recombine them by trial division in Z[x] ([`integer`]); the rational
+//!   roots of a polynomial are the roots of its linear factors ([`rational::rational_roots`]).
 //!
 //! [`factor`] dispatches on the field. Every factor returned is monic (over Q: monic, with
 //! rational coefficients; [`integer::primitive`] gives the integer form), sorted by degree

@@ -203,6 +203,27 @@ fn recombine(g: &[BigInt], lifted: Vec<ZPoly>, m: &BigInt) -> Result<Vec<ZPoly>>
     Ok(found)
 }
 
+/// The distinct rational roots of a polynomial over Q, ascending: the roots of its monic
+/// linear factors ([`factor_rational`]). Empty for a constant (and for the zero
+/// polynomial) and when the factorisation stops at its work limit. Exact.
+pub fn rational_roots(a: &[Q]) -> Vec<Q> {
+    let a = super::trimmed(&QQ, a);
+    if degree(&a).unwrap_or(0) == 0 {
+        return Vec::new();
+    }
+    let Ok(fac) = factor_rational(&a) else {
+        return Vec::new();
+    };
+    let mut roots: Vec<Q> = fac
+        .factors
+        .iter()
+        .filter(|(g, _)| g.len() == 2)
+        .map(|(g, _)| -g[0].clone())
+        .collect();
+    roots.sort();
+    roots
+}
+
 /// True when the polynomial (nonzero) is irreducible over Q.
 pub fn is_irreducible_rational(a: &[Q]) -> Result<bool> {
     Ok(factor_rational(a)?.is_irreducible())
@@ -224,6 +245,48 @@ mod tests {
             .iter()
             .map(|(g, m)| (g.len() - 1, *m))
             .collect()
+    }
+
+    #[test]
+    fn rational_roots_of_a_polynomial_with_repeated_factors() {
+        // x^2 (2x - 3)^2 (x^2 - 2): roots 0 and 3/2 (sqrt 2 is irrational, Euclid)
+        assert_eq!(
+            rational_roots(&pq(&[0, 0, -18, 24, 1, -12, 4])),
+            vec![q(0, 1), q(3, 2)]
+        );
+        assert!(rational_roots(&pq(&[1])).is_empty());
+        assert!(rational_roots(&[]).is_empty());
+    }
+
+    #[test]
+    fn products_of_known_factors() {
+        // x^8 - 1 and x^9 - 1: the cyclotomic polynomials of the divisors, of degrees
+        // phi(d) (Lang 2002, Algebra, VI.3)
+        let mut x8 = vec![0i64; 9];
+        (x8[0], x8[8]) = (-1, 1);
+        let d8: Vec<usize> = degrees(&x8).iter().map(|f| f.0).collect();
+        assert_eq!(d8, vec![1, 1, 2, 4]);
+        let mut x9 = vec![0i64; 10];
+        (x9[0], x9[9]) = (-1, 1);
+        let d9: Vec<usize> = degrees(&x9).iter().map(|f| f.0).collect();
+        assert_eq!(d9, vec![1, 2, 6]);
+        // (2x + 3)(x^2 - 2)(3x^3 + x + 5): leading coefficients other than 1
+        let a = mul(
+            &QQ,
+            &mul(&QQ, &pq(&[3, 2]), &pq(&[-2, 0, 1])),
+            &pq(&[5, 1, 0, 3]),
+        );
+        let f = factor_rational(&a).unwrap();
+        assert_eq!(f.unit, q(6, 1));
+        let ints: Vec<ZPoly> = f.factors.iter().map(|(g, _)| primitive(g)).collect();
+        assert_eq!(
+            ints,
+            vec![
+                vec![3.into(), 2.into()],
+                vec![(-2).into(), 0.into(), 1.into()],
+                vec![5.into(), 1.into(), 0.into(), 3.into()]
+            ]
+        );
     }
 
     #[test]

@@ -8,7 +8,8 @@ use super::Section;
 use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
-use crate::scheme::bounds::{Bounds, BoundsParams, lower_bounds};
+use crate::invariants::structure::PropertyResult;
+use crate::ranks::{Bounds, BoundsParams, Measure, Status, lower_bounds};
 use crate::structure::StructureParams;
 use crate::tensor::Tensor;
 
@@ -49,17 +50,47 @@ pub fn invariants_section(
     })
 }
 
-/// Text lines of a set of lower bounds, each with its theorem.
+/// Text lines of a set of lower bounds, each with what it bounds, over which field,
+/// whether it is proven, and its theorem.
 pub fn bounds_lines(b: &Bounds) -> Vec<String> {
     let mut lines = Vec::new();
     for x in &b.bounds {
-        lines.push(format!("R >= {:<4} {}: {}", x.value, x.name, x.detail));
+        let what = match x.measure {
+            Measure::Rank => "R",
+            Measure::BorderRank => "border R",
+        };
+        let status = match x.status {
+            Status::Proven => "proven",
+            Status::Evidence => "evidence only",
+        };
+        lines.push(format!(
+            "{what} >= {:<4} {} ({}; {status}): {}",
+            x.value,
+            x.name,
+            x.scope(),
+            x.detail
+        ));
         lines.push(format!("          theorem: {}", x.theorem));
     }
     for n in &b.notes {
         lines.push(format!("note: {n}"));
     }
-    lines.push(format!("best lower bound: {}", b.best()));
+    let field = b.bounds.first().map(|x| x.field.name()).unwrap_or_default();
+    lines.push(format!(
+        "best lower bound: {} (rank over {field}); for the border rank: {}",
+        b.best(),
+        b.best_border()
+    ));
+    if let Some(u) = b.exhaustive_upper {
+        let exact = if u == b.best() {
+            format!(", so R = {u} over GF(2) exactly")
+        } else {
+            String::new()
+        };
+        lines.push(format!(
+            "upper bound: R <= {u} over GF(2) (a decomposition the exhaustive search found, checked){exact}"
+        ));
+    }
     lines
 }
 
@@ -71,24 +102,48 @@ pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
         id: "lower-bounds".into(),
         title: "Lower bounds for the tensor rank".into(),
         lines: bounds_lines(&b),
-        data: serde_json::json!({ "best": b.best(), "bounds": b.bounds, "notes": b.notes }),
+        data: serde_json::json!({
+            "best": b.best(),
+            "best_border": b.best_border(),
+            "exhaustive_upper": b.exhaustive_upper,
+            "bounds": b.bounds,
+            "notes": b.notes,
+        }),
     }
 }
 
-/// The structure of `t` (blocks, radical and simple components, Lie structure: the parts
-/// that apply) as a report section, the content of `bilin split`. Cost: that of
-/// [`super::structure::split_report`].
+/// The one structure section of `analyze`: the solvable, nilpotent and semisimple verdicts
+/// `properties` (already decided with the laws), then, when `params` is given, the
+/// structure of `t` (blocks, radical and simple components, Lie structure: the parts that
+/// apply), the content of `bilin split`. JSON data: `{"properties": [...], "split": the
+/// split report or null}`. Cost: that of [`super::structure::split_report`].
 pub fn structure_section(
     t: &Tensor,
-    params: &StructureParams,
+    properties: &[PropertyResult],
+    params: Option<&StructureParams>,
     progress: &mut dyn FnMut(&str),
 ) -> Result<Section> {
-    let (r, _) = super::structure::split_report(t, params, progress)?;
-    let text = super::structure::render_text(&r);
+    let mut lines: Vec<String> = super::render_properties(properties)
+        .lines()
+        .map(str::to_string)
+        .collect();
+    let split = match params {
+        Some(sp) => {
+            let (r, _) = super::structure::split_report(t, sp, progress)?;
+            let text = super::structure::render_text(&r);
+            let body = text.lines().skip(1).skip_while(|l| l.is_empty());
+            if !lines.is_empty() {
+                lines.push(String::new());
+            }
+            lines.extend(body.map(str::to_string));
+            Some(r)
+        }
+        None => None,
+    };
     Ok(Section {
         id: "structure".into(),
-        title: "Structure: blocks, radical, simple components".into(),
-        lines: text.lines().skip(1).map(str::to_string).collect(),
-        data: serde_json::to_value(&r).unwrap_or_default(),
+        title: "Structure".into(),
+        lines,
+        data: serde_json::json!({ "properties": properties, "split": split }),
     })
 }

@@ -298,14 +298,6 @@ impl<const W: usize> CyclicWalker<W> {
         }
     }
 
-    fn axes(&mut self, x: usize) -> (usize, usize) {
-        if self.rng.next_u64() & 1 == 0 {
-            ((x + 1) % 3, (x + 2) % 3)
-        } else {
-            ((x + 2) % 3, (x + 1) % 3)
-        }
-    }
-
     /// One attempted flip of two orbits sharing a factor (with its two images).
     pub fn flip(&mut self) -> bool {
         let r = self.slots();
@@ -334,7 +326,7 @@ impl<const W: usize> CyclicWalker<W> {
             .map(|(i, _)| i)
             .expect("partner");
         let ot = t / 3;
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         // s_y += t_y, then t_z += s_z (s_z is untouched by the first)
         self.xor_images(y, os, s % 3, ot, t % 3);
         self.xor_images(z, ot, t % 3, os, s % 3);
@@ -359,7 +351,7 @@ impl<const W: usize> CyclicWalker<W> {
         if os == ot || self.f[x][s] == self.f[x][t] {
             return false;
         }
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         // new = (t_x, s_y + t_y, s_z) on the axes (x, y, z) of rotation 0, and its images
         let on = self.degenerate.len();
         for j in 0..3 {

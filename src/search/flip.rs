@@ -35,6 +35,15 @@ impl FastRng {
     pub fn new(seed: u64) -> Self {
         FastRng(seed)
     }
+
+    /// The two axes other than `x` (of three), in a random order.
+    pub fn other_axes(&mut self, x: usize) -> (usize, usize) {
+        if self.next_u64() & 1 == 0 {
+            ((x + 1) % 3, (x + 2) % 3)
+        } else {
+            ((x + 2) % 3, (x + 1) % 3)
+        }
+    }
     #[inline(always)]
     pub fn next_u64(&mut self) -> u64 {
         self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);

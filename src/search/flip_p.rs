@@ -258,14 +258,6 @@ impl PWalker {
         }
     }
 
-    fn axes(&mut self, x: usize) -> (usize, usize) {
-        if self.rng.next_u64() & 1 == 0 {
-            ((x + 1) % 3, (x + 2) % 3)
-        } else {
-            ((x + 2) % 3, (x + 1) % 3)
-        }
-    }
-
     /// One attempted flip. Cost: O(r + d) operations.
     pub fn flip(&mut self) -> bool {
         let r = self.rank();
@@ -284,7 +276,7 @@ impl PWalker {
             .filter(|&i| i != s && self.key[x][i] == key)
             .nth(k)
             .expect("partner");
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         let mu = 1 + self.rng.below(self.p as usize - 1) as u32;
         let alpha = self.ratio(&self.f[x][s], &self.f[x][t]);
         self.f[x][s] = self.f[x][t].clone();
@@ -320,7 +312,7 @@ impl PWalker {
         if self.key[x][s] == self.key[x][t] {
             return false;
         }
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         let p = self.p;
         // (a,b,c) + (a',b',c') = (a - a', b, c) + (a', b + b', c) + (a', b', c' - c)
         let mut new: [Vec<u32>; 3] = [Vec::new(), Vec::new(), Vec::new()];

@@ -1,146 +1,32 @@
-//! Proven lower bounds for the tensor rank R(T) (the least number of multiplications of a
-//! bilinear algorithm), each labelled with the theorem it rests on.
+//! The Alder-Strassen bound: for an associative algebra A with unit over a field F,
+//! R(A) >= 2 dim A - t(A), where t(A) is the number of maximal two-sided ideals of A
+//! (Alder and Strassen 1981, "On the algorithmic complexity of associative algebras",
+//! Theoret. Comput. Sci. 15). A bound on the rank over F itself (t(A) depends on F).
 //!
-//! - *Flattening*: a rank-one tensor has flattenings of rank <= 1, so R(T) >= rank of every
-//!   flattening (common practice; Buergisser, Clausen and Shokrollahi 1997, "Algebraic
-//!   Complexity Theory", ch. 14). Along the result axis this is the number of independent
-//!   result coordinates.
-//! - *Slice span*: contracting one axis of a rank-r decomposition with a linear form gives
-//!   a matrix of rank <= r, so the exact rank of one specific (seeded random) combination of
-//!   slices is a lower bound (same source).
-//! - *Alder-Strassen*: for an associative algebra A with unit, R(A) >= 2 dim A - t(A), where
-//!   t(A) is the number of maximal two-sided ideals (Alder and Strassen 1981, "On the
-//!   algorithmic complexity of associative algebras", Theoret. Comput. Sci. 15).
-//!   t(A) = number of simple components of A/rad A. rad A comes from the shared invariants
-//!   ([`crate::invariants::radical`]: Dickson's trace-form criterion over Q, the method of
-//!   Cohen, Ivanyos and Wales 1997 over GF(p), checked to be a nilpotent ideal). The simple
-//!   components of S = A/rad A correspond to those of its centre Z(S), a
-//!   commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
-//!   z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
-//!   polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
-//!   number of factors of f mod p for any prime p where f stays squarefree of full degree
-//!   (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
-//!   used on t is stated in the result.
+//! t(A) = number of simple components of A/rad A. rad A comes from the shared invariants
+//! ([`crate::invariants::radical`]: Dickson's trace-form criterion over Q, the method of
+//! Cohen, Ivanyos and Wales 1997 over GF(p), checked to be a nilpotent ideal). The simple
+//! components of S = A/rad A correspond to those of its centre Z(S), a
+//! commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
+//! z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
+//! polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
+//! number of factors of f mod p for any prime p where f stays squarefree of full degree
+//! (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
+//! used on t is stated in the result.
 //!
-//! This file is self-contained on purpose (radical, centre, factor counts) so that it can
-//! later be pointed at shared invariant code.
+//! A bilinear map that is not an algebra is handled through its unital isotopes
+//! ([`super::isotope`]): the rank does not change under a change of the three bases.
 
+use super::bound::{Bound, BoundsParams, Measure, Method};
 use crate::linalg::{Matrix, nullspace, rank, rref, solve};
 use crate::scalar::{Field, PrimeField, Q};
-use crate::tensor::{Kind, Tensor, flattening_ranks};
-use num_traits::One;
+use crate::tensor::{Kind, Tensor};
 use rand::{Rng, SeedableRng};
 
-/// Parameters of [`lower_bounds`].
-#[derive(Clone, Debug)]
-pub struct BoundsParams {
-    /// Seed of the random slice combinations and primitive elements.
-    pub seed: u64,
-    /// Random slice combinations tried per axis.
-    pub slice_trials: usize,
-    /// Algebras above this dimension skip the Alder-Strassen computation (cost O(n^4)).
-    pub max_algebra_dim: usize,
-}
-
-impl Default for BoundsParams {
-    fn default() -> Self {
-        BoundsParams {
-            seed: 1,
-            slice_trials: 3,
-            max_algebra_dim: 64,
-        }
-    }
-}
-
-/// One proven lower bound.
-#[derive(Clone, Debug, PartialEq, Eq, serde::Serialize)]
-pub struct Bound {
-    /// R(T) >= value.
-    pub value: usize,
-    /// Short name: `flattening`, `slice span`, `Alder-Strassen`.
-    pub name: String,
-    /// The theorem and its source.
-    pub theorem: String,
-    /// How the value was obtained.
-    pub detail: String,
-}
-
-/// All bounds that apply, plus notes on those that do not (and why).
-#[derive(Clone, Debug, serde::Serialize)]
-pub struct Bounds {
-    pub bounds: Vec<Bound>,
-    pub notes: Vec<String>,
-}
-
-impl Bounds {
-    /// The best (largest) bound.
-    pub fn best(&self) -> usize {
-        self.bounds.iter().map(|b| b.value).max().unwrap_or(0)
-    }
-}
-
-/// Compute every applicable lower bound. Cost: three exact flattening ranks, a few slice
-/// ranks, and for algebras of dimension n at most `max_algebra_dim` O(n^4) field operations.
-pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
-    let mut bounds = Vec::new();
-    let mut notes = Vec::new();
-    let fr = flattening_ranks(t);
-    let src = "Buergisser, Clausen, Shokrollahi 1997, Algebraic Complexity Theory; common practice";
-    bounds.push(Bound {
-        value: *fr.iter().max().unwrap_or(&0),
-        name: "flattening".into(),
-        theorem: format!("R(T) >= rank of each flattening ({src})"),
-        detail: format!(
-            "flattening ranks: left {} of {}, right {} of {}, result {} of {} (the rank of \
-             each flattening against the dimension of its space)",
-            fr[0],
-            t.dims()[0],
-            fr[1],
-            t.dims()[1],
-            fr[2],
-            t.dims()[2]
-        ),
-    });
-    let (val, axis) = slice_span_rank(t, params);
-    bounds.push(Bound {
-        value: val,
-        name: "slice span".into(),
-        theorem: format!(
-            "R(T) >= rank of any matrix in the span of the slices along one axis ({src})"
-        ),
-        detail: format!(
-            "exact rank of a seeded random combination of the {} slices (seed {})",
-            crate::tensor::AXES[axis],
-            params.seed
-        ),
-    });
-    match alder_strassen(t, params) {
-        Ok(b) => bounds.push(b),
-        Err(why) => notes.push(format!("Alder-Strassen bound not applied: {why}")),
-    }
-    Bounds { bounds, notes }
-}
-
-/// The largest exact rank among seeded random combinations of the slices along each axis;
-/// returns (rank, axis).
-pub fn slice_span_rank(t: &Tensor, params: &BoundsParams) -> (usize, usize) {
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
-    let mut best = (0, 0);
-    for axis in 0..3 {
-        let k = t.dims()[axis];
-        if k == 0 {
-            continue;
-        }
-        for _ in 0..params.slice_trials.max(1) {
-            let c: Vec<i64> = (0..k).map(|_| rng.gen_range(-1000i64..=1000)).collect();
-            let r = crate::ranks::combination_rank(t, axis, &c);
-            if r > best.0 {
-                best = (r, axis);
-            }
-        }
-    }
-    best
-}
+/// The theorem, for reports.
+pub const THEOREM: &str = "R(A) >= 2 dim A - t(A) for an associative algebra A with unit, \
+     t(A) = number of maximal two-sided ideals (Alder and Strassen 1981, On the algorithmic \
+     complexity of associative algebras, Theoret. Comput. Sci. 15)";
 
 /// The Alder-Strassen bound for an associative algebra with unit, or why it does not apply.
 pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String> {
@@ -158,12 +44,14 @@ pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String
     }
     let (t_bound, how) = crate::with_field!(t.field(), f => count_components(f, t, params.seed))?;
     let value = (2 * n).saturating_sub(t_bound);
-    Ok(Bound {
+    Ok(Bound::proven(
+        Method::AlderStrassen,
         value,
-        name: "Alder-Strassen".into(),
-        theorem: "R(A) >= 2 dim A - t(A), t(A) = number of maximal two-sided ideals (Alder and Strassen 1981, On the algorithmic complexity of associative algebras)".into(),
-        detail: format!("dim A = {n}, {how}"),
-    })
+        Measure::Rank,
+        t.field(),
+        false,
+        format!("dim A = {n}, {how}"),
+    ))
 }
 
 /// Structure constants as a dense cube over a field: `c[(i*n + j)*n + k]`.
@@ -392,15 +280,8 @@ fn pow_in<E: Clone>(z: &[E], mut e: u64, one: &[E], mul: Product<'_, E>) -> Vec<
 /// squarefree: an upper bound for the number of its irreducible factors over Q.
 /// Returns (count, prime) or `None` if no prime among the first few qualifies.
 fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
-    use num_integer::Integer;
-    let lcm = coeffs
-        .iter()
-        .fold(num_bigint::BigInt::one(), |l, c| l.lcm(c.denom()));
-    let ints: Vec<num_bigint::BigInt> = coeffs
-        .iter()
-        .map(|c| (c * Q::from_integer(lcm.clone())).to_integer())
-        .collect();
-    let d = ints.len() - 1;
+    let ints = crate::poly::integer::primitive(coeffs);
+    let d = ints.len().checked_sub(1)?;
     let mut best: Option<(usize, u64)> = None;
     for p in crate::scalar::word_primes(40)
         .into_iter()
@@ -413,9 +294,8 @@ fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
         if poly[d] == 0 {
             continue;
         }
-        let inv = fp.inv(&poly[d]).expect("nonzero");
-        let poly: Vec<u64> = poly.iter().map(|c| fp.mul(c, &inv)).collect();
-        if !squarefree(&fp, &poly) {
+        let poly = crate::poly::monic(&fp, &poly);
+        if !crate::poly::finite::is_squarefree_mod_p(&fp, &poly) {
             continue;
         }
         let r = berlekamp_count(&fp, &poly);
@@ -429,80 +309,20 @@ fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
     best
 }
 
-/// Reduce `a` modulo the monic polynomial `m` (coefficients low first).
-fn poly_rem(fp: &PrimeField, mut a: Vec<u64>, m: &[u64]) -> Vec<u64> {
-    let d = m.len() - 1;
-    while a.len() > d {
-        let lead = a.pop().expect("nonempty");
-        if lead != 0 {
-            let off = a.len() - d;
-            for i in 0..d {
-                a[off + i] = fp.sub(&a[off + i], &fp.mul(&lead, &m[i]));
-            }
-        }
-    }
-    a
-}
-
-fn poly_mulmod(fp: &PrimeField, a: &[u64], b: &[u64], m: &[u64]) -> Vec<u64> {
-    let mut out = vec![0u64; a.len() + b.len()];
-    for (i, x) in a.iter().enumerate().filter(|(_, x)| **x != 0) {
-        for (j, y) in b.iter().enumerate() {
-            fp.add_mul_assign(&mut out[i + j], x, y);
-        }
-    }
-    poly_rem(fp, out, m)
-}
-
-fn trim(mut a: Vec<u64>) -> Vec<u64> {
-    while a.last() == Some(&0) {
-        a.pop();
-    }
-    a
-}
-
-/// gcd(f, f') == 1 over GF(p) (f monic).
-fn squarefree(fp: &PrimeField, f: &[u64]) -> bool {
-    let der: Vec<u64> = (1..f.len())
-        .map(|i| fp.mul(&f[i], &fp.from_i64(i as i64)))
-        .collect();
-    let mut a = trim(f.to_vec());
-    let mut b = trim(der);
-    if b.is_empty() {
-        return false;
-    }
-    while !b.is_empty() {
-        let inv = fp.inv(b.last().expect("nonempty")).expect("nonzero lead");
-        let bm: Vec<u64> = b.iter().map(|c| fp.mul(c, &inv)).collect();
-        let r = trim(poly_rem(fp, a, &bm));
-        a = bm;
-        b = r;
-    }
-    a.len() == 1
-}
-
 /// Number of irreducible factors of a squarefree monic f over GF(p): d - rank(Q - I),
 /// Q the matrix of x^i -> x^{ip} mod f (Berlekamp 1967).
 fn berlekamp_count(fp: &PrimeField, f: &[u64]) -> usize {
+    use crate::poly::{mulmod, one, powmod, rem, x};
     let d = f.len() - 1;
-    let mut xp = vec![1u64];
-    let mut base = poly_rem(fp, vec![0, 1], f);
-    let mut e = fp.modulus();
-    while e > 0 {
-        if e & 1 == 1 {
-            xp = poly_mulmod(fp, &xp, &base, f);
-        }
-        base = poly_mulmod(fp, &base, &base, f);
-        e >>= 1;
-    }
+    let xp = powmod(fp, &x(fp), fp.modulus(), f);
     let mut m = Matrix::zeros(fp, d, d);
-    let mut cur = poly_rem(fp, vec![1], f);
+    let mut cur = rem(fp, &one(fp), f);
     for i in 0..d {
         for (j, c) in cur.iter().enumerate() {
             m[(i, j)] = *c;
         }
         m[(i, i)] = fp.sub(&m[(i, i)], &1);
-        cur = poly_mulmod(fp, &cur, &xp, f);
+        cur = mulmod(fp, &cur, &xp, f);
     }
     d - rank(fp, &m)
 }
@@ -512,15 +332,7 @@ mod tests {
     use super::*;
     use crate::scalar::FieldSpec;
     use crate::scheme::testkit::*;
-
-    #[test]
-    fn flattening_bounds_of_matmul() {
-        // flattening ranks of <n,n,n> are n^2 (common practice)
-        let p = BoundsParams::default();
-        assert_eq!(lower_bounds(&matmul(2, 2, 2), &p).bounds[0].value, 4);
-        assert_eq!(lower_bounds(&matmul(3, 3, 3), &p).bounds[0].value, 9);
-        assert_eq!(slice_span_rank(&matmul(2, 2, 2), &p).0, 4);
-    }
+    use num_traits::One;
 
     #[test]
     fn alder_strassen_complex_and_m2() {
