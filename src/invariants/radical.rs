@@ -64,12 +64,14 @@ pub fn radical(t: &Tensor, it: &IntegralTensor, params: &SolveParams) -> Result<
     };
     let r = space.dim();
     let q = quotient(t, &space.dense_basis());
+    // A/rad A is associative (a quotient of an associative algebra), so its centre is its
+    // commutative centre: no associator system is needed
     let qc = if q.dim() == 0 {
         0
     } else {
         element_space(
             &IntegralTensor::from_tensor(&q),
-            ElementSpace::Centre,
+            ElementSpace::CommutativeCentre,
             params,
         )?
         .dim()
