@@ -132,7 +132,14 @@ fn huge_coefficients_are_analysed() {
         ..Default::default()
     };
     let r = bilin::report::analyze(&t, "huge", &params).unwrap();
-    assert!(r.laws.as_ref().unwrap().results.iter().all(|x| x.holds.is_some()));
+    assert!(
+        r.laws
+            .as_ref()
+            .unwrap()
+            .results
+            .iter()
+            .all(|x| x.holds.is_some())
+    );
     let u = change_basis_algebra(&t, &random_invertible(4, 1_000_000, 3)).unwrap();
     assert_eq!(verdicts(&t), verdicts(&u));
     assert_eq!(invariant_dims(&t), invariant_dims(&u));

@@ -1,4 +1,5 @@
-//! `bilin bounds INPUT [--json]`: proven lower bounds for the tensor rank.
+//! `bilin bounds INPUT [--json] [--scheme FILE]...`: proven lower bounds for the tensor
+//! rank, and the interval `lower <= R <= upper` with a verified scheme for the upper side.
 
 use super::EXIT_OK;
 use super::scheme_io::{fail, load_tensor};
@@ -17,6 +18,14 @@ pub struct Args {
     /// Seed of the random slice combinations.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// A scheme for the tensor (text or JSON form; repeatable): verified exactly, then
+    /// counted among the upper bounds.
+    #[arg(long, value_name = "FILE")]
+    pub scheme: Vec<String>,
+    /// Write the scheme attaining the upper bound to this file (text form for `.txt`,
+    /// JSON otherwise).
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<String>,
 }
 
 pub fn run(a: &Args) -> i32 {
@@ -31,8 +40,37 @@ pub fn run(a: &Args) -> i32 {
             ..BoundsParams::default()
         },
     );
+    let mut given = Vec::new();
+    for path in &a.scheme {
+        match super::scheme_io::load_scheme(path, &t) {
+            Ok(s) => given.push((path.clone(), s)),
+            Err(e) => return fail(&e),
+        }
+    }
+    let iv = bilin::report::interval::interval_of(
+        &t,
+        &b,
+        &bilin::interval::UpperParams {
+            simultaneous: bilin::decompose::SimultaneousParams {
+                seed: a.seed,
+                ..Default::default()
+            },
+            ..Default::default()
+        },
+        &given,
+    );
+    if let Some(path) = &a.out {
+        let target = match bilin::output::Target::resolve(path) {
+            Ok(x) => x,
+            Err(e) => return fail(&e),
+        };
+        if !super::outputs::emit_result(Some(&target), iv.scheme(), &t, false) {
+            return super::EXIT_USAGE;
+        }
+    }
     if a.json {
         let v = serde_json::json!({
+            "interval": iv.to_json(),
             "input": a.input,
             "field": t.field().name(),
             "dims": t.dims(),
@@ -53,6 +91,10 @@ pub fn run(a: &Args) -> i32 {
         t.field().name()
     );
     for line in bilin::report::sections::bounds_lines(&b) {
+        println!("  {line}");
+    }
+    println!("rank interval:");
+    for line in iv.lines() {
         println!("  {line}");
     }
     EXIT_OK

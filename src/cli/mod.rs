@@ -22,6 +22,7 @@ mod outputs;
 mod scheme;
 mod scheme_io;
 mod search;
+mod search_plan;
 mod transform;
 mod verify;
 

@@ -11,8 +11,10 @@
 
 use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
+use super::search_plan;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
+use bilin::interval::plan::Plan;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
 use bilin::search::{Method, Params, Progress, search_scheme};
 use clap::Args;
@@ -29,9 +31,10 @@ pub struct SearchArgs {
     /// Target rank: stop when a verified scheme of at most this rank is found.
     #[arg(long)]
     pub rank: Option<usize>,
-    /// Search engine: `flip` (GF(2) flip graph, lifted to Q) or `als` (numerical, over Q).
-    #[arg(long, default_value = "flip")]
-    pub method: String,
+    /// Search engine: `flip` (GF(2) flip graph, lifted to Q), `als` (numerical, over Q)
+    /// or `auto` (the default: chosen from the tensor, the choice and its reason printed).
+    #[arg(long)]
+    pub method: Option<String>,
     /// Field the scheme must hold over (default: the tensor's field), e.g. `GF(2)`.
     #[arg(long)]
     pub field: Option<String>,
@@ -163,15 +166,9 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(t) => t,
         Err(code) => return code,
     };
-    let method = match a.method.as_str() {
-        "flip" => Method::Flip,
-        "als" => Method::Als,
-        m => {
-            return usage_error(
-                "--method",
-                format!("unknown method `{m}` (expected flip or als)"),
-            );
-        }
+    let user_method = match search_plan::parse_method(a.method.as_deref()) {
+        Ok(m) => m,
+        Err(e) => return usage_error("--method", e),
     };
     let shard_arg = match a.shard.as_deref().map(parse_shard).transpose() {
         Ok(s) => s,
@@ -213,7 +210,7 @@ pub fn run(a: SearchArgs) -> i32 {
         seed,
         threads: a.threads,
         restarts: a.restarts,
-        method,
+        method: user_method.unwrap_or(Method::Flip),
         field: None,
         shard,
         first_run,
@@ -276,17 +273,80 @@ pub fn run(a: SearchArgs) -> i32 {
         }
     };
     let start = resumed.and_then(Saved::into_best);
-    let outcome = match search_scheme(&t, &params, &stop, start, &progress) {
-        Ok(o) => o,
-        Err(e) => {
-            let e = match &a.resume {
-                Some(p) => format!("{p}: {e}"),
-                None => e.to_string(),
-            };
-            eprintln!("error: {e}");
-            return EXIT_USAGE;
+    let plan = search_plan::plan(&t, a.rank, user_method, start.as_ref(), seed);
+    let (stages, start) = match plan {
+        Plan::Known { scheme, reason } => {
+            note(format!("answered at once: {reason}"));
+            files.save_checkpoint(
+                &Checkpoint {
+                    seed,
+                    shard,
+                    next_run: first_run,
+                    best: Some(scheme.clone()),
+                },
+                &t,
+            );
+            if !files.save_result(&scheme, &t) {
+                return EXIT_USAGE;
+            }
+            note(format!(
+                "best verified rank {} over {}",
+                scheme.rank(),
+                scheme.field.name()
+            ));
+            return EXIT_OK;
         }
+        Plan::Refuse { reason, .. } => {
+            eprintln!("error: refused: {reason}; no scheme of that rank exists");
+            return EXIT_FALSE;
+        }
+        Plan::Search { stages, start } => (stages, start),
     };
+    let t_all = Instant::now();
+    let mut best = Some(start);
+    let mut outcome = None;
+    for (n, stage) in stages.iter().enumerate() {
+        let last = n + 1 == stages.len();
+        note(format!(
+            "method {}: {}",
+            search_plan::method_name(stage.method),
+            stage.reason
+        ));
+        // each stage gets its share of the time limit (the last one what is left);
+        // without a limit, every stage but the last gets 30 s
+        let time_limit = match params.time_limit {
+            Some(l) if last => Some(l.saturating_sub(t_all.elapsed())),
+            Some(l) => Some(l.mul_f64(stage.share)),
+            None if last => None,
+            None => Some(Duration::from_secs(30)),
+        };
+        let p = Params {
+            method: stage.method,
+            time_limit,
+            ..params.clone()
+        };
+        let o = match search_scheme(&t, &p, &stop, best.clone(), &progress) {
+            Ok(o) => o,
+            Err(e) => {
+                let e = match &a.resume {
+                    Some(p) => format!("{p}: {e}"),
+                    None => e.to_string(),
+                };
+                eprintln!("error: {e}");
+                return EXIT_USAGE;
+            }
+        };
+        best.clone_from(&o.best);
+        let done = o.reached || stop.load(Ordering::SeqCst);
+        outcome = Some(o);
+        if done {
+            break;
+        }
+    }
+    let Some(mut outcome) = outcome else {
+        return EXIT_USAGE;
+    };
+    outcome.elapsed = t_all.elapsed();
     if tty {
         eprintln!();
     }

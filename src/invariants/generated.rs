@@ -316,9 +316,7 @@ fn candidate_mod(
             };
             match kind {
                 Kind::Derivations => {
-                    batch.extend(
-                        (0..m).map(|j| ((base[j] + right[j] + left[j]) % p) as u32),
-                    );
+                    batch.extend((0..m).map(|j| ((base[j] + right[j] + left[j]) % p) as u32));
                 }
                 Kind::Centroid => {
                     batch.extend((0..m).map(|j| ((base[j] + right[j]) % p) as u32));
@@ -405,7 +403,9 @@ pub fn solve_by_generators(
                     .any(|w| matches!(w, Word::Mul(x, y) if (*x, *y) == (a, b)))
         })
         .collect();
-    order.shuffle(&mut rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ 0xdead));
+    order.shuffle(&mut rand_chacha::ChaCha8Rng::seed_from_u64(
+        params.seed ^ 0xdead,
+    ));
     let plain = System::new(
         it,
         &[match kind {

@@ -9,6 +9,7 @@
 //! the JSON carries them under `"extra"`. Adding a section never changes existing fields.
 
 pub mod identify;
+pub mod interval;
 pub mod invariants;
 mod invariants_text;
 pub mod sections;
@@ -34,6 +35,8 @@ pub struct Params {
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
     pub bounds: Option<crate::scheme::bounds::BoundsParams>,
+    /// The upper bounds of the rank interval shown beside the lower bounds.
+    pub upper: crate::interval::UpperParams,
 }
 
 /// What was analysed.
@@ -117,7 +120,12 @@ pub fn analyze_with_progress(
     }
     if let Some(bp) = &params.bounds {
         progress("lower bounds");
-        extra.push(sections::bounds_section(t, bp));
+        let lower = sections::bounds_section(t, bp);
+        progress("rank interval");
+        let best = interval::lower_of_section(&lower);
+        let iv = crate::interval::rank_interval(t, best, &params.upper, &[]);
+        extra.push(lower);
+        extra.push(interval::interval_section(&iv));
     }
     let mut notes = Vec::new();
     let laws = if t.is_square() {

@@ -209,7 +209,7 @@ impl Reconstructor {
             return Some(Q::from_integer(a));
         }
         let (mut r0, mut r1) = (m.clone(), a);
-    let (mut t0, mut t1) = (BigInt::zero(), BigInt::one());
+        let (mut t0, mut t1) = (BigInt::zero(), BigInt::one());
         while &r1 > bound {
             let (qq, r) = r0.div_rem(&r1);
             r0 = std::mem::replace(&mut r1, r);

@@ -1,0 +1,132 @@
+//! The plan of a search from what is known about the rank: at or above the verified upper
+//! bound the known scheme is the answer at once; below a proven lower bound the target is
+//! refused with the bound; otherwise a method is chosen from the tensor (when the user
+//! gave none) and the walks start from the known scheme. Every choice carries its reason
+//! in words, for the user to read.
+
+use super::RankInterval;
+use crate::scalar::FieldSpec;
+use crate::scheme::Scheme;
+use crate::search::Method;
+use crate::tensor::{Tensor, flattening_ranks};
+
+/// One stage of a search: a method, the share of the time limit it gets, and why.
+#[derive(Clone, Debug, PartialEq)]
+pub struct Stage {
+    pub method: Method,
+    /// Fraction of the time limit (the stages' shares add up to 1).
+    pub share: f64,
+    pub reason: String,
+}
+
+/// What a search should do.
+#[derive(Clone, Debug)]
+pub enum Plan {
+    /// The known scheme already reaches the target.
+    Known { scheme: Scheme, reason: String },
+    /// The target is below a proven lower bound.
+    Refuse { bound: usize, reason: String },
+    /// Run these stages in turn, starting from `start` (the known scheme).
+    Search { stages: Vec<Stage>, start: Scheme },
+}
+
+/// The plan for a search of `t` for a scheme of rank at most `target` (`None`: improve on
+/// the upper bound), with the user's method if any. Cost: for a tensor over Q without a
+/// method, the flattening ranks of its reduction mod 2.
+pub fn plan_search(
+    t: &Tensor,
+    target: Option<usize>,
+    interval: &RankInterval,
+    method: Option<Method>,
+) -> Plan {
+    let upper = &interval.upper;
+    if let Some(r) = target {
+        if r >= upper.value {
+            return Plan::Known {
+                scheme: upper.scheme.clone(),
+                reason: format!(
+                    "rank {r} is at or above the verified upper bound {} ({}: {})",
+                    upper.value, upper.name, upper.detail
+                ),
+            };
+        }
+        if r < interval.lower.value {
+            return Plan::Refuse {
+                bound: interval.lower.value,
+                reason: format!(
+                    "rank {r} is below the proven lower bound R >= {} over {} ({}: {})",
+                    interval.lower.value,
+                    t.field().name(),
+                    interval.lower.name,
+                    interval.lower.theorem
+                ),
+            };
+        }
+    }
+    let stages = match method {
+        Some(m) => vec![Stage {
+            method: m,
+            share: 1.0,
+            reason: "the method asked for".into(),
+        }],
+        None => choose_stages(t),
+    };
+    Plan::Search {
+        stages,
+        start: upper.scheme.clone(),
+    }
+}
+
+/// The method chosen from the tensor: over GF(p), walks over GF(p); over Q, walks over
+/// GF(2) then lifting when the reduction mod 2 keeps the flattening ranks (followed by the
+/// numerical route for the second half of the time, since a rank over GF(2) may exceed the
+/// rank over Q), else the numerical route alone.
+pub fn choose_stages(t: &Tensor) -> Vec<Stage> {
+    let numeric = |share: f64, why: String| Stage {
+        method: Method::Als,
+        share,
+        reason: format!("numerical route over Q, rounding and exact verification: {why}"),
+    };
+    if let FieldSpec::Prime(p) = t.field() {
+        return vec![Stage {
+            method: Method::Flip,
+            share: 1.0,
+            reason: format!("walks over GF({p}), the tensor's own field"),
+        }];
+    }
+    let over_q = flattening_ranks(t);
+    let Ok(mod2) = t.with_field(FieldSpec::Prime(2)) else {
+        return vec![numeric(
+            1.0,
+            "the tensor has even denominators, so it does not reduce mod 2".into(),
+        )];
+    };
+    let kept = flattening_ranks(&mod2);
+    if kept != over_q {
+        return vec![numeric(
+            1.0,
+            format!(
+                "reduced mod 2 the flattening ranks drop from {:?} to {:?}, so schemes found \
+                 over GF(2) cannot lift to this tensor",
+                over_q, kept
+            ),
+        )];
+    }
+    vec![
+        Stage {
+            method: Method::Flip,
+            share: 0.5,
+            reason: format!(
+                "reduced mod 2 the tensor keeps its flattening ranks {:?}: flip-graph walks \
+                 over GF(2), then Hensel lifting to Q and exact verification",
+                over_q
+            ),
+        },
+        numeric(
+            0.5,
+            "the rank over GF(2) may exceed the rank over Q, so the second half of the \
+             time goes to it"
+                .into(),
+        ),
+    ]
+}
