@@ -14,9 +14,9 @@ use super::outputs::OutputFiles;
 use super::search_plan;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
-use bilin::interval::plan::Plan;
+use bilin::interval::plan::{Plan, run_stages};
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
-use bilin::search::{Method, Params, Progress, search_scheme};
+use bilin::search::{Method, Params, Progress};
 use clap::Args;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -272,6 +272,9 @@ pub fn run(a: SearchArgs) -> i32 {
             );
         }
     };
+    if a.rank.is_none() && a.time.is_none() && a.restarts.is_none() {
+        return usage_error("--rank", "give a target rank, a time limit or a run limit");
+    }
     let start = resumed.and_then(Saved::into_best);
     let plan = search_plan::plan(&t, a.rank, user_method, start.as_ref(), seed);
     let (stages, start) = match plan {
@@ -296,57 +299,46 @@ pub fn run(a: SearchArgs) -> i32 {
             ));
             return EXIT_OK;
         }
-        Plan::Refuse { reason, .. } => {
+        Plan::Refuse { reason, known, .. } => {
             eprintln!("error: refused: {reason}; no scheme of that rank exists");
+            // the best known scheme is still the result, so that nothing is lost
+            if !files.save_result(&known, &t) {
+                return EXIT_USAGE;
+            }
+            note(format!(
+                "best verified rank {} over {} (the known upper bound)",
+                known.rank(),
+                known.field.name()
+            ));
             return EXIT_FALSE;
         }
         Plan::Search { stages, start } => (stages, start),
     };
-    let t_all = Instant::now();
-    let mut best = Some(start);
-    let mut outcome = None;
-    for (n, stage) in stages.iter().enumerate() {
-        let last = n + 1 == stages.len();
-        note(format!(
-            "method {}: {}",
-            search_plan::method_name(stage.method),
-            stage.reason
-        ));
-        // each stage gets its share of the time limit (the last one what is left);
-        // without a limit, every stage but the last gets 30 s
-        let time_limit = match params.time_limit {
-            Some(l) if last => Some(l.saturating_sub(t_all.elapsed())),
-            Some(l) => Some(l.mul_f64(stage.share)),
-            None if last => None,
-            None => Some(Duration::from_secs(30)),
-        };
-        let p = Params {
-            method: stage.method,
-            time_limit,
-            ..params.clone()
-        };
-        let o = match search_scheme(&t, &p, &stop, best.clone(), &progress) {
-            Ok(o) => o,
-            Err(e) => {
-                let e = match &a.resume {
-                    Some(p) => format!("{p}: {e}"),
-                    None => e.to_string(),
-                };
-                eprintln!("error: {e}");
-                return EXIT_USAGE;
-            }
-        };
-        best.clone_from(&o.best);
-        let done = o.reached || stop.load(Ordering::SeqCst);
-        outcome = Some(o);
-        if done {
-            break;
+    let outcome = match run_stages(
+        &t,
+        &stages,
+        start,
+        &params,
+        &stop,
+        &progress,
+        &mut |stage| {
+            note(format!(
+                "method {}: {}",
+                search_plan::method_name(stage.method),
+                stage.reason
+            ))
+        },
+    ) {
+        Ok(o) => o,
+        Err(e) => {
+            let e = match &a.resume {
+                Some(p) => format!("{p}: {e}"),
+                None => e.to_string(),
+            };
+            eprintln!("error: {e}");
+            return EXIT_USAGE;
         }
-    }
-    let Some(mut outcome) = outcome else {
-        return EXIT_USAGE;
     };
-    outcome.elapsed = t_all.elapsed();
     if tty {
         eprintln!();
     }

@@ -9,8 +9,8 @@
 //! every returned pair satisfies `X v = lambda v` exactly.
 
 use crate::linalg::Matrix;
-use crate::linalg::modular::{inverse_q, nullspace_q};
-use crate::scalar::{Q, Rationals, q_to_f64};
+use crate::linalg::modular::{inverse_q, kernel_primes, nullspace_q, rank_mod};
+use crate::scalar::{Field, PrimeField, Q, Rationals, q_to_f64};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Signed, ToPrimitive, Zero};
@@ -124,9 +124,27 @@ fn shifted(x: &Matrix<Q>, s: &Q) -> Matrix<Q> {
     m
 }
 
-/// The eigenspace of `x` at `lambda` when it is not zero (exact).
+/// The eigenspace of `x` at `lambda` when it is not zero (exact). A quick filter first:
+/// `x - lambda I` must be singular modulo a word prime (a necessary condition when both
+/// reduce).
 fn eigen_at(x: &Matrix<Q>, lambda: &Q) -> Option<Eigen> {
-    let vectors = nullspace_q(&shifted(x, lambda));
+    let m = shifted(x, lambda);
+    let p = kernel_primes(1)[0];
+    let gf = PrimeField::new(p)?;
+    let reduced: Option<Vec<u64>> = m.data.iter().map(|v| gf.from_rational(v)).collect();
+    if let Some(data) = reduced
+        && rank_mod(
+            Matrix {
+                rows: m.rows,
+                cols: m.cols,
+                data,
+            },
+            p,
+        ) == m.rows
+    {
+        return None;
+    }
+    let vectors = nullspace_q(&m);
     (!vectors.is_empty()).then(|| Eigen {
         value: lambda.clone(),
         vectors,

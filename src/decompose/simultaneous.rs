@@ -136,17 +136,19 @@ fn along(
         };
         let eig = match rational_eigen(&tx.mul(&f, &ty_inv)) {
             Ok(e) => e,
+            // for a decomposition of this kind every pair of generic combinations has
+            // the same kind of eigenvalues: no use trying another pair
             Err(EigenFailure::NotReal) => {
-                why = "the eigenvalues are not real: no decomposition over Q with this many \
-                       terms along this route"
-                    .into();
-                continue;
+                return Err(
+                    "the eigenvalues are not real: no decomposition over Q with this \
+                            many terms along this route"
+                        .into(),
+                );
             }
             Err(EigenFailure::NotRational) => {
-                why = "the eigenvalues are not all rational (or repeated): no decomposition \
-                       over Q found along this route"
-                    .into();
-                continue;
+                return Err("the eigenvalues are not all rational (or repeated): no \
+                            decomposition over Q found along this route"
+                    .into());
             }
         };
         if eig.len() != r || eig.iter().any(|e| e.vectors.len() != 1) {

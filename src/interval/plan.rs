@@ -5,10 +5,14 @@
 //! in words, for the user to read.
 
 use super::RankInterval;
+use crate::error::Result;
 use crate::scalar::FieldSpec;
 use crate::scheme::Scheme;
-use crate::search::Method;
+use crate::search::{Method, Outcome, Params, Progress, search_scheme};
 use crate::tensor::{Tensor, flattening_ranks};
+use std::sync::Arc;
+use std::sync::atomic::{AtomicBool, Ordering};
+use std::time::{Duration, Instant};
 
 /// One stage of a search: a method, the share of the time limit it gets, and why.
 #[derive(Clone, Debug, PartialEq)]
@@ -24,8 +28,12 @@ pub struct Stage {
 pub enum Plan {
     /// The known scheme already reaches the target.
     Known { scheme: Scheme, reason: String },
-    /// The target is below a proven lower bound.
-    Refuse { bound: usize, reason: String },
+    /// The target is below a proven lower bound; `known` is the best verified scheme.
+    Refuse {
+        bound: usize,
+        reason: String,
+        known: Scheme,
+    },
     /// Run these stages in turn, starting from `start` (the known scheme).
     Search { stages: Vec<Stage>, start: Scheme },
 }
@@ -52,6 +60,7 @@ pub fn plan_search(
         }
         if r < interval.lower.value {
             return Plan::Refuse {
+                known: upper.scheme.clone(),
                 bound: interval.lower.value,
                 reason: format!(
                     "rank {r} is below the proven lower bound R >= {} over {} ({}: {})",
@@ -129,4 +138,47 @@ pub fn choose_stages(t: &Tensor) -> Vec<Stage> {
                 .into(),
         ),
     ]
+}
+
+/// Run the stages of a plan in turn with [`search_scheme`], each from the best scheme so
+/// far: a stage gets its share of `params.time_limit` (the last one what is left), or 30 s
+/// without a limit (the last one: no limit). Stops when the target is reached or `stop` is
+/// set. `on_stage` is told of each stage before it runs.
+pub fn run_stages(
+    t: &Tensor,
+    stages: &[Stage],
+    start: Scheme,
+    params: &Params,
+    stop: &Arc<AtomicBool>,
+    progress: &(dyn Fn(&Progress) + Sync),
+    on_stage: &mut dyn FnMut(&Stage),
+) -> Result<Outcome> {
+    let t0 = Instant::now();
+    let mut best = Some(start);
+    let mut outcome = None;
+    for (n, stage) in stages.iter().enumerate() {
+        let last = n + 1 == stages.len();
+        on_stage(stage);
+        let time_limit = match params.time_limit {
+            Some(l) if last => Some(l.saturating_sub(t0.elapsed())),
+            Some(l) => Some(l.mul_f64(stage.share)),
+            None if last => None,
+            None => Some(Duration::from_secs(30)),
+        };
+        let p = Params {
+            method: stage.method,
+            time_limit,
+            ..params.clone()
+        };
+        let o = search_scheme(t, &p, stop, best.clone(), progress)?;
+        best.clone_from(&o.best);
+        let done = o.reached || stop.load(Ordering::SeqCst);
+        outcome = Some(o);
+        if done {
+            break;
+        }
+    }
+    let mut o = outcome.ok_or_else(|| crate::Error::Invalid("no search stage".into()))?;
+    o.elapsed = t0.elapsed();
+    Ok(o)
 }
