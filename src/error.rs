@@ -27,6 +27,10 @@ pub enum Error {
     /// A request that is well-formed but not meaningful (wrong shape, unknown name, ...).
     #[error("{0}")]
     Invalid(String),
+    /// A computation that would need more memory than allowed; the message names the size
+    /// of the input, the memory needed and the limit (`--max-memory`).
+    #[error("{0}")]
+    TooLarge(String),
     /// Reading or writing a file failed; `message` says which (`cannot read: ...`).
     #[error("{path}: {message}")]
     Io { path: String, message: String },

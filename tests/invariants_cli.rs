@@ -83,3 +83,49 @@ fn bad_requests_exit_2() {
     let o = bilin(&["invariants", "no-such-input"]);
     assert_eq!(o.status.code(), Some(2));
 }
+
+#[test]
+fn large_inputs_finish_or_name_the_memory_limit() {
+    // The zero algebra of dimension 64: every linear map is a derivation and in the
+    // centroid (dimension 64^2 = 4096, common practice); the bases are too large to write
+    // out, so the report gives the dimensions and says why the bases are left out.
+    let dir = common::tmpdir("zero64");
+    let path = dir.join("zero64.bilin");
+    let names: Vec<String> = (0..64).map(|i| format!("e{i}")).collect();
+    std::fs::write(&path, format!("field Q\nbasis {}\n", names.join(" "))).unwrap();
+    let p = path.to_str().unwrap();
+    let o = bilin(&["invariants", p, "--json", "--only", "derivations,centre"]);
+    assert_eq!(o.status.code(), Some(0), "{}", common::stderr(&o));
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(j["derivations"]["dim"], 4096);
+    assert!(j["derivations"]["basis_omitted"].is_string());
+    assert_eq!(j["centre"]["dim"], 64);
+
+    // <64,64,1> (a 4096 x 64 x 64 map): its radicals finish.
+    let o = bilin(&["invariants", "matmul:64,64,1", "--json", "--only", "radicals"]);
+    assert_eq!(o.status.code(), Some(0), "{}", common::stderr(&o));
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    assert_eq!(j["left_radical"]["dim"], 0);
+    assert_eq!(j["right_radical"]["dim"], 0);
+
+    // A dense table (octonions in a random basis): under a tiny memory limit the parts
+    // with a dense system of 64 unknowns are skipped, the limit is named, the others are
+    // computed and the command succeeds.
+    let table = bilin(&["transform", "octonions", "--random", "1", "--to", "json"]);
+    let path = dir.join("octonions-random.json");
+    std::fs::write(&path, &table.stdout).unwrap();
+    let p = path.to_str().unwrap();
+    let only = "centroid,derivations,centre";
+    let o = bilin(&["invariants", p, "--json", "--max-memory", "10K", "--only", only]);
+    assert_eq!(o.status.code(), Some(0), "{}", common::stderr(&o));
+    let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
+    let skipped = j["skipped"].as_array().expect("skipped parts");
+    assert!(skipped.iter().any(|s| s["part"] == "centroid"));
+    let reason = skipped[0]["reason"].as_str().unwrap();
+    assert!(reason.contains("--max-memory") && reason.contains("16 KiB"), "{reason}");
+    assert_eq!(j["centre"]["dim"], 1);
+
+    // a bad size is a usage error
+    let o = bilin(&["invariants", "octonions", "--max-memory", "lots"]);
+    assert_eq!(o.status.code(), Some(2));
+}

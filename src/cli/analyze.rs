@@ -45,6 +45,10 @@ pub struct Args {
     /// Also write a picture of the tensor (its slices, SVG) to this file.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<String>,
+    /// Memory the invariant systems may use (e.g. `4G`, `512M`); a part that would need
+    /// more is skipped with a note. Default: three quarters of the memory available now.
+    #[arg(long, value_parser = super::common::parse_memory, value_name = "SIZE")]
+    pub max_memory: Option<usize>,
 }
 
 /// Run the subcommand; returns the exit code.
@@ -96,10 +100,14 @@ pub fn run(args: Args) -> i32 {
             Ok(o) => o,
             Err(e) => return report_error(&e),
         };
-        params.invariants = Some(InvariantParams {
+        let mut inv = InvariantParams {
             only,
             ..InvariantParams::default()
-        });
+        };
+        if let Some(m) = args.max_memory {
+            inv.solve.max_memory = m;
+        }
+        params.invariants = Some(inv);
     }
     if !args.no_bounds {
         params.bounds = Some(BoundsParams {

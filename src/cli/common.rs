@@ -88,3 +88,34 @@ pub fn emit_output(out: Option<&str>, text: &str) -> Result<(), i32> {
         }
     }
 }
+
+/// Reads a memory size such as `512M`, `2G`, `1.5GiB` or `1073741824` (bytes); the
+/// suffixes K, M, G and T are powers of 1024 (`B` and `iB` after them are optional).
+pub fn parse_memory(text: &str) -> Result<usize, String> {
+    let t = text.trim();
+    let lower = t.to_ascii_lowercase();
+    let number_end = lower
+        .find(|c: char| !(c.is_ascii_digit() || c == '.'))
+        .unwrap_or(lower.len());
+    let (number, unit) = lower.split_at(number_end);
+    let shift = match unit.trim() {
+        "" | "b" => 0,
+        "k" | "kb" | "kib" => 10,
+        "m" | "mb" | "mib" => 20,
+        "g" | "gb" | "gib" => 30,
+        "t" | "tb" | "tib" => 40,
+        other => {
+            return Err(format!(
+                "unknown unit `{other}` in `{t}`: expected a size such as 512M, 2G or 1073741824"
+            ));
+        }
+    };
+    let value: f64 = number
+        .parse()
+        .map_err(|_| format!("expected a size such as 512M, 2G or 1073741824, found `{t}`"))?;
+    let bytes = value * (1u64 << shift) as f64;
+    if !(bytes >= 1.0 && bytes < 1e19) {
+        return Err(format!("memory size `{t}` is out of range"));
+    }
+    Ok(bytes as usize)
+}

@@ -27,6 +27,10 @@ pub struct Args {
     /// Report dimensions and properties only, without bases.
     #[arg(long)]
     pub no_bases: bool,
+    /// Memory the linear systems may use (e.g. `4G`, `512M`); a part that would need more
+    /// is skipped with a note. Default: three quarters of the memory available now.
+    #[arg(long, value_parser = super::common::parse_memory, value_name = "SIZE")]
+    pub max_memory: Option<usize>,
 }
 
 /// Run the subcommand; returns the exit code.
@@ -40,11 +44,14 @@ pub fn run(args: Args) -> i32 {
         Some(Ok(p)) => Some(p),
         Some(Err(e)) => return report_error(&e),
     };
-    let params = InvariantParams {
+    let mut params = InvariantParams {
         only,
         omit_bases: args.no_bases,
         ..Default::default()
     };
+    if let Some(m) = args.max_memory {
+        params.solve.max_memory = m;
+    }
     let r = super::common::with_progress(|p| invariants_report(&t, &params, p));
     let r = match r {
         Ok(r) => r,

@@ -14,7 +14,7 @@ use super::maps::{Centroid, adjoint_algebra, centroid, derivations, inner_deriva
 use super::radical::{Radical, radical};
 use crate::error::{Error, Result};
 use crate::laws::{self, Law};
-use crate::linalg::nullspace::{SolveParams, Space, human_bytes};
+use crate::linalg::nullspace::{SolveParams, Space};
 use crate::scalar::Q;
 use crate::tensor::{IntegralTensor, Kind, Tensor};
 use std::time::Instant;
@@ -212,94 +212,94 @@ pub fn compute_invariants(
     let es = |w: ElementSpace| element_space(&it, w, sp);
     for part in parts {
         let start = Instant::now();
-        let m = part.unknowns(t.dims());
-        let need = 4usize.saturating_mul(m).saturating_mul(m);
-        if need > sp.max_memory {
-            r.skipped.push((
-                part,
-                format!(
-                    "its linear system has {m} unknowns: eliminating it needs about {}, \
-                     above the limit of {} (--max-memory)",
-                    human_bytes(need),
-                    human_bytes(sp.max_memory)
-                ),
-            ));
-            continue;
-        }
         progress(&format!("invariants: {} (dim {n})", part.name()));
-        match part {
-            Part::Centre => {
-                r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
-                r.centre = Some(es(ElementSpace::Centre)?);
-            }
-            Part::Nuclei => {
-                r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
-                r.middle_nucleus = Some(es(ElementSpace::MiddleNucleus)?);
-                r.right_nucleus = Some(es(ElementSpace::RightNucleus)?);
-                r.nucleus = Some(es(ElementSpace::Nucleus)?);
-            }
-            Part::Annihilators => {
-                r.left_annihilator = Some(es(ElementSpace::LeftAnnihilator)?);
-                r.right_annihilator = Some(es(ElementSpace::RightAnnihilator)?);
-                r.annihilator = Some(es(ElementSpace::Annihilator)?);
-            }
-            Part::Unit => r.unit = Some(unit(&it, sp)?),
-            Part::Centroid => r.centroid = Some(centroid(t, &it, sp)?),
-            Part::Derivations => {
-                let space = derivations(&it, sp)?;
-                let inner_lie = if r.associative == Some(true) {
-                    Some(false)
-                } else if r.lie_algebra == Some(true) {
-                    Some(true)
-                } else {
-                    None
-                };
-                let inner = match inner_lie {
-                    Some(l) => Some(inner_derivations(&it, l, sp)?),
-                    None => None,
-                };
-                r.derivations = Some(Derivations {
-                    space,
-                    inner_lie,
-                    inner,
-                });
-            }
-            Part::Adjoint => r.adjoint = Some(adjoint_algebra(&it, sp)?),
-            Part::Radical => {
-                r.radical = Some(if r.associative != Some(true) {
-                    RadicalPart::NotAvailable(
-                        "not associative: the radical is computed for associative algebras".into(),
-                    )
-                } else {
-                    match radical(t, &it, sp)? {
-                        Some(rad) => RadicalPart::Computed(rad),
-                        None => RadicalPart::NotAvailable(
-                            "not available over GF(p): the trace-form criterion needs \
-                             characteristic 0"
+        // a part whose elimination would pass the memory limit is skipped, with the reason
+        let mut compute = || -> Result<()> {
+            match part {
+                Part::Centre => {
+                    r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
+                    r.centre = Some(es(ElementSpace::Centre)?);
+                }
+                Part::Nuclei => {
+                    r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
+                    r.middle_nucleus = Some(es(ElementSpace::MiddleNucleus)?);
+                    r.right_nucleus = Some(es(ElementSpace::RightNucleus)?);
+                    r.nucleus = Some(es(ElementSpace::Nucleus)?);
+                }
+                Part::Annihilators => {
+                    r.left_annihilator = Some(es(ElementSpace::LeftAnnihilator)?);
+                    r.right_annihilator = Some(es(ElementSpace::RightAnnihilator)?);
+                    r.annihilator = Some(es(ElementSpace::Annihilator)?);
+                }
+                Part::Unit => r.unit = Some(unit(&it, sp)?),
+                Part::Centroid => r.centroid = Some(centroid(t, &it, sp)?),
+                Part::Derivations => {
+                    let space = derivations(&it, sp)?;
+                    let inner_lie = if r.associative == Some(true) {
+                        Some(false)
+                    } else if r.lie_algebra == Some(true) {
+                        Some(true)
+                    } else {
+                        None
+                    };
+                    let inner = match inner_lie {
+                        Some(l) => Some(inner_derivations(&it, l, sp)?),
+                        None => None,
+                    };
+                    r.derivations = Some(Derivations {
+                        space,
+                        inner_lie,
+                        inner,
+                    });
+                }
+                Part::Adjoint => r.adjoint = Some(adjoint_algebra(&it, sp)?),
+                Part::Radical => {
+                    r.radical = Some(if r.associative != Some(true) {
+                        RadicalPart::NotAvailable(
+                            "not associative: the radical is computed for associative algebras"
                                 .into(),
-                        ),
+                        )
+                    } else {
+                        match radical(t, &it, sp)? {
+                            Some(rad) => RadicalPart::Computed(rad),
+                            None => RadicalPart::NotAvailable(
+                                "not available over GF(p): the trace-form criterion needs \
+                             characteristic 0"
+                                    .into(),
+                            ),
+                        }
+                    })
+                }
+                Part::Lie => {
+                    if r.lie_algebra == Some(true) {
+                        r.lie = Some(lie_invariants(&it, sp)?);
                     }
-                })
-            }
-            Part::Lie => {
-                if r.lie_algebra == Some(true) {
-                    r.lie = Some(lie_invariants(&it, sp)?);
+                }
+                Part::MapCentroid => {
+                    r.centroid_triples =
+                        Some(map_invariant(&it, MapInvariant::CentroidTriples, sp)?)
+                }
+                Part::MapDerivations => {
+                    r.derivation_triples =
+                        Some(map_invariant(&it, MapInvariant::DerivationTriples, sp)?)
+                }
+                Part::MapAdjoint => {
+                    r.adjoint_pairs = Some(map_invariant(&it, MapInvariant::AdjointPairs, sp)?)
+                }
+                Part::MapRadicals => {
+                    r.left_radical = Some(map_invariant(&it, MapInvariant::LeftRadical, sp)?);
+                    r.right_radical = Some(map_invariant(&it, MapInvariant::RightRadical, sp)?);
                 }
             }
-            Part::MapCentroid => {
-                r.centroid_triples = Some(map_invariant(&it, MapInvariant::CentroidTriples, sp)?)
+            Ok(())
+        };
+        match compute() {
+            Ok(()) => {}
+            Err(Error::TooLarge(reason)) => {
+                r.skipped.push((part, reason));
+                continue;
             }
-            Part::MapDerivations => {
-                r.derivation_triples =
-                    Some(map_invariant(&it, MapInvariant::DerivationTriples, sp)?)
-            }
-            Part::MapAdjoint => {
-                r.adjoint_pairs = Some(map_invariant(&it, MapInvariant::AdjointPairs, sp)?)
-            }
-            Part::MapRadicals => {
-                r.left_radical = Some(map_invariant(&it, MapInvariant::LeftRadical, sp)?);
-                r.right_radical = Some(map_invariant(&it, MapInvariant::RightRadical, sp)?);
-            }
+            Err(e) => return Err(e),
         }
         r.seconds
             .push((part.name().to_string(), start.elapsed().as_secs_f64()));

@@ -171,7 +171,8 @@ impl RowSource for System<'_> {
 
 /// Write block `b` of one family modulo p.
 fn write_block(k: &IntegralTensor, eq: Eq, b: usize, p: u64, out: &mut RowBuf) {
-    let t = k.residues(p);
+    let residues = k.residues(p);
+    let t = &*residues;
     let [a, bd, c] = k.dims;
     let n = a;
     match eq {

@@ -32,12 +32,11 @@ use crate::error::Result;
 use crate::linalg::dense_echelon::DenseEchelon;
 use crate::linalg::kernels::{LazyAcc, Modulus};
 use crate::linalg::modular::rref_mod;
-use crate::linalg::nullspace::{SolveParams, Space, SparseQ, cached_primes, check_solutions};
-use crate::scalar::{Q, Reconstructor};
+use crate::linalg::nullspace::{SolveParams, Space, SparseQ, check_solutions, primes_prefix};
+use crate::scalar::{Q, Reconstructor, crt_combine};
 use crate::tensor::{IntegralTensor, ModTable};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::{One, ToPrimitive, Zero};
+use num_traits::{One, Zero};
 use rand::seq::SliceRandom;
 use rand::{Rng, SeedableRng};
 
@@ -241,7 +240,8 @@ fn candidate_mod(
     order: &[(usize, usize)],
     pairs_fed: usize,
 ) -> Option<Candidate> {
-    let t = it.residues(p);
+    let residues = it.residues(p);
+    let t = &*residues;
     let n = it.dims[0];
     let s = words.gens.len();
     let m = s * n;
@@ -386,10 +386,11 @@ pub fn solve_by_generators(
     let primes: Vec<u64> = match it.modulus() {
         Some(q) if q < 1 << crate::linalg::kernels::KERNEL_PRIME_BITS => vec![q],
         Some(_) => return Ok(None),
-        None => cached_primes()[..params.max_primes.clamp(2, 128)].to_vec(),
+        // a shortcut: past this many primes the general solver takes over
+        None => primes_prefix(params.max_primes.clamp(2, 256)).to_vec(),
     };
     let max_gens = (n / 4).max(1);
-    let Some(words) = choose_words(it.residues(primes[0]), params.seed, max_gens) else {
+    let Some(words) = choose_words(&it.residues(primes[0]), params.seed, max_gens) else {
         return Ok(None);
     };
     let mut order: Vec<(usize, usize)> = (0..n)
@@ -457,18 +458,7 @@ fn lift(
             modulus = BigInt::from(p);
             previous_probe = None;
         } else if best.as_ref() == Some(&c.pivots) {
-            let m_mod_p = (&modulus % p).to_u64().expect("small");
-            let minv = BigInt::from(m_mod_p)
-                .extended_gcd(&BigInt::from(p))
-                .x
-                .mod_floor(&BigInt::from(p))
-                .to_u64()
-                .expect("small") as u128;
-            for (a, &b) in residues.iter_mut().zip(&c.rows) {
-                let am = (&*a % p).to_u64().expect("small");
-                let t = ((b as u64 + p - am) % p) as u128 * minv % p as u128;
-                *a += &modulus * BigInt::from(t as u64);
-            }
+            crt_combine(&mut residues, &modulus, &c.rows, p);
             modulus *= p;
         } else {
             continue;

@@ -29,6 +29,7 @@ pub mod spans;
 pub(crate) mod testing;
 
 pub use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
+pub use all::{Invariants, Params, Part, compute_invariants};
 pub use bilinear::{MapInvariant, map_invariant};
 pub use elements::{ElementSpace, element_space, unit};
 pub use maps::{Centroid, adjoint_algebra, centroid, derivations, inner_derivations};

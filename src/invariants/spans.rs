@@ -126,7 +126,8 @@ impl RowSource for Level<'_> {
         self.it.modulus()
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
-        let t = self.it.residues(p);
+        let residues = self.it.residues(p);
+        let t = &*residues;
         let prev = match self.prev {
             Some(basis) => eval_basis(t, basis),
             None => (0..t.dims[0]).map(|i| unit(t.dims[0], i)).collect(),
@@ -168,7 +169,8 @@ fn span(level: &Level, params: &SolveParams) -> Result<(usize, Vec<Gen>)> {
         None => crate::linalg::nullspace::cached_primes().to_vec(),
     };
     for &p in &primes {
-        let t = level.it.residues(p);
+        let residues = level.it.residues(p);
+        let t = &*residues;
         let prev = match level.prev {
             Some(b) => eval_basis(t, b),
             None => (0..n).map(|i| unit(n, i)).collect(),

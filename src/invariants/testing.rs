@@ -156,15 +156,5 @@ pub fn heisenberg3() -> Tensor {
 
 /// A dense random algebra of dimension n, constants in -2..=2, seeded.
 pub fn random_algebra(n: usize, seed: u64) -> Tensor {
-    use rand::{Rng, SeedableRng};
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
-    let mut t = Tensor::algebra(FieldSpec::Rational, names("e", n));
-    for i in 0..n {
-        for j in 0..n {
-            for k in 0..n {
-                t.set(i, j, k, qi(rng.gen_range(-2..=2)));
-            }
-        }
-    }
-    t
+    crate::tensor::random_algebra(n, 2, seed)
 }

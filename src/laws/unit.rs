@@ -34,7 +34,8 @@ impl RowSource for UnitEquations<'_> {
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
         let n = self.0.dims[0];
-        let t = self.0.residues(p);
+        let residues = self.0.residues(p);
+        let t = &*residues;
         let (left, j) = (b < n, b % n);
         for x in 0..n {
             let (ks, vs) = if left { t.row(x, j) } else { t.row(j, x) };

@@ -10,7 +10,7 @@
 //!   nullspace of dimension c - r proves the rank is at most r.
 
 use super::{Matrix, echelon};
-use crate::scalar::{Q, Rationals};
+use crate::scalar::{Q, Rationals, crt_combine};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, ToPrimitive, Zero};
@@ -151,10 +151,14 @@ pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
                 .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()))
         })
         .collect();
-    let primes = super::nullspace::cached_primes();
+    // enough primes for the Hadamard bound of the adjugate (Cramer's rule)
+    let bits = ints.iter().flatten().map(|x| x.bits()).max().unwrap_or(1);
+    let count = (super::nullspace::hadamard_bits(n, bits, n) as f64 / 27.0).ceil() as usize + 4;
+    let primes = super::nullspace::primes_prefix(count);
     let mut residues: Vec<BigInt> = Vec::new();
     let mut modulus = BigInt::one();
     let mut previous: Option<Vec<Q>> = None;
+    let mut combined = 0usize;
     for (k, &p) in primes.iter().enumerate() {
         let pb = BigInt::from(p);
         let mut aug = vec![0u64; n * 2 * n];
@@ -185,6 +189,11 @@ pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
         } else {
             crt_combine(&mut residues, &modulus, &img, p);
             modulus *= p;
+        }
+        combined += 1;
+        // reconstruct at 1, 2, 4, 8, ... primes and at the last one
+        if !combined.is_power_of_two() && k + 1 < primes.len() {
+            continue;
         }
         let rec = crate::scalar::Reconstructor::new(&modulus);
         let Some(x) = rec.reconstruct_many(&residues) else {
@@ -273,17 +282,6 @@ pub fn nullspace_q(m: &Matrix<Q>) -> Vec<Vec<Q>> {
         return Vec::new();
     }
     nullspace_ints(m.cols, integer_rows(m))
-}
-
-/// x = a (mod m) and x = b (mod p) -> x mod (m p), entry by entry.
-fn crt_combine(res: &mut [BigInt], m: &BigInt, img: &[u64], p: u64) {
-    let m_mod_p = (m % p).to_u64().unwrap_or(0);
-    let minv = inv_mod(m_mod_p, p);
-    for (a, &b) in res.iter_mut().zip(img) {
-        let a_mod_p = (&*a % p).to_u64().unwrap_or(0);
-        let t = ((b + p - a_mod_p) % p) * minv % p;
-        *a += m * t;
-    }
 }
 
 fn nullspace_ints(cols: usize, rows: Vec<Vec<BigInt>>) -> Vec<Vec<Q>> {

@@ -33,6 +33,7 @@ use super::modular::kernel_primes;
 use super::sparse_echelon::SparseEchelon;
 use super::system::{RowBuf, RowSource, materialize};
 use crate::error::{Error, Result};
+use crate::scalar::crt_combine;
 use crate::scalar::{Q, Reconstructor};
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -46,7 +47,8 @@ use rayon::prelude::*;
 pub struct SolveParams {
     /// Seed of the equation order.
     pub seed: u64,
-    /// Most primes used for lifting.
+    /// Most primes used for lifting (at most [`MAX_KERNEL_PRIMES`]); a component also stops
+    /// once the product of its primes exceeds the Hadamard bound of its solutions.
     pub max_primes: usize,
     /// Bytes the elimination of one component may use.
     pub max_memory: usize,
@@ -56,7 +58,7 @@ impl Default for SolveParams {
     fn default() -> Self {
         SolveParams {
             seed: 0x5eed,
-            max_primes: 64,
+            max_primes: MAX_KERNEL_PRIMES,
             max_memory: default_memory_limit(),
         }
     }
@@ -129,7 +131,7 @@ pub fn solve_nullspace(src: &dyn RowSource, params: &SolveParams) -> Result<Spac
                 "linear systems over GF({q}) need a prime below 2^28"
             )));
         }
-        None => cached_primes()[..params.max_primes.clamp(2, 128)].to_vec(),
+        None => primes_prefix(params.max_primes.max(2)).to_vec(),
     };
     let mut basis = Vec::new();
     if !src.prefers_streaming() && src.estimated_terms() <= MATERIALIZE_TERMS {
@@ -254,6 +256,32 @@ pub fn cached_primes() -> &'static [u64] {
     PRIMES.get_or_init(|| kernel_primes(192))
 }
 
+/// Most kernel primes the engine uses: their product has about 229,000 bits, enough for
+/// the solutions of any system it can eliminate in memory.
+pub const MAX_KERNEL_PRIMES: usize = 8192;
+
+/// The first `count` kernel primes (at most [`MAX_KERNEL_PRIMES`]), the same sequence as
+/// [`cached_primes`]; the longer list is computed once, only when asked for.
+pub fn primes_prefix(count: usize) -> &'static [u64] {
+    let first = cached_primes();
+    if count <= first.len() {
+        return &first[..count];
+    }
+    static MANY: std::sync::OnceLock<Vec<u64>> = std::sync::OnceLock::new();
+    let many = MANY.get_or_init(|| kernel_primes(MAX_KERNEL_PRIMES));
+    &many[..count.min(many.len())]
+}
+
+/// Bits a modulus needs so that rational reconstruction recovers every reduced solution
+/// vector of a system of rank at most `rank`, with integer coefficients of at most
+/// `term_bits` bits and at most `terms` terms per equation: by Cramer's rule each entry is
+/// a ratio of two minors of size at most `rank`, each below `(sqrt(terms) 2^term_bits)^rank`
+/// (Hadamard's inequality), and reconstruction needs a modulus above `2 N D`.
+pub fn hadamard_bits(rank: usize, term_bits: u64, terms: usize) -> u64 {
+    let row = term_bits as f64 + (terms.max(1) as f64).log2() / 2.0;
+    (2.0 * rank as f64 * row).ceil() as u64 + 2
+}
+
 /// A connected component: its unknowns (global ids, ascending) and its rows (ids in the
 /// written-out system), or the whole system produced block by block.
 struct Component {
@@ -318,16 +346,34 @@ struct Solver<'a> {
 }
 
 impl Solver<'_> {
-    /// The written-out system modulo p (the first prime, or a cached further one).
-    fn rows_mod(&self, p: u64) -> &RowBuf {
+    /// The written-out system modulo p: the first prime, a cached further one, or (past
+    /// the cached primes) written out for this call only.
+    fn rows_mod(&self, p: u64) -> Rows<'_> {
         if p == self.first.p {
-            return self.first;
+            return Rows::Shared(self.first);
         }
-        let i = cached_primes()
-            .iter()
-            .position(|&q| q == p)
-            .expect("a kernel prime");
-        self.others[i].get_or_init(|| materialize(self.src, p))
+        match cached_primes().iter().position(|&q| q == p) {
+            Some(i) if i < self.others.len() => {
+                Rows::Shared(self.others[i].get_or_init(|| materialize(self.src, p)))
+            }
+            _ => Rows::Own(materialize(self.src, p)),
+        }
+    }
+}
+
+/// A written-out system, shared from the cache or owned by the caller.
+enum Rows<'a> {
+    Shared(&'a RowBuf),
+    Own(RowBuf),
+}
+
+impl std::ops::Deref for Rows<'_> {
+    type Target = RowBuf;
+    fn deref(&self) -> &RowBuf {
+        match self {
+            Rows::Shared(r) => r,
+            Rows::Own(r) => r,
+        }
     }
 }
 
@@ -423,7 +469,7 @@ impl Solver<'_> {
         }
         let dense_bytes = 4 * m * m;
         if dense_bytes > self.params.max_memory {
-            return Err(Error::Invalid(format!(
+            return Err(Error::TooLarge(format!(
                 "a linear system with {m} connected unknowns needs about {} of memory for \
                  its elimination, above the limit of {} (raise it with --max-memory)",
                 human_bytes(dense_bytes),
@@ -603,7 +649,7 @@ impl Ctx<'_, '_> {
         for &p in &primes[1..] {
             let rows_p = (!self.c.streamed).then(|| self.s.rows_mod(p));
             let mut e = Elim::new(p, m, short);
-            self.feed(p, rows_p, &order, |group| {
+            self.feed(p, rows_p.as_deref(), &order, |group| {
                 e.add(group);
                 e.rank() < m
             });
@@ -627,12 +673,18 @@ impl Ctx<'_, '_> {
             } else {
                 continue;
             }
-            if combined >= next_try || combined == 1 {
+            // past this size of modulus the right pivots would have reconstructed
+            let cap = hadamard_bits(best_rank, self.s.src.term_bits(), m) + 64;
+            let past_cap = modulus.bits() > cap;
+            if combined >= next_try || combined == 1 || past_cap {
                 next_try = combined * 2;
                 if let Some(b) = reconstruct(&residues, &modulus, &best_pivots, &free)
                     && self.check(&b)?
                 {
                     return Ok(b);
+                }
+                if past_cap {
+                    break;
                 }
             }
         }
@@ -721,17 +773,19 @@ fn exact_check(
         .map(|(_, x)| x.bits())
         .max()
         .unwrap_or(0);
-    let (check_primes, exact_field) = match modulus {
-        Some(q) => (vec![q], true),
-        None => (cached_primes().to_vec(), false),
-    };
+    let exact_field = modulus.is_some();
     let mut needed = 1usize;
     let mut k = 0;
     while k < needed {
-        let p = check_primes
-            .get(k)
-            .copied()
-            .ok_or_else(|| Error::Invalid("the exact check needs too many primes".into()))?;
+        let p = match modulus {
+            Some(q) => q,
+            None => primes_prefix(k + 1).get(k).copied().ok_or_else(|| {
+                Error::Invalid(format!(
+                    "the exact check of a solution with {xbits}-bit entries needs more than \
+                     {MAX_KERNEL_PRIMES} primes"
+                ))
+            })?,
+        };
         let pb = BigInt::from(p);
         let xs: Vec<Vec<u64>> = ints
             .iter()
@@ -797,27 +851,12 @@ pub fn check_solutions(src: &dyn RowSource, basis: &[SparseQ]) -> Result<bool> {
 
 /// A byte count for messages (`1.5 GiB`, `300 MiB`).
 pub fn human_bytes(b: usize) -> String {
-    let gib = b as f64 / (1u64 << 30) as f64;
-    if gib >= 1.0 {
-        format!("{gib:.1} GiB")
-    } else {
-        format!("{:.0} MiB", b as f64 / (1u64 << 20) as f64)
-    }
-}
-
-/// x = a (mod m), x = b (mod p) -> x mod m p, entrywise.
-fn crt_combine(res: &mut [BigInt], m: &BigInt, img: &[u64], p: u64) {
-    let m_mod_p = (m % p).to_u64().expect("small");
-    let minv = BigInt::from(m_mod_p)
-        .extended_gcd(&BigInt::from(p))
-        .x
-        .mod_floor(&BigInt::from(p))
-        .to_u64()
-        .expect("small") as u128;
-    for (a, &b) in res.iter_mut().zip(img) {
-        let a_mod_p = (&*a % p).to_u64().expect("small");
-        let t = ((b + p - a_mod_p) % p) as u128 * minv % p as u128;
-        *a += m * BigInt::from(t as u64);
+    let x = b as f64;
+    match b {
+        0..1024 => format!("{b} bytes"),
+        1024..1_048_576 => format!("{:.0} KiB", x / 1024.0),
+        1_048_576..1_073_741_824 => format!("{:.0} MiB", x / 1_048_576.0),
+        _ => format!("{:.1} GiB", x / 1_073_741_824.0),
     }
 }
 

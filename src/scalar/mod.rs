@@ -15,7 +15,8 @@ mod rational;
 pub use prime::PrimeField;
 pub use primes::{is_prime, word_primes};
 pub use rational::{
-    Q, Rationals, Reconstructor, parse_rational, q, q_to_f64, q_to_string, rational_reconstruct,
+    Q, Rationals, Reconstructor, crt_combine, parse_rational, q, q_to_f64, q_to_string,
+    rational_reconstruct,
 };
 
 use std::fmt::Debug;

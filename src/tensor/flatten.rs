@@ -119,7 +119,8 @@ impl RowSource for Unfolding<'_> {
         self.it.modulus()
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
-        let t = self.it.residues(p);
+        let residues = self.it.residues(p);
+        let t = &*residues;
         let d = self.it.dims;
         let (o1, o2) = others(self.axis);
         // the coefficient at index triple idx, accumulated

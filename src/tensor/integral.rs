@@ -50,6 +50,22 @@ pub struct IntegralTensor {
     by_right: Vec<Vec<(u32, u32, u32)>>,
 }
 
+/// A residue table of an [`IntegralTensor`]: kept in the tensor, or built for one use.
+pub enum Residues<'a> {
+    Kept(&'a ModTable),
+    Built(Box<ModTable>),
+}
+
+impl std::ops::Deref for Residues<'_> {
+    type Target = ModTable;
+    fn deref(&self) -> &ModTable {
+        match self {
+            Residues::Kept(t) => t,
+            Residues::Built(t) => t,
+        }
+    }
+}
+
 impl IntegralTensor {
     /// Scale a tensor's constants to integers. Cost: O(nnz) big-integer operations.
     pub fn from_tensor(t: &Tensor) -> Self {
@@ -121,15 +137,16 @@ impl IntegralTensor {
         }
     }
 
-    /// The residue table modulo p (a kernel prime, or the field's prime below 2^28), with
-    /// dense layouts when the table is dense; built once and kept.
-    pub fn residues(&self, p: u64) -> &ModTable {
+    /// The residue table modulo p (a prime below 2^28), with dense layouts when the table is
+    /// dense. Tables for the first kernel primes and for the field's prime are built once
+    /// and kept; for any other prime the table is built for the caller alone.
+    pub fn residues(&self, p: u64) -> Residues<'_> {
         if self.modulus() == Some(p) {
-            return self.field_image.get_or_init(|| self.image(p, self.dense));
+            return Residues::Kept(self.field_image.get_or_init(|| self.image(p, self.dense)));
         }
         match cached_primes().iter().position(|&q| q == p) {
-            Some(i) => self.images[i].get_or_init(|| self.image(p, self.dense)),
-            None => panic!("residue tables are kept for kernel primes and the field's prime"),
+            Some(i) => Residues::Kept(self.images[i].get_or_init(|| self.image(p, self.dense))),
+            None => Residues::Built(Box::new(self.image(p, self.dense))),
         }
     }
 

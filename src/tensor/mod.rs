@@ -12,11 +12,13 @@ mod basis;
 pub mod flatten;
 pub mod integral;
 pub mod products;
+mod random;
 mod table;
 
 pub use basis::{change_basis, change_basis_algebra, random_invertible};
 pub use flatten::{flattening, flattening_ranks, others, rank_over, slice, slices};
 pub use integral::{IntegralTensor, ModTable, prefers_dense};
+pub use random::random_algebra;
 pub use table::Table;
 
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
