@@ -102,7 +102,13 @@ fn large_inputs_finish_or_name_the_memory_limit() {
     assert_eq!(j["centre"]["dim"], 64);
 
     // <64,64,1> (a 4096 x 64 x 64 map): its radicals finish.
-    let o = bilin(&["invariants", "matmul:64,64,1", "--json", "--only", "radicals"]);
+    let o = bilin(&[
+        "invariants",
+        "matmul:64,64,1",
+        "--json",
+        "--only",
+        "radicals",
+    ]);
     assert_eq!(o.status.code(), Some(0), "{}", common::stderr(&o));
     let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     assert_eq!(j["left_radical"]["dim"], 0);
@@ -116,13 +122,24 @@ fn large_inputs_finish_or_name_the_memory_limit() {
     std::fs::write(&path, &table.stdout).unwrap();
     let p = path.to_str().unwrap();
     let only = "centroid,derivations,centre";
-    let o = bilin(&["invariants", p, "--json", "--max-memory", "10K", "--only", only]);
+    let o = bilin(&[
+        "invariants",
+        p,
+        "--json",
+        "--max-memory",
+        "10K",
+        "--only",
+        only,
+    ]);
     assert_eq!(o.status.code(), Some(0), "{}", common::stderr(&o));
     let j: serde_json::Value = serde_json::from_slice(&o.stdout).unwrap();
     let skipped = j["skipped"].as_array().expect("skipped parts");
     assert!(skipped.iter().any(|s| s["part"] == "centroid"));
     let reason = skipped[0]["reason"].as_str().unwrap();
-    assert!(reason.contains("--max-memory") && reason.contains("16 KiB"), "{reason}");
+    assert!(
+        reason.contains("--max-memory") && reason.contains("16 KiB"),
+        "{reason}"
+    );
     assert_eq!(j["centre"]["dim"], 1);
 
     // a bad size is a usage error

@@ -24,8 +24,10 @@ use super::slices::reduce;
 use crate::linalg::Matrix;
 use crate::linalg::modular::inverse_q;
 use crate::scalar::{FieldSpec, Q, Rationals};
-use crate::scheme::{Scheme, terms::rescale, verify};
+use crate::scheme::{Scheme, verify};
 use crate::tensor::{Tensor, flattening, flattening_ranks, slice};
+use num_bigint::BigInt;
+use num_integer::Integer;
 use num_traits::Zero;
 use rand::{Rng, SeedableRng};
 
@@ -175,6 +177,26 @@ fn oriented(t: &Tensor, axis: usize, i: usize, in_order: bool) -> Matrix<Q> {
     if in_order { s } else { s.transpose() }
 }
 
+/// `v = s * w` with w a primitive integer vector (coprime entries, first nonzero one
+/// positive) and s rational; the zero vector gives (v, 1).
+fn primitive(v: &[Q]) -> (Vec<Q>, Q) {
+    let lcm = v.iter().fold(BigInt::from(1), |l, x| l.lcm(x.denom()));
+    let ints: Vec<BigInt> = v.iter().map(|x| (x * &lcm).to_integer()).collect();
+    let mut g = ints.iter().fold(BigInt::from(0), |g, x| g.gcd(x));
+    if g == BigInt::from(0) {
+        return (v.to_vec(), Q::from_integer(1.into()));
+    }
+    if ints
+        .iter()
+        .find(|x| **x != BigInt::from(0))
+        .is_some_and(|x| *x < BigInt::from(0))
+    {
+        g = -g;
+    }
+    let w = ints.iter().map(|x| Q::from_integer(x / &g)).collect();
+    (w, Q::new(g, lcm))
+}
+
 /// `sum_k x_k S_k`.
 fn combine(core: &[Matrix<Q>], x: &[i64], r: usize) -> Matrix<Q> {
     let mut m = Matrix::filled(r, r, Q::zero());
@@ -275,14 +297,17 @@ fn read_factors(
     }
     let mut scheme = Scheme::empty(FieldSpec::Rational, d);
     for l in 0..r {
+        // primitive integer factors on axes a and b, the scale on axis c
+        let (pa_, sa_) = primitive(&fa[l]);
+        let (pb_, sb_) = primitive(&bs[l]);
+        let scale = sa_ * sb_;
         let mut fs: [Vec<Q>; 3] = Default::default();
-        fs[a] = fa[l].clone();
-        fs[b] = bs[l].clone();
-        fs[c] = cs[l].clone();
+        fs[a] = pa_;
+        fs[b] = pb_;
+        fs[c] = cs[l].iter().map(|x| x * &scale).collect();
         let [u, v, w] = fs;
         scheme.push(u, v, w);
     }
-    let scheme = rescale(&scheme);
     verify(&scheme, t).ok()?;
     let uniqueness = kruskal_uniqueness([&scheme.u, &scheme.v, &scheme.w]);
     Some(Simultaneous {

@@ -142,8 +142,9 @@ pub fn choose_stages(t: &Tensor) -> Vec<Stage> {
 
 /// Run the stages of a plan in turn with [`search_scheme`], each from the best scheme so
 /// far: a stage gets its share of `params.time_limit` (the last one what is left), or 30 s
-/// without a limit (the last one: no limit). Stops when the target is reached or `stop` is
-/// set. `on_stage` is told of each stage before it runs.
+/// without a limit (the last one: no limit). Without a target the numerical route aims one
+/// below the best rank so far. Stops when the target is reached or `stop` is set.
+/// `on_stage` is told of each stage before it runs.
 pub fn run_stages(
     t: &Tensor,
     stages: &[Stage],
@@ -165,9 +166,15 @@ pub fn run_stages(
             None if last => None,
             None => Some(Duration::from_secs(30)),
         };
+        // the numerical route needs a rank: without a target, one below the best so far
+        let target_rank = match (params.target_rank, stage.method, &best) {
+            (None, Method::Als, Some(b)) => Some(b.rank().saturating_sub(1)),
+            (t, _, _) => t,
+        };
         let p = Params {
             method: stage.method,
             time_limit,
+            target_rank,
             ..params.clone()
         };
         let o = search_scheme(t, &p, stop, best.clone(), progress)?;
