@@ -57,7 +57,7 @@ fn random_algebra(n: usize, seed: u64) -> Tensor {
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
     let names = (0..n).map(|i| format!("e{i}")).collect();
     let mut t = Tensor::algebra(FieldSpec::Rational, names);
-    let density = if seed % 2 == 0 { 1.0 } else { 0.3 };
+    let density = if seed.is_multiple_of(2) { 1.0 } else { 0.3 };
     for i in 0..n {
         for j in 0..n {
             for k in 0..n {

@@ -114,7 +114,7 @@ pub fn parse_memory(text: &str) -> Result<usize, String> {
         .parse()
         .map_err(|_| format!("expected a size such as 512M, 2G or 1073741824, found `{t}`"))?;
     let bytes = value * (1u64 << shift) as f64;
-    if !(bytes >= 1.0 && bytes < 1e19) {
+    if !(1.0..1e19).contains(&bytes) {
         return Err(format!("memory size `{t}` is out of range"));
     }
     Ok(bytes as usize)

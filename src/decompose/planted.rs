@@ -32,23 +32,11 @@ pub fn planted(
     });
     let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, dims, None);
     let mut dense = vec![Q::zero(); dims[0] * dims[1] * dims[2]];
-    for r in 0..rank {
-        for (i, x) in factors[0][r]
-            .iter()
-            .enumerate()
-            .filter(|(_, x)| !x.is_zero())
-        {
-            for (j, y) in factors[1][r]
-                .iter()
-                .enumerate()
-                .filter(|(_, y)| !y.is_zero())
-            {
+    for ((fu, fv), fw) in factors[0].iter().zip(&factors[1]).zip(&factors[2]) {
+        for (i, x) in fu.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+            for (j, y) in fv.iter().enumerate().filter(|(_, y)| !y.is_zero()) {
                 let xy = x * y;
-                for (k, z) in factors[2][r]
-                    .iter()
-                    .enumerate()
-                    .filter(|(_, z)| !z.is_zero())
-                {
+                for (k, z) in fw.iter().enumerate().filter(|(_, z)| !z.is_zero()) {
                     dense[(i * dims[1] + j) * dims[2] + k] += &xy * z;
                 }
             }

@@ -291,8 +291,8 @@ fn read_factors(
             .collect();
         // A[i, :] = rhs * sub^-1
         let row = sub_inv.transpose().mul_vec(&f, &rhs);
-        for l in 0..r {
-            fa[l][i] = row[l].clone();
+        for (fl, x) in fa.iter_mut().zip(row) {
+            fl[i] = x;
         }
     }
     let mut scheme = Scheme::empty(FieldSpec::Rational, d);

@@ -231,6 +231,28 @@ pub fn q_to_f64(a: &Q) -> f64 {
     a.to_f64().unwrap_or(f64::NAN)
 }
 
+
+/// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
+/// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
+/// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
+/// size `log m` per entry.
+pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
+    let m_mod_p = (m % p).to_u64().expect("below p");
+    let minv = BigInt::from(m_mod_p)
+        .extended_gcd(&BigInt::from(p))
+        .x
+        .mod_floor(&BigInt::from(p))
+        .to_u64()
+        .expect("below p") as u128;
+    for (a, &b) in res.iter_mut().zip(img) {
+        let a_mod_p = (&*a % p).to_u64().expect("below p");
+        let t = ((b.into() % p + p - a_mod_p) % p) as u128 * minv % p as u128;
+        if t != 0 {
+            *a += m * BigInt::from(t as u64);
+        }
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -252,26 +274,5 @@ mod tests {
         let inv7 = BigInt::from(7).modpow(&(&m - 2), &m);
         let a = (BigInt::from(-22) * inv7).mod_floor(&m);
         assert_eq!(rational_reconstruct(&a, &m), Some(q(-22, 7)));
-    }
-}
-
-/// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
-/// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
-/// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
-/// size `log m` per entry.
-pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
-    let m_mod_p = (m % p).to_u64().expect("below p");
-    let minv = BigInt::from(m_mod_p)
-        .extended_gcd(&BigInt::from(p))
-        .x
-        .mod_floor(&BigInt::from(p))
-        .to_u64()
-        .expect("below p") as u128;
-    for (a, &b) in res.iter_mut().zip(img) {
-        let a_mod_p = (&*a % p).to_u64().expect("below p");
-        let t = ((b.into() % p + p - a_mod_p) % p) as u128 * minv % p as u128;
-        if t != 0 {
-            *a += m * BigInt::from(t as u64);
-        }
     }
 }
