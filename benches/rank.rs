@@ -10,13 +10,11 @@
 //! (60 s, 10 s, 30 s); `BILIN_BENCH_ONLY` keeps the inputs whose name contains it.
 
 use bilin::decompose::planted::planted;
-use bilin::interval::plan::{Plan, plan_search, run_stages};
-use bilin::interval::{RankInterval, UpperParams, rank_interval};
-use bilin::report::interval::best_lower;
+use bilin::interval::RankInterval;
+use bilin::interval::plan::{Plan, known_interval, plan_search};
 use bilin::scalar::{FieldSpec, Q};
-use bilin::scheme::bounds::{BoundsParams, lower_bounds};
 use bilin::scheme::verify;
-use bilin::search::{Method, Params};
+use bilin::search::{Method, Params, search_scheme};
 use bilin::tensor::{Kind, Tensor};
 use rand::{Rng, SeedableRng};
 use std::sync::Arc;
@@ -24,8 +22,7 @@ use std::sync::atomic::AtomicBool;
 use std::time::{Duration, Instant};
 
 fn interval(t: &Tensor) -> RankInterval {
-    let lower = best_lower(&lower_bounds(t, &BoundsParams::default()));
-    rank_interval(t, lower, &UpperParams::default(), &[])
+    known_interval(t, &[], 1)
 }
 
 fn counts(seed: u64) -> Tensor {
@@ -73,17 +70,19 @@ fn interval_run(t: &Tensor) -> Run {
 }
 
 /// Search below the interval's upper bound for `target` (None: improve) with `method`
-/// (None: chosen from the tensor) for at most `secs`.
-fn search_run(
-    t: &Tensor,
-    target: Option<usize>,
-    method: Option<Method>,
-    secs: f64,
-    seed: u64,
-) -> Run {
+/// for at most `secs`, planned by the library's one planner.
+fn search_run(t: &Tensor, target: Option<usize>, method: Method, secs: f64, seed: u64) -> Run {
     let t0 = Instant::now();
     let iv = interval(t);
-    let (stages, start) = match plan_search(t, target, &iv, method) {
+    let params = Params {
+        target_rank: target,
+        time_limit: Some(Duration::from_secs_f64(secs)),
+        seed,
+        threads: 2,
+        method,
+        ..Params::default()
+    };
+    let start = match plan_search(t, &params, &iv).expect("a plan") {
         Plan::Known { scheme, .. } | Plan::Refuse { known: scheme, .. } => {
             return Run {
                 secs: t0.elapsed().as_secs_f64(),
@@ -91,22 +90,10 @@ fn search_run(
                 found: format!("rank {} (known)", scheme.rank()),
             };
         }
-        Plan::Search { stages, start } => (stages, start),
-    };
-    let stages = if method.is_none() {
-        stages
-    } else {
-        stages.into_iter().take(1).collect()
-    };
-    let params = Params {
-        target_rank: target,
-        time_limit: Some(Duration::from_secs_f64(secs)),
-        seed,
-        threads: 2,
-        ..Params::default()
+        Plan::Search { start, .. } => start,
     };
     let stop = Arc::new(AtomicBool::new(false));
-    let o = run_stages(t, &stages, start, &params, &stop, &|_| {}, &mut |_| {}).expect("search");
+    let o = search_scheme(t, &params, &stop, Some(start), &|_| {}).expect("search");
     let best = o.best.expect("a start scheme");
     let secs_taken = t0.elapsed().as_secs_f64();
     Run {
@@ -161,7 +148,7 @@ fn main() {
             search_run(
                 &planted([10, 10, 10], 14, 100, seed).0,
                 Some(14),
-                None,
+                Method::Auto,
                 60.0 * scale,
                 seed,
             )
@@ -175,15 +162,15 @@ fn main() {
     cases.push((
         "10x12x7 random counts: search".into(),
         "upper < slice bound in 60 s".into(),
-        Box::new(move |seed| search_run(&counts(seed), None, None, 60.0 * scale, seed)),
+        Box::new(move |seed| search_run(&counts(seed), None, Method::Auto, 60.0 * scale, seed)),
     ));
     for (spec, r, limit, method) in [
-        ("matmul:2,2,3", 11, 10.0, Some(Method::Als)),
-        ("matmul:3,3,3", 23, 60.0, Some(Method::Als)),
-        ("poly:3,4", 6, 30.0, None),
-        ("poly:4,4", 7, 30.0, None),
+        ("matmul:2,2,3", 11, 10.0, Method::Lm),
+        ("matmul:3,3,3", 23, 60.0, Method::Lm),
+        ("poly:3,4", 6, 30.0, Method::Auto),
+        ("poly:4,4", 7, 30.0, Method::Auto),
     ] {
-        let label = if method.is_some() {
+        let label = if method == Method::Lm {
             "numerical route"
         } else {
             "auto"

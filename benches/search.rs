@@ -3,7 +3,14 @@
 //! too long for statistical repetition.
 //!
 //! Run: `cargo bench --bench search -- [CASE...]` with CASE among strassen, small, m333,
-//! als, gf4, throughput (default: all but m333). `SEEDS=n` sets the seeds per case.
+//! als, gf4, poly, throughput, records (default: all but m333 and records). `SEEDS=n` sets
+//! the seeds per case.
+//!
+//! `records` prints the record table of docs/benchmarks.md: per matrix format <n,m,p> with
+//! n <= m <= p <= 5, the best published ranks over Q and GF(2) (from the catalog, with
+//! sources), then a search over Q (walks over GF(2), lifted 2-adically, 2 threads) with a
+//! budget of `RECORD_SECS` seconds per format (default 20), stopping at the published rank
+//! over Q. `RECORD_OUT=dir` writes each best scheme there as `matmulNMP.txt`.
 
 use bilin::scalar::{FieldSpec, Q, q};
 use bilin::scheme::verify;
@@ -121,7 +128,7 @@ fn thread_cpu_seconds() -> Option<f64> {
 fn throughput() {
     let t = matmul(4, 4, 4);
     let s = BitScheme::standard(&t).expect("bits");
-    let mut w = Walker::new(&s, 1);
+    let mut w = Walker::<1>::new(&s, 1);
     let t0 = Instant::now();
     let c0 = thread_cpu_seconds();
     let mut moves = 0u64;
@@ -150,6 +157,94 @@ fn throughput() {
     );
 }
 
+/// The lowest `rank.upper` of a catalog entry over a domain, with its source.
+fn published(entry: &str, domain: &str) -> Option<(usize, String)> {
+    let e = bilin::catalog::find_entry(entry)?;
+    e.meta
+        .facts
+        .iter()
+        .filter(|f| f.key == "rank.upper" && f.domain.as_deref() == Some(domain))
+        .filter_map(|f| Some((f.value.parse::<usize>().ok()?, f.source.clone())))
+        .min_by_key(|x| x.0)
+}
+
+/// Short form of a source: its first words up to the year.
+fn short_source(s: &str) -> String {
+    let words: Vec<&str> = s.split_whitespace().collect();
+    let end = words
+        .iter()
+        .position(|w| {
+            w.trim_end_matches(',')
+                .parse::<u32>()
+                .is_ok_and(|y| y > 1900)
+        })
+        .map_or(words.len().min(4), |i| i + 1);
+    words[..end].join(" ").trim_end_matches(',').to_string()
+}
+
+fn records() {
+    let secs: f64 = std::env::var("RECORD_SECS")
+        .ok()
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(20.0);
+    let out = std::env::var("RECORD_OUT").ok();
+    println!(
+        "| format | published over Q/Z | published over GF(2) | bilin | ring | time (s) | seed |"
+    );
+    println!("|---|---|---|---|---|---|---|");
+    for n in 2..=5 {
+        for m in n..=5 {
+            for p in m..=5 {
+                let name = format!("matmul{n}{m}{p}");
+                let t = matmul(n, m, p);
+                let q = published(&name, "Q");
+                let g = published(&name, "GF(2)");
+                let show = |x: &Option<(usize, String)>| {
+                    x.as_ref().map_or("-".to_string(), |(r, s)| {
+                        format!("{r} ({})", short_source(s))
+                    })
+                };
+                let params = Params {
+                    target_rank: q.as_ref().map(|x| x.0),
+                    time_limit: Some(Duration::from_secs_f64(secs)),
+                    seed: 1,
+                    threads: 2,
+                    ..Params::default()
+                };
+                let stop = Arc::new(AtomicBool::new(false));
+                let o = search_scheme(&t, &params, &stop, None, &|_| {}).expect("search");
+                let (rank, ring) = match &o.best {
+                    Some(s) => {
+                        assert!(verify(s, &t).is_ok(), "verified");
+                        let ring = if bilin::search::hensel::is_integral(s) {
+                            "Z"
+                        } else {
+                            "Q"
+                        };
+                        (s.rank().to_string(), ring)
+                    }
+                    None => ("-".to_string(), "-"),
+                };
+                if let (Some(dir), Some(s)) = (&out, &o.best) {
+                    let path = format!("{dir}/{name}.txt");
+                    let title = format!(
+                        "found by bilin search matmul:{n},{m},{p} --rank {} --seed 1 --threads 2 --time {secs}",
+                        s.rank()
+                    );
+                    std::fs::write(&path, bilin::scheme::write_for_path(&path, s, &t, &title))
+                        .expect("write");
+                }
+                println!(
+                    "| <{n},{m},{p}> | {} | {} | {rank} | {ring} | {:.1} | 1 |",
+                    show(&q),
+                    show(&g),
+                    o.elapsed.as_secs_f64()
+                );
+            }
+        }
+    }
+}
+
 fn main() {
     let args: Vec<String> = std::env::args()
         .skip(1)
@@ -157,7 +252,7 @@ fn main() {
         .collect();
     let want = |c: &str| {
         if args.is_empty() {
-            c != "m333"
+            c != "m333" && c != "records"
         } else {
             args.iter().any(|a| a == c)
         }
@@ -217,7 +312,15 @@ fn main() {
     }
     if want("als") {
         case("complex ALS", &complex(), Method::Als, 3, seeds, 1, 10.0);
-        case("poly 3x3 ALS", &poly(3, 3), Method::Als, 5, seeds, 1, 30.0);
+        case(
+            "poly 3x3 Levenberg-Marquardt",
+            &poly(3, 3),
+            Method::Lm,
+            5,
+            seeds,
+            1,
+            30.0,
+        );
     }
     if want("gf4") {
         case(
@@ -240,6 +343,16 @@ fn main() {
             2,
             300.0,
         );
+    }
+    if want("poly") {
+        // Toom 1963; Cook 1966: rank m + n - 1 by evaluation and interpolation
+        for (m, n) in [(3, 4), (4, 4), (5, 5)] {
+            let name = format!("poly {m}x{n} Levenberg-Marquardt");
+            case(&name, &poly(m, n), Method::Lm, m + n - 1, seeds, 2, 60.0);
+        }
+    }
+    if want("records") {
+        records();
     }
     if want("throughput") {
         throughput();

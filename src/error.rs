@@ -24,6 +24,14 @@ pub enum Error {
     /// Input text that does not follow a documented format.
     #[error("{at}: {message}")]
     Parse { at: Position, message: String },
+    /// Binary input (an array file) that does not follow its format, located by a byte
+    /// offset or an array index (`byte 12`, `element [2, 0, 1]`).
+    #[error("{file}: {at}: {message}")]
+    Data {
+        file: String,
+        at: String,
+        message: String,
+    },
     /// A request that is well-formed but not meaningful (wrong shape, unknown name, ...).
     #[error("{0}")]
     Invalid(String),

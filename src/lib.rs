@@ -1,7 +1,8 @@
 //! bilin: exact analysis of bilinear products.
 //!
 //! Layers, each importing only from the ones before it:
-//! 1. [`scalar`]: the fields Q and GF(p);
+//! 1. [`scalar`]: the fields Q and GF(p); [`poly`]: polynomials over GF(p) and Z, and the
+//!    factorization of integer polynomials over Q;
 //! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
 //! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
 //! 4. [`scheme`]: bilinear algorithms and their exact verification;
@@ -24,6 +25,7 @@ pub mod laws;
 pub mod linalg;
 pub mod output;
 pub mod picture;
+pub mod poly;
 pub mod ranks;
 pub mod report;
 pub mod scalar;

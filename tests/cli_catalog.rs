@@ -57,3 +57,27 @@ fn identify_reports_matches_and_separating_invariants() {
     assert_eq!(code, 2);
     assert!(err.contains("no file, generator or catalog entry"), "{err}");
 }
+
+/// The schemes stored with the catalog: `catalog show` lists them (verified exactly), and
+/// `verify`, `scheme cost` and `emit` accept them by name. Strassen 1969: <2,2,2> in 7
+/// multiplications.
+#[test]
+fn stored_schemes_are_shown_and_accepted_by_name() {
+    let (code, out, _) = bilin(&["catalog", "show", "matmul222"]);
+    assert_eq!(code, 0);
+    assert!(
+        out.contains("matmul222.strassen: rank 7, over Q, verified exactly"),
+        "{out}"
+    );
+    let (code, out, _) = bilin(&["verify", "matmul:2,2,2", "matmul222.strassen"]);
+    assert_eq!(code, 0, "{out}");
+    let (code, out, _) = bilin(&["scheme", "cost", "matmul:2,2,2", "matmul222.strassen"]);
+    assert_eq!(code, 0);
+    assert!(out.contains('7'), "{out}");
+    let (code, _, _) = bilin(&["emit", "--lang", "c", "matmul:2,2,2", "matmul222.strassen"]);
+    assert_eq!(code, 0);
+    // a name that is neither a file nor a stored scheme is a clear error
+    let (code, _, err) = bilin(&["verify", "matmul:2,2,2", "matmul222.nothing"]);
+    assert_eq!(code, 2);
+    assert!(err.contains("matmul222.nothing"), "{err}");
+}

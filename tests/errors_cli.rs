@@ -108,7 +108,7 @@ fn scheme_files_get_located_errors() {
     );
     refused(
         "gfl.txt",
-        b"field gf(7)\n",
+        b"field QQ\n",
         VERIFY,
         "1:1:",
         "expected a field `Q` or `GF(p)`",

@@ -1,12 +1,14 @@
-//! A deterministic fuzz suite over every reader: the table format, the grid form, the
-//! coordinate JSON form, the scheme text form, the scheme JSON form, change-of-basis files
-//! and search checkpoints.
+//! A deterministic fuzz suite over every reader: the table format (with brackets,
+//! declared symmetries and slices), the grid form, the coordinate JSON form, the arrays
+//! (`.npy` bytes, CSV in both layouts, nested JSON lists), the scheme text form, the
+//! scheme JSON form, change-of-basis files and search checkpoints.
 //!
 //! Each case mutates a valid input (byte flips, inserted tokens, deleted ranges, repeated
 //! or swapped lines, truncation, splices, invalid UTF-8, random bytes) with a seeded
 //! generator and feeds it to the reader in-process. The oracle: no panic; every refusal is
 //! an `Error::Parse` at a line and column inside the input (line at most one past the last
-//! line); every accepted input reads back the same after writing it out. A second part
+//! line), or for a `.npy` file an `Error::Data` at a byte or an element; every accepted
+//! input reads back the same after writing it out. A second part
 //! runs the real binary on some of the cases and checks the exit code (0, 1 or 2, never a
 //! crash) and that a refusal is one `error: FILE:LINE:COL: message` line without a
 //! backtrace.
@@ -16,8 +18,8 @@
 
 use bilin::error::Error;
 use bilin::input::{
-    apply_basis_change, parse_basis_file, parse_json, parse_table, text_from_bytes, write_grid,
-    write_json, write_table,
+    ReadOptions, apply_basis_change, parse_basis_file, parse_csv, parse_json, parse_nested_list,
+    parse_npy, parse_table, text_from_bytes, write_grid, write_json, write_slices, write_table,
 };
 use bilin::scheme::Scheme;
 use bilin::search::json::{Checkpoint, checkpoint_to_json, parse_saved, scheme_to_json};
@@ -109,6 +111,22 @@ const TOKENS: &[&str] = &[
     "_",
     "4096",
     "2049",
+    "[a, b] = c",
+    "[e0, e1] =",
+    "commutative",
+    "anticommutative",
+    "slice result c0",
+    "slice left",
+    "i,j,k,value",
+    ",,",
+    "\"1/3\"",
+    "0.1",
+    "2.5e-1",
+    "1e400",
+    "'descr': '<f8'",
+    "'fortran_order': True",
+    "(2, 2, 2)",
+    "NUMPY",
 ];
 
 /// One mutation of `base` (bytes), drawing from `rng`; `other` is another seed to splice.
@@ -179,14 +197,53 @@ enum Verdict {
     Refused(Error),
 }
 
-/// A reader under test: a name, its valid seed inputs, and a function that reads a text
-/// (checking its own round trip when it accepts).
+/// A reader under test: a name, its valid seed inputs, and a function that reads the
+/// bytes of a file (checking its own round trip when it accepts).
 struct Reader {
     name: &'static str,
-    seeds: Vec<String>,
-    read: Box<dyn Fn(&str) -> Verdict>,
+    seeds: Vec<Vec<u8>>,
+    read: ReadFn,
     /// The command line that reads such a file (`{}` is the file), for the binary part.
     cli: &'static [&'static str],
+    /// The file name's ending in the binary part (`.csv` selects the CSV reader).
+    suffix: &'static str,
+}
+
+/// A reader of text: the bytes must be UTF-8 (located refusal otherwise).
+/// A reader of a file's bytes.
+type ReadFn = Box<dyn Fn(&[u8]) -> Verdict>;
+
+fn text(read: impl Fn(&str) -> Verdict + 'static) -> ReadFn {
+    Box::new(move |b: &[u8]| match text_from_bytes(b.to_vec(), "in") {
+        Err(e) => Verdict::Refused(e),
+        Ok(s) => read(&s),
+    })
+}
+
+fn bytes(v: Vec<String>) -> Vec<Vec<u8>> {
+    v.into_iter().map(String::into_bytes).collect()
+}
+
+/// A `.npy` file as numpy writes it (format 1.0), of little-endian 8-byte values.
+fn npy(descr: &str, fortran: bool, shape: [usize; 3], values: &[u64]) -> Vec<u8> {
+    let mut h = format!(
+        "{{'descr': '{descr}', 'fortran_order': {}, 'shape': ({}, {}, {}), }}",
+        if fortran { "True" } else { "False" },
+        shape[0],
+        shape[1],
+        shape[2]
+    );
+    while (10 + h.len() + 1) % 64 != 0 {
+        h.push(' ');
+    }
+    h.push('\n');
+    let mut out = b"\x93NUMPY\x01\x00".to_vec();
+    out.extend((h.len() as u16).to_le_bytes());
+    out.extend(h.as_bytes());
+    for v in values {
+        out.extend(v.to_le_bytes());
+    }
+    out
 }
 
 fn verdict<T>(r: Result<T, Error>, round_trip: impl FnOnce(&T)) -> Verdict {
@@ -224,6 +281,11 @@ fn readers() -> Vec<Reader> {
         .map(|s| bilin::scheme::parse_scheme(s, "seed", &m222).unwrap())
         .collect();
     let table_seeds = vec![
+        file("examples/inputs/sl2_brackets.bilin"),
+        file("examples/inputs/jordan_spin.bilin"),
+        file("examples/inputs/counts_slices.bilin"),
+        write_slices(&tensor("matmul:2,1,2"), 0),
+        "field GF(5)\nbasis h e f\nanticommutative\nh*e = 2e\nh*f = -2f\ne*f = h\n".to_string(),
         file("tests/data/quaternions.bilin"),
         file("tests/data/poly2x2.bilin"),
         file("tests/data/gf2_field4.bilin"),
@@ -237,6 +299,7 @@ fn readers() -> Vec<Reader> {
         write_grid(&tensor("cyclic:3")).unwrap(),
     ];
     let json_seeds = vec![
+        file("examples/inputs/heisenberg.json"),
         file("tests/data/complex.json"),
         write_json(&tensor("matmul:2,2,1")),
         write_json(&tensor("cd:2")),
@@ -277,59 +340,111 @@ fn readers() -> Vec<Reader> {
     ];
     let quaternions = parse_table(&file("tests/data/quaternions.bilin"), "q").unwrap();
     let t2 = m222.clone();
+    let csv_seeds = vec![
+        file("examples/inputs/counts_slices.csv"),
+        file("examples/inputs/counts_long.csv"),
+        "1,0.5,\"-3/4\"\n2,1e3,0\n\n0,0,1\n-2.5E-1,0,7\n".to_string(),
+        "i,j,k,value\n3,1,0,-1\n0,0,2,18446744073709551616\n".to_string(),
+    ];
+    let nested_seeds = vec![
+        file("examples/inputs/counts_nested.json"),
+        "[[[1, 0.5], [\"1/3\", -2]], [[0, 0], [1e2, 3]]]".to_string(),
+    ];
+    let counts = std::fs::read(format!(
+        "{}/examples/inputs/counts.npy",
+        env!("CARGO_MANIFEST_DIR")
+    ))
+    .unwrap();
+    let halves: Vec<u64> = (0..8)
+        .map(|x| (f64::from(x) / 2.0 - 1.0).to_bits())
+        .collect();
+    let npy_seeds = vec![
+        counts,
+        npy("<f8", true, [2, 2, 2], &halves),
+        npy("<i8", false, [1, 2, 3], &[0, 1, 2, u64::MAX, 4, 5]),
+    ];
+    let opts = ReadOptions::default();
+    let (o1, o2, o3) = (opts.clone(), opts.clone(), opts);
     vec![
         Reader {
             name: "table",
-            seeds: table_seeds,
-            read: Box::new(|s| verdict(parse_table(s, "in"), tensor_round_trip)),
+            seeds: bytes(table_seeds),
+            read: text(|s| verdict(parse_table(s, "in"), tensor_round_trip)),
             cli: &["convert", "{}"],
+            suffix: "",
         },
         Reader {
             name: "grid",
-            seeds: grid_seeds,
-            read: Box::new(|s| verdict(parse_table(s, "in"), tensor_round_trip)),
+            seeds: bytes(grid_seeds),
+            read: text(|s| verdict(parse_table(s, "in"), tensor_round_trip)),
             cli: &["convert", "{}"],
+            suffix: "",
         },
         Reader {
             name: "json",
-            seeds: json_seeds,
-            read: Box::new(|s| verdict(parse_json(s, "in"), tensor_round_trip)),
+            seeds: bytes(json_seeds),
+            read: text(|s| verdict(parse_json(s, "in"), tensor_round_trip)),
             cli: &["convert", "{}", "--to", "json"],
+            suffix: "",
+        },
+        Reader {
+            name: "csv",
+            seeds: bytes(csv_seeds),
+            read: text(move |s| verdict(parse_csv(s, "in", &o1), tensor_round_trip)),
+            cli: &["convert", "{}", "--to", "grid"],
+            suffix: ".csv",
+        },
+        Reader {
+            name: "nested-json",
+            seeds: bytes(nested_seeds),
+            read: text(move |s| verdict(parse_nested_list(s, "in", &o2), tensor_round_trip)),
+            cli: &["analyze", "{}", "--no-invariants", "--no-bounds"],
+            suffix: "",
+        },
+        Reader {
+            name: "npy",
+            seeds: npy_seeds,
+            read: Box::new(move |b| verdict(parse_npy(b, "in", &o3), tensor_round_trip)),
+            cli: &["convert", "{}", "--to", "json"],
+            suffix: "",
         },
         Reader {
             name: "scheme-text",
-            seeds: schemes,
-            read: Box::new(move |s| {
+            seeds: bytes(schemes),
+            read: text(move |s| {
                 verdict(
                     bilin::scheme::parse_scheme(s, "in", &m222),
                     scheme_round_trip,
                 )
             }),
             cli: &["verify", "matmul:2,2,2", "{}"],
+            suffix: "",
         },
         Reader {
             name: "scheme-json",
-            seeds: scheme_json_seeds,
-            read: Box::new(move |s| {
+            seeds: bytes(scheme_json_seeds),
+            read: text(move |s| {
                 verdict(bilin::scheme::parse_scheme(s, "in", &t2), scheme_round_trip)
             }),
             cli: &["verify", "matmul:2,2,2", "{}"],
+            suffix: "",
         },
         Reader {
             name: "basis",
-            seeds: basis_seeds,
-            read: Box::new(move |s| {
+            seeds: bytes(basis_seeds),
+            read: text(move |s| {
                 // the file is checked against an input as `bilin transform` does
                 let r = parse_basis_file(s, "in")
                     .and_then(|b| apply_basis_change(&quaternions, &b).map(|_| ()));
                 verdict(r, |_| {})
             }),
             cli: &["transform", "quaternions", "--basis", "{}"],
+            suffix: "",
         },
         Reader {
             name: "checkpoint",
-            seeds: checkpoint_seeds,
-            read: Box::new(|s| {
+            seeds: bytes(checkpoint_seeds),
+            read: text(|s| {
                 verdict(parse_saved(s, "in"), |saved| {
                     let again = match saved {
                         bilin::search::json::Saved::Checkpoint(c) => checkpoint_to_json(c),
@@ -339,6 +454,7 @@ fn readers() -> Vec<Reader> {
                 })
             }),
             cli: &["merge", "--tensor", "matmul:2,2,2", "{}"],
+            suffix: "",
         },
     ]
 }
@@ -353,6 +469,14 @@ fn check_located(e: &Error, text: &str, source: &str, input: &[u8]) {
                 at.line >= 1 && at.line <= lines + 1 && at.column >= 1,
                 "position {at} outside the input ({lines} lines): {message}\ninput: {:?}",
                 String::from_utf8_lossy(input)
+            );
+            assert!(!message.trim().is_empty());
+        }
+        Error::Data { file, at, message } => {
+            assert_eq!(file, source);
+            assert!(
+                at.starts_with("byte ") || at.starts_with("element ["),
+                "not located: {at}"
             );
             assert!(!message.trim().is_empty());
         }
@@ -373,9 +497,9 @@ struct Tally {
 
 #[test]
 fn every_reader_survives_mutated_inputs() {
-    let per_reader = env_u64("BILIN_FUZZ_CASES", 3500) / 7;
-    let seed = env_u64("BILIN_FUZZ_SEED", 20_240_611);
     let readers = readers();
+    let per_reader = env_u64("BILIN_FUZZ_CASES", 3500) / readers.len() as u64;
+    let seed = env_u64("BILIN_FUZZ_SEED", 20_240_611);
     let mut tallies: BTreeMap<&str, Tally> = BTreeMap::new();
     let mut failures = Vec::new();
     // silence the default panic message; panics are counted and reported below
@@ -385,23 +509,15 @@ fn every_reader_survives_mutated_inputs() {
         let mut rng = ChaCha8Rng::seed_from_u64(seed ^ (ri as u64).wrapping_mul(0x9E37_79B9));
         let tally = tallies.entry(r.name).or_default();
         for case in 0..per_reader {
-            let base = r.seeds[rng.gen_range(0..r.seeds.len())].as_bytes();
-            let other = r.seeds[rng.gen_range(0..r.seeds.len())].as_bytes();
+            let base = &r.seeds[rng.gen_range(0..r.seeds.len())];
+            let other = &r.seeds[rng.gen_range(0..r.seeds.len())];
             let input = mutate(base, other, &mut rng);
             tally.cases += 1;
-            let outcome = catch_unwind(AssertUnwindSafe(|| {
-                match text_from_bytes(input.clone(), "in") {
-                    Err(e) => {
-                        check_located(&e, &String::from_utf8_lossy(&input), "in", &input);
-                        false
-                    }
-                    Ok(text) => match (r.read)(&text) {
-                        Verdict::Accepted => true,
-                        Verdict::Refused(e) => {
-                            check_located(&e, &text, "in", &input);
-                            false
-                        }
-                    },
+            let outcome = catch_unwind(AssertUnwindSafe(|| match (r.read)(&input) {
+                Verdict::Accepted => true,
+                Verdict::Refused(e) => {
+                    check_located(&e, &String::from_utf8_lossy(&input), "in", &input);
+                    false
                 }
             }));
             match outcome {
@@ -452,19 +568,20 @@ fn every_reader_survives_mutated_inputs() {
 
 #[test]
 fn the_binary_exits_cleanly_on_mutated_files() {
-    let per_reader = env_u64("BILIN_FUZZ_CLI_CASES", 140) / 7;
+    let all = readers();
+    let per_reader = env_u64("BILIN_FUZZ_CLI_CASES", 140) / all.len() as u64;
     let seed = env_u64("BILIN_FUZZ_SEED", 20_240_611) ^ 0xC11;
     let dir = std::env::temp_dir().join(format!("bilin-fuzz-cli-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let mut exits: BTreeMap<i32, u64> = BTreeMap::new();
     let mut cases = 0;
-    for (ri, r) in readers().iter().enumerate() {
+    for (ri, r) in all.iter().enumerate() {
         let mut rng = ChaCha8Rng::seed_from_u64(seed ^ (ri as u64).wrapping_mul(0x9E37_79B9));
         for case in 0..per_reader {
-            let base = r.seeds[rng.gen_range(0..r.seeds.len())].as_bytes();
-            let other = r.seeds[rng.gen_range(0..r.seeds.len())].as_bytes();
+            let base = &r.seeds[rng.gen_range(0..r.seeds.len())];
+            let other = &r.seeds[rng.gen_range(0..r.seeds.len())];
             let input = mutate(base, other, &mut rng);
-            let path = dir.join(format!("{}-{case}", r.name));
+            let path = dir.join(format!("{}-{case}{}", r.name, r.suffix));
             std::fs::write(&path, &input).unwrap();
             let p = path.to_str().unwrap();
             let args: Vec<&str> = r

@@ -102,9 +102,13 @@ fn usage_errors() {
     let o = bilin(&["convert", "no-such-input"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("no file, generator or catalog entry named `no-such-input`"));
+    // a map in the grid form is one matrix per slice; an unknown axis is a usage error
     let o = bilin(&["convert", "matmul:2,2,2", "--to", "grid"]);
+    assert_eq!(o.status.code(), Some(0));
+    assert!(String::from_utf8_lossy(&o.stdout).contains("slice result c11"));
+    let o = bilin(&["convert", "matmul:2,2,2", "--to", "grid", "--axis", "up"]);
     assert_eq!(o.status.code(), Some(2));
-    assert!(stderr(&o).contains("only for algebras"));
+    assert!(stderr(&o).contains("--axis"));
     let o = bilin(&["convert", "quaternions", "--field", "GF(4)"]);
     assert_eq!(o.status.code(), Some(2));
     assert!(stderr(&o).contains("--field"));

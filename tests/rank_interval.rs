@@ -7,19 +7,27 @@ mod common;
 
 use bilin::catalog::store::all_entries;
 use bilin::decompose::planted::planted;
-use bilin::interval::plan::{Plan, plan_search};
+use bilin::interval::plan::{Plan, known_interval, plan_search};
 use bilin::interval::{Lower, UpperParams, rank_interval};
-use bilin::report::interval::best_lower;
 use bilin::scalar::{FieldSpec, Q};
-use bilin::scheme::bounds::{BoundsParams, lower_bounds};
 use bilin::scheme::verify;
+use bilin::search::{Method, Params};
 use bilin::tensor::{Kind, Tensor, change_basis, random_invertible};
 use common::run as bilin;
 use proptest::prelude::*;
 
 fn interval(t: &Tensor) -> bilin::interval::RankInterval {
-    let lower = best_lower(&lower_bounds(t, &BoundsParams::default()));
-    rank_interval(t, lower, &UpperParams::default(), &[])
+    known_interval(t, &[], 1)
+}
+
+/// The plan of an automatic search for a scheme of rank at most `r`.
+fn plan_at(t: &Tensor, r: usize, iv: &bilin::interval::RankInterval) -> Plan {
+    let params = Params {
+        target_rank: Some(r),
+        method: Method::Auto,
+        ..Params::default()
+    };
+    plan_search(t, &params, iv).expect("a plan")
 }
 
 fn tensor(dims: [usize; 3], vals: &[i64]) -> Tensor {
@@ -57,13 +65,13 @@ proptest! {
         prop_assert!(iv.lower.value <= iv.upper.value);
         prop_assert!(verify(iv.scheme(), &t).is_ok());
         let slice_bound = iv.uppers.iter().map(|u| u.value).max().unwrap();
-        match plan_search(&t, Some(slice_bound + extra), &iv, None) {
+        match plan_at(&t, slice_bound + extra, &iv) {
             Plan::Known { scheme, .. } => prop_assert!(verify(&scheme, &t).is_ok()),
             other => prop_assert!(false, "not answered at once: {:?}", other),
         }
         if iv.lower.value > 0 {
             let refused = matches!(
-                plan_search(&t, Some(iv.lower.value - 1), &iv, None),
+                plan_at(&t, iv.lower.value - 1, &iv),
                 Plan::Refuse { .. }
             );
             prop_assert!(refused);
@@ -166,7 +174,8 @@ fn command_line_interval_and_plan() {
         "1",
     ]);
     assert_eq!(code, 0, "{err}");
-    assert!(err.contains("method als: numerical route"), "{err}");
+    // mod 2 every entry is 1 (flattening ranks drop to 1); mod 3 they are kept
+    assert!(err.contains("method auto: reduced mod 3"), "{err}");
     let (code, out, _) = bilin(&["analyze", "matmul:2,2,2", "--no-invariants"]);
     assert_eq!(code, 0);
     assert!(out.contains("4 <= R <= 7 over Q"), "{out}");

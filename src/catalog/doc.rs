@@ -21,6 +21,8 @@ const FAMILIES: &[(&str, &str)] = &[
     ("clifford", "Clifford algebras"),
     ("exterior", "Exterior algebras"),
     ("lie", "Lie algebras"),
+    ("nilpotent-lie", "Nilpotent Lie algebras (de Graaf's list)"),
+    ("solvable-lie", "Solvable Lie algebras (de Graaf's list)"),
     ("jordan", "Jordan algebras"),
     ("polynomial-multiplication", "Polynomial multiplication"),
     ("matmul", "Matrix multiplication formats"),
@@ -37,6 +39,7 @@ comment lines starting with `#:` (the table parser ignores them):\n\n\
 | `about` | what the product is |\n\
 | `source` | a published source for the definition |\n\
 | `generate` | a generator spec that builds the tensor instead of a listed table |\n\
+| `class` | `RANGE LABEL`: the entry belongs to a classified range under the paper's label |\n\
 | `fact` | `key = value ; [domain FIELD ;] source TEXT`: a stored fact and where it comes from |\n\n\
 A source marked `(from memory)` was recalled, not looked up; `common practice` marks a fact \
 of the trade without a single source. `bilin catalog check` recomputes every fact bilin can \
@@ -57,7 +60,9 @@ Fact keys: `dimension`, `dims` (left, right, result), `flattening` (flattening r
 `commutative`, `anticommutative`, `associative`, `alternative`, `flexible`, `lie`, `jordan`, \
 `unital`, `annihilator`, `commutant`, `nucleus`, `centre` (commutant and nucleus), \
 `derivations`, `centroid`, `derived` (dim A^2), `radical`, `semisimple`, `nilpotent`, `solvable`, \
-`killing.rank`, `division`, `rank.upper`, `rank.lower` (tensor rank over the given domain).\n";
+`killing.rank`, `division`, `rank.upper`, `rank.lower` (tensor rank over the given domain), \
+`lower.central`, `derived.series`, `upper.central` (dimensions of the series), `nilpotency.class`, \
+`centre.fields` (degrees of the component fields of a semisimple centre).\n";
 
 fn entry_section(out: &mut String, e: &Entry) {
     let m = &e.meta;
@@ -103,11 +108,73 @@ fn entry_section(out: &mut String, e: &Entry) {
     }
 }
 
+/// The classified ranges: source, published counts, how the catalog covers them, and the
+/// entries by dimension with their labels.
+fn ranges_section(out: &mut String) -> Result<(), Error> {
+    use super::classes::{Counted, RANGES, members};
+    let _ = writeln!(
+        out,
+        "## Classified ranges\n\n\
+         Published lists that are complete up to isomorphism in a range of dimensions. Each \
+         entry of a range carries a `#: class` line with the paper's label (also an alias). \
+         `bilin catalog ranges` prints the counts below, `bilin catalog pairs` shows how every \
+         pair of entries of one range and dimension is told apart, and `bilin identify` names \
+         the entry an input is isomorphic to.\n\n\
+         For a nilpotent Lie algebra over Q, `bilin identify` also proves the match: it solves \
+         for an isomorphism adapted to the lower central series (the images of the entry's \
+         generators: their leading parts from the relations modulo the third term, which are \
+         linear, the deeper parts layer by layer from linear systems, the scale of each \
+         generator a rational root of what those systems leave over) and verifies it exactly. \
+         In a random basis with coefficients up to 10^6 (seed 7) it proves 32 of the 54 \
+         entries: every entry of dimension at most 5 except L_{{5,8}}; in dimension 6 the \
+         labels without a parameter except L_{{6,8}}, L_{{6,13}} to L_{{6,16}} and L_{{6,20}}, \
+         and L_{{6,21}}(0). For the others (among them every member of L_{{6,19}}, L_{{6,22}} \
+         and L_{{6,24}}) the report says that no isomorphism was found, which is not a proof \
+         either way; the invariants still name the entry.\n\n\
+         Unital associative algebras of dimension at most 3 over Q are not a classified range \
+         here: over Q they include every quadratic and cubic number field, so no finite list \
+         exists, and we know of no published list over Q to cite.\n"
+    );
+    for r in RANGES {
+        let _ = writeln!(
+            out,
+            "### {}\n\n{}\n\n- Source: {}",
+            r.title, r.note, r.source
+        );
+        let mems = members(r.id)?;
+        for (d, count, what, source) in r.published {
+            let what = match what {
+                Counted::Classes if *count == 1 => "isomorphism class",
+                Counted::Classes => "isomorphism classes",
+                Counted::Labels => "labels",
+            };
+            let list: Vec<String> = mems
+                .iter()
+                .filter(|(e, _)| e.tensor().is_ok_and(|t| t.dims()[0] == *d))
+                .map(|(e, l)| format!("{l} `{}`", e.meta.name))
+                .collect();
+            let origin = match source.strip_prefix(r.source).map(str::trim) {
+                Some("") => String::new(),
+                Some(rest) => format!(" {rest}"),
+                None => format!(" ({source})"),
+            };
+            let _ = writeln!(
+                out,
+                "- Dimension {d}: {count} {what}{origin}: {}.",
+                list.join(", ")
+            );
+        }
+        let _ = writeln!(out);
+    }
+    Ok(())
+}
+
 /// The whole page. Cost: linear in the catalog's size.
 pub fn render_markdown() -> Result<String, Error> {
     let all = all_entries()?;
     let mut out = String::from(INTRO);
     let _ = writeln!(out, "\n{} entries.\n", all.len());
+    ranges_section(&mut out)?;
     for (fam, heading) in FAMILIES {
         let members: Vec<&Entry> = all.iter().filter(|e| e.meta.family == *fam).collect();
         if members.is_empty() {

@@ -42,7 +42,9 @@ pub fn computed_value(key: &str, fp: &Fingerprint, t: &Tensor) -> Result<String,
         "dimension" => Ok(n.to_string()),
         "dims" | "flattening" | "commutative" | "anticommutative" | "associative"
         | "alternative" | "flexible" | "lie" | "jordan" | "unital" | "annihilator"
-        | "commutant" | "nucleus" | "centre" | "derivations" | "centroid" | "squares" => get(key),
+        | "commutant" | "nucleus" | "centre" | "derivations" | "centroid" | "squares"
+        | "lower.central" | "derived.series" | "upper.central" | "nilpotency.class"
+        | "centre.fields" => get(key),
         "derived" => match fp.get("derived.series") {
             Some(Value::Ints(v)) => Ok(v.get(1).copied().unwrap_or(v[0]).to_string()),
             _ => Err("the derived series is computed for algebras only".into()),

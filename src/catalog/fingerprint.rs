@@ -10,6 +10,24 @@
 //! `flexible`, `lie`, `jordan` (characteristic 0 or > 3), `unital`, `annihilator`,
 //! `commutant`, `nucleus`, `centre`, `derivations`, `centroid`, `squares`, `derived.series`,
 //! `lower.central`, `trace.rank`, `trace.signature`, `trace.discriminant`, `rtrace.rank`.
+//! Then the keys that separate the classified ranges of the catalog (nilpotent and solvable
+//! Lie algebras, group algebras), up to `max_dim_series`:
+//! - `nilpotency.class` (when the lower central series reaches 0: its length);
+//! - `upper.central`: dims of `Z_1 ⊂ Z_2 ⊂ ...` ([`crate::invariants::central`]);
+//! - `lower.central.annihilators`, `lower.central.centres`: for each term `A^k`, k >= 2, of
+//!   the lower central series, the dimension of its annihilator in A (for a Lie algebra its
+//!   centraliser) and of its own centre; `derived.annihilators`, `derived.centres` the same
+//!   for the terms of the derived series;
+//! - `lower.central.products`: `dim (A^i A^j + A^j A^i)` for `2 <= i <= j` (for a Lie
+//!   algebra the brackets of the terms, `[L^i, L^j]`);
+//! - `derivations.form.rank`, `derivations.form.signature`, `derivations.form.discriminant`:
+//!   the trace form `tr(D D')` on the derivation algebra; `centroid.form.*` the same on the
+//!   centroid (for `L_{6,22}(e)`, whose centroid holds the field `Q[t]/(t^2 - e)`, its
+//!   discriminant is the class of e);
+//! - `centre.fields`, `centre.trace.signature`, `centre.trace.discriminant`: for a unital
+//!   algebra over Q with a semisimple centre, the degrees of the centre's component fields
+//!   and the trace form of the centre ([`crate::invariants::components`]).
+//!
 //! More keys can be appended without changing the comparison rules.
 //!
 //! Every value comes from the shared engines: the laws from [`crate::laws`] (stopping at
@@ -18,8 +36,16 @@
 //! [`crate::invariants::forms`]; all of them exact. A value that cannot be computed within
 //! the engines' limits is left out (comparisons use the keys present on both sides).
 
-use crate::invariants::forms::{form_invariants, same_square_class, square_class_text, trace_form};
-use crate::invariants::spans::{derived_series, lower_central_series, squares_dim};
+use crate::invariants::central::upper_central_dims;
+use crate::invariants::components::{ComponentParams, centre_components};
+use crate::invariants::forms::{
+    FormInvariants, form_invariants, map_trace_form, same_square_class, square_class_text,
+    trace_form,
+};
+use crate::invariants::spans::{
+    Term, annihilator_of_term, derived_terms, lower_central_terms, products_dim, squares_dim,
+    term_centre_dim,
+};
 use crate::invariants::{ElementSpace, SolveParams, centroid, derivations, element_space};
 use crate::laws::{self, Law};
 use crate::scalar::{FieldSpec, Q};
@@ -103,6 +129,9 @@ pub struct FingerprintParams {
     /// Skip the derivation and centroid algebras above this dimension (their systems have
     /// n^3 and 2 n^3 rows, n^2 columns).
     pub max_dim_derivations: usize,
+    /// Skip the keys of the series terms, the upper central series and the centre's
+    /// components above this dimension.
+    pub max_dim_series: usize,
     /// Parameters of the linear-system engine.
     pub solve: SolveParams,
 }
@@ -113,6 +142,7 @@ impl Default for FingerprintParams {
             seed: 1,
             slice_trials: 3,
             max_dim_derivations: 64,
+            max_dim_series: 32,
             solve: SolveParams::default(),
         }
     }
@@ -199,9 +229,12 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
             }
         }
     }
+    let mut unital = false;
     if let Ok(u) = laws::find_unit(&it, sp) {
-        fp.push("unital", Value::Bool(u.is_some()));
+        unital = u.is_some();
+        fp.push("unital", Value::Bool(unital));
     }
+    let mut centre_space = None;
     for (key, which) in [
         ("annihilator", ElementSpace::Annihilator),
         ("commutant", ElementSpace::CommutativeCentre),
@@ -210,24 +243,45 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
     ] {
         if let Ok(s) = element_space(&it, which, sp) {
             fp.push(key, Value::Int(s.dim()));
+            if which == ElementSpace::Centre {
+                centre_space = Some(s);
+            }
         }
     }
+    // The centroid form: tr(X Y) on the centroid. In a unital algebra every centroid map is
+    // multiplication by a central element c = X(1) and conversely (X(a) = X(1 a) = c a =
+    // a c, and X(ab) = c(ab) = (ca)b = a(cb) puts c in the nucleus), so the centroid is the
+    // centre, its form the trace form tr(L_z L_w) restricted to the centre, and the large
+    // centroid system is not needed.
+    let mut centroid_form = None;
     if t.dim() <= params.max_dim_derivations {
         if let Ok(s) = derivations(&it, sp) {
             fp.push("derivations", Value::Int(s.dim()));
         }
-        if let Ok(c) = centroid(t, &it, sp) {
-            fp.push("centroid", Value::Int(c.space.dim()));
+        match (&centre_space, unital) {
+            (Some(z), true) => {
+                fp.push("centroid", Value::Int(z.dim()));
+                centroid_form = Some(restricted_form(&trace_form(&it, true), z, it.modulus()));
+            }
+            _ => {
+                if let Ok(c) = centroid(t, &it, sp) {
+                    fp.push("centroid", Value::Int(c.space.dim()));
+                    centroid_form = Some(map_trace_form(&c.space, t.dim(), it.modulus()));
+                }
+            }
         }
     }
     if let Ok(d) = squares_dim(&it, sp) {
         fp.push("squares", Value::Int(d));
     }
-    if let Ok(v) = derived_series(&it, sp) {
-        fp.push("derived.series", Value::Ints(v));
+    let derived = derived_terms(&it, sp).ok();
+    let lower = lower_central_terms(&it, sp).ok();
+    let dims = |v: &[Term]| Value::Ints(v.iter().map(|x| x.dim).collect());
+    if let Some(v) = &derived {
+        fp.push("derived.series", dims(v));
     }
-    if let Ok(v) = lower_central_series(&it, sp) {
-        fp.push("lower.central", Value::Ints(v));
+    if let Some(v) = &lower {
+        fp.push("lower.central", dims(v));
     }
     let tl = form_invariants(t.field(), &trace_form(&it, true));
     fp.push("trace.rank", Value::Int(tl.rank));
@@ -239,6 +293,130 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
     }
     let tr = form_invariants(t.field(), &trace_form(&it, false));
     fp.push("rtrace.rank", Value::Int(tr.rank));
+    if t.dim() <= params.max_dim_series {
+        series_keys(&it, lower.as_deref(), derived.as_deref(), params, fp);
+        if t.dim() <= params.max_dim_derivations
+            && let Ok(s) = derivations(&it, sp)
+        {
+            let f = form_invariants(t.field(), &map_trace_form(&s, t.dim(), it.modulus()));
+            form_keys(fp, "derivations.form", &f);
+        }
+        if let Some(g) = &centroid_form {
+            form_keys(fp, "centroid.form", &form_invariants(t.field(), g));
+        }
+        let cp = ComponentParams {
+            seed: params.seed,
+            solve: sp.clone(),
+            ..Default::default()
+        };
+        if let Ok(Some(c)) = centre_components(t, &it, &cp) {
+            fp.push("centre.fields", Value::Ints(c.degrees));
+            if let Some((p, m)) = c.trace.signature {
+                fp.push("centre.trace.signature", Value::Ints(vec![p, m]));
+            }
+            if let Some(d) = c.trace.discriminant {
+                fp.push("centre.trace.discriminant", Value::SquareClass(d));
+            }
+        }
+    }
+}
+
+/// The Gram matrix `B^T G B` of a form restricted to a subspace (B: the subspace's basis
+/// scaled to integers, a congruence).
+fn restricted_form(
+    g: &[Vec<num_bigint::BigInt>],
+    space: &crate::invariants::Space,
+    modulus: Option<u64>,
+) -> Vec<Vec<num_bigint::BigInt>> {
+    use crate::invariants::central::integer_vector;
+    use num_integer::Integer;
+    let b: Vec<Vec<num_bigint::BigInt>> = space
+        .dense_basis()
+        .iter()
+        .map(|v| integer_vector(v))
+        .collect();
+    let gb: Vec<Vec<num_bigint::BigInt>> = b
+        .iter()
+        .map(|v| {
+            (0..g.len())
+                .map(|i| g[i].iter().zip(v).map(|(x, y)| x * y).sum())
+                .collect()
+        })
+        .collect();
+    b.iter()
+        .map(|u| {
+            gb.iter()
+                .map(|w| {
+                    let s: num_bigint::BigInt = u.iter().zip(w).map(|(x, y)| x * y).sum();
+                    match modulus {
+                        Some(q) => s.mod_floor(&num_bigint::BigInt::from(q)),
+                        None => s,
+                    }
+                })
+                .collect()
+        })
+        .collect()
+}
+
+/// `KEY.rank`, `KEY.signature`, `KEY.discriminant` of a form.
+fn form_keys(fp: &mut Fingerprint, key: &str, f: &FormInvariants) {
+    fp.push(&format!("{key}.rank"), Value::Int(f.rank));
+    if let Some((p, m)) = f.signature {
+        fp.push(&format!("{key}.signature"), Value::Ints(vec![p, m]));
+    }
+    if let Some(d) = &f.discriminant {
+        fp.push(
+            &format!("{key}.discriminant"),
+            Value::SquareClass(d.clone()),
+        );
+    }
+}
+
+/// The keys of the series terms and the upper central series (module documentation).
+fn series_keys(
+    it: &IntegralTensor,
+    lower: Option<&[Term]>,
+    derived: Option<&[Term]>,
+    params: &FingerprintParams,
+    fp: &mut Fingerprint,
+) {
+    let sp = &params.solve;
+    if let Some(l) = lower
+        && l.last().is_some_and(|x| x.dim == 0)
+    {
+        fp.push("nilpotency.class", Value::Int(l.len() - 1));
+    }
+    if let Ok(v) = upper_central_dims(it, sp) {
+        fp.push("upper.central", Value::Ints(v));
+    }
+    for (name, terms) in [("lower.central", lower), ("derived", derived)] {
+        let Some(terms) = terms else { continue };
+        let inner: Vec<&Term> = terms.iter().skip(1).filter(|x| x.dim > 0).collect();
+        let ann: Option<Vec<usize>> = inner
+            .iter()
+            .map(|x| annihilator_of_term(it, x, sp).ok().map(|s| s.dim()))
+            .collect();
+        let cen: Option<Vec<usize>> = inner
+            .iter()
+            .map(|x| term_centre_dim(it, x, sp).ok())
+            .collect();
+        if let (Some(a), Some(c)) = (ann, cen) {
+            fp.push(&format!("{name}.annihilators"), Value::Ints(a));
+            fp.push(&format!("{name}.centres"), Value::Ints(c));
+        }
+        if name == "lower.central" {
+            let mut prods = Vec::new();
+            for (i, s) in inner.iter().enumerate() {
+                for u in &inner[i..] {
+                    match products_dim(it, s, u, sp) {
+                        Ok(d) => prods.push(d),
+                        Err(_) => return,
+                    }
+                }
+            }
+            fp.push("lower.central.products", Value::Ints(prods));
+        }
+    }
 }
 
 #[cfg(test)]

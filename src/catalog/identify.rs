@@ -7,6 +7,7 @@
 
 use super::fingerprint::{Fingerprint, FingerprintParams, compute_fingerprint};
 use super::iso::{IsoParams, find_isomorphism};
+use super::lie_iso::{LieIsoParams, find_nilpotent_isomorphism};
 use super::store::{Entry, all_entries};
 use crate::error::Error;
 use crate::linalg::Matrix;
@@ -20,6 +21,8 @@ use std::sync::{Mutex, OnceLock};
 pub struct IdentifyParams {
     pub fingerprint: FingerprintParams,
     pub iso: IsoParams,
+    /// The isomorphism solver for nilpotent Lie algebras.
+    pub lie: LieIsoParams,
     /// Look for explicit isomorphisms with the matching entries.
     pub search_isomorphism: bool,
     /// A near match differs in at most this many fingerprint keys.
@@ -31,6 +34,7 @@ impl Default for IdentifyParams {
         IdentifyParams {
             fingerprint: FingerprintParams::default(),
             iso: IsoParams::default(),
+            lie: LieIsoParams::default(),
             search_isomorphism: true,
             max_near_differences: 3,
         }
@@ -93,6 +97,46 @@ fn same_shape(t: &Tensor, u: &Tensor) -> bool {
     t.kind() == u.kind() && t.field() == u.field() && t.dims() == u.dims()
 }
 
+/// Look for an explicit isomorphism from `t` to the entry `et` (whose fingerprint is
+/// `efp`): nilpotent Lie algebras over Q by [`find_nilpotent_isomorphism`] (solved along
+/// the lower central series, any coefficients), other algebras by the bounded search of
+/// [`find_isomorphism`]. Every isomorphism found has been verified exactly.
+pub fn search_isomorphism(
+    t: &Tensor,
+    et: &Tensor,
+    efp: &Fingerprint,
+    params: &IdentifyParams,
+) -> IsoOutcome {
+    let nilpotent_lie = efp.get("lie").is_some_and(|v| v.to_string() == "yes")
+        && efp.get("nilpotency.class").is_some()
+        && t.field() == crate::scalar::FieldSpec::Rational;
+    let limit = if nilpotent_lie {
+        params.lie.max_dim
+    } else {
+        params.iso.max_dim
+    };
+    if !params.search_isomorphism {
+        IsoOutcome::NotAttempted("the search was switched off".into())
+    } else if t.kind() != crate::tensor::Kind::Algebra {
+        IsoOutcome::NotAttempted("the search handles algebras only".into())
+    } else if t.dim() > limit {
+        IsoOutcome::NotAttempted(format!(
+            "dimension {} is above the search limit {limit}",
+            t.dim()
+        ))
+    } else {
+        let found = if nilpotent_lie {
+            find_nilpotent_isomorphism(t, et, &params.lie)
+        } else {
+            find_isomorphism(t, et, &params.iso)
+        };
+        match found {
+            Some(m) => IsoOutcome::Found(m),
+            None => IsoOutcome::NotFound,
+        }
+    }
+}
+
 /// Identify a tensor against the catalog. Only entries with the same kind, field and
 /// dimensions are compared (their fingerprints are computed on demand). Cost: one
 /// fingerprint per such entry plus, per match, one bounded isomorphism search.
@@ -108,22 +152,7 @@ pub fn identify(t: &Tensor, params: &IdentifyParams) -> Result<Identification, E
         let efp = entry_fingerprint(e, &params.fingerprint)?;
         let diff = fp.differences(&efp);
         if diff.is_empty() {
-            let iso = if !params.search_isomorphism {
-                IsoOutcome::NotAttempted("the search was switched off".into())
-            } else if t.kind() != crate::tensor::Kind::Algebra {
-                IsoOutcome::NotAttempted("the search handles algebras only".into())
-            } else if t.dim() > params.iso.max_dim {
-                IsoOutcome::NotAttempted(format!(
-                    "dimension {} is above the search limit {}",
-                    t.dim(),
-                    params.iso.max_dim
-                ))
-            } else {
-                match find_isomorphism(t, &et, &params.iso) {
-                    Some(m) => IsoOutcome::Found(m),
-                    None => IsoOutcome::NotFound,
-                }
-            };
+            let iso = search_isomorphism(t, &et, &efp, params);
             matches.push(Match {
                 name: e.meta.name.clone(),
                 iso,

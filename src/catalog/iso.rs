@@ -89,7 +89,7 @@ impl Default for IsoParams {
 }
 
 /// Coefficients of `v` in the span of `cols`, if it lies there.
-fn express(field: crate::scalar::FieldSpec, cols: &[Vec<Q>], v: &[Q]) -> Option<Vec<Q>> {
+pub(super) fn express(field: crate::scalar::FieldSpec, cols: &[Vec<Q>], v: &[Q]) -> Option<Vec<Q>> {
     let n = v.len();
     if cols.is_empty() {
         return if v.iter().all(|x| x.is_zero()) {
@@ -300,11 +300,14 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
             .collect::<Vec<_>>(),
     };
     let y = change_basis_algebra(e, &mat)?;
-    let agree = y
-        .entries()
+    same_constants(&y, x).then_some(mat)
+}
+
+/// Whether two tensors have the same structure constants, coefficient by coefficient.
+pub(super) fn same_constants(a: &Tensor, b: &Tensor) -> bool {
+    a.entries()
         .map(|(i, j, k, v)| (i, j, k, v.clone()))
-        .eq(x.entries().map(|(i, j, k, v)| (i, j, k, v.clone())));
-    agree.then_some(mat)
+        .eq(b.entries().map(|(i, j, k, v)| (i, j, k, v.clone())))
 }
 
 fn backtrack(

@@ -12,6 +12,7 @@
 //! | `about` | one sentence saying what the product is (required) |
 //! | `source` | a published source for the definition (at least one; may repeat) |
 //! | `generate` | a generator spec that builds the tensor instead of the table body |
+//! | `class` | `RANGE LABEL`: the entry belongs to a classified range (see [`super::classes`]) under the published label (may repeat) |
 //! | `fact` | `key = value ; [domain FIELD ;] source TEXT`: a stored fact and its source |
 //!
 //! Invariant of a parsed [`Meta`]: name, family and about are nonempty, there is at least
@@ -42,6 +43,8 @@ pub struct Meta {
     pub sources: Vec<String>,
     /// A generator spec (`matmul:3,3,3`) replacing the table body, if any.
     pub generate: Option<String>,
+    /// The classified ranges the entry belongs to: (range id, the published label).
+    pub classes: Vec<(String, String)>,
     pub facts: Vec<Fact>,
 }
 
@@ -55,6 +58,14 @@ impl Meta {
     /// The stored facts with a given key.
     pub fn facts_with_key<'a>(&'a self, key: &'a str) -> impl Iterator<Item = &'a Fact> + 'a {
         self.facts.iter().filter(move |f| f.key == key)
+    }
+
+    /// The published label of the entry in a classified range, if it belongs to it.
+    pub fn label_in(&self, range: &str) -> Option<&str> {
+        self.classes
+            .iter()
+            .find(|(r, _)| r == range)
+            .map(|(_, l)| l.as_str())
     }
 
     /// The first stored fact with a given key.
@@ -72,6 +83,7 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
     let mut about = None;
     let mut sources = Vec::new();
     let mut generate = None;
+    let mut classes = Vec::new();
     let mut facts = Vec::new();
     for (ln, line) in text.lines().enumerate() {
         let Some(rest) = line.trim_start().strip_prefix("#:") else {
@@ -104,10 +116,22 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
             "about" => about = Some(value.to_string()),
             "source" => sources.push(value.to_string()),
             "generate" => generate = Some(value.to_string()),
+            "class" => {
+                let (range, label) = value
+                    .split_once(char::is_whitespace)
+                    .map(|(r, l)| (r.trim(), l.trim()))
+                    .filter(|(_, l)| !l.is_empty())
+                    .ok_or_else(|| {
+                        at(format!(
+                            "a class line is `#: class RANGE LABEL`, found `{value}`"
+                        ))
+                    })?;
+                classes.push((range.to_string(), label.to_string()));
+            }
             "fact" => facts.push(parse_fact(value).map_err(at)?),
             _ => {
                 return Err(at(format!(
-                    "unknown metadata key `{key}` (expected name, aliases, family, about, source, generate or fact)"
+                    "unknown metadata key `{key}` (expected name, aliases, family, about, source, generate, class or fact)"
                 )));
             }
         }
@@ -121,6 +145,7 @@ pub fn parse_meta(text: &str, source: &str) -> Result<Meta, Error> {
         about: about.ok_or_else(|| missing("about"))?,
         sources,
         generate,
+        classes,
         facts,
     };
     if meta.sources.is_empty() {
@@ -169,10 +194,12 @@ mod tests {
     #[test]
     fn parses_metadata_and_rejects_missing_sources() {
         let text = "#: name x\n#: aliases a, b, m:2,2\n#: family f\n#: about y\n#: source S 1999\n\
-                    #: fact rank.upper = 8 ; domain Q ; source T 2000; p. 3\nfield Q\n";
+                    #: class r L_{2,1}\n#: fact rank.upper = 8 ; domain Q ; source T 2000; p. 3\nfield Q\n";
         let m = parse_meta(text, "x").unwrap();
         assert_eq!(m.aliases, vec!["a", "b", "m:2,2"]);
         assert_eq!(m.facts[0].domain.as_deref(), Some("Q"));
+        assert_eq!(m.label_in("r"), Some("L_{2,1}"));
+        assert!(parse_meta("#: name x\n#: class r\n", "x").is_err());
         assert_eq!(m.facts[0].source, "T 2000; p. 3");
         assert!(m.is_named("B"));
         assert!(parse_meta("#: name x\n#: family f\n#: about y\n", "x").is_err());

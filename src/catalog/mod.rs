@@ -3,6 +3,8 @@
 //! identification of an input against the catalog.
 //!
 //! - [`meta`]: the `#:` metadata lines of an entry (name, aliases, family, sources, facts);
+//! - [`classes`]: the classified ranges (published complete lists) and the separation of
+//!   their entries;
 //! - [`store`]: the embedded entries, lookup by name, each entry's tensor;
 //! - [`fingerprint`]: invariant (key, value) lists, computed exactly;
 //! - [`facts`]: recomputing the stored facts;
@@ -10,12 +12,14 @@
 //! - [`schemes`]: known schemes stored with the entries, verified exactly;
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
+pub mod classes;
 pub mod doc;
 mod entries;
 pub mod facts;
 pub mod fingerprint;
 pub mod identify;
 pub mod iso;
+pub mod lie_iso;
 pub mod meta;
 pub mod rank_facts;
 pub mod schemes;
@@ -25,8 +29,9 @@ pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
 pub use iso::{IsoParams, find_isomorphism};
+pub use lie_iso::{LieIsoParams, find_nilpotent_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
-pub use schemes::{STORED_SCHEMES, StoredScheme, stored_schemes};
+pub use schemes::{STORED_SCHEMES, StoredScheme, find_stored, stored_schemes};
 pub use store::{
     Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
 };

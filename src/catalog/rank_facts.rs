@@ -1,8 +1,8 @@
 //! Re-deriving stored bounds on the tensor rank of a catalog entry.
 //!
 //! - `rank.lower = r` agrees when bilin *proves* R >= r with its own lower bounds
-//!   (flattening, slice span, Alder-Strassen: `scheme::bounds`); a stored lower bound above
-//!   what bilin proves stays "not computable" (e.g. bounds from deeper theorems).
+//!   ([`crate::ranks::lower_bounds`], over GF(2) with an exhaustive proof up to r); a stored lower bound above what bilin proves stays
+//!   "not computable" (e.g. bounds from deeper theorems).
 //! - `rank.upper = r` agrees when a seeded search finds a scheme of rank at most r that
 //!   verifies exactly over the fact's field; it *disagrees* when r is below a lower bound
 //!   bilin proves (a contradiction); otherwise, when the search budget runs out, it stays
@@ -12,8 +12,9 @@
 //! `search_seconds`, so the check stays cheap.
 
 use super::facts::FactCheck;
+use crate::ranks::exhaustive::ExhaustiveParams;
+use crate::ranks::{BoundsParams, lower_bounds};
 use crate::scalar::FieldSpec;
-use crate::scheme::bounds::{BoundsParams, lower_bounds};
 use crate::search::{self, Method};
 use crate::tensor::Tensor;
 use std::sync::Arc;
@@ -67,14 +68,21 @@ pub fn check_rank_fact(
             Err(m) => return FactCheck::NotComputable(m),
         }
     };
-    let proven = lower_bounds(
+    // exhaustive proofs (over GF(2)) run for a stored lower bound, up to that bound only
+    let exhaustive = (key == "rank.lower").then(|| ExhaustiveParams {
+        goal: Some(r),
+        max_work: 200_000_000,
+        ..ExhaustiveParams::default()
+    });
+    let bounds = lower_bounds(
         &goal,
         &BoundsParams {
             seed: params.seed,
+            exhaustive,
             ..BoundsParams::default()
         },
-    )
-    .best();
+    );
+    let proven = bounds.best();
     match key {
         "rank.lower" if proven >= r => FactCheck::Agrees,
         "rank.lower" => FactCheck::NotComputable(format!(

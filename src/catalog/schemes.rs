@@ -1,6 +1,7 @@
 //! Schemes stored with the catalog: known bilinear algorithms for catalog entries, in the
 //! text form of docs/schemes.md, embedded from `catalog/schemes/<entry>.<label>.txt`.
-//! Each file's first comment line names its source.
+//! Each file's first comment line names its source: a publication, or for the label
+//! `found` the `bilin search` command and seed that produced it.
 //!
 //! Invariant (checked by the test suite): every stored scheme reads against its entry's
 //! tensor and verifies exactly; the list below matches the directory.
@@ -39,8 +40,20 @@ macro_rules! stored {
 pub const STORED_SCHEMES: &[StoredScheme] = &[
     stored!("complex", "gauss"),
     stored!("matmul222", "strassen"),
+    stored!("matmul223", "found"),
+    stored!("matmul224", "found"),
+    stored!("matmul225", "found"),
+    stored!("matmul233", "found"),
+    stored!("matmul234", "found"),
+    stored!("matmul235", "found"),
+    stored!("matmul244", "found"),
+    stored!("matmul333", "found"),
+    stored!("matmul334", "found"),
+    stored!("matmul335", "found"),
+    stored!("matmul344", "found"),
     stored!("polymul2", "karatsuba"),
     stored!("polymul3", "toom3"),
+    stored!("polymul4", "found"),
 ];
 
 impl StoredScheme {
@@ -70,6 +83,18 @@ impl StoredScheme {
         })?;
         Ok(s)
     }
+}
+
+/// The stored scheme named `entry.label` (or its file name `entry.label.txt`),
+/// case-insensitive.
+pub fn find_stored(name: &str) -> Option<&'static StoredScheme> {
+    let n = name.trim();
+    let n = n.strip_suffix(".txt").unwrap_or(n);
+    STORED_SCHEMES.iter().find(|s| {
+        s.file
+            .strip_suffix(".txt")
+            .is_some_and(|f| f.eq_ignore_ascii_case(n))
+    })
 }
 
 /// The stored schemes of an entry (by its name, case-insensitive), in file-name order.

@@ -3,12 +3,15 @@
 //! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false, and
 //! `all N claims hold` on standard error when every one is true.
 
-use super::common::{generators_help, load, report_error};
+use super::common::{generators_help, load_with, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
+use bilin::invariants::structure::Property;
 use bilin::laws::Law;
+use bilin::ranks::BoundsParams;
 use bilin::report::invariants::{InvariantParams, Part};
-use bilin::report::{Params, analyze_with_progress, render_json, render_text};
-use bilin::scheme::bounds::BoundsParams;
+use bilin::report::{
+    Params, Piece, analyze_streaming, render_head, render_json, render_notes, render_section,
+};
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
@@ -22,11 +25,16 @@ pub struct Args {
     /// Read the input over this field (`Q` or `GF(p)`).
     #[arg(long)]
     pub field: Option<String>,
-    /// Only these laws, comma-separated (e.g. `associative,jordan`); default all.
+    #[command(flatten)]
+    pub read: super::common::ReadArgs,
+    /// Only these laws and properties, comma-separated, in any case (e.g.
+    /// `associative,jordan`, `malcev,nilpotent`), or `none`; default: all of them for an
+    /// algebra, none for a bilinear map (a square map is read as an algebra when asked).
     #[arg(long)]
     pub laws: Option<String>,
-    /// Claims to check, comma-separated: `law` must hold, `!law` must fail
-    /// (e.g. `alternative,!associative`). Exit code 1 if a claim is false or undecided.
+    /// Claims to check, comma-separated: `law` must hold, `!law` must fail (e.g.
+    /// `alternative,!associative`, `solvable,!nilpotent`, `semisimple`). Exit code 1 if a
+    /// claim is false or undecided.
     #[arg(long)]
     pub expect: Option<String>,
     /// Seed of the random elements used for the slice-span ranks and lower bounds.
@@ -53,28 +61,20 @@ pub struct Args {
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load(&args.input, args.field.as_deref()) {
+    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
         Ok(t) => t,
         Err(code) => return code,
     };
     let mut params = Params::default();
     params.ranks.seed = args.seed;
     if let Some(list) = &args.laws {
-        let mut laws = Vec::new();
-        for name in list.split(',').map(str::trim).filter(|s| !s.is_empty()) {
-            match Law::parse(name) {
-                Some(l) => laws.push(l),
-                None => {
-                    let known: Vec<&str> = Law::ALL.iter().map(|l| l.name()).collect();
-                    eprintln!(
-                        "error: --laws: unknown law `{name}`; known: {}",
-                        known.join(", ")
-                    );
-                    return EXIT_USAGE;
-                }
-            }
-        }
+        let (laws, props) = match parse_claim_list(list) {
+            Ok(x) => x,
+            Err(code) => return code,
+        };
         params.laws.laws = laws;
+        params.properties = props;
+        params.laws_of_maps = true;
     }
     let mut claims = Vec::new();
     for item in args.expect.iter().flat_map(|s| s.split(',')).map(str::trim) {
@@ -82,17 +82,20 @@ pub fn run(args: Args) -> i32 {
             continue;
         }
         let (want, name) = match item.strip_prefix('!') {
-            Some(n) => (false, n),
+            Some(n) => (false, n.trim()),
             None => (true, item),
         };
-        match Law::parse(name) {
-            Some(l) => claims.push((l, want)),
-            None => return unknown_law(name),
+        match Claim::parse(name) {
+            Some(c) => claims.push((c, want)),
+            None => return unknown_claim("--expect", name),
         }
+        params.laws_of_maps = true;
     }
-    for (l, _) in &claims {
-        if !params.laws.laws.contains(l) {
-            params.laws.laws.push(*l);
+    for (c, _) in &claims {
+        match *c {
+            Claim::Law(l) if !params.laws.laws.contains(&l) => params.laws.laws.push(l),
+            Claim::Property(p) if !params.properties.contains(&p) => params.properties.push(p),
+            _ => {}
         }
     }
     if !args.no_invariants {
@@ -100,8 +103,12 @@ pub fn run(args: Args) -> i32 {
             Ok(o) => o,
             Err(e) => return report_error(&e),
         };
+        // the parts named by --invariants run whatever their cost; the default set keeps
+        // to a budget of a few seconds (a skipped part says so and how to ask for it)
+        let max_work = only.is_none().then_some(QUICK_INVARIANTS_WORK);
         let mut inv = InvariantParams {
             only,
+            max_work,
             ..InvariantParams::default()
         };
         if let Some(m) = args.max_memory {
@@ -115,7 +122,22 @@ pub fn run(args: Args) -> i32 {
             ..BoundsParams::default()
         });
     }
-    let r = super::common::with_progress(|p| analyze_with_progress(&t, &args.input, &params, p));
+    // text: each part is printed as soon as it is computed (the invariants come last)
+    let json = args.json;
+    let mut emit = |piece: Piece| {
+        if json {
+            return;
+        }
+        let text = match piece {
+            Piece::Head(r) => render_head(r),
+            Piece::Section(sec) => render_section(sec),
+        };
+        print!("{text}");
+        use std::io::Write;
+        let _ = std::io::stdout().flush();
+    };
+    let r =
+        super::common::with_progress(|p| analyze_streaming(&t, &args.input, &params, p, &mut emit));
     let r = match r {
         Ok(r) => r,
         Err(e) => return report_error(&e),
@@ -123,7 +145,7 @@ pub fn run(args: Args) -> i32 {
     if args.json {
         println!("{}", render_json(&r));
     } else {
-        print!("{}", render_text(&r));
+        print!("{}", render_notes(&r));
     }
     if let Some(path) = &args.svg
         && let Err(code) = super::draw::write_tensor_picture(&t, &args.input, path)
@@ -132,8 +154,15 @@ pub fn run(args: Args) -> i32 {
     }
     let mut code = EXIT_OK;
     let n = claims.len();
-    for (l, want) in claims {
-        let got = r.laws.as_ref().and_then(|x| x.holds(l));
+    for (c, want) in claims {
+        let got = match c {
+            Claim::Law(l) => r.laws.as_ref().and_then(|x| x.holds(l)),
+            Claim::Property(p) => r
+                .properties
+                .iter()
+                .find(|x| x.property == p)
+                .and_then(|x| x.holds),
+        };
         if got != Some(want) {
             let said = match got {
                 Some(true) => "holds",
@@ -143,7 +172,7 @@ pub fn run(args: Args) -> i32 {
             let claim = if want { "hold" } else { "fail" };
             eprintln!(
                 "claim false: `{}` was expected to {claim} but {said}",
-                l.name()
+                c.name()
             );
             code = EXIT_FALSE;
         }
@@ -155,8 +184,57 @@ pub fn run(args: Args) -> i32 {
     code
 }
 
-fn unknown_law(name: &str) -> i32 {
-    let known: Vec<&str> = Law::ALL.iter().map(|l| l.name()).collect();
-    eprintln!("error: unknown law `{name}`; known: {}", known.join(", "));
+/// The work budget of each default invariant of `analyze` (multiply-adds of a dense
+/// elimination): a few seconds with the vector kernels, enough for the derivations and
+/// the centroid of a dense table of dimension 64 (4096 unknowns).
+const QUICK_INVARIANTS_WORK: f64 = 3e10;
+
+/// A claim of `--laws` and `--expect`: a law or a structural property.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Claim {
+    Law(Law),
+    Property(Property),
+}
+
+impl Claim {
+    /// Parse a name in any case.
+    fn parse(s: &str) -> Option<Claim> {
+        Law::parse(s)
+            .map(Claim::Law)
+            .or_else(|| Property::parse(s).map(Claim::Property))
+    }
+
+    fn name(self) -> &'static str {
+        match self {
+            Claim::Law(l) => l.name(),
+            Claim::Property(p) => p.name(),
+        }
+    }
+}
+
+/// The laws and properties of a `--laws` list (`none` for no law at all).
+fn parse_claim_list(list: &str) -> Result<(Vec<Law>, Vec<Property>), i32> {
+    let (mut laws, mut props) = (Vec::new(), Vec::new());
+    if list.trim().eq_ignore_ascii_case("none") {
+        return Ok((laws, props));
+    }
+    for name in list.split(',').map(str::trim).filter(|s| !s.is_empty()) {
+        match Claim::parse(name) {
+            Some(Claim::Law(l)) if !laws.contains(&l) => laws.push(l),
+            Some(Claim::Property(p)) if !props.contains(&p) => props.push(p),
+            Some(_) => {}
+            None => return Err(unknown_claim("--laws", name)),
+        }
+    }
+    Ok((laws, props))
+}
+
+fn unknown_claim(option: &str, name: &str) -> i32 {
+    let mut known: Vec<&str> = Law::ALL.iter().map(|l| l.name()).collect();
+    known.extend(Property::ALL.iter().map(|p| p.name()));
+    eprintln!(
+        "error: {option}: unknown law `{name}`; known (in any case): {}, or `none` for --laws",
+        known.join(", ")
+    );
     EXIT_USAGE
 }

@@ -1,9 +1,15 @@
-//! `bilin bounds INPUT [--json] [--scheme FILE]...`: proven lower bounds for the tensor
-//! rank, and the interval `lower <= R <= upper` with a verified scheme for the upper side.
+//! `bilin bounds INPUT [--json] [--scheme FILE]... [--out FILE] [--proof-out FILE]
+//! [--check-proof FILE]`: proven lower bounds for the tensor rank, the interval
+//! `lower <= R <= upper` with a verified scheme for the upper side, and the certificates of
+//! exhaustive proofs over GF(2).
 
-use super::EXIT_OK;
 use super::scheme_io::{fail, load_tensor};
-use bilin::scheme::bounds::{BoundsParams, lower_bounds};
+use super::{EXIT_FALSE, EXIT_OK};
+use bilin::error::{Error, Position};
+use bilin::ranks::exhaustive::ExhaustiveParams;
+use bilin::ranks::rank_proof::{Certificate, check};
+use bilin::ranks::{BoundsParams, lower_bounds};
+use bilin::tensor::Tensor;
 
 #[derive(clap::Args)]
 pub struct Args {
@@ -26,6 +32,94 @@ pub struct Args {
     /// JSON otherwise).
     #[arg(long, value_name = "FILE")]
     pub out: Option<String>,
+    /// Work budget of the exhaustive proofs over GF(2), in millions of rank-one matrices
+    /// reduced against a space (0 leaves them out).
+    #[arg(long, default_value_t = 100, value_name = "MILLIONS")]
+    pub exhaustive_work: u64,
+    /// Spaces one level of an exhaustive proof may hold (each about 200 bytes).
+    #[arg(long, default_value_t = 500_000, value_name = "COUNT")]
+    pub exhaustive_spaces: usize,
+    /// Write the certificate of the best exhaustive proof to this file (JSON).
+    #[arg(long, value_name = "FILE")]
+    pub proof_out: Option<String>,
+    /// Check a certificate of an exhaustive proof against INPUT instead of computing
+    /// bounds: exit 0 when it holds, 1 when it is refuted, 2 when it cannot be read.
+    #[arg(long, value_name = "FILE")]
+    pub check_proof: Option<String>,
+}
+
+/// Read a certificate file (JSON), with the position of a syntax error.
+fn read_certificate(path: &str) -> Result<Certificate, Error> {
+    let text = bilin::input::read_text_file(path)?;
+    let v: serde_json::Value = serde_json::from_str(&text).map_err(|e| Error::Parse {
+        at: Position {
+            source: path.to_string(),
+            line: e.line(),
+            column: e.column(),
+        },
+        message: format!("not valid JSON: {e}"),
+    })?;
+    Certificate::from_json(&v).map_err(|m| Error::Invalid(format!("{path}: {m}")))
+}
+
+/// Write a certificate unless the file already holds a proof of a stronger claim for the
+/// same slices (a better result is never written over). Prints what it did.
+fn write_certificate(path: &str, cert: &Certificate, t: &Tensor) -> Result<(), i32> {
+    let text = serde_json::to_string(&cert.to_json(t)).unwrap_or_default() + "\n";
+    let mut kept = None;
+    let outcome = bilin::output::Target::resolve(path).and_then(|target| {
+        target.replace(|old| {
+            let better = old
+                .and_then(|o| serde_json::from_str::<serde_json::Value>(o).ok())
+                .and_then(|v| Certificate::from_json(&v).ok())
+                .filter(|o| o.space == cert.space && o.rank_above >= cert.rank_above);
+            match better {
+                Some(o) => {
+                    kept = Some(o.rank_above);
+                    Ok(None)
+                }
+                None => Ok(Some(text.clone())),
+            }
+        })
+    });
+    if let Err(e) = outcome {
+        // never lose a proof: print it when it cannot be written
+        println!(
+            "{}",
+            serde_json::to_string(&cert.to_json(t)).unwrap_or_default()
+        );
+        return Err(fail(&e));
+    }
+    match kept {
+        Some(r) => eprintln!("note: {path} already proves R > {r}; kept it"),
+        None => eprintln!(
+            "note: certificate of R > {} written to {path}",
+            cert.rank_above
+        ),
+    }
+    Ok(())
+}
+
+fn check_file(t: &Tensor, path: &str) -> i32 {
+    let cert = match read_certificate(path) {
+        Ok(c) => c,
+        Err(e) => return fail(&e),
+    };
+    match check(t, &cert) {
+        Ok(()) => {
+            println!(
+                "certificate holds: R > {} over GF(2), so R >= {} (spaces per level {:?})",
+                cert.rank_above,
+                cert.rank_above + 1,
+                cert.level_sizes()
+            );
+            EXIT_OK
+        }
+        Err(why) => {
+            println!("certificate refuted: {why}");
+            EXIT_FALSE
+        }
+    }
 }
 
 pub fn run(a: &Args) -> i32 {
@@ -33,18 +127,39 @@ pub fn run(a: &Args) -> i32 {
         Ok(t) => t,
         Err(e) => return fail(&e),
     };
-    let b = lower_bounds(
-        &t,
-        &BoundsParams {
-            seed: a.seed,
-            ..BoundsParams::default()
-        },
-    );
+    if let Some(path) = &a.check_proof {
+        return check_file(&t, path);
+    }
     let mut given = Vec::new();
     for path in &a.scheme {
         match super::scheme_io::load_scheme(path, &t) {
             Ok(s) => given.push((path.clone(), s)),
             Err(e) => return fail(&e),
+        }
+    }
+    let exhaustive = (a.exhaustive_work > 0).then(|| ExhaustiveParams {
+        max_work: a.exhaustive_work.saturating_mul(1_000_000),
+        max_nodes: a.exhaustive_spaces,
+        ..ExhaustiveParams::default()
+    });
+    let b = lower_bounds(
+        &t,
+        &BoundsParams {
+            seed: a.seed,
+            exhaustive,
+            ..BoundsParams::default()
+        },
+    );
+    if let Some(path) = &a.proof_out {
+        match &b.rank_proof {
+            Some(cert) => {
+                if let Err(code) = write_certificate(path, cert, &t) {
+                    return code;
+                }
+            }
+            None => eprintln!(
+                "note: no exhaustive proof to write to {path} (they run over GF(2) only; see the notes)"
+            ),
         }
     }
     let iv = bilin::report::interval::interval_of(
@@ -75,6 +190,7 @@ pub fn run(a: &Args) -> i32 {
             "field": t.field().name(),
             "dims": t.dims(),
             "best": b.best(),
+            "exhaustive_upper": b.exhaustive_upper,
             "bounds": b.bounds,
             "notes": b.notes,
         });

@@ -16,7 +16,9 @@ pub struct CatalogArgs {
 enum Action {
     /// List the entries, optionally filtered.
     List {
-        /// Only entries of this family (e.g. lie, matmul, cayley-dickson).
+        /// Only entries of this family (e.g. lie, matmul, cayley-dickson) or of this
+        /// classified range (nilpotent-lie, solvable-lie, group-algebra; see `catalog
+        /// ranges`).
         #[arg(long)]
         family: Option<String>,
         /// Only entries of this dimension (algebras) or with this left dimension.
@@ -25,6 +27,22 @@ enum Action {
         /// Only entries with the stored fact `LAW = yes` (e.g. associative, lie, jordan).
         #[arg(long)]
         law: Option<String>,
+        /// Only entries with this stored fact, `KEY=VALUE` (e.g. `centre=2`,
+        /// `lower.central=5,2,1,0`, `nilpotent=no`); may repeat (all must hold).
+        #[arg(long, value_name = "KEY=VALUE")]
+        fact: Vec<String>,
+    },
+    /// The classified ranges: sources, published counts, and the entries per dimension.
+    Ranges,
+    /// For every pair of entries of a classified range and of one dimension: the first
+    /// fingerprint key that separates them, or an explicit isomorphism; exit 1 if a pair is
+    /// neither separated nor decided.
+    Pairs {
+        /// The range (default: all ranges).
+        range: Option<String>,
+        /// List every pair, not only the summary and the undecided pairs.
+        #[arg(long)]
+        all: bool,
     },
     /// Show one entry: description, sources, facts and table.
     Show {
@@ -66,7 +84,14 @@ pub fn run(args: CatalogArgs) -> i32 {
         }
     };
     match args.action {
-        Action::List { family, dim, law } => list(all, family, dim, law),
+        Action::List {
+            family,
+            dim,
+            law,
+            fact,
+        } => list(all, family, dim, law, fact),
+        Action::Ranges => ranges(),
+        Action::Pairs { range, all } => pairs(range, all),
         Action::Show { name, check } => match catalog::find_entry(&name) {
             Some(e) => show(e, check),
             None => unknown(&name),
@@ -100,17 +125,42 @@ fn unknown(name: &str) -> i32 {
     EXIT_USAGE
 }
 
-fn list(all: &[Entry], family: Option<String>, dim: Option<usize>, law: Option<String>) -> i32 {
+fn list(
+    all: &[Entry],
+    family: Option<String>,
+    dim: Option<usize>,
+    law: Option<String>,
+    facts: Vec<String>,
+) -> i32 {
+    let mut wanted = Vec::new();
+    for f in &facts {
+        match f.split_once('=') {
+            Some((k, v)) if !k.trim().is_empty() && !v.trim().is_empty() => {
+                wanted.push((k.trim().to_string(), v.trim().to_string()))
+            }
+            _ => {
+                eprintln!("error: --fact: expected KEY=VALUE, found `{f}`");
+                return EXIT_USAGE;
+            }
+        }
+    }
     println!(
         "{:<20} {:<26} {:<7} {:<10} aliases",
         "name", "family", "field", "dims"
     );
     for e in all {
         let m = &e.meta;
-        if family
-            .as_ref()
-            .is_some_and(|f| !m.family.eq_ignore_ascii_case(f))
-        {
+        if family.as_ref().is_some_and(|f| {
+            !m.family.eq_ignore_ascii_case(f)
+                && !m.classes.iter().any(|(r, _)| r.eq_ignore_ascii_case(f))
+        }) {
+            continue;
+        }
+        if !wanted.iter().all(|(k, v)| {
+            m.facts.iter().any(|f| {
+                f.key.eq_ignore_ascii_case(k) && f.value.replace(' ', "") == v.replace(' ', "")
+            })
+        }) {
             continue;
         }
         if let Some(l) = &law
@@ -144,6 +194,106 @@ fn list(all: &[Entry], family: Option<String>, dim: Option<usize>, law: Option<S
         );
     }
     EXIT_OK
+}
+
+fn ranges() -> i32 {
+    for r in catalog::classes::RANGES {
+        println!(
+            "{} ({})\n  {}\n  source: {}",
+            r.id, r.title, r.note, r.source
+        );
+        let have = match catalog::classes::labels_per_dimension(r.id) {
+            Ok(h) => h,
+            Err(e) => {
+                eprintln!("error: {e}");
+                return EXIT_FALSE;
+            }
+        };
+        let members = catalog::classes::members(r.id).unwrap_or_default();
+        for (d, count, what, _) in r.published {
+            let what = match what {
+                catalog::classes::Counted::Classes => "classes",
+                catalog::classes::Counted::Labels => "labels",
+            };
+            let entries = members
+                .iter()
+                .filter(|(e, _)| e.tensor().is_ok_and(|t| t.dims()[0] == *d))
+                .count();
+            println!(
+                "  dimension {d}: published {count} {what}, the catalog has {} labels in {entries} entries",
+                have.get(d).copied().unwrap_or(0)
+            );
+        }
+    }
+    EXIT_OK
+}
+
+fn pairs(range: Option<String>, all: bool) -> i32 {
+    use catalog::classes::{PairDecision, RANGES, find_range, separate_pairs};
+    let chosen: Vec<&catalog::classes::Range> = match &range {
+        Some(r) => match find_range(r) {
+            Some(x) => vec![x],
+            None => {
+                let ids: Vec<&str> = RANGES.iter().map(|r| r.id).collect();
+                eprintln!(
+                    "error: no classified range `{r}` (ranges: {})",
+                    ids.join(", ")
+                );
+                return EXIT_USAGE;
+            }
+        },
+        None => RANGES.iter().collect(),
+    };
+    let mut undecided_total = 0;
+    for r in chosen {
+        let out = match separate_pairs(r.id, &Default::default()) {
+            Ok(o) => o,
+            Err(e) => {
+                eprintln!("error: {e}");
+                return EXIT_FALSE;
+            }
+        };
+        let mut by_key: std::collections::BTreeMap<String, usize> = Default::default();
+        let (mut iso, mut undecided) = (0, 0);
+        for p in &out {
+            match &p.decision {
+                PairDecision::Separated(k, a, b) => {
+                    *by_key.entry(k.clone()).or_default() += 1;
+                    if all {
+                        println!("{} / {} (dim {}): {k} {a} vs {b}", p.first, p.second, p.dim);
+                    }
+                }
+                PairDecision::Isomorphic(_) => {
+                    iso += 1;
+                    println!(
+                        "{} / {} (dim {}): ISOMORPHIC (explicit isomorphism verified)",
+                        p.first, p.second, p.dim
+                    );
+                }
+                PairDecision::Undecided => {
+                    undecided += 1;
+                    println!(
+                        "{} / {} (dim {}): UNDECIDED (same fingerprint, no isomorphism found)",
+                        p.first, p.second, p.dim
+                    );
+                }
+            }
+        }
+        let keys: Vec<String> = by_key.iter().map(|(k, n)| format!("{k} {n}")).collect();
+        println!(
+            "{}: {} pairs of the same dimension: {} separated by an invariant ({}), {iso} isomorphic, {undecided} undecided",
+            r.id,
+            out.len(),
+            out.len() - iso - undecided,
+            keys.join(", ")
+        );
+        undecided_total += undecided;
+    }
+    if undecided_total > 0 {
+        EXIT_FALSE
+    } else {
+        EXIT_OK
+    }
 }
 
 fn show(e: &Entry, recompute: bool) -> i32 {
@@ -187,6 +337,25 @@ fn show(e: &Entry, recompute: bool) -> i32 {
             "  {} = {}{dom}{status}\n      source: {}",
             f.key, f.value, f.source
         );
+    }
+    let stored = catalog::stored_schemes(&m.name);
+    if !stored.is_empty() {
+        println!("\nschemes (use the name with emit, verify, scheme cost):");
+    }
+    for s in stored {
+        let name = s.file.trim_end_matches(".txt");
+        match s.read() {
+            Ok(sc) => println!(
+                "  {name}: rank {}, over {}, verified exactly\n      source: {}",
+                sc.rank(),
+                sc.field.name(),
+                s.source()
+            ),
+            Err(err) => {
+                bad = true;
+                println!("  {name}: DOES NOT VERIFY: {err}");
+            }
+        }
     }
     match &m.generate {
         Some(g) => {

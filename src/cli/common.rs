@@ -2,7 +2,7 @@
 
 use super::EXIT_USAGE;
 use bilin::error::Error;
-use bilin::input::load_input;
+use bilin::input::{Rationalize, ReadOptions, load_input_with};
 use bilin::scalar::FieldSpec;
 use bilin::tensor::Tensor;
 
@@ -29,9 +29,46 @@ pub fn note(message: impl std::fmt::Display) {
     eprintln!("note: {message}");
 }
 
+/// How array files are read (`.npy`, CSV, nested JSON lists): the options shared by the
+/// commands that take an input.
+#[derive(clap::Args, Debug, Clone, Default)]
+pub struct ReadArgs {
+    /// Read a 3-way array (.npy, CSV, nested JSON list) as an algebra (n x n x n), not as a
+    /// bilinear map.
+    #[arg(long)]
+    pub as_algebra: bool,
+    /// Round every float in an array or JSON file that is not exactly what it says (such
+    /// as 0.1) to the simplest fraction within TOLERANCE whose denominator is at most
+    /// MAX_DENOMINATOR, e.g. `1e-9,1000` (by default such a float is refused).
+    #[arg(long, value_name = "TOLERANCE,MAX_DENOMINATOR")]
+    pub rationalize: Option<String>,
+}
+
+impl ReadArgs {
+    /// The library's read options, or the exit code of a bad value.
+    pub fn options(&self) -> Result<ReadOptions, i32> {
+        let rationalize = match &self.rationalize {
+            None => None,
+            Some(s) => match Rationalize::parse(s) {
+                Ok(r) => Some(r),
+                Err(m) => return Err(usage_error("--rationalize", m)),
+            },
+        };
+        Ok(ReadOptions {
+            algebra: self.as_algebra,
+            rationalize,
+        })
+    }
+}
+
 /// Load an input (file, generator spec or catalog name), optionally over another field
 /// given as text (`Q`, `GF(7)`). Errors are printed; the `Err` holds the exit code (2).
 pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {
+    load_with(spec, field, &ReadArgs::default())
+}
+
+/// [`load`] with the array-reading options.
+pub fn load_with(spec: &str, field: Option<&str>, read: &ReadArgs) -> Result<Tensor, i32> {
     let field = match field {
         None => None,
         Some(f) => match FieldSpec::parse(f) {
@@ -39,7 +76,8 @@ pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {
             Err(m) => return Err(usage_error("--field", m)),
         },
     };
-    load_input(spec, field).map_err(|e| report_error(&e))
+    let opts = read.options()?;
+    load_input_with(spec, field, &opts).map_err(|e| report_error(&e))
 }
 
 /// The generator list for `--help` texts.

@@ -11,7 +11,8 @@ use bilin::scheme::emit::{Arith, BlockParams, EmitParams, Lang, emit};
 pub struct Args {
     /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
     pub input: String,
-    /// The scheme file (text or JSON form).
+    /// The scheme file (text or JSON form), or the name of a scheme stored with the catalog
+    /// (`matmul222.strassen`; see `bilin catalog show`).
     pub scheme: String,
     /// Target: c, rust, python or latex.
     #[arg(long)]

@@ -5,7 +5,6 @@
 use super::{EXIT_OK, EXIT_USAGE};
 use bilin::catalog::{IdentifyParams, IsoOutcome, identify};
 use bilin::report::identify::{identify_report, render_identify_json};
-use bilin::scalar::q_to_string;
 use clap::Args;
 
 #[derive(Args)]
@@ -15,6 +14,8 @@ pub struct IdentifyArgs {
     /// Read the input over this field (`Q`, `GF(p)`).
     #[arg(long)]
     field: Option<String>,
+    #[command(flatten)]
+    read: super::common::ReadArgs,
     /// Do not search for explicit isomorphisms.
     #[arg(long)]
     no_iso: bool,
@@ -31,7 +32,7 @@ pub struct IdentifyArgs {
 
 /// Run `bilin identify`; returns the exit code.
 pub fn run(args: IdentifyArgs) -> i32 {
-    let t = match super::common::load(&args.input, args.field.as_deref()) {
+    let t = match super::common::load_with(&args.input, args.field.as_deref(), &args.read) {
         Ok(t) => t,
         Err(code) => return code,
     };
@@ -65,19 +66,38 @@ pub fn run(args: IdentifyArgs) -> i32 {
             "catalog entries with the same fingerprint (evidence of isomorphism, not a proof):"
         );
     }
+    let nilpotent_lie = id.fingerprint.get("nilpotency.class").is_some()
+        && id
+            .fingerprint
+            .get("lie")
+            .is_some_and(|v| v.to_string() == "yes");
     for m in &id.matches {
         match &m.iso {
             IsoOutcome::Found(mat) => {
                 println!(
-                    "  {}: ISOMORPHIC, verified exactly: the input's basis vectors are, in the entry's basis,",
+                    "  {}: ISOMORPHIC, verified exactly: each basis vector of the input (left) \
+                     is, in the entry's basis (right),",
                     m.name
                 );
-                for j in 0..mat.cols {
-                    let col: Vec<String> =
-                        (0..mat.rows).map(|i| q_to_string(&mat[(i, j)])).collect();
-                    println!("      x{j} -> ({})", col.join(", "));
+                let entry_names: Vec<String> = match bilin::catalog::catalog_tensor(&m.name) {
+                    Some(e) if e.names()[0].len() == mat.rows => e.names()[0].clone(),
+                    _ => (0..mat.rows).map(|i| format!("f{i}")).collect(),
+                };
+                let ours = &t.names()[0];
+                let w = ours.iter().map(|s| s.chars().count()).max().unwrap_or(1);
+                for (j, name) in ours.iter().enumerate().take(mat.cols) {
+                    let col: Vec<bilin::scalar::Q> =
+                        (0..mat.rows).map(|i| mat[(i, j)].clone()).collect();
+                    println!(
+                        "      {name:<w$} -> {}",
+                        bilin::report::invariants::combination(&col, &entry_names)
+                    );
                 }
             }
+            IsoOutcome::NotFound if nilpotent_lie => println!(
+                "  {}: fingerprint matches; the solver along the lower central series found no isomorphism (not a proof either way)",
+                m.name
+            ),
             IsoOutcome::NotFound => println!(
                 "  {}: fingerprint matches; no isomorphism with coordinates in -{b}..{b} found (not a proof either way)",
                 m.name,

@@ -4,7 +4,7 @@
 //! derivation triples, adjoint pairs, radicals), every basis proven exactly.
 
 use super::EXIT_OK;
-use super::common::{generators_help, load, report_error};
+use super::common::{generators_help, load_with, report_error};
 use bilin::report::invariants::{InvariantParams, Part, invariants_report, render_text};
 
 #[derive(clap::Args, Debug)]
@@ -24,6 +24,8 @@ pub struct Args {
     /// Read the input over this field (`Q` or `GF(p)`).
     #[arg(long)]
     pub field: Option<String>,
+    #[command(flatten)]
+    pub read: super::common::ReadArgs,
     /// Report dimensions and properties only, without bases.
     #[arg(long)]
     pub no_bases: bool,
@@ -35,7 +37,7 @@ pub struct Args {
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load(&args.input, args.field.as_deref()) {
+    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
         Ok(t) => t,
         Err(code) => return code,
     };

@@ -22,7 +22,6 @@ mod outputs;
 mod scheme;
 mod scheme_io;
 mod search;
-mod search_plan;
 mod transform;
 mod verify;
 

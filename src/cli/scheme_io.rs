@@ -23,11 +23,18 @@ pub fn load_scheme(path: &str, t: &Tensor) -> Result<Scheme, Error> {
 }
 
 /// Read a scheme file against a tensor, keeping the lines of the text form (`None` for a
-/// JSON file) and the file's text.
+/// JSON file) and the file's text. A name that is no file but names a scheme stored with
+/// the catalog (`matmul222.strassen`, see `bilin catalog show`) reads that scheme.
 pub fn read_scheme_file(
     path: &str,
     t: &Tensor,
 ) -> Result<(Scheme, Option<bilin::scheme::text::LineMap>, String), Error> {
+    if !std::path::Path::new(path).exists()
+        && let Some(s) = bilin::catalog::find_stored(path)
+    {
+        let (sc, lines) = bilin::scheme::parse_scheme_located(s.text, s.file, t)?;
+        return Ok((sc, lines, s.text.to_string()));
+    }
     let text = bilin::input::read_text_file(path)?;
     let (s, lines) = bilin::scheme::parse_scheme_located(&text, path, t)?;
     Ok((s, lines, text))

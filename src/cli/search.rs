@@ -11,12 +11,13 @@
 
 use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
-use super::search_plan;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
-use bilin::interval::plan::{Plan, run_stages};
+use bilin::interval::plan::{Plan, known_interval, method_name, plan_search};
+use bilin::search::flip::FlipParams;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
-use bilin::search::{Method, Params, Progress};
+use bilin::search::pool::PoolParams;
+use bilin::search::{Method, Params, Progress, Symmetry, search_scheme};
 use clap::Args;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -31,10 +32,28 @@ pub struct SearchArgs {
     /// Target rank: stop when a verified scheme of at most this rank is found.
     #[arg(long)]
     pub rank: Option<usize>,
-    /// Search engine: `flip` (GF(2) flip graph, lifted to Q), `als` (numerical, over Q)
-    /// or `auto` (the default: chosen from the tensor, the choice and its reason printed).
-    #[arg(long)]
-    pub method: Option<String>,
+    /// Search engine: `auto` (the default: chosen from the tensor, the choice and its
+    /// reason printed), `flip` (flip-graph walks, lifted to Q), `lm` (Levenberg-Marquardt
+    /// and rounding, over Q) or `als` (alternating least squares and rounding, over Q).
+    #[arg(long, default_value = "auto")]
+    pub method: String,
+    /// Walk over GF(P) and lift p-adically to Q (default 2); an odd prime finds schemes
+    /// whose denominators are even.
+    #[arg(long, value_name = "P")]
+    pub prime: Option<u64>,
+    /// Keep a symmetry in the walks: `cyclic` (square formats matmul:n,n,n) or `none`.
+    #[arg(long, default_value = "none")]
+    pub symmetry: String,
+    /// Schemes kept at the lowest rank reached, from which walks restart (0: every walk
+    /// starts from the standard scheme).
+    #[arg(long, value_name = "N")]
+    pub pool: Option<usize>,
+    /// Moves per walk.
+    #[arg(long, value_name = "MOVES")]
+    pub walk_moves: Option<u64>,
+    /// Moves without a lower rank before a plus transition.
+    #[arg(long, value_name = "MOVES")]
+    pub plateau: Option<u64>,
     /// Field the scheme must hold over (default: the tensor's field), e.g. `GF(2)`.
     #[arg(long)]
     pub field: Option<String>,
@@ -88,6 +107,16 @@ fn best_and_rate(last: &mut (Duration, u64), p: &Progress) -> (String, f64) {
     (best, rate)
 }
 
+/// `, walk at rank N` when the walks went below the best verified rank (schemes over the
+/// walk's field that have not lifted to Q).
+fn walk_note(p: &Progress) -> String {
+    match (p.walk_rank, &p.best) {
+        (Some(w), Some(b)) if w < b.rank() => format!(", walk at rank {w}"),
+        (Some(w), None) => format!(", walk at rank {w}"),
+        _ => String::new(),
+    }
+}
+
 /// Progress for a log (standard error is not a terminal): at most one line per interval
 /// with the best rank so far, the moves per second since the last line and the time elapsed.
 struct LogProgress {
@@ -111,8 +140,9 @@ impl LogProgress {
         }
         let (best, rate) = best_and_rate(&mut last, p);
         eprintln!(
-            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s",
-            p.elapsed.as_secs_f64()
+            "bilin search: best rank {best}, {rate:.3e} moves/s, elapsed {:.1} s{}",
+            p.elapsed.as_secs_f64(),
+            walk_note(p)
         );
     }
 }
@@ -129,6 +159,34 @@ fn parse_shard(s: &str) -> Result<(u64, u64), String> {
         return Err(format!("shard {k}/{n}: need 0 <= K < N"));
     }
     Ok((k, n))
+}
+
+/// Write `scheme`, known before any search, as the result and in the checkpoint (seed,
+/// shard and first run as given); exit code 0, or 2 when it cannot be written.
+fn finish_known(
+    files: &OutputFiles,
+    scheme: &bilin::scheme::Scheme,
+    t: &bilin::tensor::Tensor,
+    (seed, shard, next_run): (u64, (u64, u64), u64),
+) -> i32 {
+    files.save_checkpoint(
+        &Checkpoint {
+            seed,
+            shard,
+            next_run,
+            best: Some(scheme.clone()),
+        },
+        t,
+    );
+    if !files.save_result(scheme, t) {
+        return EXIT_USAGE;
+    }
+    note(format!(
+        "best verified rank {} over {} (known before any search)",
+        scheme.rank(),
+        scheme.field.name()
+    ));
+    EXIT_OK
 }
 
 /// Seed, shard and first run: from the checkpoint when resuming one (a conflicting
@@ -166,10 +224,36 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(t) => t,
         Err(code) => return code,
     };
-    let user_method = match search_plan::parse_method(a.method.as_deref()) {
+    let method = match Method::parse(&a.method) {
         Ok(m) => m,
-        Err(e) => return usage_error("--method", e),
+        Err(e) => return usage_error("--method", e.to_string()),
     };
+    let symmetry = match a.symmetry.to_ascii_lowercase().as_str() {
+        "none" => Symmetry::None,
+        "cyclic" => Symmetry::Cyclic,
+        s => {
+            return usage_error(
+                "--symmetry",
+                format!("unknown symmetry `{s}` (expected cyclic or none)"),
+            );
+        }
+    };
+    if let Some(p) = a.prime
+        && !(bilin::scalar::is_prime(p) && p < 1 << 16)
+    {
+        return usage_error(
+            "--prime",
+            format!("expected a prime below 65536, found {p}"),
+        );
+    }
+    if a.walk_moves == Some(0) || a.plateau == Some(0) {
+        let opt = if a.walk_moves == Some(0) {
+            "--walk-moves"
+        } else {
+            "--plateau"
+        };
+        return usage_error(opt, "expected a positive number of moves");
+    }
     let shard_arg = match a.shard.as_deref().map(parse_shard).transpose() {
         Ok(s) => s,
         Err(e) => return usage_error("--shard", e),
@@ -204,17 +288,29 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(f) => f,
         Err(code) => return code,
     };
+    let defaults = Params::default();
     let params = Params {
         target_rank: a.rank,
         time_limit: a.time.map(Duration::from_secs_f64),
         seed,
         threads: a.threads,
         restarts: a.restarts,
-        method: user_method.unwrap_or(Method::Flip),
+        method,
         field: None,
         shard,
         first_run,
-        ..Params::default()
+        walk_prime: a.prime.unwrap_or(2),
+        symmetry,
+        walk_budget: a.walk_moves.unwrap_or(defaults.walk_budget),
+        pool: PoolParams {
+            size: a.pool.unwrap_or(defaults.pool.size),
+            ..defaults.pool.clone()
+        },
+        flip: FlipParams {
+            plateau: a.plateau.unwrap_or(defaults.flip.plateau),
+            ..defaults.flip.clone()
+        },
+        ..defaults
     };
     let stop = Arc::new(AtomicBool::new(false));
     let signals = Arc::new(AtomicUsize::new(0));
@@ -252,10 +348,11 @@ pub fn run(a: SearchArgs) -> i32 {
             let (best, rate) =
                 best_and_rate(&mut last_moves.lock().unwrap_or_else(|e| e.into_inner()), p);
             eprint!(
-                "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s   ",
+                "\rbest rank {best}  moves {:.3e}  {:.2e} moves/s  elapsed {:.1}s{}   ",
                 p.moves as f64,
                 rate,
-                p.elapsed.as_secs_f64()
+                p.elapsed.as_secs_f64(),
+                walk_note(p)
             );
         }
         let mut lw = last_write.lock().unwrap_or_else(|e| e.into_inner());
@@ -275,60 +372,33 @@ pub fn run(a: SearchArgs) -> i32 {
     if a.rank.is_none() && a.time.is_none() && a.restarts.is_none() {
         return usage_error("--rank", "give a target rank, a time limit or a run limit");
     }
-    let start = resumed.and_then(Saved::into_best);
-    let plan = search_plan::plan(&t, a.rank, user_method, start.as_ref(), seed);
-    let (stages, start) = match plan {
-        Plan::Known { scheme, reason } => {
+    // what is known first: the resumed scheme counts among the verified upper bounds
+    let given: Vec<(String, bilin::scheme::Scheme)> = resumed
+        .and_then(Saved::into_best)
+        .map(|s| ("the resumed scheme".to_string(), s))
+        .into_iter()
+        .collect();
+    let interval = known_interval(&t, &given, seed);
+    let start = match plan_search(&t, &params, &interval) {
+        Err(e) => return usage_error("--method", e.to_string()),
+        Ok(Plan::Known { scheme, reason }) => {
             note(format!("answered at once: {reason}"));
-            files.save_checkpoint(
-                &Checkpoint {
-                    seed,
-                    shard,
-                    next_run: first_run,
-                    best: Some(scheme.clone()),
-                },
-                &t,
-            );
-            if !files.save_result(&scheme, &t) {
-                return EXIT_USAGE;
-            }
-            note(format!(
-                "best verified rank {} over {}",
-                scheme.rank(),
-                scheme.field.name()
-            ));
-            return EXIT_OK;
+            return finish_known(&files, &scheme, &t, (seed, shard, first_run));
         }
-        Plan::Refuse { reason, known, .. } => {
+        Ok(Plan::Refuse { reason, known, .. }) => {
             eprintln!("error: refused: {reason}; no scheme of that rank exists");
             // the best known scheme is still the result, so that nothing is lost
-            if !files.save_result(&known, &t) {
+            if finish_known(&files, &known, &t, (seed, shard, first_run)) != EXIT_OK {
                 return EXIT_USAGE;
             }
-            note(format!(
-                "best verified rank {} over {} (the known upper bound)",
-                known.rank(),
-                known.field.name()
-            ));
             return EXIT_FALSE;
         }
-        Plan::Search { stages, start } => (stages, start),
+        Ok(Plan::Search { runs, start }) => {
+            note(format!("method {}: {}", method_name(method), runs.reason));
+            start
+        }
     };
-    let outcome = match run_stages(
-        &t,
-        &stages,
-        start,
-        &params,
-        &stop,
-        &progress,
-        &mut |stage| {
-            note(format!(
-                "method {}: {}",
-                search_plan::method_name(stage.method),
-                stage.reason
-            ))
-        },
-    ) {
+    let outcome = match search_scheme(&t, &params, &stop, Some(start), &progress) {
         Ok(o) => o,
         Err(e) => {
             let e = match &a.resume {

@@ -3,7 +3,7 @@
 //! or a seeded random invertible integer matrix per axis) and print the result.
 
 use super::EXIT_USAGE;
-use super::common::{generators_help, load, report_error};
+use super::common::{generators_help, load_with, report_error};
 use super::convert::{Form, print_as};
 use bilin::input::{apply_basis_change, parse_basis_file, random_basis_change, read_text_file};
 
@@ -31,11 +31,13 @@ pub struct Args {
     /// Read the input over this field (`Q` or `GF(p)`).
     #[arg(long)]
     pub field: Option<String>,
+    #[command(flatten)]
+    pub read: super::common::ReadArgs,
 }
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load(&args.input, args.field.as_deref()) {
+    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
         Ok(t) => t,
         Err(code) => return code,
     };

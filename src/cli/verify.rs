@@ -14,7 +14,8 @@ use serde_json::json;
 pub struct Args {
     /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
     pub input: String,
-    /// The scheme file (text or JSON form, see docs/schemes.md).
+    /// The scheme file (text or JSON form, see docs/schemes.md), or the name of a scheme
+    /// stored with the catalog (`matmul222.strassen`; see `bilin catalog show`).
     pub scheme: String,
     /// Read the input over this field (Q or GF(p)).
     #[arg(long)]

@@ -9,18 +9,27 @@
 //! itself is read by the strict reader of [`super::json_tree`] (duplicate keys refused).
 //! Cost: linear in the input size.
 
+use super::ReadOptions;
 use super::cursor::{Cursor, LineRef};
 use super::is_valid_name;
 use super::json_tree::{JValue, Json, JsonDoc, check_keys};
+use super::numbers::{Rationalize, text_value};
+use super::table::Symmetry;
 use crate::error::{Error, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
-use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape, default_names};
+use crate::tensor::{Kind, MAX_DIM, Tensor, check_nonzero, check_shape, default_names};
 use std::collections::{HashMap, HashSet};
 
 /// A coefficient in a JSON form: a string in the table format's number syntax (an optional
-/// sign, then `3`, `1/2` or `0.25`, nothing around it) or a JSON integer. `path` names the
-/// value in errors.
+/// sign, then `3`, `1/2` or `0.25`, nothing around it, read exactly), or a JSON number: an
+/// integer of any size, or a float accepted when it is exactly its binary64 value (`3.0`,
+/// `0.5`, `1e3`; see [`super::numbers`]). `path` names the value in errors.
 pub fn json_coefficient(doc: &JsonDoc, v: &Json, path: &str) -> Result<Q> {
+    json_value(doc, v, path, None)
+}
+
+/// [`json_coefficient`], rounding inexact floats when `round` says so.
+pub fn json_value(doc: &JsonDoc, v: &Json, path: &str, round: Option<&Rationalize>) -> Result<Q> {
     let bad = |found: String| {
         doc.error(
             v.at,
@@ -31,6 +40,9 @@ pub fn json_coefficient(doc: &JsonDoc, v: &Json, path: &str) -> Result<Q> {
     let text = match &v.value {
         JValue::Str(s) => s.as_str(),
         JValue::Number(n) if n.bytes().all(|b| b.is_ascii_digit() || b == b'-') => n.as_str(),
+        JValue::Number(n) => {
+            return text_value(n, round).map_err(|m| doc.error(v.at, path, m));
+        }
         _ => return Err(bad(v.describe())),
     };
     let line = LineRef {
@@ -126,6 +138,11 @@ pub fn json_required<'j>(
 
 /// Parse the coordinate JSON form. `source` names the input in error positions.
 pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
+    parse_json_with(text, source, &ReadOptions::default())
+}
+
+/// [`parse_json`] with the options of the array readers (rounding of inexact floats).
+pub fn parse_json_with(text: &str, source: &str, opts: &ReadOptions) -> Result<Tensor> {
     let doc = JsonDoc { text, source };
     let root = doc.parse()?;
     if !matches!(root.value, JValue::Object(_)) {
@@ -142,7 +159,7 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
         &doc,
         &root,
         "$",
-        &["field", "kind", "dims", "names", "entries"],
+        &["field", "kind", "dims", "names", "symmetry", "entries"],
     )?;
     let field = match root.get("field") {
         None => FieldSpec::Rational,
@@ -173,6 +190,34 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
             format!("an algebra has equal dimensions, found {dims:?}"),
         ));
     }
+    let symmetry = match root.get("symmetry") {
+        None => None,
+        Some(sv) => {
+            let sym = match &sv.value {
+                JValue::Str(s) if s == "commutative" => Symmetry::Commutative,
+                JValue::Str(s) if s == "anticommutative" => Symmetry::Anticommutative,
+                _ => {
+                    return Err(doc.error(
+                        sv.at,
+                        "$.symmetry",
+                        format!(
+                            "expected \"commutative\" or \"anticommutative\", found {}",
+                            sv.describe()
+                        ),
+                    ));
+                }
+            };
+            if kind != Kind::Algebra {
+                return Err(doc.error(
+                    sv.at,
+                    "$.symmetry",
+                    "a symmetry is declared for an algebra (\"kind\": \"algebra\"), not a \
+                     bilinear map",
+                ));
+            }
+            Some(sym)
+        }
+    };
     let names = match root.get("names") {
         None => default_names(kind, dims),
         Some(nv) => parse_names(&doc, nv, kind, dims)?,
@@ -195,27 +240,75 @@ pub fn parse_json(text: &str, source: &str) -> Result<Tensor> {
         FieldSpec::Rational => None,
     };
     let mut t = Tensor::zero(field, kind, dims, Some(names));
-    let mut seen: HashMap<(usize, usize, usize), (Q, usize)> = HashMap::new();
+    // (value, entry that gave it, given as the mirror of that entry)
+    let mut seen: HashMap<(usize, usize, usize), (Q, usize, bool)> = HashMap::new();
+    let round = opts.rationalize.as_ref();
     for (n, e) in entries.iter().enumerate() {
         let path = format!("$.entries[{n}]");
-        let (idx, val) = entry(&doc, e, &path, dims, prime.as_ref())?;
-        if let Some((old, first)) = seen.get(&idx) {
-            if *old != val {
-                return Err(doc.error(
-                    e.at,
-                    &path,
-                    format!(
-                        "conflicting duplicate of $.entries[{first}] for {:?}: {} here, {} there",
-                        idx,
-                        q_to_string(&val),
-                        q_to_string(old)
-                    ),
-                ));
-            }
-            continue;
+        let (idx, val) = entry(&doc, e, &path, dims, prime.as_ref(), round)?;
+        let mirror = symmetry.map(|s| {
+            let neg = s == Symmetry::Anticommutative;
+            let w = if neg { -val.clone() } else { val.clone() };
+            let w = match prime.as_ref() {
+                Some(f) => f.to_rational(&f.from_rational(&w).unwrap_or_default()),
+                None => w,
+            };
+            ((idx.1, idx.0, idx.2), w, s)
+        });
+        if let Some((_, w, s)) = &mirror
+            && idx.0 == idx.1
+            && *w != val
+        {
+            return Err(doc.error(
+                e.at,
+                &path,
+                format!(
+                    "{:?} is a coefficient of a square x*x, which is 0 in a table declared \
+                     \"{}\"",
+                    idx,
+                    s.keyword()
+                ),
+            ));
         }
-        t.set(idx.0, idx.1, idx.2, val.clone());
-        seen.insert(idx, (val, n));
+        let mut put = |idx: (usize, usize, usize), val: Q, mirrored: bool| -> Result<()> {
+            if let Some((old, first, was_mirror)) = seen.get(&idx) {
+                if *old != val {
+                    let how = match (was_mirror, mirrored) {
+                        (false, false) => String::new(),
+                        (true, _) => {
+                            format!(" (there as the mirror of $.entries[{first}] by the symmetry)")
+                        }
+                        (false, true) => {
+                            " (here as the mirror of this entry by the symmetry)".into()
+                        }
+                    };
+                    return Err(doc.error(
+                        e.at,
+                        &path,
+                        format!(
+                            "conflicting duplicate of $.entries[{first}] for {:?}: {} here, {} \
+                             there{how}",
+                            idx,
+                            q_to_string(&val),
+                            q_to_string(old)
+                        ),
+                    ));
+                }
+                return Ok(());
+            }
+            if !num_traits::Zero::is_zero(&val) {
+                check_nonzero(seen.len() + 1).map_err(|m| doc.error(e.at, &path, m))?;
+            }
+            t.set(idx.0, idx.1, idx.2, val.clone());
+            seen.insert(idx, (val, n, mirrored));
+            Ok(())
+        };
+        put(idx, val, false)?;
+        if let Some((midx, w, _)) = mirror
+            && midx != idx
+        {
+            put(midx, w, true)?;
+        }
     }
     Ok(t)
 }
@@ -288,6 +381,7 @@ fn entry(
     path: &str,
     dims: [usize; 3],
     prime: Option<&PrimeField>,
+    round: Option<&Rationalize>,
 ) -> Result<Entry> {
     let a = json_list(doc, e, path, "[i, j, k, \"coefficient\"]")?;
     if a.len() != 4 {
@@ -319,7 +413,7 @@ fn entry(
         }
     }
     let cpath = format!("{path}[3]");
-    let val = json_coefficient(doc, &a[3], &cpath)?;
+    let val = json_value(doc, &a[3], &cpath, round)?;
     let val = match prime {
         None => val,
         Some(f) => {
@@ -339,4 +433,97 @@ fn entry(
         }
     };
     Ok(((idx[0], idx[1], idx[2]), val))
+}
+
+/// Parse a dense nested JSON list `[[[c000, c001, ...], ...], ...]` of shape a x b x c
+/// (`c[i][j][k]` at `$[i][j][k]`): a bilinear map, or an algebra when asked. Values are
+/// JSON numbers (integers of any size; floats read exactly, see [`super::numbers`]) or
+/// coefficient strings (`"1/3"`). Every list must have the length of the first one at its
+/// depth; errors name the JSON path of the offending value.
+pub fn parse_nested_list(text: &str, source: &str, opts: &ReadOptions) -> Result<Tensor> {
+    let doc = JsonDoc { text, source };
+    let root = doc.parse()?;
+    let what = [
+        "a list of a slices [[[...]]]",
+        "a list of b lists",
+        "a list of c numbers",
+    ];
+    let top = json_list(&doc, &root, "$", what[0])?;
+    let mut dims = [top.len(), 0, 0];
+    let mut probe = &root;
+    for (d, w) in what.iter().enumerate().skip(1) {
+        let path = format!("${}", "[0]".repeat(d));
+        let items = json_list(&doc, probe, &path[..path.len() - 3], w)?;
+        let Some(first) = items.first() else {
+            return Err(doc.error(
+                probe.at,
+                &path[..path.len() - 3],
+                "an empty list: every dimension is at least 1",
+            ));
+        };
+        let inner = json_list(&doc, first, &path, w)?;
+        dims[d] = inner.len();
+        probe = first;
+    }
+    if dims.contains(&0) {
+        return Err(doc.error(
+            root.at,
+            "$",
+            format!("shape {dims:?}: every dimension is at least 1"),
+        ));
+    }
+    if let Some(d) = dims.iter().find(|&&d| d > MAX_DIM) {
+        return Err(doc.error(
+            root.at,
+            "$",
+            format!("dimension {d} is above the limit of {MAX_DIM}"),
+        ));
+    }
+    check_shape(dims).map_err(|m| doc.error(root.at, "$", m))?;
+    let kind = super::npy::kind_for(dims, opts).map_err(|m| doc.error(root.at, "$", m))?;
+    let mut t = Tensor::zero(FieldSpec::Rational, kind, dims, None);
+    let round = opts.rationalize.as_ref();
+    let mut nonzero = 0usize;
+    for (i, a) in top.iter().enumerate() {
+        let pa = format!("$[{i}]");
+        let rows = json_list(&doc, a, &pa, what[1])?;
+        if rows.len() != dims[1] {
+            return Err(doc.error(
+                a.at,
+                &pa,
+                format!(
+                    "expected {} lists (as $[0]), found {}",
+                    dims[1],
+                    a.describe()
+                ),
+            ));
+        }
+        for (j, r) in rows.iter().enumerate() {
+            let pr = format!("{pa}[{j}]");
+            let cells = json_list(&doc, r, &pr, what[2])?;
+            if cells.len() != dims[2] {
+                return Err(doc.error(
+                    r.at,
+                    &pr,
+                    format!(
+                        "expected {} numbers (as $[0][0]), found {}",
+                        dims[2],
+                        r.describe()
+                    ),
+                ));
+            }
+            let mut row = Vec::new();
+            for (k, c) in cells.iter().enumerate() {
+                let path = format!("{pr}[{k}]");
+                let v = json_value(&doc, c, &path, round)?;
+                if !num_traits::Zero::is_zero(&v) {
+                    nonzero += 1;
+                    check_nonzero(nonzero).map_err(|m| doc.error(c.at, &path, m))?;
+                    row.push((k, v));
+                }
+            }
+            t.set_product(i, j, row);
+        }
+    }
+    Ok(t)
 }

@@ -2,6 +2,10 @@
 //!
 //! - [`parse_table`]: the plain-text table format (product lines, `unit`, grid blocks);
 //! - [`parse_json`]: the coordinate JSON form;
+//! - [`parse_npy`], [`parse_csv`], [`parse_nested_list`]: 3-way arrays as data tools write
+//!   them (`.npy`, CSV slices or `i,j,k,value` rows, nested JSON lists), read as bilinear
+//!   maps (or algebras when [`ReadOptions::algebra`] says so), floats exactly
+//!   ([`numbers`]);
 //! - [`write_table`], [`write_grid`], [`write_json`]: the inverse writers, with
 //!   `parse(write(t)) == t` for every tensor whose names are valid basis names;
 //! - [`load_input`]: resolve a command-line input (file, generator, catalog hook);
@@ -9,16 +13,20 @@
 //!
 //! Invariants: parsers never panic; every refusal is an [`crate::error::Error::Parse`] with
 //! a 1-based line and column (in characters) and a message saying what was expected and
-//! what was found. Limits (documented): dimension 4096 per axis, 2^22 products
-//! (`dims[0] * dims[1]`), 4096 digits per integer, 64 MiB per file.
+//! what was found (an array file: [`crate::error::Error::Data`] at a byte or an element
+//! index). Limits (documented): dimension 4096 per axis, 2^22 products (`dims[0] *
+//! dims[1]`), 4096 digits per integer, 64 MiB per file.
 
 mod basis_file;
 mod combination;
+mod csv_array;
 mod cursor;
 mod grid;
 mod json;
 pub mod json_tree;
 mod load;
+mod npy;
+pub mod numbers;
 mod products;
 mod resolve;
 mod table;
@@ -34,11 +42,31 @@ mod tests;
 pub use basis_file::{
     BasisChange, MatrixBlock, NamesLine, apply_basis_change, parse_basis_file, random_basis_change,
 };
-pub use json::{json_coefficient, json_dims, json_field, json_list, json_required, parse_json};
-pub use load::{MAX_FILE_BYTES, load_input, parse_any, read_text_file, text_from_bytes};
+pub use csv_array::parse_csv;
+pub use json::{
+    json_coefficient, json_dims, json_field, json_list, json_required, json_value, parse_json,
+    parse_json_with, parse_nested_list,
+};
+pub use load::{
+    MAX_FILE_BYTES, load_input, load_input_with, parse_any, parse_any_with, parse_bytes,
+    read_binary_file, read_text_file, text_from_bytes,
+};
+pub use npy::{NPY_MAGIC, parse_npy};
+pub use numbers::Rationalize;
 pub use resolve::{Resolver, register_resolver, resolve_registered};
 pub use table::parse_table;
-pub use write::{format_combination, write_grid, write_json, write_table};
+pub use write::{format_combination, write_grid, write_json, write_slices, write_table};
+
+/// How input files are read (the options of the array readers).
+#[derive(Clone, Debug, Default, PartialEq, Eq)]
+pub struct ReadOptions {
+    /// Read a 3-way array (`.npy`, CSV, nested JSON list) as an algebra (its three
+    /// dimensions equal) instead of a bilinear map.
+    pub algebra: bool,
+    /// Round each float that is not exactly what it says to the simplest fraction within
+    /// a tolerance (refused by default).
+    pub rationalize: Option<Rationalize>,
+}
 
 /// Largest number of decimal digits accepted in a numerator or denominator.
 pub const MAX_DIGITS: usize = 4096;

@@ -6,7 +6,7 @@
 //! Invariant: `Built::first` records, per product `(i, j)`, the line and byte where it was
 //! first given; the tensor holds the value given there. Cost: O(terms log terms) per line.
 
-use super::table::{Builder, Pending};
+use super::table::{Builder, Pending, Symmetry};
 use crate::error::Result;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, q_to_string};
 use crate::tensor::{Kind, Tensor};
@@ -43,6 +43,9 @@ pub(super) type NameIndex = HashMap<String, usize, std::hash::BuildHasherDefault
 pub(super) struct Built {
     pub t: Tensor,
     pub first: Vec<(u32, u32)>,
+    /// Per product: stored as the mirror of another product (a bracket or a declared
+    /// symmetry), not given itself.
+    pub mirrored: Vec<bool>,
     pub prime: Option<PrimeField>,
 }
 
@@ -77,6 +80,7 @@ impl Builder<'_> {
         self.built = Some(Built {
             t: Tensor::zero(field, kind, dims, Some(names)),
             first: vec![(0, 0); dims[0] * dims[1]],
+            mirrored: vec![false; dims[0] * dims[1]],
             prime,
         });
     }
@@ -93,47 +97,147 @@ impl Builder<'_> {
         self.insert(&p)
     }
 
-    /// Store a product in the tensor, refusing a conflicting duplicate.
+    /// Whether a product's mirror is stored too: `Some(true)` negated (a bracket, or an
+    /// anticommutative table), `Some(false)` equal (a commutative table).
+    fn mirror_of(&self, p: &Pending) -> Option<(bool, String)> {
+        if p.bracket {
+            return Some((true, "the bracket".to_string()));
+        }
+        self.symmetry.map(|(s, line)| {
+            (
+                s == Symmetry::Anticommutative,
+                format!("`{}` (line {})", s.keyword(), line + 1),
+            )
+        })
+    }
+
+    /// Store a product in the tensor (with its mirror when the table says so), refusing a
+    /// conflicting duplicate.
     pub(super) fn insert(&mut self, p: &Pending) -> Result<()> {
         let Some(built) = self.built.as_ref() else {
             return Ok(());
         };
         let v = reduce_terms(self, p, built.prime.as_ref())?;
-        if let Some((line, byte)) = built.seen(p.i, p.j) {
+        let mirror = self.mirror_of(p);
+        if let Some((true, why)) = &mirror
+            && p.i == p.j
+            && !v.is_empty()
+        {
             let t = &built.t;
-            let old = t.product(p.i, p.j);
+            let x = t.name(0, p.i);
+            return Err(self.err(
+                p.line,
+                p.byte,
+                format!(
+                    "`{x}*{x}` = `{}` contradicts {why}: an anticommutative product has \
+                     `{x}*{x}` = 0",
+                    show(t, &v)
+                ),
+            ));
+        }
+        let w = match &mirror {
+            Some((neg, _)) if p.i != p.j => Some(if *neg {
+                v.iter().map(|(k, c)| (*k, -c.clone())).collect::<Vec<_>>()
+            } else {
+                v.clone()
+            }),
+            _ => None,
+        };
+        if let Some(field) = built.prime.as_ref()
+            && let Some(w) = &w
+        {
+            // -c as the representative in 1..p, as the tensor stores it
+            let w: Vec<(usize, Q)> = w
+                .iter()
+                .map(|(k, c)| {
+                    (
+                        *k,
+                        field.to_rational(&field.from_rational(c).unwrap_or_default()),
+                    )
+                })
+                .collect();
+            self.store(p, p.i, p.j, v, None)?;
+            return self.store(p, p.j, p.i, w, mirror.map(|m| m.1));
+        }
+        self.store(p, p.i, p.j, v, None)?;
+        match w {
+            Some(w) => self.store(p, p.j, p.i, w, mirror.map(|m| m.1)),
+            None => Ok(()),
+        }
+    }
+
+    /// Store the value `v` of product `(i, j)` given by `p` (as a mirror by `why`).
+    fn store(
+        &mut self,
+        p: &Pending,
+        i: usize,
+        j: usize,
+        v: Vec<(usize, Q)>,
+        why: Option<String>,
+    ) -> Result<()> {
+        let Some(built) = self.built.as_ref() else {
+            return Ok(());
+        };
+        let b = built.t.dims()[1];
+        if let Some((line, byte)) = built.seen(i, j) {
+            let t = &built.t;
+            let old = t.product(i, j);
             if old != v.as_slice() {
-                // Report at the later of the two lines (products with a bare number are
-                // stored last, so the stored one may come later in the file).
                 let (here, there) = (show(t, &v), show(t, old));
-                let (at, at_byte, here, other, there) = if line > p.line {
-                    (line, byte, there, p.line, here)
-                } else {
-                    (p.line, p.byte, here, line, there)
-                };
-                return Err(self.err(
-                    at,
-                    at_byte,
-                    format!(
-                        "conflicting duplicate product `{}*{}`: here `{here}`, but line {} gave \
+                let name = format!("{}*{}", t.name(0, i), t.name(1, j));
+                let message = match (&why, built.mirrored[i * b + j]) {
+                    (Some(why), _) => format!(
+                        "this line and {why} give `{name}` = `{here}`, but line {} gave \
                          `{there}`",
-                        t.name(0, p.i),
-                        t.name(1, p.j),
-                        other + 1,
+                        line + 1
                     ),
-                ));
+                    (None, true) => {
+                        let reason = match self.symmetry {
+                            Some((s, sl)) => format!("`{}` (line {})", s.keyword(), sl + 1),
+                            None => "the bracket".to_string(),
+                        };
+                        format!(
+                            "`{name}` = `{here}` contradicts {reason}: line {} gives `{}*{}` = \
+                             `{}`, so `{name}` = `{there}`",
+                            line + 1,
+                            t.name(0, j),
+                            t.name(1, i),
+                            show(t, t.product(j, i)),
+                        )
+                    }
+                    (None, false) => {
+                        // Report at the later of the two lines (products with a bare number
+                        // are stored last, so the stored one may come later in the file).
+                        let (at, at_byte, here, other, there) = if line > p.line {
+                            (line, byte, there, p.line, here)
+                        } else {
+                            (p.line, p.byte, here, line, there)
+                        };
+                        return Err(self.err(
+                            at,
+                            at_byte,
+                            format!(
+                                "conflicting duplicate product `{name}`: here `{here}`, but \
+                                 line {} gave `{there}`",
+                                other + 1,
+                            ),
+                        ));
+                    }
+                };
+                return Err(self.err(p.line, p.byte, message));
             }
             return Ok(());
         }
+        self.count_nonzero(v.len(), p.line, p.byte)?;
         let Some(built) = self.built.as_mut() else {
             return Ok(());
         };
-        built.t.set_product(p.i, p.j, v);
-        let b = built.t.dims()[1];
-        built.first[p.i * b + p.j] = (
+        built.t.set_product(i, j, v);
+        built.first[i * b + j] = (
             u32::try_from(p.line + 1).unwrap_or(u32::MAX),
             u32::try_from(p.byte).unwrap_or(u32::MAX),
         );
+        built.mirrored[i * b + j] = why.is_some();
         Ok(())
     }
 }

@@ -1,6 +1,11 @@
 //! The table format (`docs/formats.md`, section 1): statements `field`, `basis`,
-//! `left`/`right`/`result`, `unit`, product lines `x*y = combination` and `grid ... end`
-//! blocks, with `#` comments.
+//! `left`/`right`/`result`, `unit`, `commutative` / `anticommutative`, product lines
+//! `x*y = combination`, bracket lines `[x, y] = combination`, `grid ... end` blocks and
+//! (maps) `slice AXIS NAME ... end` blocks, with `#` comments.
+//!
+//! A bracket line gives `x*y` and its mirror `y*x = -(x*y)`; a declaration
+//! `commutative` (`anticommutative`) gives the mirror `y*x = x*y` (`-(x*y)`) of every
+//! product; a product that contradicts a mirror already given is refused at its line.
 //!
 //! Statements are read line by line into a [`Builder`] (names resolved to indices,
 //! coefficients parsed, no allocation per name); each product goes straight into the tensor
@@ -17,7 +22,7 @@ use super::products::{Built, NameIndex, show};
 use crate::error::{Error, Position, Result};
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{Kind, MAX_DIM, Tensor, check_shape};
-use num_traits::One;
+use num_traits::{One, Zero};
 use std::collections::HashMap;
 
 /// One term of a product with its result index resolved: `k = None` for a bare number
@@ -33,6 +38,8 @@ pub(super) struct Pending {
     pub i: usize,
     pub j: usize,
     pub terms: Vec<Resolved>,
+    /// Given as a bracket `[x, y]` (its mirror is `-(x*y)`).
+    pub bracket: bool,
     /// Line index (0-based) and byte offset of the product's left factor.
     pub line: usize,
     pub byte: usize,
@@ -55,6 +62,39 @@ pub(super) struct Builder<'a> {
     /// The tensor under construction, created at the first product.
     pub built: Option<Built>,
     pub statements: usize,
+    /// A `commutative` or `anticommutative` declaration and its line index.
+    pub symmetry: Option<(Symmetry, usize)>,
+    /// The slices of a map given by `slice` blocks.
+    pub slices: Option<SliceEntries>,
+    /// Nonzero coefficients stored so far (at most [`crate::tensor::MAX_NONZERO`]).
+    pub nonzero: usize,
+}
+
+/// A declared symmetry of the product.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Symmetry {
+    /// `y*x = x*y`.
+    Commutative,
+    /// `y*x = -(x*y)` and `x*x = 0`.
+    Anticommutative,
+}
+
+impl Symmetry {
+    pub fn keyword(self) -> &'static str {
+        match self {
+            Symmetry::Commutative => "commutative",
+            Symmetry::Anticommutative => "anticommutative",
+        }
+    }
+}
+
+/// The coefficients read from `slice` blocks.
+pub(super) struct SliceEntries {
+    pub axis: usize,
+    pub first_line: usize,
+    /// Per slice index, the line index of its block.
+    pub seen: Vec<Option<usize>>,
+    pub values: Vec<(usize, usize, usize, Q)>,
 }
 
 impl<'a> Builder<'a> {
@@ -133,6 +173,31 @@ impl<'a> Builder<'a> {
             .collect()
     }
 
+    /// Refuse a coefficient that has no value in the declared field GF(p).
+    /// Count `n` more nonzero coefficients (given at a line and byte), refusing the input
+    /// beyond [`crate::tensor::MAX_NONZERO`] before they are stored.
+    pub(super) fn count_nonzero(&mut self, n: usize, line: usize, byte: usize) -> Result<()> {
+        self.nonzero = self.nonzero.saturating_add(n);
+        crate::tensor::check_nonzero(self.nonzero).map_err(|m| self.err(line, byte, m))
+    }
+
+    pub(super) fn check_coefficient(&self, v: &Q, line: usize, byte: usize) -> Result<()> {
+        if let Some((FieldSpec::Prime(p), _)) = self.field
+            && (v.denom() % p).is_zero()
+        {
+            return Err(self.err(
+                line,
+                byte,
+                format!(
+                    "the coefficient {} has a denominator divisible by {p}, so it has no \
+                     value in GF({p})",
+                    crate::scalar::q_to_string(v)
+                ),
+            ));
+        }
+        Ok(())
+    }
+
     fn declared(&self) -> bool {
         match self.kind {
             Some(Kind::Algebra) => true,
@@ -201,6 +266,9 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
         products: 0,
         built: None,
         statements: 0,
+        symmetry: None,
+        slices: None,
+        nonzero: 0,
     };
     let mut idx = 0;
     while idx < b.lines.len() {
@@ -211,7 +279,20 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
         }
         b.statements += 1;
         if line.text.contains('=') {
-            parse_product(&mut b, line, idx - 1)?;
+            if let Some(sl) = &b.slices {
+                return Err(line.err(
+                    0,
+                    format!(
+                        "a map is given either by slices (line {}) or by product lines, not both",
+                        sl.first_line + 1
+                    ),
+                ));
+            }
+            if line.text.trim_start().starts_with('[') {
+                parse_bracket(&mut b, line, idx - 1)?;
+            } else {
+                parse_product(&mut b, line, idx - 1)?;
+            }
             continue;
         }
         let toks = tokens(line.text);
@@ -220,6 +301,8 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
             "field" => parse_field(&mut b, line, idx - 1, kpos + keyword.len())?,
             "basis" | "left" | "right" | "result" => parse_basis(&mut b, line, idx - 1, &toks)?,
             "unit" => parse_unit(&mut b, line, idx - 1, &toks)?,
+            "commutative" | "anticommutative" => parse_symmetry(&mut b, line, idx - 1, &toks)?,
+            "slice" => idx = super::grid::parse_slice(&mut b, idx - 1, &toks)?,
             "grid" => {
                 if toks.len() > 1 {
                     return Err(line.err(
@@ -235,7 +318,8 @@ pub fn parse_table(text: &str, source: &str) -> Result<Tensor> {
                     kpos,
                     format!(
                         "expected a statement (`field`, `basis`, `left`, `right`, `result`, \
-                         `unit`, `grid`) or a product `x*y = ...`, found `{other}`"
+                         `unit`, `commutative`, `anticommutative`, `grid`, `slice`), a product \
+                         `x*y = ...` or a bracket `[x, y] = ...`, found `{other}`"
                     ),
                 ));
             }
@@ -384,6 +468,15 @@ fn parse_unit(
             format!("`unit` is declared twice (first on line {})", first + 1),
         ));
     }
+    if let Some((Symmetry::Anticommutative, sline)) = b.symmetry {
+        return Err(line.err(
+            kpos,
+            format!(
+                "`unit` contradicts `anticommutative` (line {}): a unit u has u*u = u, not 0",
+                sline + 1
+            ),
+        ));
+    }
     if toks.len() != 2 {
         let at = toks.get(2).map_or(kpos + 4, |t| t.0);
         return Err(line.err(at, "expected exactly one basis name after `unit`"));
@@ -391,6 +484,124 @@ fn parse_unit(
     let u = b.lookup(0, toks[1].1, &line, toks[1].0)?;
     b.unit = Some((u, idx));
     Ok(())
+}
+
+fn parse_symmetry(
+    b: &mut Builder<'_>,
+    line: LineRef<'_>,
+    idx: usize,
+    toks: &[(usize, &str)],
+) -> Result<()> {
+    let (kpos, kw) = toks[0];
+    let sym = if kw == "commutative" {
+        Symmetry::Commutative
+    } else {
+        Symmetry::Anticommutative
+    };
+    match b.kind {
+        None => {
+            return Err(line.err(
+                kpos,
+                format!("`{kw}` before the basis: declare `basis ...` first"),
+            ));
+        }
+        Some(Kind::Bilinear) => {
+            return Err(line.err(
+                kpos,
+                format!("`{kw}` is for an algebra (a `basis` statement), not a bilinear map"),
+            ));
+        }
+        _ => {}
+    }
+    if let Some((old, first)) = b.symmetry {
+        return Err(line.err(
+            kpos,
+            format!(
+                "the product is already declared `{}` on line {}",
+                old.keyword(),
+                first + 1
+            ),
+        ));
+    }
+    if b.products > 0 {
+        return Err(line.err(kpos, format!("`{kw}` must come before the products")));
+    }
+    if let Some(&(pos, x)) = toks.get(1) {
+        return Err(line.err(pos, format!("expected nothing after `{kw}`, found `{x}`")));
+    }
+    if sym == Symmetry::Anticommutative
+        && let Some((_, uline)) = b.unit
+    {
+        return Err(line.err(
+            kpos,
+            format!(
+                "`anticommutative` contradicts `unit` (line {}): a unit u has u*u = u, not 0",
+                uline + 1
+            ),
+        ));
+    }
+    b.symmetry = Some((sym, idx));
+    Ok(())
+}
+
+/// A bracket line `[x, y] = combination`.
+fn parse_bracket(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<()> {
+    let mut cur = Cursor::new(line, 0, line.text.len());
+    cur.skip_ws();
+    let start = cur.pos;
+    if !b.declared() {
+        return Err(cur.err("a bracket before the basis: declare `basis ...` first"));
+    }
+    if b.kind == Some(Kind::Bilinear) {
+        return Err(cur.err(
+            "a bracket `[x, y]` is for an algebra (a `basis` statement); write a map's \
+             products as `x*y = ...`",
+        ));
+    }
+    if let Some((Symmetry::Commutative, first)) = b.symmetry {
+        return Err(cur.err(format!(
+            "a bracket `[x, y]` is anticommutative, but the product is declared `commutative` \
+             on line {}",
+            first + 1
+        )));
+    }
+    cur.bump();
+    cur.skip_ws();
+    let xpos = cur.pos;
+    let Some(x) = cur.name() else {
+        return Err(cur.expected("a basis name after `[`"));
+    };
+    let i = b.lookup(0, x, &line, xpos)?;
+    cur.skip_ws();
+    if cur.peek() != Some(',') {
+        return Err(cur.expected(&format!("`,` after `{x}`")));
+    }
+    cur.bump();
+    cur.skip_ws();
+    let ypos = cur.pos;
+    let Some(y) = cur.name() else {
+        return Err(cur.expected("a basis name after `,`"));
+    };
+    let j = b.lookup(1, y, &line, ypos)?;
+    cur.skip_ws();
+    if cur.peek() != Some(']') {
+        return Err(cur.expected(&format!("`]` after `{y}`")));
+    }
+    cur.bump();
+    cur.skip_ws();
+    if cur.peek() != Some('=') {
+        return Err(cur.expected("`=`"));
+    }
+    cur.bump();
+    let terms = b.resolve_terms(parse_combination(&mut cur)?, &line)?;
+    b.add_product(Pending {
+        i,
+        j,
+        terms,
+        bracket: true,
+        line: idx,
+        byte: start,
+    })
 }
 
 fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<()> {
@@ -427,6 +638,7 @@ fn parse_product(b: &mut Builder<'_>, line: LineRef<'_>, idx: usize) -> Result<(
         i,
         j,
         terms,
+        bracket: false,
         line: idx,
         byte: start,
     })
@@ -460,6 +672,27 @@ fn finish(mut b: Builder<'_>) -> Result<Tensor> {
     b.ensure_built();
     for p in std::mem::take(&mut b.pending) {
         b.insert(&p)?;
+    }
+    if let Some(sl) = b.slices.take() {
+        if let Some(missing) = sl.seen.iter().position(Option::is_none) {
+            return Err(b.err(
+                sl.first_line,
+                0,
+                format!(
+                    "the map is given by {} slices, but slice `{}` is missing: every slice \
+                     along the axis must be given once",
+                    crate::tensor::AXES[sl.axis],
+                    b.names[sl.axis]
+                        .as_ref()
+                        .map_or("", |v| v.0[missing].as_str())
+                ),
+            ));
+        }
+        if let Some(built) = b.built.as_mut() {
+            for (i, j, k, v) in sl.values {
+                built.t.set(i, j, k, v);
+            }
+        }
     }
     let Some(built) = b.built.take() else {
         return Err(b.err(0, 0, "no basis declared"));

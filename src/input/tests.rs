@@ -248,9 +248,9 @@ fn json_forms_and_errors() {
             "$.entries[0][3]: division by zero",
         ),
         (
-            "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,0.5]]}",
+            "{\"kind\":\"algebra\",\"dims\":[2,2,2],\"entries\":[[0,0,0,0.1]]}",
             "j:1:52:",
-            "found the number 0.5",
+            "$.entries[0][3]: the floating-point number 0.1 is not exactly 1/10",
         ),
         (
             "{\"field\":\"GF(4)\",\"kind\":\"algebra\",\"dims\":[1,1,1],\"entries\":[]}",
@@ -388,4 +388,30 @@ fn file_loader_limits() {
     .unwrap();
     assert_eq!(load_input(js.to_str().unwrap(), None).unwrap().nnz(), 1);
     std::fs::remove_file(&js).unwrap();
+}
+
+/// Files are recognised by content first: a zip archive (numpy's `.npz`) and a file named
+/// `.npy` without the magic bytes are refused with what was expected; the same text under
+/// another name reads as usual.
+#[test]
+fn archives_and_misnamed_arrays() {
+    let o = ReadOptions::default();
+    let e = parse_bytes(b"PK\x03\x04rest".to_vec(), "a.npz", &o)
+        .unwrap_err()
+        .to_string();
+    assert!(e.starts_with("a.npz: byte 0: a zip archive"), "{e}");
+    assert!(e.contains("np.save"), "{e}");
+    let e = parse_bytes(b"basis e\ne*e = e\n".to_vec(), "t.NPY", &o)
+        .unwrap_err()
+        .to_string();
+    assert!(
+        e.starts_with("t.NPY: byte 0: not a .npy file: expected the bytes 93 4E 55 4D 50 59"),
+        "{e}"
+    );
+    assert!(e.ends_with("found 62 61 73 69 73 20"), "{e}");
+    let e = parse_bytes(Vec::new(), "t.npy", &o)
+        .unwrap_err()
+        .to_string();
+    assert!(e.ends_with("found an empty file"), "{e}");
+    assert!(parse_bytes(b"basis e\ne*e = e\n".to_vec(), "t.txt", &o).is_ok());
 }

@@ -97,29 +97,9 @@ pub fn write_grid(t: &Tensor) -> Result<String> {
         row.extend((0..n).map(|j| product_cell(t, i, j, false)));
         rows.push(row);
     }
-    let mut width = vec![0; n + 1];
-    for r in &rows {
-        for (c, cell) in r.iter().enumerate() {
-            width[c] = width[c].max(cell.chars().count());
-        }
-    }
     let mut s = header(t);
     s.push_str("grid\n");
-    for r in &rows {
-        let line: Vec<String> = r
-            .iter()
-            .enumerate()
-            .map(|(c, cell)| {
-                if c == 0 {
-                    format!("{cell:<w$}", w = width[0])
-                } else {
-                    format!("{cell:>w$}", w = width[c])
-                }
-            })
-            .collect();
-        s.push_str(line.join("  ").trim_end());
-        s.push('\n');
-    }
+    s.push_str(&aligned(&rows));
     s.push_str("end\n");
     Ok(s)
 }
@@ -173,4 +153,72 @@ pub fn write_json(t: &Tensor) -> String {
     }
     out.push_str("\n ]}\n");
     out
+}
+
+/// A bilinear map as its slices along `axis` (0 left, 1 right, 2 result): one
+/// `slice AXIS NAME ... end` block per basis vector of that axis, each a matrix of numbers
+/// with a header of column names and one row per row name (see `docs/formats.md`). The
+/// table parser reads it back. An algebra is written as a map with the same names.
+pub fn write_slices(t: &Tensor, axis: usize) -> String {
+    let t = if t.kind() == Kind::Algebra {
+        t.as_bilinear()
+    } else {
+        t.clone()
+    };
+    let (ra, ca) = super::grid::slice_axes(axis);
+    let dims = t.dims();
+    let mut s = header(&t);
+    for k in 0..dims[axis] {
+        let mut rows: Vec<Vec<String>> = Vec::with_capacity(dims[ra] + 1);
+        let mut head = vec![String::new()];
+        head.extend(t.names()[ca].iter().cloned());
+        rows.push(head);
+        for r in 0..dims[ra] {
+            let mut row = vec![t.name(ra, r).to_string()];
+            for c in 0..dims[ca] {
+                let mut ijk = [0usize; 3];
+                ijk[axis] = k;
+                ijk[ra] = r;
+                ijk[ca] = c;
+                row.push(q_to_string(&t.get(ijk[0], ijk[1], ijk[2])));
+            }
+            rows.push(row);
+        }
+        s.push_str(&format!(
+            "slice {} {}\n",
+            crate::tensor::AXES[axis],
+            t.name(axis, k)
+        ));
+        s.push_str(&aligned(&rows));
+        s.push_str("end\n");
+    }
+    s
+}
+
+/// Rows of cells with the first column left-aligned and the others right-aligned.
+fn aligned(rows: &[Vec<String>]) -> String {
+    let cols = rows.iter().map(Vec::len).max().unwrap_or(0);
+    let mut width = vec![0; cols];
+    for r in rows {
+        for (c, cell) in r.iter().enumerate() {
+            width[c] = width[c].max(cell.chars().count());
+        }
+    }
+    let mut s = String::new();
+    for r in rows {
+        let line: Vec<String> = r
+            .iter()
+            .enumerate()
+            .map(|(c, cell)| {
+                if c == 0 {
+                    format!("{cell:<w$}", w = width[0])
+                } else {
+                    format!("{cell:>w$}", w = width[c])
+                }
+            })
+            .collect();
+        s.push_str(line.join("  ").trim_end());
+        s.push('\n');
+    }
+    s
 }

@@ -11,6 +11,7 @@ pub mod upper;
 pub use upper::{Upper, UpperParams, upper_bounds};
 
 use crate::decompose::Uniqueness;
+use crate::ranks::Bounds;
 use crate::scheme::Scheme;
 use crate::tensor::Tensor;
 use serde::Serialize;
@@ -21,6 +22,30 @@ pub struct Lower {
     pub value: usize,
     pub name: String,
     pub theorem: String,
+}
+
+impl Lower {
+    /// The best proven lower bound for the rank over the tensor's field, with its theorem
+    /// ([`Bounds::best_bound`]; border-rank bounds count, since R >= border rank).
+    pub fn best_of(b: &Bounds) -> Lower {
+        match b.best_bound() {
+            Some(x) => Lower {
+                value: x.value,
+                name: x.name.clone(),
+                theorem: x.theorem.clone(),
+            },
+            None => Lower::none(),
+        }
+    }
+
+    /// No lower bound (R >= 0).
+    pub fn none() -> Lower {
+        Lower {
+            value: 0,
+            name: "none".into(),
+            theorem: "-".into(),
+        }
+    }
 }
 
 /// The interval and its reasons.
@@ -130,11 +155,7 @@ pub fn rank_interval(
             "the lower bound {} exceeds a verified scheme of rank {}: ignored",
             lower.value, upper.value
         ));
-        Lower {
-            value: 0,
-            name: "none".into(),
-            theorem: "-".into(),
-        }
+        Lower::none()
     } else {
         lower
     };

@@ -16,6 +16,7 @@
 
 use crate::linalg::nullspace::cached_primes;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
+use crate::scalar::{crt_combine, residue};
 use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -48,7 +49,6 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
     let grams: Vec<Vec<u64>> = primes
         .iter()
         .map(|&p| {
-            let pb = BigInt::from(p);
             // m[i] = the matrix M_i as (a, b, residue) triples
             let mats: Vec<Vec<(usize, usize, u64)>> = (0..n)
                 .map(|i| {
@@ -60,7 +60,7 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
                             it.product(b, i)
                         };
                         for (a, x) in row {
-                            let x = x.mod_floor(&pb).to_u64().expect("reduced");
+                            let x = residue(x, p);
                             if x != 0 {
                                 v.push((*a as usize, b, x));
                             }
@@ -89,22 +89,20 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
             g
         })
         .collect();
-    let modulus: BigInt = primes.iter().map(|&p| BigInt::from(p)).product();
+    // Chinese remaindering of the Gram matrices, entry by entry
+    let mut entries: Vec<BigInt> = grams[0].iter().map(|&x| BigInt::from(x)).collect();
+    let mut modulus = BigInt::from(primes[0]);
+    for (g, &p) in grams.iter().zip(&primes).skip(1) {
+        crt_combine(&mut entries, &modulus, g, p);
+        modulus *= p;
+    }
     let half = &modulus >> 1u32;
+    let mut entries = entries.into_iter();
     (0..n)
-        .map(|i| {
+        .map(|_| {
             (0..n)
-                .map(|j| {
-                    let mut x = BigInt::zero();
-                    let mut m = BigInt::one();
-                    for (g, &p) in grams.iter().zip(&primes) {
-                        let pb = BigInt::from(p);
-                        let xm = (&x % &pb).to_u64().expect("small");
-                        let inv = (&m % &pb).extended_gcd(&pb).x.mod_floor(&pb);
-                        let t = (BigInt::from((g[i * n + j] + p - xm) % p) * inv).mod_floor(&pb);
-                        x += &m * t;
-                        m *= pb;
-                    }
+                .map(|_| {
+                    let mut x = entries.next().expect("n^2 entries");
                     if it.modulus().is_none() && x > half {
                         x -= &modulus;
                     }
@@ -262,6 +260,59 @@ pub fn square_class_text(a: &Q) -> String {
     } else {
         format!("{sign}{} (mod squares)", a.numer() * a.denom())
     }
+}
+
+/// The Gram matrix of the trace form `(X, Y) -> tr(X Y)` on a space of linear maps of an
+/// n-dimensional space (each basis vector holds a map's matrix, `X[l][i]` at `l n + i`, as
+/// in [`crate::invariants::maps`]). Each basis map is first scaled to integer entries (a
+/// congruence), so rank, signature and discriminant class are those of the form on the
+/// space. Over GF(q) the entries are residues. For the derivation algebra this form is
+/// invariant under automorphisms of the algebra, so its congruence class is an invariant.
+/// Cost: O(dim^2 nnz) big-integer operations.
+pub fn map_trace_form(
+    space: &crate::linalg::nullspace::Space,
+    n: usize,
+    modulus: Option<u64>,
+) -> Vec<Vec<BigInt>> {
+    let d = space.dim();
+    let maps: Vec<Vec<(usize, usize, BigInt)>> = (0..d)
+        .map(|a| {
+            let v = &space.basis[a];
+            let den = v.iter().fold(BigInt::one(), |s, (_, x)| s.lcm(x.denom()));
+            v.iter()
+                .map(|(c, x)| {
+                    let c = *c as usize;
+                    (c / n, c % n, x.numer() * (&den / x.denom()))
+                })
+                .collect()
+        })
+        .collect();
+    let mut dense = vec![BigInt::zero(); n * n];
+    let mut g = vec![vec![BigInt::zero(); d]; d];
+    for b in 0..d {
+        for (l, i, x) in &maps[b] {
+            dense[l * n + i] = x.clone();
+        }
+        for a in 0..=b {
+            // tr(X_a X_b) = sum X_a[l][i] X_b[i][l]
+            let mut s = BigInt::zero();
+            for (l, i, x) in &maps[a] {
+                let y = &dense[i * n + l];
+                if !y.is_zero() {
+                    s += x * y;
+                }
+            }
+            if let Some(q) = modulus {
+                s = s.mod_floor(&BigInt::from(q));
+            }
+            g[a][b] = s.clone();
+            g[b][a] = s;
+        }
+        for (l, i, _) in &maps[b] {
+            dense[l * n + i] = BigInt::zero();
+        }
+    }
+    g
 }
 
 #[cfg(test)]

@@ -32,7 +32,9 @@ use crate::error::Result;
 use crate::linalg::dense_echelon::DenseEchelon;
 use crate::linalg::kernels::{LazyAcc, Modulus};
 use crate::linalg::modular::rref_mod;
-use crate::linalg::nullspace::{SolveParams, Space, SparseQ, check_solutions, primes_prefix};
+use crate::linalg::nullspace::{
+    SolveParams, Space, SparseQ, check_solutions, hadamard_bits, primes_prefix,
+};
 use crate::scalar::{Q, Reconstructor, crt_combine};
 use crate::tensor::{IntegralTensor, ModTable};
 use num_bigint::BigInt;
@@ -386,8 +388,7 @@ pub fn solve_by_generators(
     let primes: Vec<u64> = match it.modulus() {
         Some(q) if q < 1 << crate::linalg::kernels::KERNEL_PRIME_BITS => vec![q],
         Some(_) => return Ok(None),
-        // a shortcut: past this many primes the general solver takes over
-        None => primes_prefix(params.max_primes.clamp(2, 256)).to_vec(),
+        None => primes_prefix(params.max_primes.max(2)).to_vec(),
     };
     let max_gens = (n / 4).max(1);
     let Some(words) = choose_words(&it.residues(primes[0]), params.seed, max_gens) else {
@@ -444,7 +445,13 @@ fn lift(
     let mut residues: Vec<BigInt> = Vec::new();
     let mut modulus = BigInt::one();
     let mut previous_probe: Option<Vec<Q>> = None;
+    let mut previous_basis: Option<Vec<SparseQ>> = None;
+    // past the Hadamard bound of the full system the candidate cannot stabilise
+    let cap = hadamard_bits(nn, crate::linalg::system::RowSource::term_bits(plain), nn) + 64;
     for &p in primes {
+        if modulus.bits() > cap {
+            break;
+        }
         let Some(c) = candidate_mod(it, words, kind, p, order, fed) else {
             continue;
         };
@@ -497,14 +504,19 @@ fn lift(
             })
             .collect();
         let stable = exact_field || basis.is_some();
-        if stable
-            && let Some(basis) = &basis
-            && check_solutions(plain, basis)?
-        {
-            return Ok(Some(Space {
-                unknowns: nn,
-                basis: basis.clone(),
-            }));
+        if stable && let Some(basis) = &basis {
+            if check_solutions(plain, basis)? {
+                return Ok(Some(Space {
+                    unknowns: nn,
+                    basis: basis.clone(),
+                }));
+            }
+            // the same reconstruction from two moduli, and still not a solution: the
+            // candidate space itself is too large (too few pairs fed), not its lift
+            if previous_basis.as_ref() == Some(basis) {
+                return Ok(None);
+            }
+            previous_basis = Some(basis.clone());
         }
         if exact_field {
             return Ok(None);

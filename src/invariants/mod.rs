@@ -11,10 +11,15 @@
 //! - [`maps`]: centroid, derivations, inner derivations, adjoint algebra;
 //! - [`radical`]: radical of an associative algebra over Q (trace form), semisimple quotient;
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
-//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map.
+//! - [`central`]: the upper central series;
+//! - [`components`]: the simple components of a semisimple centre (field degrees);
+//! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map;
+//! - [`structure`]: solvable, nilpotent (with class) and semisimple, with witnesses.
 
 pub mod all;
 pub mod bilinear;
+pub mod central;
+pub mod components;
 pub mod elements;
 pub mod equations;
 pub mod forms;
@@ -25,6 +30,7 @@ pub mod maps;
 mod properties;
 pub mod radical;
 pub mod spans;
+pub mod structure;
 #[cfg(test)]
 pub(crate) mod testing;
 

@@ -21,6 +21,8 @@ pub enum Component {
     JordanId,
     CommutatorJacobi,
     AnticommutatorJordan,
+    /// `J(x,y,xz) = J(x,y,z)x` with `J(a,b,c) = (ab)c + (bc)a + (ca)b` (Sagle 1961).
+    MalcevId,
 }
 
 /// Which product an identity is written in.
@@ -60,6 +62,26 @@ pub fn def(c: Component) -> Def {
             mul(mul(x.clone(), y.clone()), mul(w.clone(), z.clone())),
         ),
     ];
+    // Malcev: variables 0 and 1 are x, 2 is y, 3 is z:
+    // J(x,y,xz) - J(x,y,z)x with J(a,b,c) = (ab)c + (bc)a + (ca)b
+    let malcev = || {
+        let (x0, x1, y, z) = (var(0), var(1), var(2), var(3));
+        let x1z = mul(x1.clone(), z.clone());
+        vec![
+            (1, mul(mul(x0.clone(), y.clone()), x1z.clone())),
+            (1, mul(mul(y.clone(), x1z.clone()), x0.clone())),
+            (1, mul(mul(x1z, x0.clone()), y.clone())),
+            (
+                -1,
+                mul(mul(mul(x0.clone(), y.clone()), z.clone()), x1.clone()),
+            ),
+            (
+                -1,
+                mul(mul(mul(y.clone(), z.clone()), x0.clone()), x1.clone()),
+            ),
+            (-1, mul(mul(mul(z, x0), y), x1)),
+        ]
+    };
     let (terms, nvars, degree, product) = match c {
         Assoc => (assoc(&x, &y, &z), 3, 0, Product::Original),
         Comm => (
@@ -86,6 +108,7 @@ pub fn def(c: Component) -> Def {
         JordanId => (jordan, 4, 3, Product::Original),
         CommutatorJacobi => (jacobi, 3, 0, Product::Commutator),
         AnticommutatorJordan => (jordan, 4, 3, Product::Anticommutator),
+        MalcevId => (malcev(), 4, 2, Product::Original),
     };
     Def {
         id: Identity { terms, nvars },

@@ -55,6 +55,8 @@ pub enum Law {
     Jacobi,
     /// Anticommutative and Jacobi.
     Lie,
+    /// Anticommutative and `J(x,y,xz) = J(x,y,z)x`, `J` the Jacobian (Sagle 1961).
+    Malcev,
     /// `(xx)y = x(xy)`.
     LeftAlternative,
     /// `(yx)x = y(xx)`.
@@ -77,12 +79,13 @@ pub enum Law {
 
 impl Law {
     /// All laws, in report order.
-    pub const ALL: [Law; 14] = [
+    pub const ALL: [Law; 15] = [
         Law::Associative,
         Law::Commutative,
         Law::Anticommutative,
         Law::Jacobi,
         Law::Lie,
+        Law::Malcev,
         Law::LeftAlternative,
         Law::RightAlternative,
         Law::Alternative,
@@ -102,6 +105,7 @@ impl Law {
             Law::Anticommutative => "anticommutative",
             Law::Jacobi => "jacobi",
             Law::Lie => "lie",
+            Law::Malcev => "malcev",
             Law::LeftAlternative => "left-alternative",
             Law::RightAlternative => "right-alternative",
             Law::Alternative => "alternative",
@@ -114,9 +118,11 @@ impl Law {
         }
     }
 
-    /// Parse a kebab-case name.
+    /// Parse a kebab-case name, in any case (`lie`, `Lie`, `LEFT-ALTERNATIVE`).
     pub fn parse(s: &str) -> Option<Law> {
-        Law::ALL.into_iter().find(|l| l.name() == s)
+        Law::ALL
+            .into_iter()
+            .find(|l| l.name().eq_ignore_ascii_case(s))
     }
 
     fn components(self) -> &'static [Component] {
@@ -127,6 +133,7 @@ impl Law {
             Law::Anticommutative => &[Anti],
             Law::Jacobi => &[Jacobi],
             Law::Lie => &[Anti, Jacobi],
+            Law::Malcev => &[Anti, MalcevId],
             Law::LeftAlternative => &[LeftAlt],
             Law::RightAlternative => &[RightAlt],
             Law::Alternative => &[LeftAlt, RightAlt],
@@ -358,7 +365,8 @@ fn in_product<'t, F: Field>(
 /// - anticommutative and Jacobi imply the Jacobi identity of the commutator (`[x,y] = 2xy`);
 /// - left alternative implies third powers (`(x,x,x)` is an instance of it);
 /// - left and right alternative imply flexible (`(x,y,x) = -(x,x,y)`);
-/// - commutative and Jordan imply the Jordan identity of `xy + yx = 2xy`.
+/// - commutative and Jordan imply the Jordan identity of `xy + yx = 2xy`;
+/// - the Jacobi identity implies the Malcev identity (both of its sides are Jacobians).
 ///
 /// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. I-III; common practice.)
 pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
@@ -370,6 +378,7 @@ pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
         CommutatorJacobi => &[&[Assoc], &[Anti, Jacobi]],
         AnticommutatorJordan => &[&[Assoc], &[Comm, JordanId]],
         JordanId => &[&[Assoc, Comm]],
+        MalcevId => &[&[Jacobi]],
         Assoc | Comm | Anti | Jacobi => &[],
     }
 }
@@ -389,6 +398,7 @@ fn component_name(c: Component) -> &'static str {
         JordanId => "the Jordan identity",
         CommutatorJacobi => "the Jacobi identity of the commutator",
         AnticommutatorJordan => "the Jordan identity of the anticommutator",
+        MalcevId => "the Malcev identity",
     }
 }
 

@@ -26,12 +26,12 @@ use super::check::{next_multiset, next_tuple};
 use super::identities::{Component, Product, def};
 use super::plans::{self, Scratch};
 use crate::linalg::modular::kernel_primes;
+use crate::scalar::crt;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::products::{DenseOps, Ops, SparseOps, build_pair_table, pair_table_words};
 use crate::tensor::{IntegralTensor, ModTable, prefers_dense};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::{One, ToPrimitive, Zero};
+use num_traits::Zero;
 use rayon::prelude::*;
 
 /// Most words of a pair table (256 MB); larger dense tables evaluate pairs on the fly.
@@ -264,14 +264,17 @@ pub fn decide(images: &mut Images, c: Component, stop_first: bool, max_work: f64
         return out;
     }
     let pairs = images.dense && uses_pairs(c) && pair_table_words(n) <= MAX_PAIR_WORDS;
+    let row = if images.dense {
+        n as f64
+    } else {
+        (images.it.nnz() as f64 / (n * n).max(1) as f64).max(1.0)
+    };
     let per_product = if images.dense {
         (n * n) as f64
     } else {
-        let rows = (n * n).max(1) as f64;
-        let avg = images.it.nnz() as f64 / rows;
-        (avg * avg).max(1.0)
+        row * row
     };
-    let per_instance = plans::products_per_instance(c) * if pairs { 1.0 } else { per_product };
+    let per_instance = plans::products_per_instance(c, row) * if pairs { 1.0 } else { per_product };
     let work = total as f64 * per_instance + if pairs { (n as f64).powi(5) / 2.0 } else { 0.0 };
     if work > max_work || total > 1 << 34 {
         out.skipped = Some(format!(
@@ -439,26 +442,4 @@ fn one_instance<O: Ops>(o: &O, c: Component, inst: &(Vec<usize>, Vec<usize>)) ->
     let mut out = o.new_vec();
     plans::eval_instance(o, c, &inst.0, &inst.1, &mut acc, &mut s, &mut out);
     o.entries(&out)
-}
-
-/// The integer in `0..prod(primes)` with the given residues.
-fn crt(residues: &[u64], primes: &[u64]) -> BigInt {
-    let mut x = BigInt::from(residues[0]);
-    let mut m = BigInt::from(primes[0]);
-    for (&r, &p) in residues.iter().zip(primes).skip(1) {
-        let pb = BigInt::from(p);
-        let xm = (&x % &pb).to_u64().expect("small");
-        let mm = (&m % &pb).to_u64().expect("small");
-        let inv = BigInt::from(mm)
-            .extended_gcd(&pb)
-            .x
-            .mod_floor(&pb)
-            .to_u64()
-            .expect("small");
-        let t = ((r + p - xm) % p) as u128 * inv as u128 % p as u128;
-        x += &m * BigInt::from(t as u64);
-        m *= pb;
-    }
-    debug_assert!(m > BigInt::one());
-    x
 }

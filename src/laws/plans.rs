@@ -16,7 +16,8 @@
 //!
 //! Cost per instance, dense table of dimension n, in units of n^2 multiply-adds:
 //! commutative, anticommutative O(1/n); associative, Jacobi, the alternative and flexible
-//! laws 2-4; third powers up to 6; fourth powers up to 10; the Jordan identity up to 6.
+//! laws 2-4; third powers up to 6; fourth powers up to 10; the Jordan identity up to 6;
+//! the Malcev identity up to 14, plus two products of products (2n).
 
 use super::identities::Component;
 use crate::tensor::products::Ops;
@@ -174,9 +175,40 @@ pub fn eval_instance<O: Ops>(
                 o.add_sp(acc, m1, q[0], q[1], y, ms[i]);
             }
         }
+        MalcevId => malcev(o, ms, free, acc, s),
         AnticommutatorJordan => unreachable!("evaluated as JordanId on the anticommutator table"),
     }
     o.finish(acc, out);
+}
+
+/// The Malcev identity `(xy)(xz) + (y(xz))x + ((xz)x)y - ((xy)z)x - ((yz)x)x - ((zx)y)x`
+/// summed over the distinct orderings (u, v) of the multiset {a, b} in the two x-slots
+/// (u in the slots of the first x, v in those of the second). The terms are grouped by
+/// their last right factor: e_a collects `(y(e_b z))` from the ordering (a, b) and
+/// `-((e_b y)z + (y z)e_b + (z e_b)y)` from (b, a); e_b the same with a and b exchanged;
+/// e_y collects `(e_b z)e_a + (e_a z)e_b`; the product of two products `(e_u y)(e_v z)`
+/// is one operation ([`Ops::add_pp`]).
+fn malcev<O: Ops>(o: &O, ms: &[usize], free: &[usize], acc: &mut O::Acc, s: &mut Scratch<O>) {
+    let m1 = (o.p() - 1) as u32;
+    let (a, b, y, z) = (ms[0], ms[1], free[0], free[1]);
+    let pairs: &[(usize, usize)] = if a == b { &[(a, a)] } else { &[(a, b), (b, a)] };
+    for &(last, other) in pairs {
+        // the terms ending in e_last
+        o.add_bp(&mut s.acc2, 1, y, other, z);
+        o.add_pb(&mut s.acc2, m1, other, y, z);
+        o.add_pb(&mut s.acc2, m1, y, z, other);
+        o.add_pb(&mut s.acc2, m1, z, other, y);
+        o.finish(&mut s.acc2, &mut s.tmp);
+        o.add_vb(acc, 1, &s.tmp, last);
+        // (e_last y)(e_other z)
+        o.add_pp(acc, 1, last, y, other, z);
+    }
+    // ((e_other z) e_last) e_y
+    for &(last, other) in pairs {
+        o.add_pb(&mut s.acc2, 1, other, z, last);
+    }
+    o.finish(&mut s.acc2, &mut s.tmp);
+    o.add_vb(acc, 1, &s.tmp, y);
 }
 
 /// Whether the pair of positions (i, j) of a sorted 4-multiset has the same values as an
@@ -195,10 +227,13 @@ fn earlier_pair(ms: &[usize], i: usize, j: usize) -> bool {
     false
 }
 
-/// An upper estimate of the vector-matrix products per instance (for work budgets).
-pub fn products_per_instance(c: Component) -> f64 {
+/// An upper estimate of the vector-matrix products per instance (for work budgets);
+/// `row` is the average number of nonzero coordinates of a product of two basis elements
+/// (n for a dense table), the cost of one [`Ops::add_pp`] in vector-matrix products.
+pub fn products_per_instance(c: Component, row: f64) -> f64 {
     use Component::*;
     match c {
+        MalcevId => 14.0 + 2.0 * row,
         Comm | Anti => 0.02,
         Assoc => 2.0,
         Jacobi | CommutatorJacobi => 3.0,

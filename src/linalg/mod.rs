@@ -8,12 +8,15 @@
 //!   rank and nullspace over Q through several primes, rational reconstruction and a final
 //!   exact check over Q. The dispatchers [`rank_q`] and [`nullspace_q`] choose the method.
 
+mod components;
 pub mod dense_echelon;
 pub mod echelon;
+mod exact_check;
 pub mod kernels;
 mod matrix;
 pub mod modular;
 pub mod nullspace;
+mod primes;
 pub mod sparse_echelon;
 pub mod system;
 

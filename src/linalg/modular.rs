@@ -10,10 +10,11 @@
 //!   nullspace of dimension c - r proves the rank is at most r.
 
 use super::{Matrix, echelon};
+use crate::scalar::residue;
 use crate::scalar::{Q, Rationals, crt_combine};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, ToPrimitive, Zero};
+use num_traits::{One, Zero};
 
 pub use super::kernels::KERNEL_PRIME_BITS;
 const LAZY_STEPS: usize = 127;
@@ -165,10 +166,7 @@ pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
         for i in 0..n {
             for j in 0..n {
                 let x = &ints[i][j];
-                aug[i * 2 * n + j] = match x.to_i64() {
-                    Some(v) => v.rem_euclid(p as i64) as u64,
-                    None => x.mod_floor(&pb).to_u64().unwrap_or(0),
-                };
+                aug[i * 2 * n + j] = residue(x, p);
             }
             aug[i * 2 * n + n + i] = 1;
         }
@@ -242,15 +240,7 @@ pub fn rank_q(m: &Matrix<Q>) -> usize {
     }
     let ints = integer_rows(m);
     let p = kernel_primes(1)[0];
-    let pb = BigInt::from(p);
-    let data: Vec<u64> = ints
-        .iter()
-        .flatten()
-        .map(|x| match x.to_i64() {
-            Some(s) => s.rem_euclid(p as i64) as u64,
-            None => x.mod_floor(&pb).to_u64().unwrap_or(0),
-        })
-        .collect();
+    let data: Vec<u64> = ints.iter().flatten().map(|x| residue(x, p)).collect();
     let r = rank_mod(
         Matrix {
             rows: m.rows,

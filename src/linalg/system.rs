@@ -167,15 +167,10 @@ impl RowSource for IntegerRows {
         None
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
-        use num_integer::Integer;
-        use num_traits::{ToPrimitive, Zero};
-        let pb = num_bigint::BigInt::from(p);
+        use num_traits::Zero;
         for (c, x) in self.rows[b].iter().enumerate() {
             if !x.is_zero() {
-                let r = match x.to_i64() {
-                    Some(s) => s.rem_euclid(p as i64) as u64,
-                    None => x.mod_floor(&pb).to_u64().expect("reduced"),
-                };
+                let r = crate::scalar::residue(x, p);
                 out.add(0, c, r);
             }
         }

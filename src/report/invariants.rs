@@ -26,6 +26,8 @@ pub struct InvariantParams {
     /// Leave bases out of the report (dimensions only).
     pub omit_bases: bool,
     pub solve: SolveParams,
+    /// The work budget of a part (see [`all::Params::max_work`]); `None`: no limit.
+    pub max_work: Option<f64>,
 }
 
 /// Bases with more entries than this (vectors x coordinates) are not written out.
@@ -239,6 +241,7 @@ pub fn invariants_report(
         &all::Params {
             only: params.only.clone(),
             solve: params.solve.clone(),
+            max_work: params.max_work,
         },
         progress,
     )?;

@@ -46,9 +46,14 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
             }
         }
     };
+    let stated = std::cell::Cell::new(false);
     let ms = |s: &mut String, title: &str, v: &MapSpaceReport| {
         *s += &format!("\n{title}: dim {}\n", v.dim);
         if !v.basis.is_empty() && v.dim <= 8 && v.basis[0][0].len() <= 4 {
+            if !stated.replace(true) {
+                *s += "  (matrices are written [row; row; ...] in the basis: column i is the \
+                       image of the i-th basis vector, X[l][i] = coefficient of e_l in X(e_i))\n";
+            }
             for (i, tuple) in v.basis.iter().enumerate() {
                 let mats: Vec<String> = tuple
                     .iter()

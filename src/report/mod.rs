@@ -15,10 +15,11 @@ mod invariants_text;
 pub mod sections;
 mod text;
 
-pub use text::render_text;
+pub use text::{render_head, render_notes, render_section, render_text};
 
 use crate::error::Result;
-use crate::laws::{self, LawReport};
+use crate::invariants::structure::{self, KnownLaws, Property, PropertyResult};
+use crate::laws::{self, Law, LawReport};
 use crate::ranks::{self, RankReport};
 use crate::tensor::{Kind, Tensor};
 use serde::Serialize;
@@ -27,16 +28,35 @@ use serde::Serialize;
 pub const SCHEMA: &str = "bilin.analyze/1";
 
 /// Options of [`analyze`].
-#[derive(Clone, Debug, Default)]
+#[derive(Clone, Debug)]
 pub struct Params {
     pub laws: laws::Params,
+    /// The structural properties to decide (solvable, nilpotent, semisimple).
+    pub properties: Vec<Property>,
+    /// Decide the laws and properties of a bilinear map too (a square map is then read as
+    /// an algebra on its left basis); by default a map gets none.
+    pub laws_of_maps: bool,
     pub ranks: ranks::Params,
     /// The invariants section; `None` leaves it out.
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
-    pub bounds: Option<crate::scheme::bounds::BoundsParams>,
-    /// The upper bounds of the rank interval shown beside the lower bounds.
+    pub bounds: Option<crate::ranks::BoundsParams>,
+    /// The upper bounds of the rank interval shown after the lower bounds.
     pub upper: crate::interval::UpperParams,
+}
+
+impl Default for Params {
+    fn default() -> Self {
+        Params {
+            laws: laws::Params::default(),
+            properties: Property::ALL.to_vec(),
+            laws_of_maps: false,
+            ranks: ranks::Params::default(),
+            invariants: None,
+            bounds: None,
+            upper: crate::interval::UpperParams::default(),
+        }
+    }
 }
 
 /// What was analysed.
@@ -74,8 +94,11 @@ pub struct AnalyzeReport {
     /// Always [`SCHEMA`].
     pub schema: String,
     pub input: InputSummary,
-    /// `None` for a non-square bilinear map (laws need an algebra).
+    /// `None` for a bilinear map (unless asked) and when no law is asked.
     pub laws: Option<LawReport>,
+    /// Solvable, nilpotent, semisimple (those asked for).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub properties: Vec<PropertyResult>,
     pub ranks: RankReport,
     /// Sections added by other analyses.
     pub extra: Vec<Section>,
@@ -114,38 +137,91 @@ pub fn analyze_with_progress(
     params: &Params,
     progress: &mut dyn FnMut(&str),
 ) -> Result<AnalyzeReport> {
-    let mut extra = Vec::new();
-    if let Some(ip) = &params.invariants {
-        extra.push(sections::invariants_section(t, ip, progress)?);
-    }
-    if let Some(bp) = &params.bounds {
-        progress("lower bounds");
-        let lower = sections::bounds_section(t, bp);
-        progress("rank interval");
-        let best = interval::lower_of_section(&lower);
-        let iv = crate::interval::rank_interval(t, best, &params.upper, &[]);
-        extra.push(lower);
-        extra.push(interval::interval_section(&iv));
-    }
+    analyze_streaming(t, source, params, progress, &mut |_| {})
+}
+
+/// A part of the report, handed out as soon as it is computed.
+pub enum Piece<'a> {
+    /// The input, laws, properties and ranks (the report without its extra sections).
+    Head(&'a AnalyzeReport),
+    /// One extra section.
+    Section(&'a Section),
+}
+
+/// [`analyze_with_progress`], handing each part of the report to `emit` as soon as it is
+/// computed: first the cheap head (input, laws, properties, ranks), then the lower bounds,
+/// then the invariants (the costly part), so that a caller can print them at once.
+pub fn analyze_streaming(
+    t: &Tensor,
+    source: &str,
+    params: &Params,
+    progress: &mut dyn FnMut(&str),
+    emit: &mut dyn FnMut(Piece),
+) -> Result<AnalyzeReport> {
     let mut notes = Vec::new();
-    let laws = if t.is_square() {
-        if t.kind() == Kind::Bilinear {
+    let is_map = t.kind() == Kind::Bilinear;
+    let wanted = !params.laws.laws.is_empty() || !params.properties.is_empty();
+    let mut laws = None;
+    let mut properties = Vec::new();
+    if is_map && !params.laws_of_maps {
+        notes.push(
+            "laws are not checked for a bilinear map (U x V -> W); to read a square map as an \
+             algebra (the i-th basis vectors of U, V and W identified) ask with --laws"
+                .into(),
+        );
+    } else if !t.is_square() {
+        if wanted {
+            notes.push("laws are not checked: the map is not square (U, V, W differ)".into());
+        }
+    } else if wanted {
+        if is_map {
             notes.push(
-                "the square bilinear map is read as an algebra on its left basis for the laws"
+                "the square bilinear map is read as an algebra for the laws: the i-th basis \
+                 vectors of U, V and W are identified and named by the left basis"
                     .to_string(),
             );
         }
-        Some(laws::check_laws(t, &params.laws)?)
-    } else {
-        notes.push("laws are not checked: the map is not square (U, V, W differ)".into());
-        None
-    };
+        let alg = t.as_algebra().expect("square");
+        progress("laws");
+        let lr = laws::check_laws(&alg, &params.laws)?;
+        if !params.properties.is_empty() {
+            progress("solvable, nilpotent, semisimple");
+            let mut known = KnownLaws {
+                lie: lr.holds(Law::Lie),
+                associative: lr.holds(Law::Associative),
+            };
+            if params.properties.contains(&Property::Semisimple)
+                && (known.lie.is_none() || known.associative.is_none())
+            {
+                let lp = laws::Params {
+                    laws: vec![Law::Associative, Law::Lie],
+                    stop_first: true,
+                    ..params.laws.clone()
+                };
+                let more = laws::check_laws(&alg, &lp)?;
+                known.lie = known.lie.or(more.holds(Law::Lie));
+                known.associative = known.associative.or(more.holds(Law::Associative));
+            }
+            let solve = params
+                .invariants
+                .as_ref()
+                .map(|ip| ip.solve.clone())
+                .unwrap_or_default();
+            properties = structure::decide_properties(&alg, &params.properties, known, &solve)?;
+        }
+        if !params.laws.laws.is_empty() {
+            laws = Some(lr);
+        }
+    }
+    progress("ranks");
     let ranks = ranks::compute_ranks(t, &params.ranks);
-    notes.push(
-        "laws of degree 2-4 in one variable are decided through their linearization, \
-         exactly, as polynomial identities"
-            .into(),
-    );
+    if laws.is_some() {
+        notes.push(
+            "laws of degree 2-4 in one variable are decided through their linearization, \
+             exactly, as polynomial identities"
+                .into(),
+        );
+    }
     notes.push(
         "slice span: 'random' is the rank of a random element mod a large prime (lower bound, \
          equal to the generic rank w.h.p.); 'certificate' is the exact rank of the stated \
@@ -162,14 +238,34 @@ pub fn analyze_with_progress(
              when it meets the upper bound"
         ));
     }
-    Ok(AnalyzeReport {
+    let mut report = AnalyzeReport {
         schema: SCHEMA.into(),
         input: summarize_input(t, source),
         laws,
+        properties,
         ranks,
-        extra,
+        extra: Vec::new(),
         notes,
-    })
+    };
+    emit(Piece::Head(&report));
+    if let Some(bp) = &params.bounds {
+        progress("lower bounds");
+        let lower = crate::ranks::lower_bounds(t, bp);
+        let sec = sections::bounds_section(&lower);
+        emit(Piece::Section(&sec));
+        report.extra.push(sec);
+        progress("rank interval");
+        let iv = interval::interval_of(t, &lower, &params.upper, &[]);
+        let sec = interval::interval_section(&iv);
+        emit(Piece::Section(&sec));
+        report.extra.push(sec);
+    }
+    if let Some(ip) = &params.invariants {
+        let sec = sections::invariants_section(t, source, ip, progress)?;
+        emit(Piece::Section(&sec));
+        report.extra.push(sec);
+    }
+    Ok(report)
 }
 
 /// The report as pretty-printed JSON.

@@ -6,48 +6,103 @@ use super::Section;
 use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
-use crate::scheme::bounds::{Bounds, BoundsParams, lower_bounds};
+use crate::ranks::{Bounds, Measure, Status};
 use crate::tensor::Tensor;
 
 /// The invariants of `t` (all parts that apply to its kind unless `params.only` says
 /// otherwise) as a report section. Cost: that of [`invariants_report`].
 pub fn invariants_section(
     t: &Tensor,
+    source: &str,
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
 ) -> Result<Section> {
     let r = invariants_report(t, params, progress)?;
     let text = invariants_text::render_text(&r, &t.names()[0]);
+    let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
+    if !r.skipped.is_empty() {
+        let names: Vec<&str> = r.skipped.iter().map(|s| s.part.as_str()).collect();
+        lines.push(String::new());
+        let input = if source
+            .chars()
+            .all(|c| c.is_ascii_alphanumeric() || "._-/:,+=@".contains(c))
+        {
+            source.to_string()
+        } else {
+            format!("'{}'", source.replace('\'', "'\\''"))
+        };
+        lines.push(format!(
+            "skipped parts are computed when asked for by name, whatever their cost: add \
+             `--invariants {0}` to this command, or run `bilin invariants {input} --only {0}` \
+             (with the same input options)",
+            names.join(",")
+        ));
+    }
     Ok(Section {
         id: "invariants".into(),
         title: "Invariants".into(),
-        lines: text.lines().map(str::to_string).collect(),
+        lines,
         data: serde_json::to_value(&r).unwrap_or_default(),
     })
 }
 
-/// Text lines of a set of lower bounds, each with its theorem.
+/// Text lines of a set of lower bounds, each with what it bounds, over which field,
+/// whether it is proven, and its theorem.
 pub fn bounds_lines(b: &Bounds) -> Vec<String> {
     let mut lines = Vec::new();
     for x in &b.bounds {
-        lines.push(format!("R >= {:<4} {}: {}", x.value, x.name, x.detail));
+        let what = match x.measure {
+            Measure::Rank => "R",
+            Measure::BorderRank => "border R",
+        };
+        let status = match x.status {
+            Status::Proven => "proven",
+            Status::Evidence => "evidence only",
+        };
+        lines.push(format!(
+            "{what} >= {:<4} {} ({}; {status}): {}",
+            x.value,
+            x.name,
+            x.scope(),
+            x.detail
+        ));
         lines.push(format!("          theorem: {}", x.theorem));
     }
     for n in &b.notes {
         lines.push(format!("note: {n}"));
     }
-    lines.push(format!("best lower bound: {}", b.best()));
+    let field = b.bounds.first().map(|x| x.field.name()).unwrap_or_default();
+    lines.push(format!(
+        "best lower bound: {} (rank over {field}); for the border rank: {}",
+        b.best(),
+        b.best_border()
+    ));
+    if let Some(u) = b.exhaustive_upper {
+        let exact = if u == b.best() {
+            format!(", so R = {u} over GF(2) exactly")
+        } else {
+            String::new()
+        };
+        lines.push(format!(
+            "upper bound: R <= {u} over GF(2) (a decomposition the exhaustive search found, checked){exact}"
+        ));
+    }
     lines
 }
 
-/// The proven lower bounds for the tensor rank of `t` as a report section.
-/// Cost: that of [`lower_bounds`].
-pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
-    let b = lower_bounds(t, params);
+/// The proven lower bounds for the tensor rank (as computed by [`crate::ranks::lower_bounds`]) as a
+/// report section.
+pub fn bounds_section(b: &Bounds) -> Section {
     Section {
         id: "lower-bounds".into(),
         title: "Lower bounds for the tensor rank".into(),
-        lines: bounds_lines(&b),
-        data: serde_json::json!({ "best": b.best(), "bounds": b.bounds, "notes": b.notes }),
+        lines: bounds_lines(b),
+        data: serde_json::json!({
+            "best": b.best(),
+            "best_border": b.best_border(),
+            "exhaustive_upper": b.exhaustive_upper,
+            "bounds": b.bounds,
+            "notes": b.notes,
+        }),
     }
 }

@@ -1,6 +1,7 @@
 //! Plain-text rendering of an [`AnalyzeReport`]: aligned sections meant for a terminal.
 
-use super::AnalyzeReport;
+use super::{AnalyzeReport, Section};
+use crate::invariants::structure::PropertyResult;
 use crate::laws::LawReport;
 use crate::ranks::RankReport;
 use crate::tensor::Kind;
@@ -15,23 +16,46 @@ const MAX_LISTED_SLICES: usize = 48;
 
 /// Render the whole report.
 pub fn render_text(r: &AnalyzeReport) -> String {
+    let mut s = render_head(r);
+    for sec in &r.extra {
+        s.push_str(&render_section(sec));
+    }
+    s.push_str(&render_notes(r));
+    s
+}
+
+/// The head of the report: the input, the laws, the properties and the ranks.
+pub fn render_head(r: &AnalyzeReport) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "bilin analyze: {}", r.input.source);
     input(&mut s, r);
     if let Some(l) = &r.laws {
         laws(&mut s, l);
     }
+    if !r.properties.is_empty() {
+        properties(&mut s, &r.properties);
+    }
     ranks(&mut s, &r.ranks);
-    for sec in &r.extra {
-        let _ = writeln!(s, "\n== {} ==", sec.title);
-        for l in &sec.lines {
-            if l.is_empty() {
-                s.push('\n');
-            } else {
-                let _ = writeln!(s, "  {l}");
-            }
+    s
+}
+
+/// One extra section.
+pub fn render_section(sec: &Section) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "\n== {} ==", sec.title);
+    for l in &sec.lines {
+        if l.is_empty() {
+            s.push('\n');
+        } else {
+            let _ = writeln!(s, "  {l}");
         }
     }
+    s
+}
+
+/// The closing notes.
+pub fn render_notes(r: &AnalyzeReport) -> String {
+    let mut s = String::new();
     if !r.notes.is_empty() {
         let _ = writeln!(s, "\n== Notes ==");
         for n in &r.notes {
@@ -39,6 +63,54 @@ pub fn render_text(r: &AnalyzeReport) -> String {
         }
     }
     s
+}
+
+fn properties(s: &mut String, props: &[PropertyResult]) {
+    let _ = writeln!(s, "\n== Structure ==");
+    let w = props
+        .iter()
+        .map(|p| p.property.name().len())
+        .max()
+        .unwrap_or(4);
+    for p in props {
+        let verdict = match p.holds {
+            Some(true) => "yes",
+            Some(false) => "no",
+            None => "undecided",
+        };
+        let head = format!("  {:<w$}  {:<9}  ", p.property.name(), verdict);
+        let indent = " ".repeat(head.len());
+        wrap(s, &head, &indent, &p.detail);
+        if let Some(wi) = &p.witness {
+            wrap(
+                s,
+                &indent,
+                &indent,
+                &format!("witness: {}:", wi.description),
+            );
+            for (i, v) in wi.vectors.iter().enumerate().take(12) {
+                wrap(
+                    s,
+                    &format!("{indent}  [{i}] "),
+                    &format!("{indent}      "),
+                    v,
+                );
+            }
+            if wi.vectors.len() > 12 {
+                let _ = writeln!(
+                    s,
+                    "{indent}  ... {} more (see --json)",
+                    wi.vectors.len() - 12
+                );
+            }
+        }
+        if !p.method.is_empty() {
+            wrap(s, &indent, &indent, &format!("[{}]", p.method));
+        }
+        for n in &p.notes {
+            wrap(s, &format!("{indent}note: "), &format!("{indent}      "), n);
+        }
+    }
 }
 
 /// Append `text` word-wrapped, the first line after `first`, the others after `rest`.

@@ -15,8 +15,8 @@ mod rational;
 pub use prime::PrimeField;
 pub use primes::{is_prime, word_primes};
 pub use rational::{
-    Q, Rationals, Reconstructor, crt_combine, parse_rational, q, q_to_f64, q_to_string,
-    rational_reconstruct,
+    Q, Rationals, Reconstructor, crt, crt_combine, parse_rational, q, q_to_f64, q_to_string,
+    rational_reconstruct, residue,
 };
 
 use std::fmt::Debug;
@@ -95,17 +95,18 @@ impl FieldSpec {
         }
     }
 
-    /// Parse exactly `Q` or `GF(p)` (p in decimal digits, no spaces). Checks that p is a
-    /// prime below 2^63.
+    /// Parse `Q` or `GF(p)` in any case (`q`, `gf(7)`; p in decimal digits, no spaces).
+    /// Checks that p is a prime below 2^63.
     pub fn parse(s: &str) -> Result<FieldSpec, String> {
         let t = s;
-        if t == "Q" {
+        if t.eq_ignore_ascii_case("Q") {
             return Ok(FieldSpec::Rational);
         }
         let expected = || format!("expected a field `Q` or `GF(p)` (p a prime), found `{t}`");
         let inner = t
-            .strip_prefix("GF(")
-            .and_then(|r| r.strip_suffix(')'))
+            .get(..3)
+            .filter(|h| h.eq_ignore_ascii_case("GF("))
+            .and_then(|_| t[3..].strip_suffix(')'))
             .ok_or_else(expected)?;
         if inner.is_empty() || !inner.bytes().all(|b| b.is_ascii_digit()) {
             return Err(format!(

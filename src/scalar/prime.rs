@@ -4,8 +4,7 @@
 
 use super::{Field, Q};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::{ToPrimitive, Zero};
+use num_traits::Zero;
 
 /// The prime field GF(p). Invariant: `p` is prime and `2 <= p < 2^63`.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
@@ -54,7 +53,7 @@ impl PrimeField {
 
     /// Reduce a big integer into `0..p`.
     pub fn reduce_big(&self, a: &BigInt) -> u64 {
-        a.mod_floor(&BigInt::from(self.p)).to_u64().unwrap_or(0)
+        super::residue(a, self.p)
     }
 
     /// The symmetric representative in `(-p/2, p/2]` as i64.

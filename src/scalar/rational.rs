@@ -231,13 +231,12 @@ pub fn q_to_f64(a: &Q) -> f64 {
     a.to_f64().unwrap_or(f64::NAN)
 }
 
-
 /// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
 /// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
 /// size `log m` per entry.
 pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
-    let m_mod_p = (m % p).to_u64().expect("below p");
+    let m_mod_p = residue(m, p);
     let minv = BigInt::from(m_mod_p)
         .extended_gcd(&BigInt::from(p))
         .x
@@ -245,12 +244,43 @@ pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T
         .to_u64()
         .expect("below p") as u128;
     for (a, &b) in res.iter_mut().zip(img) {
-        let a_mod_p = (&*a % p).to_u64().expect("below p");
+        let a_mod_p = residue(a, p);
         let t = ((b.into() % p + p - a_mod_p) % p) as u128 * minv % p as u128;
         if t != 0 {
             *a += m * BigInt::from(t as u64);
         }
     }
+}
+
+/// `x mod p` in `0..p` for a word-size modulus `p > 0`: one 128-bit remainder per 64-bit
+/// limb of |x|, no allocation. Cost: O(bits of x / 64).
+pub fn residue(x: &BigInt, p: u64) -> u64 {
+    let mut r: u64 = 0;
+    if p < 1 << 32 {
+        // two 64-bit divisions per limb instead of one 128-bit one
+        for d in x.magnitude().iter_u64_digits().rev() {
+            r = ((r << 32) | (d >> 32)) % p;
+            r = ((r << 32) | (d & 0xffff_ffff)) % p;
+        }
+    } else {
+        for d in x.magnitude().iter_u64_digits().rev() {
+            r = ((((r as u128) << 64) | d as u128) % p as u128) as u64;
+        }
+    }
+    if x.is_negative() && r != 0 { p - r } else { r }
+}
+
+/// The integer in `0..prod(primes)` with the given residues (distinct primes).
+/// Cost: O(k^2) word operations for k primes.
+pub fn crt(residues: &[u64], primes: &[u64]) -> BigInt {
+    let mut x = [BigInt::from(residues[0])];
+    let mut m = BigInt::from(primes[0]);
+    for (&r, &p) in residues.iter().zip(primes).skip(1) {
+        crt_combine(&mut x, &m, &[r], p);
+        m *= p;
+    }
+    let [x] = x;
+    x
 }
 
 #[cfg(test)]
@@ -274,5 +304,26 @@ mod tests {
         let inv7 = BigInt::from(7).modpow(&(&m - 2), &m);
         let a = (BigInt::from(-22) * inv7).mod_floor(&m);
         assert_eq!(rational_reconstruct(&a, &m), Some(q(-22, 7)));
+    }
+}
+
+#[cfg(test)]
+mod crt_tests {
+    use super::*;
+    use num_integer::Integer;
+
+    #[test]
+    fn residue_and_crt_agree_with_bigint_arithmetic() {
+        // common practice: x mod p from BigInt division; CRT recovers x below prod(p)
+        let x: BigInt = (BigInt::from(3u8) << 300u32) - BigInt::from(12345u32);
+        for &p in &[2u64, 7, (1 << 28) - 57, (1 << 61) - 1] {
+            let want = x.mod_floor(&BigInt::from(p)).to_u64().unwrap();
+            assert_eq!(residue(&x, p), want);
+            assert_eq!(residue(&-x.clone(), p), (p - want) % p);
+        }
+        let primes = [268435399u64, 268435367, 268435361, 268435331];
+        let y = BigInt::from(98765432123456789u64) * BigInt::from(1234567u32);
+        let rs: Vec<u64> = primes.iter().map(|&p| residue(&y, p)).collect();
+        assert_eq!(crt(&rs, &primes), y);
     }
 }

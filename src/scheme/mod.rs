@@ -8,7 +8,6 @@
 //! Invariants: every factor vector has the length of its axis; over GF(p) the entries are
 //! integers in `0..p`.
 
-pub mod bounds;
 pub mod construct;
 pub mod cost;
 pub mod diagnose;

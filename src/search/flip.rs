@@ -2,11 +2,11 @@
 //! multiplication"), with rank-raising escapes (plus transitions; Arai, Ichikawa and
 //! Hukushima 2024, "Adaptive flip graph algorithm for matrix multiplication").
 //!
-//! A scheme over GF(2) is stored bit-packed: bit `i` of `f[a][t]` is the coefficient of basis
-//! vector `i` on axis `a` (0 left, 1 right, 2 result) in term `t`, so each axis needs at
-//! most 64 basis vectors. The three axes are kept as separate contiguous arrays; for the
-//! ranks of interest (up to a few hundred terms) a linear scan of one array finds every
-//! term sharing a factor faster than a hash index can be kept up to date.
+//! The walker keeps a scheme over GF(2) with factors packed in `W` 64-bit words per axis
+//! ([`Walker<W>`], W = 1, 2 or 4: axes up to 64, 128 or 256 basis vectors; see
+//! [`super::bits`]). The three axes are separate contiguous arrays; for the ranks of
+//! interest (up to a few hundred terms) a linear scan of one array finds every term
+//! sharing a factor faster than a hash index can be kept up to date.
 //!
 //! Moves (each preserves `sum_t u_t (x) v_t (x) w_t`):
 //! - flip: two terms sharing the factor on axis x, `(a, b, c) + (a, b', c')` becomes
@@ -17,161 +17,15 @@
 //! - plus transition (rank + 1): `(a, b, c) + (a', b', c')` becomes
 //!   `(a + a', b, c) + (a', b + b', c) + (a', b', c + c')`.
 //!
+//! [`walk_state`] drives any [`WalkState`] (this walker, the GF(p) walker of
+//! [`super::flip_p`], the symmetric walker of [`super::cyclic`]) with plateau handling.
+//!
 //! Invariant: after every public method returns, no term has a zero factor and no two
 //! terms share two factors.
 
-use crate::error::{Error, Result};
-use crate::scalar::{FieldSpec, Q};
-use crate::scheme::Scheme;
-use crate::tensor::Tensor;
-use num_traits::{One, Zero};
-
-/// A scheme over GF(2) with bit-packed factors: `terms[t][a]` is the factor on axis `a`.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct BitScheme {
-    pub dims: [usize; 3],
-    pub terms: Vec<[u64; 3]>,
-}
-
-/// The residue mod 2 of a rational with odd denominator; `None` for an even denominator.
-fn parity(x: &Q) -> Option<bool> {
-    use num_integer::Integer;
-    if x.denom().is_even() {
-        return None;
-    }
-    Some(x.numer().is_odd())
-}
-
-fn check_dims(dims: [usize; 3]) -> Result<()> {
-    if dims.iter().any(|&d| d > 64 || d == 0) {
-        return Err(Error::Invalid(format!(
-            "the flip walk packs factors in 64-bit words: dimensions {dims:?} must be 1..=64"
-        )));
-    }
-    Ok(())
-}
-
-/// The tensor reduced mod 2 as bit masks: `out[i * dims[1] + j]` has bit k set when
-/// `c[i][j][k]` is odd. Fails for a tensor over GF(p), p != 2, or with an even denominator.
-pub fn tensor_bits(t: &Tensor) -> Result<Vec<u64>> {
-    check_dims(t.dims())?;
-    if let FieldSpec::Prime(p) = t.field()
-        && p != 2
-    {
-        return Err(Error::Invalid(format!(
-            "the flip walk works over GF(2); this tensor is over GF({p})"
-        )));
-    }
-    let d = t.dims();
-    let mut out = vec![0u64; d[0] * d[1]];
-    for (i, j, k, c) in t.entries() {
-        let odd = parity(c).ok_or_else(|| {
-            Error::Invalid(format!(
-                "coefficient {c} of the tensor has an even denominator: no reduction mod 2"
-            ))
-        })?;
-        if odd {
-            out[i * d[1] + j] ^= 1 << k;
-        }
-    }
-    Ok(out)
-}
-
-impl BitScheme {
-    /// The standard scheme of the tensor mod 2 (one term per odd structure constant).
-    pub fn standard(t: &Tensor) -> Result<BitScheme> {
-        let bits = tensor_bits(t)?;
-        let d = t.dims();
-        let mut terms = Vec::new();
-        for (ij, &m) in bits.iter().enumerate() {
-            let (i, j) = (ij / d[1], ij % d[1]);
-            for k in 0..d[2] {
-                if m >> k & 1 == 1 {
-                    terms.push([1 << i, 1 << j, 1 << k]);
-                }
-            }
-        }
-        Ok(BitScheme { dims: d, terms })
-    }
-
-    /// Reduce a scheme mod 2 (every denominator must be odd).
-    pub fn from_scheme(s: &Scheme) -> Result<BitScheme> {
-        check_dims(s.dims)?;
-        let pack = |v: &[Q]| -> Result<u64> {
-            let mut m = 0u64;
-            for (i, x) in v.iter().enumerate() {
-                if parity(x).ok_or_else(|| {
-                    Error::Invalid(format!("scheme entry {x} has an even denominator"))
-                })? {
-                    m |= 1 << i;
-                }
-            }
-            Ok(m)
-        };
-        let mut terms = Vec::with_capacity(s.rank());
-        for t in 0..s.rank() {
-            let tr = [pack(&s.u[t])?, pack(&s.v[t])?, pack(&s.w[t])?];
-            if tr.iter().all(|&x| x != 0) {
-                terms.push(tr);
-            }
-        }
-        Ok(BitScheme {
-            dims: s.dims,
-            terms,
-        })
-    }
-
-    /// The number of terms.
-    pub fn rank(&self) -> usize {
-        self.terms.len()
-    }
-
-    /// The scheme with 0/1 entries, labelled with `field`.
-    pub fn to_scheme(&self, field: FieldSpec) -> Scheme {
-        let unpack = |m: u64, n: usize| -> Vec<Q> {
-            (0..n)
-                .map(|i| if m >> i & 1 == 1 { Q::one() } else { Q::zero() })
-                .collect()
-        };
-        let mut s = Scheme::empty(field, self.dims);
-        for tr in &self.terms {
-            s.push(
-                unpack(tr[0], self.dims[0]),
-                unpack(tr[1], self.dims[1]),
-                unpack(tr[2], self.dims[2]),
-            );
-        }
-        s
-    }
-
-    /// `sum_t u_t (x) v_t (x) w_t` over GF(2), in the layout of [`tensor_bits`].
-    /// Cost: O(r d0 d1).
-    pub fn evaluate(&self) -> Vec<u64> {
-        let d = self.dims;
-        let mut out = vec![0u64; d[0] * d[1]];
-        for tr in &self.terms {
-            for i in bits_of(tr[0]) {
-                for j in bits_of(tr[1]) {
-                    out[i * d[1] + j] ^= tr[2];
-                }
-            }
-        }
-        out
-    }
-}
-
-/// Indices of the set bits of a word.
-pub fn bits_of(mut m: u64) -> impl Iterator<Item = usize> {
-    std::iter::from_fn(move || {
-        if m == 0 {
-            None
-        } else {
-            let i = m.trailing_zeros() as usize;
-            m &= m - 1;
-            Some(i)
-        }
-    })
-}
+pub use super::bits::{BitScheme, bits_of, tensor_bits};
+use super::bits::{check_dims, words};
+use crate::error::Result;
 
 /// A small fast generator (SplitMix64) for the inner loop; seeded from the worker's RNG.
 #[derive(Clone, Debug)]
@@ -180,6 +34,15 @@ pub struct FastRng(u64);
 impl FastRng {
     pub fn new(seed: u64) -> Self {
         FastRng(seed)
+    }
+
+    /// The two axes other than `x` (of three), in a random order.
+    pub fn other_axes(&mut self, x: usize) -> (usize, usize) {
+        if self.next_u64() & 1 == 0 {
+            ((x + 1) % 3, (x + 2) % 3)
+        } else {
+            ((x + 2) % 3, (x + 1) % 3)
+        }
     }
     #[inline(always)]
     pub fn next_u64(&mut self) -> u64 {
@@ -196,18 +59,77 @@ impl FastRng {
     }
 }
 
+/// A factor of `W` words.
+pub type Mask<const W: usize> = [u64; W];
+
+#[inline(always)]
+pub(crate) fn xor_into<const W: usize>(a: &mut Mask<W>, b: &Mask<W>) {
+    for (x, y) in a.iter_mut().zip(b) {
+        *x ^= y;
+    }
+}
+
+#[inline(always)]
+pub(crate) fn is_zero<const W: usize>(a: &Mask<W>) -> bool {
+    a.iter().all(|&x| x == 0)
+}
+
+/// A mask of a bit scheme widened to `W` words.
+pub(crate) fn widen<const W: usize>(m: &[u64]) -> Mask<W> {
+    let mut out = [0u64; W];
+    out[..m.len()].copy_from_slice(m);
+    out
+}
+
+/// The words of a walker for a shape: 1, 2 or 4 (the widest axis decides).
+pub fn walker_words(dims: [usize; 3]) -> Result<usize> {
+    check_dims(dims)?;
+    Ok(match dims.iter().map(|&d| words(d)).max().unwrap_or(1) {
+        1 => 1,
+        2 => 2,
+        _ => 4,
+    })
+}
+
+/// Run `$body` with the const `$w` bound to the walker width of `$dims` (1, 2 or 4).
+#[macro_export]
+#[doc(hidden)]
+macro_rules! with_words {
+    ($words:expr, $w:ident => $body:expr) => {
+        match $words {
+            1 => {
+                const $w: usize = 1;
+                $body
+            }
+            2 => {
+                const $w: usize = 2;
+                $body
+            }
+            _ => {
+                const $w: usize = 4;
+                $body
+            }
+        }
+    };
+}
+
 /// The state of one walk: the current scheme and the move machinery.
 #[derive(Clone, Debug)]
-pub struct Walker {
+pub struct Walker<const W: usize> {
     dims: [usize; 3],
-    f: [Vec<u64>; 3],
+    f: [Vec<Mask<W>>; 3],
     rng: FastRng,
     work: Vec<usize>,
 }
 
-impl Walker {
-    /// Start a walk at `start` (reductions are applied at once).
-    pub fn new(start: &BitScheme, seed: u64) -> Walker {
+impl<const W: usize> Walker<W> {
+    /// Start a walk at `start` (reductions are applied at once). Panics if an axis of
+    /// `start` needs more than `W` words (use [`walker_words`]).
+    pub fn new(start: &BitScheme, seed: u64) -> Walker<W> {
+        assert!(
+            start.dims.iter().all(|&d| words(d) <= W),
+            "walker too narrow"
+        );
         let mut w = Walker {
             dims: start.dims,
             f: [Vec::new(), Vec::new(), Vec::new()],
@@ -221,7 +143,7 @@ impl Walker {
     /// Replace the current scheme (reductions are applied at once).
     pub fn load(&mut self, s: &BitScheme) {
         for a in 0..3 {
-            self.f[a] = s.terms.iter().map(|t| t[a]).collect();
+            self.f[a] = s.terms.iter().map(|t| widen(&t[a])).collect();
         }
         self.work.clear();
         self.work.extend(0..self.f[0].len());
@@ -236,8 +158,9 @@ impl Walker {
 
     /// A copy of the current scheme.
     pub fn scheme(&self) -> BitScheme {
+        let wd = self.dims.map(words);
         let terms = (0..self.rank())
-            .map(|t| [self.f[0][t], self.f[1][t], self.f[2][t]])
+            .map(|t| [0, 1, 2].map(|a| self.f[a][t][..wd[a]].to_vec()))
             .collect();
         BitScheme {
             dims: self.dims,
@@ -266,7 +189,7 @@ impl Walker {
             if i >= self.rank() {
                 continue;
             }
-            if self.f[0][i] == 0 || self.f[1][i] == 0 || self.f[2][i] == 0 {
+            if (0..3).any(|a| is_zero(&self.f[a][i])) {
                 self.remove(i);
                 continue;
             }
@@ -277,8 +200,8 @@ impl Walker {
                 .iter()
                 .zip(f1)
                 .zip(f2)
-                .map(|((&x, &y), &z)| {
-                    ((x == a) as u32 + (y == b) as u32 + (z == c) as u32 >= 2) as u32
+                .map(|((x, y), z)| {
+                    ((*x == a) as u32 + (*y == b) as u32 + (*z == c) as u32 >= 2) as u32
                 })
                 .sum::<u32>();
             if hits < 2 {
@@ -305,7 +228,8 @@ impl Walker {
                     self.remove(lo);
                 }
                 Some(m) => {
-                    self.f[m][u] ^= self.f[m][i];
+                    let fi = self.f[m][i];
+                    xor_into(&mut self.f[m][u], &fi);
                     let last = self.rank() - 1;
                     self.remove(i);
                     let u2 = if u == last { i } else { u };
@@ -317,7 +241,7 @@ impl Walker {
 
     /// Attempt one random flip: pick a term and an axis, and a random partner sharing that
     /// factor. Returns false when the chosen term has no partner on that axis.
-    /// Cost: O(r) word comparisons.
+    /// Cost: O(r W) word comparisons.
     #[inline]
     pub fn flip(&mut self) -> bool {
         let r = self.rank();
@@ -328,14 +252,14 @@ impl Walker {
         let x = self.rng.below(3);
         let key = self.f[x][s];
         let col = &self.f[x];
-        let cnt = col.iter().filter(|&&v| v == key).count() - 1;
+        let cnt = col.iter().filter(|&v| *v == key).count() - 1;
         if cnt == 0 {
             return false;
         }
         let mut k = self.rng.below(cnt);
         let mut t = usize::MAX;
-        for (i, &v) in col.iter().enumerate() {
-            if v == key && i != s {
+        for (i, v) in col.iter().enumerate() {
+            if *v == key && i != s {
                 if k == 0 {
                     t = i;
                     break;
@@ -349,9 +273,9 @@ impl Walker {
             ((x + 2) % 3, (x + 1) % 3)
         };
         let ty = self.f[y][t];
-        self.f[y][s] ^= ty;
+        xor_into(&mut self.f[y][s], &ty);
         let sz = self.f[z][s];
-        self.f[z][t] ^= sz;
+        xor_into(&mut self.f[z][t], &sz);
         self.work.push(s);
         self.work.push(t);
         self.settle();
@@ -380,14 +304,15 @@ impl Walker {
             ((x + 2) % 3, (x + 1) % 3)
         };
         // (a,b,c) + (a',b',c') = (a+a',b,c) + (a',b+b',c) + (a',b',c+c')
-        let mut new = [0u64; 3];
+        let mut new = [[0u64; W]; 3];
         new[x] = self.f[x][t];
-        new[y] = self.f[y][s] ^ self.f[y][t];
+        new[y] = self.f[y][s];
+        xor_into(&mut new[y], &self.f[y][t]);
         new[z] = self.f[z][s];
         let at = self.f[x][t];
-        self.f[x][s] ^= at;
+        xor_into(&mut self.f[x][s], &at);
         let cs = self.f[z][s];
-        self.f[z][t] ^= cs;
+        xor_into(&mut self.f[z][t], &cs);
         for (a, v) in new.iter().enumerate() {
             self.f[a].push(*v);
         }
@@ -428,10 +353,28 @@ pub enum WalkEvent<'a, S> {
     Moves(u64),
 }
 
-/// A walk state on a flip graph (over GF(2) bit-packed, or over GF(p)).
+/// A copy of a walk's scheme.
+pub trait Snapshot: Clone + Send + Sync {
+    /// Its rank.
+    fn rank(&self) -> usize;
+    /// The scheme over the walk's field GF(p) (entries in `0..p`).
+    fn to_scheme(&self) -> crate::scheme::Scheme;
+}
+
+impl Snapshot for BitScheme {
+    fn rank(&self) -> usize {
+        BitScheme::rank(self)
+    }
+    fn to_scheme(&self) -> crate::scheme::Scheme {
+        BitScheme::to_scheme(self, crate::scalar::FieldSpec::Prime(2))
+    }
+}
+
+/// A walk state on a flip graph (over GF(2) bit-packed, over GF(p), or restricted to
+/// schemes with a symmetry).
 pub trait WalkState {
     /// A copy of the current scheme.
-    type Snap: Clone;
+    type Snap: Snapshot;
     /// One attempted flip; false when the random choice had no partner.
     fn flip(&mut self) -> bool;
     /// One attempted plus transition (rank + 1).
@@ -441,7 +384,7 @@ pub trait WalkState {
     fn restore(&mut self, s: &Self::Snap);
 }
 
-impl WalkState for Walker {
+impl<const W: usize> WalkState for Walker<W> {
     type Snap = BitScheme;
     fn flip(&mut self) -> bool {
         Walker::flip(self)
@@ -461,6 +404,7 @@ impl WalkState for Walker {
 }
 
 /// Walk from `start` over GF(2) for at most `budget` attempted moves; see [`walk_state`].
+/// Fails when an axis has more than [`super::bits::MAX_DIM`] basis vectors.
 pub fn walk(
     start: &BitScheme,
     target: usize,
@@ -468,9 +412,12 @@ pub fn walk(
     seed: u64,
     budget: u64,
     event: &mut dyn FnMut(WalkEvent<BitScheme>) -> bool,
-) -> Option<BitScheme> {
-    let mut w = Walker::new(start, seed);
-    walk_state(&mut w, target, params, budget, event)
+) -> Result<Option<BitScheme>> {
+    let n = walker_words(start.dims)?;
+    Ok(with_words!(n, W => {
+        let mut w = Walker::<W>::new(start, seed);
+        walk_state(&mut w, target, params, budget, event)
+    }))
 }
 
 /// Walk for at most `budget` attempted moves. `event` sees each new lowest rank and, at or
@@ -479,13 +426,13 @@ pub fn walk(
 /// without a new lowest rank the walk makes a plus transition, or returns to its best
 /// scheme when already `max_excess` above it.
 /// Cost: O(r) per move over GF(2), O(r (d0 + d1 + d2)) over GF(p).
-pub fn walk_state<W: WalkState>(
-    w: &mut W,
+pub fn walk_state<Wk: WalkState>(
+    w: &mut Wk,
     target: usize,
     params: &FlipParams,
     budget: u64,
-    event: &mut dyn FnMut(WalkEvent<W::Snap>) -> bool,
-) -> Option<W::Snap> {
+    event: &mut dyn FnMut(WalkEvent<Wk::Snap>) -> bool,
+) -> Option<Wk::Snap> {
     let mut best = w.snap();
     let mut best_rank = w.rank();
     if best_rank <= target && event(WalkEvent::Candidate(&best)) {
@@ -546,13 +493,11 @@ mod tests {
     use super::*;
     use crate::search::tests::matmul;
 
-    #[test]
-    fn moves_preserve_the_tensor() {
-        let t = matmul(3, 3, 3);
-        let s = BitScheme::standard(&t).unwrap();
-        let want = tensor_bits(&t).unwrap();
-        let mut w = Walker::new(&s, 7);
-        for step in 0..20_000 {
+    fn preserves<const W: usize>(t: &crate::tensor::Tensor, steps: usize) {
+        let s = BitScheme::standard(t).unwrap();
+        let want = tensor_bits(t).unwrap();
+        let mut w = Walker::<W>::new(&s, 7);
+        for step in 0..steps {
             if step % 997 == 0 {
                 w.plus();
             } else {
@@ -563,5 +508,12 @@ mod tests {
             }
         }
         assert_eq!(w.scheme().evaluate(), want);
+    }
+
+    #[test]
+    fn moves_preserve_the_tensor() {
+        preserves::<1>(&matmul(3, 3, 3), 20_000);
+        // <8,9,2>: 72 left coordinates, two words per factor
+        preserves::<2>(&matmul(8, 9, 2), 5_000);
     }
 }

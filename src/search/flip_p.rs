@@ -13,7 +13,7 @@
 //! Invariant: after every public method, no term has a zero factor and no two terms share
 //! two factors up to scalars; `key[x][t]` is the hash of the normalised factor `f[x][t]`.
 
-use super::flip::{FastRng, FlipParams, WalkEvent, WalkState, walk_state};
+use super::flip::{FastRng, FlipParams, Snapshot, WalkEvent, WalkState, walk_state};
 use crate::error::{Error, Result};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q};
 use crate::scheme::Scheme;
@@ -64,6 +64,32 @@ impl PScheme {
 
     pub fn rank(&self) -> usize {
         self.terms.len()
+    }
+
+    /// A scheme over Q or GF(p) reduced into GF(p) (denominators prime to p); terms with
+    /// a zero factor mod p are dropped.
+    pub fn from_scheme(s: &Scheme, p: u64) -> Result<PScheme> {
+        if !(3..1 << 16).contains(&p) {
+            return Err(Error::Invalid(format!(
+                "the GF(p) flip walk supports 2 < p < 65536, not {p}"
+            )));
+        }
+        let red = s.with_field(FieldSpec::Prime(p))?;
+        let f = PrimeField::new(p).expect("prime");
+        let conv = |v: &[Q]| -> Vec<u32> {
+            v.iter()
+                .map(|x| f.from_rational(x).expect("reduced") as u32)
+                .collect()
+        };
+        let terms = (0..red.rank())
+            .map(|t| [conv(&red.u[t]), conv(&red.v[t]), conv(&red.w[t])])
+            .filter(|tr| tr.iter().all(|v| v.iter().any(|&x| x != 0)))
+            .collect();
+        Ok(PScheme {
+            p: p as u32,
+            dims: s.dims,
+            terms,
+        })
     }
 
     /// The scheme with entries in `0..p` as rationals, labelled GF(p).
@@ -232,14 +258,6 @@ impl PWalker {
         }
     }
 
-    fn axes(&mut self, x: usize) -> (usize, usize) {
-        if self.rng.next_u64() & 1 == 0 {
-            ((x + 1) % 3, (x + 2) % 3)
-        } else {
-            ((x + 2) % 3, (x + 1) % 3)
-        }
-    }
-
     /// One attempted flip. Cost: O(r + d) operations.
     pub fn flip(&mut self) -> bool {
         let r = self.rank();
@@ -258,7 +276,7 @@ impl PWalker {
             .filter(|&i| i != s && self.key[x][i] == key)
             .nth(k)
             .expect("partner");
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         let mu = 1 + self.rng.below(self.p as usize - 1) as u32;
         let alpha = self.ratio(&self.f[x][s], &self.f[x][t]);
         self.f[x][s] = self.f[x][t].clone();
@@ -294,7 +312,7 @@ impl PWalker {
         if self.key[x][s] == self.key[x][t] {
             return false;
         }
-        let (y, z) = self.axes(x);
+        let (y, z) = self.rng.other_axes(x);
         let p = self.p;
         // (a,b,c) + (a',b',c') = (a - a', b, c) + (a', b + b', c) + (a', b', c' - c)
         let mut new: [Vec<u32>; 3] = [Vec::new(), Vec::new(), Vec::new()];
@@ -321,6 +339,15 @@ impl PWalker {
         self.work.extend([s, t, r]);
         self.settle();
         true
+    }
+}
+
+impl Snapshot for PScheme {
+    fn rank(&self) -> usize {
+        PScheme::rank(self)
+    }
+    fn to_scheme(&self) -> Scheme {
+        PScheme::to_scheme(self)
     }
 }
 

@@ -1,21 +1,26 @@
-//! Hensel lifting of a scheme over GF(2) to the 2-adic integers, and recovery of a scheme
-//! over Z or Q (Kauers and Moosbauer 2022, "Flip graphs for matrix multiplication", use the
-//! same lifting for their GF(2) schemes).
+//! Hensel lifting of a scheme over GF(p) to the p-adic integers, and recovery of a scheme
+//! over Z or Q (Kauers and Moosbauer 2022, "Flip graphs for matrix multiplication", lift
+//! their GF(2) schemes the same way). Any prime p works: a scheme found over GF(3), GF(5),
+//! GF(17), ... lifts to a rational scheme whose denominators are prime to p.
 //!
 //! The Brent equations `B(x) = sum_t u_t (x) v_t (x) w_t - T = 0` are polynomial in the
-//! factor entries x. Given `x_k` with `B(x_k) = 0 mod 2^k`, write `x_{k+1} = x_k + 2^k d`;
-//! then `B(x_{k+1}) = B(x_k) + 2^k J(x_0) d (mod 2^{k+1})` where J is the Jacobian, which
-//! mod 2 only depends on `x_0`. So each step solves the *same* linear system
-//! `J(x_0) d = -B(x_k) / 2^k (mod 2)`; J is eliminated once (with its row transform
-//! recorded), each step then costs one transform-vector product. Free variables are set to
-//! zero. All arithmetic is in `Z / 2^64` (wrapping u64), exact for precisions up to 2^63.
+//! factor entries x. Given `x_k` with `B(x_k) = 0 mod p^k`, write `x_{k+1} = x_k + p^k d`;
+//! then `B(x_{k+1}) = B(x_k) + p^k J(x_0) d (mod p^{k+1})` where J is the Jacobian, which
+//! mod p only depends on `x_0`. So each step solves the *same* linear system
+//! `J(x_0) d = -B(x_k) / p^k (mod p)`; J is eliminated once and each step replays the
+//! elimination on the right-hand side (over GF(2) with bit-packed rows and the recorded row
+//! transform, over GF(p) with the recorded row operations). Free variables are set to
+//! zero, and the start values are the symmetric representatives in `(-p/2, p/2]`, so the
+//! entries left free stay small integers. Arithmetic is modulo `M = p^K < 2^63`.
 //!
-//! After each step two candidates are formed: the symmetric representatives mod 2^k (small
-//! integers) and, at a few precisions, entrywise rational reconstruction. A candidate is
-//! screened mod 2^64 and then **verified exactly over Q** with [`crate::scheme::verify`];
-//! only a verified scheme is returned.
+//! After each step candidates are formed: the symmetric representatives mod p^k (small
+//! integers); at a few precisions, entrywise rational reconstruction; and at the last
+//! precision, the left and right factors reconstructed and the result factors solved for
+//! exactly over Q (they may have large denominators, as in evaluation-interpolation
+//! schemes). A candidate is screened mod M and then **verified exactly over Q** with
+//! [`crate::scheme::verify`]; only a verified scheme is returned.
 
-use super::flip::BitScheme;
+use super::bits::{BitScheme, words};
 use crate::scalar::{FieldSpec, Q, rational_reconstruct};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
@@ -26,91 +31,222 @@ use num_traits::{One, ToPrimitive, Zero};
 /// Settings of a lift.
 #[derive(Clone, Debug)]
 pub struct HenselParams {
-    /// Highest 2-adic precision (bits) to lift to; at most 63.
+    /// Highest precision to lift to, in bits of `p^k`; at most 63.
     pub max_bits: u32,
+    /// Odd p: the largest elimination (equations x unknowns x min of both) attempted; a
+    /// larger system is not lifted (the GF(2) elimination is bit-packed and has no cap).
+    pub max_work: u64,
 }
 
 impl Default for HenselParams {
     fn default() -> Self {
-        HenselParams { max_bits: 63 }
+        HenselParams {
+            max_bits: 63,
+            max_work: 4_000_000_000,
+        }
     }
 }
 
-/// The inverse of an odd number mod 2^64 (Newton iteration).
-fn inv_odd(d: u64) -> u64 {
-    let mut x = d;
-    for _ in 0..6 {
-        x = x.wrapping_mul(2u64.wrapping_sub(d.wrapping_mul(x)));
+/// Arithmetic modulo `M = p^K`.
+#[derive(Clone, Copy, Debug)]
+struct Ring {
+    p: u64,
+    /// digits K and the modulus p^K
+    digits: u32,
+    m: u64,
+}
+
+impl Ring {
+    fn new(p: u64, max_bits: u32) -> Ring {
+        let (mut m, mut digits) = (1u64, 0u32);
+        while (m as u128) * (p as u128) < (1u128 << max_bits.clamp(2, 63)) {
+            m *= p;
+            digits += 1;
+        }
+        Ring { p, digits, m }
     }
-    x
+    #[inline]
+    fn mul(&self, a: u64, b: u64) -> u64 {
+        ((a as u128 * b as u128) % self.m as u128) as u64
+    }
+    #[inline]
+    fn sub(&self, a: u64, b: u64) -> u64 {
+        if a >= b { a - b } else { a + (self.m - b) }
+    }
+    fn of_int(&self, n: &BigInt) -> u64 {
+        n.mod_floor(&BigInt::from(self.m)).to_u64().unwrap_or(0)
+    }
+    /// A rational whose denominator is prime to p, mod M.
+    fn of_q(&self, x: &Q) -> Option<u64> {
+        let d = self.of_int(x.denom());
+        Some(self.mul(self.of_int(x.numer()), inv_mod(d, self.m)?))
+    }
+    /// p^k (k <= digits).
+    fn pow(&self, k: u32) -> u64 {
+        (0..k).fold(1u64, |a, _| a * self.p)
+    }
 }
 
-fn mod64(n: &BigInt) -> u64 {
-    let m = BigInt::one() << 64u32;
-    n.mod_floor(&m).to_u64().unwrap_or(0)
-}
-
-/// A rational with odd denominator as an element of Z / 2^64.
-fn q_mod64(x: &Q) -> Option<u64> {
-    if x.denom().is_even() {
+/// The inverse of a mod m (`None` unless coprime).
+fn inv_mod(a: u64, m: u64) -> Option<u64> {
+    let (mut r0, mut r1) = (m as i128, (a % m) as i128);
+    let (mut t0, mut t1) = (0i128, 1i128);
+    while r1 != 0 {
+        let q = r0 / r1;
+        (r0, r1) = (r1, r0 - q * r1);
+        (t0, t1) = (t1, t0 - q * t1);
+    }
+    if r0 != 1 {
         return None;
     }
-    Some(mod64(x.numer()).wrapping_mul(inv_odd(mod64(x.denom()))))
+    Some(t0.rem_euclid(m as i128) as u64)
 }
 
-/// The Brent system mod 2 at a GF(2) scheme, eliminated once.
-struct Lifter {
-    dims: [usize; 3],
-    rank: usize,
-    /// Number of unknowns r (d0 + d1 + d2), number of equations d0 d1 d2.
-    n: usize,
-    m: usize,
-    /// Rows of the row transform P (m bits each) with P J in reduced echelon form.
-    trans: Vec<Vec<u64>>,
-    /// pivot column of row i for i < pivots.len()
-    pivots: Vec<usize>,
-    /// The tensor mod 2^64, dense (i, j, k) order.
-    target: Vec<u64>,
+/// The representative of `v mod n` in `(-n/2, n/2]`.
+fn symmetric(v: u64, n: u64) -> i64 {
+    let r = v % n;
+    if r > n / 2 {
+        -((n - r) as i64)
+    } else {
+        r as i64
+    }
 }
 
-fn words(bits: usize) -> usize {
-    bits.div_ceil(64)
+/// The linear system `J d = e (mod p)`, eliminated once.
+enum Kernel {
+    /// GF(2): rows of the transform P (m bits each) with P J in reduced echelon form.
+    Bits {
+        trans: Vec<Vec<u64>>,
+        pivots: Vec<usize>,
+    },
+    /// GF(p): the recorded row operations of a Gauss-Jordan elimination of J; `pivots`
+    /// pairs a pivot row (an equation) with its column (an unknown).
+    Prime {
+        p: u64,
+        ops: Vec<RowOp>,
+        pivots: Vec<(usize, usize)>,
+    },
 }
 
-impl Lifter {
-    fn new(s: &BitScheme, t: &Tensor) -> Option<Lifter> {
-        let d = s.dims;
-        let len = d[0] + d[1] + d[2];
-        let n = s.rank() * len;
-        let m = d[0] * d[1] * d[2];
-        let mut target = vec![0u64; m];
-        for (i, j, k, c) in t.entries() {
-            target[(i * d[1] + j) * d[2] + k] = q_mod64(c)?;
-        }
-        let (wn, wm) = (words(n), words(m));
-        let mut jac = vec![vec![0u64; wn]; m];
-        let mut trans = vec![vec![0u64; wm]; m];
-        let set = |row: &mut Vec<u64>, c: usize| row[c / 64] ^= 1 << (c % 64);
-        for (ti, tr) in s.terms.iter().enumerate() {
-            let base = ti * len;
-            for i in 0..d[0] {
-                for j in 0..d[1] {
-                    for k in 0..d[2] {
-                        let (ui, vj, wk) = (tr[0] >> i & 1, tr[1] >> j & 1, tr[2] >> k & 1);
-                        let row = &mut jac[(i * d[1] + j) * d[2] + k];
-                        if vj & wk == 1 {
-                            set(row, base + i);
-                        }
-                        if ui & wk == 1 {
-                            set(row, base + d[0] + j);
-                        }
-                        if ui & vj == 1 {
-                            set(row, base + d[0] + d[1] + k);
-                        }
+enum RowOp {
+    /// e[r] *= s
+    Scale(usize, u64),
+    /// e[i] -= f e[r] for each (i, f)
+    Eliminate(usize, Vec<(usize, u64)>),
+}
+
+/// The Jacobian entries of the Brent equations at x0 (entries mod p), row by row:
+/// `rows[(i d1 + j) d2 + k]` lists `(unknown, value)`.
+fn jacobian(x0: &[u64], dims: [usize; 3], rank: usize, p: u64) -> Vec<Vec<(usize, u64)>> {
+    let d = dims;
+    let len = d[0] + d[1] + d[2];
+    let mut rows = vec![Vec::new(); d[0] * d[1] * d[2]];
+    for t in 0..rank {
+        let b = &x0[t * len..(t + 1) * len];
+        let (u, rest) = b.split_at(d[0]);
+        let (v, w) = rest.split_at(d[1]);
+        for i in 0..d[0] {
+            for j in 0..d[1] {
+                for k in 0..d[2] {
+                    let row = &mut rows[(i * d[1] + j) * d[2] + k];
+                    let vw = v[j] * w[k] % p;
+                    let uw = u[i] * w[k] % p;
+                    let uv = u[i] * v[j] % p;
+                    if vw != 0 {
+                        row.push((t * len + i, vw));
+                    }
+                    if uw != 0 {
+                        row.push((t * len + d[0] + j, uw));
+                    }
+                    if uv != 0 {
+                        row.push((t * len + d[0] + d[1] + k, uv));
                     }
                 }
             }
         }
+    }
+    rows
+}
+
+impl Kernel {
+    /// Eliminate `jac` (n unknowns); over GF(p) the pivot columns are taken in the order
+    /// `order` (every unknown once).
+    fn new(
+        jac: Vec<Vec<(usize, u64)>>,
+        n: usize,
+        order: &[usize],
+        p: u64,
+        params: &HenselParams,
+    ) -> Option<Kernel> {
+        let m = jac.len();
+        if p == 2 {
+            return Some(Self::bits(jac, n));
+        }
+        if (m as u64) * (n as u64) * (m.min(n) as u64) > params.max_work {
+            return None;
+        }
+        let mut rows: Vec<Vec<u64>> = jac
+            .into_iter()
+            .map(|r| {
+                let mut d = vec![0u64; n];
+                for (c, v) in r {
+                    d[c] = (d[c] + v) % p;
+                }
+                d
+            })
+            .collect();
+        let mut used = vec![false; m];
+        let mut ops = Vec::new();
+        let mut pivots = Vec::new();
+        for &c in order {
+            let Some(r) = (0..m).find(|&i| !used[i] && rows[i][c] != 0) else {
+                continue;
+            };
+            used[r] = true;
+            let s = inv_mod(rows[r][c], p).expect("prime");
+            for x in rows[r].iter_mut() {
+                *x = *x * s % p;
+            }
+            ops.push(RowOp::Scale(r, s));
+            let pr = rows[r].clone();
+            let mut elim = Vec::new();
+            for (i, row) in rows.iter_mut().enumerate() {
+                let f = row[c];
+                if i == r || f == 0 {
+                    continue;
+                }
+                for (x, y) in row.iter_mut().zip(&pr) {
+                    if *y != 0 {
+                        *x = (*x + (p - f) * y) % p;
+                    }
+                }
+                elim.push((i, f));
+            }
+            ops.push(RowOp::Eliminate(r, elim));
+            pivots.push((r, c));
+            if pivots.len() == m {
+                break;
+            }
+        }
+        Some(Kernel::Prime { p, ops, pivots })
+    }
+
+    fn bits(jac: Vec<Vec<(usize, u64)>>, n: usize) -> Kernel {
+        let m = jac.len();
+        let (wn, wm) = (words(n), words(m));
+        let mut rows: Vec<Vec<u64>> = jac
+            .into_iter()
+            .map(|r| {
+                let mut b = vec![0u64; wn];
+                for (c, v) in r {
+                    if v & 1 == 1 {
+                        b[c / 64] ^= 1 << (c % 64);
+                    }
+                }
+                b
+            })
+            .collect();
+        let mut trans = vec![vec![0u64; wm]; m];
         for (e, row) in trans.iter_mut().enumerate() {
             row[e / 64] |= 1 << (e % 64);
         }
@@ -122,15 +258,15 @@ impl Lifter {
                 break;
             }
             let (w, b) = (c / 64, 1u64 << (c % 64));
-            let Some(p) = (r..m).find(|&i| jac[i][w] & b != 0) else {
+            let Some(p) = (r..m).find(|&i| rows[i][w] & b != 0) else {
                 continue;
             };
-            jac.swap(r, p);
+            rows.swap(r, p);
             trans.swap(r, p);
-            let (pj, pt) = (jac[r].clone(), trans[r].clone());
+            let (pj, pt) = (rows[r].clone(), trans[r].clone());
             for i in 0..m {
-                if i != r && jac[i][w] & b != 0 {
-                    for (x, y) in jac[i].iter_mut().zip(&pj) {
+                if i != r && rows[i][w] & b != 0 {
+                    for (x, y) in rows[i].iter_mut().zip(&pj) {
                         *x ^= y;
                     }
                     for (x, y) in trans[i].iter_mut().zip(&pt) {
@@ -141,21 +277,79 @@ impl Lifter {
             pivots.push(c);
             r += 1;
         }
-        Some(Lifter {
-            dims: d,
-            rank: s.rank(),
-            n,
-            m,
-            trans,
-            pivots,
-            target,
-        })
+        Kernel::Bits { trans, pivots }
     }
 
-    /// `T - sum_t u_t (x) v_t (x) w_t` mod 2^64 for unknowns `x` (layout: per term u, v, w).
+    /// Solve `J d = e (mod p)` (e in `0..p`); `None` if inconsistent.
+    fn solve(&self, e: &[u64], n: usize) -> Option<Vec<u64>> {
+        match self {
+            Kernel::Bits { trans, pivots } => {
+                let mut eb = vec![0u64; words(e.len())];
+                for (i, &v) in e.iter().enumerate() {
+                    if v & 1 == 1 {
+                        eb[i / 64] |= 1 << (i % 64);
+                    }
+                }
+                let parity = |row: &[u64]| {
+                    row.iter()
+                        .zip(&eb)
+                        .map(|(a, b)| (a & b).count_ones())
+                        .sum::<u32>()
+                        & 1
+                };
+                if trans[pivots.len()..].iter().any(|row| parity(row) == 1) {
+                    return None;
+                }
+                let mut d = vec![0u64; n];
+                for (r, &c) in pivots.iter().enumerate() {
+                    d[c] = parity(&trans[r]) as u64;
+                }
+                Some(d)
+            }
+            Kernel::Prime { p, ops, pivots } => {
+                let p = *p;
+                let mut e = e.to_vec();
+                for op in ops {
+                    match op {
+                        RowOp::Scale(r, s) => e[*r] = e[*r] * s % p,
+                        RowOp::Eliminate(r, list) => {
+                            let er = e[*r];
+                            for &(i, f) in list {
+                                e[i] = (e[i] + (p - f) * er) % p;
+                            }
+                        }
+                    }
+                }
+                let mut is_pivot = vec![false; e.len()];
+                let mut d = vec![0u64; n];
+                for &(r, c) in pivots {
+                    is_pivot[r] = true;
+                    d[c] = e[r];
+                }
+                if e.iter().zip(&is_pivot).any(|(&v, &pv)| !pv && v != 0) {
+                    return None;
+                }
+                Some(d)
+            }
+        }
+    }
+}
+
+/// The Brent system of a fixed shape and rank, modulo `M = p^K`.
+struct Brent {
+    dims: [usize; 3],
+    rank: usize,
+    ring: Ring,
+    /// The tensor mod M, dense (i, j, k) order.
+    target: Vec<u64>,
+}
+
+impl Brent {
+    /// `T - sum_t u_t (x) v_t (x) w_t` mod M for unknowns `x` (layout: per term u, v, w).
     fn residual(&self, x: &[u64]) -> Vec<u64> {
         let d = self.dims;
         let len = d[0] + d[1] + d[2];
+        let ring = self.ring;
         let mut out = self.target.clone();
         for t in 0..self.rank {
             let b = &x[t * len..(t + 1) * len];
@@ -163,37 +357,17 @@ impl Lifter {
             let (v, w) = rest.split_at(d[1]);
             for (i, &ui) in u.iter().enumerate().filter(|e| *e.1 != 0) {
                 for (j, &vj) in v.iter().enumerate().filter(|e| *e.1 != 0) {
-                    let uv = ui.wrapping_mul(vj);
+                    let uv = ring.mul(ui, vj);
                     let row = &mut out[(i * d[1] + j) * d[2]..(i * d[1] + j + 1) * d[2]];
                     for (o, &wk) in row.iter_mut().zip(w) {
-                        *o = o.wrapping_sub(uv.wrapping_mul(wk));
+                        if wk != 0 {
+                            *o = ring.sub(*o, ring.mul(uv, wk));
+                        }
                     }
                 }
             }
         }
         out
-    }
-
-    /// Solve `J d = e (mod 2)`; `None` if inconsistent.
-    fn solve(&self, e: &[u64]) -> Option<Vec<bool>> {
-        let parity = |row: &[u64]| {
-            row.iter()
-                .zip(e)
-                .map(|(a, b)| (a & b).count_ones())
-                .sum::<u32>()
-                & 1
-                == 1
-        };
-        for row in &self.trans[self.pivots.len()..] {
-            if parity(row) {
-                return None;
-            }
-        }
-        let mut d = vec![false; self.n];
-        for (r, &c) in self.pivots.iter().enumerate() {
-            d[c] = parity(&self.trans[r]);
-        }
-        Some(d)
     }
 
     fn to_scheme(&self, vals: Vec<Q>) -> Scheme {
@@ -210,107 +384,157 @@ impl Lifter {
         }
         s
     }
-}
 
-/// Lift a GF(2) scheme of the tensor reduced mod 2 to a scheme over Q of the same rank.
-/// Returns a scheme verified exactly against `t` (a tensor over Q whose denominators are
-/// odd), or `None` when a linear step is inconsistent or no candidate verifies.
-/// Cost: one GF(2) elimination of the `d0 d1 d2 x r (d0 + d1 + d2)` Jacobian, then per step
-/// O(r d0 d1 d2) word operations.
-pub fn lift_scheme(s: &BitScheme, t: &Tensor, params: &HenselParams) -> Option<Scheme> {
-    if t.field() != FieldSpec::Rational || s.dims != t.dims() {
-        return None;
+    /// Entrywise rational reconstruction mod `n` (`None` if an entry has none).
+    fn reconstruct(&self, x: &[u64], n: u64) -> Option<Vec<Q>> {
+        let nb = BigInt::from(n);
+        x.iter()
+            .map(|&v| rational_reconstruct(&BigInt::from(v % n), &nb))
+            .collect()
     }
-    let lf = Lifter::new(s, t)?;
-    let d = s.dims;
-    let len = d[0] + d[1] + d[2];
-    let mut x = vec![0u64; lf.n];
-    for (ti, tr) in s.terms.iter().enumerate() {
-        for a in 0..3 {
-            let off = ti * len + [0, d[0], d[0] + d[1]][a];
-            for i in 0..d[a] {
-                x[off + i] = tr[a] >> i & 1;
-            }
-        }
-    }
-    let max_bits = params.max_bits.clamp(2, 63);
-    let mut prec = 1u32; // x is a solution mod 2^prec
-    loop {
-        let res = lf.residual(&x);
-        let exact64 = res.iter().all(|&v| v == 0);
-        // candidate 1: symmetric representatives mod 2^prec (mod 2^64 if exact there)
-        let bits = if exact64 { 64 } else { prec };
-        if prec >= 2 || exact64 {
-            let sym: Vec<u64> = x.iter().map(|&v| symmetric(v, bits) as u64).collect();
-            if lf.residual(&sym).iter().all(|&v| v == 0) {
-                let vals: Vec<Q> = sym
-                    .iter()
-                    .map(|&v| Q::from_integer(BigInt::from(v as i64)))
-                    .collect();
-                let cand = lf.to_scheme(vals);
-                if verify(&cand, t).is_ok() {
-                    return Some(cand);
-                }
-            }
-        }
-        // candidate 2: rational reconstruction at a few precisions
-        if exact64 || (prec >= 8 && prec.is_multiple_of(8)) || prec == max_bits {
-            let m = BigInt::one() << bits.min(63);
-            let mut vals = Vec::with_capacity(x.len());
-            let mut ok = true;
-            for &v in &x {
-                let a = BigInt::from(v) % &m;
-                match rational_reconstruct(&a, &m) {
-                    Some(r) => vals.push(r),
-                    None => {
-                        ok = false;
-                        break;
-                    }
-                }
-            }
-            if ok {
-                let screen: Option<Vec<u64>> = vals.iter().map(q_mod64).collect();
-                if let Some(sc) = screen
-                    && lf.residual(&sc).iter().all(|&v| v == 0)
-                {
-                    let cand = lf.to_scheme(vals);
-                    if verify(&cand, t).is_ok() {
-                        return Some(cand);
-                    }
-                }
-            }
-        }
-        if exact64 || prec >= max_bits {
+
+    /// Exact check of candidate values: screened mod M, then verified over Q.
+    fn accept(&self, vals: Vec<Q>, t: &Tensor) -> Option<Scheme> {
+        let screen: Option<Vec<u64>> = vals.iter().map(|v| self.ring.of_q(v)).collect();
+        if let Some(sc) = screen
+            && self.residual(&sc).iter().any(|&v| v != 0)
+        {
             return None;
         }
-        let mut e = vec![0u64; words(lf.m)];
-        for (i, &v) in res.iter().enumerate() {
-            if v >> prec & 1 == 1 {
-                e[i / 64] |= 1 << (i % 64);
+        let cand = self.to_scheme(vals);
+        verify(&cand, t).is_ok().then_some(cand)
+    }
+
+    /// Left and right factors reconstructed mod `n`, result factors solved exactly.
+    fn accept_solving_results(&self, x: &[u64], n: u64, t: &Tensor) -> Option<Scheme> {
+        let d = self.dims;
+        let len = d[0] + d[1] + d[2];
+        let nb = BigInt::from(n);
+        let rec = |v: &[u64]| -> Option<Vec<Q>> {
+            v.iter()
+                .map(|&a| rational_reconstruct(&BigInt::from(a % n), &nb))
+                .collect()
+        };
+        let mut us = Vec::with_capacity(self.rank);
+        let mut vs = Vec::with_capacity(self.rank);
+        for tt in 0..self.rank {
+            let b = &x[tt * len..(tt + 1) * len];
+            us.push(rec(&b[..d[0]])?);
+            vs.push(rec(&b[d[0]..d[0] + d[1]])?);
+        }
+        let ws = super::numeric::solve_result_factors(t, &us, &vs)?;
+        let mut s = Scheme::empty(FieldSpec::Rational, d);
+        for ((u, v), w) in us.into_iter().zip(vs).zip(ws) {
+            s.push(u, v, w);
+        }
+        verify(&s, t).is_ok().then_some(s)
+    }
+}
+
+/// Lift a scheme over GF(p) (entries in `0..p`) of the tensor reduced mod p to a scheme
+/// over Q of the same rank. Returns a scheme verified exactly against `t` (a tensor over Q
+/// whose denominators are prime to p), or `None` when a linear step is inconsistent, the
+/// system is beyond `params.max_work`, or no candidate verifies.
+/// Cost: one elimination of the `d0 d1 d2 x r (d0 + d1 + d2)` Jacobian mod p (bit-packed
+/// for p = 2), then per digit O(r d0 d1 d2) products mod p^K and one replay.
+pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Scheme> {
+    let FieldSpec::Prime(p) = s.field else {
+        return None;
+    };
+    if t.field() != FieldSpec::Rational || s.dims != t.dims() || p >= 1 << 31 {
+        return None;
+    }
+    let ring = Ring::new(p, params.max_bits);
+    let d = s.dims;
+    let len = d[0] + d[1] + d[2];
+    let rank = s.rank();
+    let n = rank * len;
+    let mut target = vec![0u64; d[0] * d[1] * d[2]];
+    for (i, j, k, c) in t.entries() {
+        target[(i * d[1] + j) * d[2] + k] = ring.of_q(c)?;
+    }
+    let brent = Brent {
+        dims: d,
+        rank,
+        ring,
+        target,
+    };
+    // start values: symmetric representatives of the GF(p) entries
+    let mut x0 = Vec::with_capacity(n);
+    let mut x = Vec::with_capacity(n);
+    for tt in 0..rank {
+        for v in [&s.u[tt], &s.v[tt], &s.w[tt]] {
+            for e in v {
+                let r = ring_of_p(e, p)?;
+                x0.push(r);
+                let sy = symmetric(r, p);
+                x.push(if sy < 0 {
+                    ring.m - (-sy) as u64
+                } else {
+                    sy as u64
+                });
             }
         }
-        let dx = lf.solve(&e)?;
+    }
+    // pivots on the result factors first: the Brent equations are linear in them, so the
+    // left and right factors keep their small start values wherever the system allows, and
+    // the lifted point stays rational (a point lifted through the left factors is in
+    // general an algebraic p-adic number with no rational reconstruction)
+    let order: Vec<usize> = [d[0] + d[1]..len, d[0]..d[0] + d[1], 0..d[0]]
+        .into_iter()
+        .flat_map(|axis| (0..rank).flat_map(move |tt| axis.clone().map(move |e| tt * len + e)))
+        .collect();
+    let kernel = Kernel::new(jacobian(&x0, d, rank, p), n, &order, p, params)?;
+    let mut prec = 1u32; // x is a solution mod p^prec
+    loop {
+        let res = brent.residual(&x);
+        let exact = res.iter().all(|&v| v == 0);
+        let modulus = if exact { ring.m } else { ring.pow(prec) };
+        // candidate 1: symmetric representatives (small integers)
+        if prec >= 2 || exact {
+            let vals: Vec<Q> = x
+                .iter()
+                .map(|&v| Q::from_integer(BigInt::from(symmetric(v, modulus))))
+                .collect();
+            if let Some(s) = brent.accept(vals, t) {
+                return Some(s);
+            }
+        }
+        let last = exact || prec >= ring.digits;
+        // candidate 2: rational reconstruction of every entry, at a few precisions
+        if (last || (prec >= 4 && prec.is_multiple_of(4)))
+            && let Some(vals) = brent.reconstruct(&x, modulus)
+            && let Some(s) = brent.accept(vals, t)
+        {
+            return Some(s);
+        }
+        if last {
+            // candidate 3: left and right factors reconstructed, result factors solved
+            return brent.accept_solving_results(&x, modulus, t);
+        }
+        let pk = ring.pow(prec);
+        let e: Vec<u64> = res.iter().map(|&v| (v / pk) % p).collect();
+        let dx = kernel.solve(&e, n)?;
         for (xi, di) in x.iter_mut().zip(dx) {
-            if di {
-                *xi = xi.wrapping_add(1u64 << prec);
+            if di != 0 {
+                *xi = (*xi + ring.mul(di, pk)) % ring.m;
             }
         }
         prec += 1;
     }
 }
 
-/// The representative of `v mod 2^bits` in `(-2^(bits-1), 2^(bits-1)]`.
-fn symmetric(v: u64, bits: u32) -> i64 {
-    if bits >= 64 {
-        return v as i64;
-    }
-    let m = 1u64 << bits;
-    let r = v & (m - 1);
-    if r > m / 2 {
-        r as i64 - m as i64
-    } else {
-        r as i64
-    }
+/// An entry of a GF(p) scheme (an integer in `0..p`, or a rational reduced mod p).
+fn ring_of_p(e: &Q, p: u64) -> Option<u64> {
+    let pb = BigInt::from(p);
+    let n = e.numer().mod_floor(&pb).to_u64()?;
+    let dd = e.denom().mod_floor(&pb).to_u64()?;
+    Some(n * inv_mod(dd, p)? % p)
+}
+
+/// Lift a GF(2) scheme of the tensor reduced mod 2 (see [`lift_scheme`]).
+pub fn lift_bits(s: &BitScheme, t: &Tensor, params: &HenselParams) -> Option<Scheme> {
+    lift_scheme(&s.to_scheme(FieldSpec::Prime(2)), t, params)
 }
 
 /// True when every entry of the scheme is an integer.
@@ -326,23 +550,7 @@ pub fn is_integral(s: &Scheme) -> bool {
 mod tests {
     use super::*;
     use crate::scalar::q;
-
-    fn matmul2() -> Tensor {
-        let mut t = Tensor::zero(
-            FieldSpec::Rational,
-            crate::tensor::Kind::Bilinear,
-            [4, 4, 4],
-            None,
-        );
-        for i in 0..2 {
-            for l in 0..2 {
-                for j in 0..2 {
-                    t.set(i * 2 + l, l * 2 + j, i * 2 + j, Q::one());
-                }
-            }
-        }
-        t
-    }
+    use crate::search::tests::{matmul, poly};
 
     /// Strassen's algorithm (Strassen 1969, "Gaussian elimination is not optimal"), written
     /// by hand; basis order a11 a12 a21 a22 (same for b, c).
@@ -361,21 +569,68 @@ mod tests {
 
     #[test]
     fn strassen_reduced_mod_2_lifts_back() {
-        let t = matmul2();
+        let t = matmul(2, 2, 2);
         let s = strassen();
         assert!(verify(&s, &t).is_ok(), "hand-written Strassen scheme");
         let b = BitScheme::from_scheme(&s).unwrap();
         assert_eq!(b.rank(), 7);
-        let lifted = lift_scheme(&b, &t, &HenselParams::default()).expect("lift");
+        let lifted = lift_bits(&b, &t, &HenselParams::default()).expect("lift");
         assert_eq!(lifted.rank(), 7);
         assert!(verify(&lifted, &t).is_ok());
     }
 
+    /// Scale every term of a scheme by `(a, b, 1/(a b))`: still a scheme of the tensor,
+    /// now with the denominators of `1/(a b)`.
+    fn scaled(s: &Scheme, a: Q, b: Q) -> Scheme {
+        let mut out = Scheme::empty(s.field, s.dims);
+        let c = (&a * &b).recip();
+        for t in 0..s.rank() {
+            out.push(
+                s.u[t].iter().map(|x| x * &a).collect(),
+                s.v[t].iter().map(|x| x * &b).collect(),
+                s.w[t].iter().map(|x| x * &c).collect(),
+            );
+        }
+        out
+    }
+
+    /// Planted schemes with denominators 2, 3 and 5 are recovered from their reductions
+    /// mod a prime that does not divide them: Strassen's scheme scaled term by term
+    /// (Strassen 1969) and the Toom-Cook scheme with evaluation points 0, 1, -1, 2 and
+    /// infinity, whose interpolation has denominators 2, 3 and 6 (Toom 1963; Cook 1966).
     #[test]
-    fn symmetric_representatives() {
-        assert_eq!(symmetric(u64::MAX, 64), -1);
-        assert_eq!(symmetric(7, 3), -1);
-        assert_eq!(symmetric(3, 3), 3);
-        assert_eq!(symmetric(5, 3), -3);
+    fn planted_denominators_lift_from_odd_primes() {
+        let t = matmul(2, 2, 2);
+        for (a, b, p) in [(2, 1, 3u64), (3, 1, 5), (5, 2, 3), (5, 3, 7)] {
+            let planted = scaled(&strassen(), q(a, 1), q(b, 1));
+            assert!(verify(&planted, &t).is_ok());
+            let red = planted.with_field(FieldSpec::Prime(p)).unwrap();
+            let lifted = lift_scheme(&red, &t, &HenselParams::default())
+                .unwrap_or_else(|| panic!("lift of 1/{} mod {p}", a * b));
+            assert_eq!(lifted.rank(), 7);
+            assert!(verify(&lifted, &t).is_ok());
+        }
+        let toom = crate::catalog::stored_schemes("polymul3")[0]
+            .read()
+            .unwrap();
+        let tp = poly(3, 3);
+        for p in [5u64, 7, 11] {
+            let red = toom.with_field(FieldSpec::Prime(p)).unwrap();
+            let lifted = lift_scheme(&red, &tp, &HenselParams::default()).expect("Toom lift");
+            assert_eq!(lifted.rank(), 5);
+            assert!(verify(&lifted, &tp).is_ok());
+        }
+    }
+
+    #[test]
+    fn ring_arithmetic() {
+        let r = Ring::new(3, 63);
+        assert!(r.m > 1 << 61 && r.m.is_multiple_of(3));
+        assert_eq!(r.of_q(&q(1, 2)).map(|x| r.mul(x, 2)), Some(1));
+        assert_eq!(inv_mod(2, 9), Some(5));
+        assert_eq!(inv_mod(3, 9), None);
+        assert_eq!(symmetric(8, 9), -1);
+        assert_eq!(symmetric(4, 9), 4);
+        assert_eq!(symmetric(5, 9), -4);
     }
 }

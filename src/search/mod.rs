@@ -1,53 +1,101 @@
 //! Search for low-rank schemes (bilinear algorithms with fewer multiplications).
 //!
-//! Two engines, both ending in an exact check with [`crate::scheme::verify`]:
-//! - [`als`]: numerical alternating least squares in f64, rounding to small rationals,
-//!   exact verification over Q;
-//! - [`flip`]: a flip-graph random walk over GF(2), then [`hensel`] lifting to Z / Q when
-//!   the tensor is over Q; [`flip_p`]: the same walk over GF(p) for tensors over GF(p).
+//! Engines, all ending in an exact check with [`crate::scheme::verify`]:
+//! - flip-graph walks ([`flip`] over GF(2) with factors in multi-word masks, [`flip_p`]
+//!   over GF(p), [`cyclic`] over GF(2) restricted to schemes of <n,n,n> invariant under
+//!   the cyclic symmetry), restarted from a [`pool`] of schemes at the lowest rank reached,
+//!   with plateau handling by plus transitions; for a tensor over Q each new rank is lifted
+//!   p-adically ([`hensel`], any small prime) to a scheme over Z or Q, verified exactly;
+//! - the numerical route ([`numeric`]: [`als`] or Levenberg-Marquardt [`lm`], rounding by
+//!   rational reconstruction, exact solve of the result factors, exact check), over Q.
 //!
-//! The driver [`search_scheme`] splits the work into *runs* numbered 0, 1, 2, ...; run n
-//! uses its own RNG seeded from `(seed, n)`, so a run's outcome depends only on the seed
-//! and its number (not on the thread that executes it or the thread count). A shard
-//! `K/N` executes only the runs `n = K (mod N)`, so N independent jobs cover the same runs
-//! as one job. Workers share the best verified scheme; the search ends when the target rank
-//! is reached, the time limit passes, the run limit is used up, or the stop flag is set.
+//! [`plan_runs`] chooses the engines of a search ([`Method::Auto`]: walks and
+//! Levenberg-Marquardt runs in turn over Q, walks over GF(p)). The driver [`search_scheme`]
+//! splits the work into *runs* numbered 0, 1, 2, ...; run n uses the engine `n mod k` of
+//! the plan and its own RNG seeded from `(seed, n)`. A shard `K/N` executes only the runs
+//! `n = K (mod N)`, so N independent jobs cover the same runs as one job. Workers share the
+//! best verified scheme and the pool; the search ends when the target rank is reached, the
+//! time limit passes, the run limit is used up, or the stop flag is set. With one thread a
+//! search is a deterministic function of its parameters.
 //!
 //! Invariant: every scheme this module returns has passed `verify` against the tensor (over
-//! Q, or over GF(2) when the search field is GF(2)).
+//! Q, or over GF(p) when the search field is GF(p)).
 
 pub mod als;
+pub mod bits;
+pub mod cyclic;
+mod engines;
 pub mod flip;
 pub mod flip_p;
 pub mod hensel;
 pub mod json;
+pub mod lm;
+pub mod numeric;
+pub mod pool;
 pub mod store;
+mod walks;
+
+pub use engines::{RunKind, RunPlan, Walk, plan_runs};
 
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
-use flip::{BitScheme, FlipParams, WalkEvent};
+use cyclic::{CyclicScheme, CyclicWalker};
+use flip::{BitScheme, FlipParams, Snapshot, Walker};
+use flip_p::{PScheme, PWalker};
+use numeric::{Fit, NumericParams};
+use pool::{Pool, PoolParams};
 use rand::SeedableRng;
 use rand_chacha::ChaCha8Rng;
 use std::sync::atomic::{AtomicBool, AtomicU64, AtomicUsize, Ordering};
 use std::sync::{Arc, Mutex};
 use std::time::{Duration, Instant};
+use walks::WalkPlan;
 
 /// The search engine.
 #[derive(Clone, Copy, Debug, PartialEq, Eq)]
 pub enum Method {
-    /// Alternating least squares with rounding (tensors over Q).
-    Als,
-    /// Flip-graph walk over GF(2), lifted to Q unless the search field is GF(2).
+    /// Flip-graph walks (over GF(2), or GF(p) with `walk_prime`), lifted to Q unless the
+    /// search field is GF(p).
     Flip,
+    /// The numerical route with alternating least squares (tensors over Q).
+    Als,
+    /// The numerical route with Levenberg-Marquardt (tensors over Q).
+    Lm,
+    /// Over Q: walks and Levenberg-Marquardt runs in turn (walks only where the tensor
+    /// reduces mod the walk prime); over GF(p): walks.
+    Auto,
+}
+
+impl Method {
+    /// `flip`, `als`, `lm` or `auto`.
+    pub fn parse(s: &str) -> Result<Method> {
+        match s.to_ascii_lowercase().as_str() {
+            "flip" => Ok(Method::Flip),
+            "als" => Ok(Method::Als),
+            "lm" => Ok(Method::Lm),
+            "auto" => Ok(Method::Auto),
+            _ => Err(Error::Invalid(format!(
+                "unknown method `{s}` (expected flip, als, lm or auto)"
+            ))),
+        }
+    }
+}
+
+/// A symmetry the walks keep.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Symmetry {
+    None,
+    /// The cyclic symmetry of a square matrix format <n,n,n> ([`cyclic`]).
+    Cyclic,
 }
 
 /// Settings of a search.
 #[derive(Clone, Debug)]
 pub struct Params {
     /// Stop when a verified scheme of at most this rank is found (`None`: keep improving
-    /// until the time or run limit; ALS needs a rank).
+    /// until the time or run limit; the numerical route needs a rank).
     pub target_rank: Option<usize>,
     /// Wall-clock limit.
     pub time_limit: Option<Duration>,
@@ -64,10 +112,16 @@ pub struct Params {
     pub shard: (u64, u64),
     /// Execute only runs numbered at least this (to resume: the checkpoint's `next_run`).
     pub first_run: u64,
-    /// Moves per flip run.
+    /// Moves per walk (one run).
     pub walk_budget: u64,
+    /// The prime of the walks of a search over Q (2: bit-packed GF(2); an odd prime below
+    /// 65536: walks over GF(p), lifted p-adically, for schemes with even denominators).
+    pub walk_prime: u64,
+    /// A symmetry the walks keep.
+    pub symmetry: Symmetry,
+    pub pool: PoolParams,
     pub flip: FlipParams,
-    pub als: als::AlsParams,
+    pub numeric: NumericParams,
     pub hensel: hensel::HenselParams,
 }
 
@@ -83,9 +137,12 @@ impl Default for Params {
             field: None,
             shard: (0, 1),
             first_run: 0,
-            walk_budget: 20_000_000,
+            walk_budget: 4_000_000,
+            walk_prime: 2,
+            symmetry: Symmetry::None,
+            pool: PoolParams::default(),
             flip: FlipParams::default(),
-            als: als::AlsParams::default(),
+            numeric: NumericParams::default(),
             hensel: hensel::HenselParams::default(),
         }
     }
@@ -97,6 +154,9 @@ pub struct Progress {
     pub best: Option<Scheme>,
     /// Flip moves attempted so far (all workers).
     pub moves: u64,
+    /// The lowest rank a walk reached over its own field (GF(2) or GF(p)), which may lie
+    /// below the best rank over Q when those schemes do not lift.
+    pub walk_rank: Option<usize>,
     /// All runs of this shard below this number are finished (for a checkpoint).
     pub next_run: u64,
     pub elapsed: Duration,
@@ -110,6 +170,7 @@ pub struct Outcome {
     /// True when `best` reaches the target rank.
     pub reached: bool,
     pub moves: u64,
+    pub walk_rank: Option<usize>,
     pub next_run: u64,
     pub elapsed: Duration,
 }
@@ -121,11 +182,12 @@ pub fn run_seed(seed: u64, run: u64) -> u64 {
     r.next_u64()
 }
 
-struct Shared {
+pub(crate) struct Shared {
     best: Mutex<Option<Scheme>>,
     best_rank: AtomicUsize,
     found: AtomicBool,
     moves: AtomicU64,
+    walk_rank: AtomicUsize,
     /// runs handed out (sequence numbers within the shard) and finished flags
     next_seq: AtomicU64,
     done: Mutex<Vec<u64>>,
@@ -148,10 +210,10 @@ impl Shared {
 /// Search for a scheme of the tensor of rank at most `params.target_rank`.
 ///
 /// `start` (e.g. from a checkpoint) must verify against the tensor; it seeds the best result
-/// and is the starting point of the flip walks. `progress` is called about twice a second
-/// from the calling thread. Returns the best verified scheme found.
-/// Cost: bounded by the time and run limits; each flip move O(r), each ALS sweep
-/// O(nnz r + d r^2 + r^3).
+/// and the pool of the walks. `progress` is called about twice a second from the calling
+/// thread. Returns the best verified scheme found.
+/// Cost: bounded by the time and run limits; each flip move O(r), each numerical step
+/// O(nnz r + d r^2 + r^3) (ALS) or O((r d)^3) (Levenberg-Marquardt).
 pub fn search_scheme(
     t: &Tensor,
     params: &Params,
@@ -170,16 +232,6 @@ pub fn search_scheme(
     } else {
         t.with_field(field).map_err(Error::Invalid)?
     };
-    if params.method == Method::Als && field != FieldSpec::Rational {
-        return Err(Error::Invalid(
-            "the ALS search works over Q; use --method flip for GF(2)".into(),
-        ));
-    }
-    if params.method == Method::Als && params.target_rank.is_none() {
-        return Err(Error::Invalid(
-            "the ALS search needs a target rank (--rank)".into(),
-        ));
-    }
     if params.target_rank.is_none() && params.time_limit.is_none() && params.restarts.is_none() {
         return Err(Error::Invalid(
             "give a target rank, a time limit or a run limit".into(),
@@ -202,42 +254,130 @@ pub fn search_scheme(
             reached: best.as_ref().is_some_and(|s| s.rank() <= target),
             best,
             moves: 0,
+            walk_rank: None,
             next_run: params.first_run,
             elapsed: Duration::ZERO,
         });
     }
-    let p_start = match (params.method, field) {
-        (Method::Flip, FieldSpec::Prime(p)) if p != 2 => Some(flip_p::PScheme::standard(&goal)?),
-        _ => None,
-    };
-    let flip_start = match params.method {
-        Method::Flip if p_start.is_some() => None,
-        Method::Flip => {
-            let std = BitScheme::standard(&goal)?;
-            Some(match &start {
-                Some(s) => BitScheme::from_scheme(s).unwrap_or(std),
-                None => std,
-            })
-        }
-        Method::Als => None,
-    };
+    let plan = plan_runs(&goal, params, start.as_ref().map(Scheme::rank))?;
+    let walk = plan.kinds.iter().find_map(|k| match k {
+        RunKind::Walk(w) => Some(*w),
+        RunKind::Numeric(_) => None,
+    });
     let shared = Shared {
         best_rank: AtomicUsize::new(start.as_ref().map_or(usize::MAX, Scheme::rank)),
         found: AtomicBool::new(start.as_ref().is_some_and(|s| s.rank() <= target)),
-        best: Mutex::new(start),
+        best: Mutex::new(start.clone()),
         moves: AtomicU64::new(0),
+        walk_rank: AtomicUsize::new(usize::MAX),
         next_seq: AtomicU64::new(0),
         done: Mutex::new(Vec::new()),
-    };
-    let threads = if params.threads == 0 {
-        std::thread::available_parallelism().map_or(1, |x| x.get())
-    } else {
-        params.threads
     };
     let t0 = Instant::now();
     let out_of_time = || params.time_limit.is_some_and(|l| t0.elapsed() >= l);
     let halted =
         || stop.load(Ordering::Relaxed) || shared.found.load(Ordering::Relaxed) || out_of_time();
+    let numeric_run = |fit: Fit, seed: u64| {
+        let mut rng = ChaCha8Rng::seed_from_u64(seed);
+        let np = NumericParams {
+            fit,
+            ..params.numeric.clone()
+        };
+        // without a target rank: one below the best verified rank so far
+        let aim = match params.target_rank {
+            Some(r) => r,
+            None => match shared.best_rank.load(Ordering::SeqCst) {
+                usize::MAX => return,
+                b => b.saturating_sub(1),
+            },
+        };
+        if let Some(s) = numeric::numeric_run(&goal, aim, &np, &mut rng, &halted) {
+            shared.offer(s, target);
+        }
+    };
+    let drive = |walk_run: &(dyn Fn(u64) + Sync)| {
+        let run = |run_no: u64, seed: u64| match plan.kinds
+            [(run_no % plan.kinds.len() as u64) as usize]
+        {
+            RunKind::Walk(_) => walk_run(seed),
+            RunKind::Numeric(fit) => numeric_run(fit, seed),
+        };
+        drive_runs(params, &shared, t0, &halted, &run, progress)
+    };
+    let snap = match walk {
+        None => drive(&|_| {}),
+        Some(Walk::Bits { words }) => {
+            let std = BitScheme::standard(&goal)?;
+            let s0 = start
+                .as_ref()
+                .and_then(|s| BitScheme::from_scheme(s).ok())
+                .filter(|b| b.rank() < std.rank())
+                .unwrap_or(std);
+            let wp = walk_plan(&goal, s0, params);
+            crate::with_words!(words, W => drive(&|seed| wp.run(&|s: &BitScheme, sd| Walker::<W>::new(s, sd), seed, &shared, &halted)))
+        }
+        Some(Walk::Cyclic { n: side, words }) => {
+            let std = CyclicScheme::standard(side)?;
+            let s0 = start
+                .as_ref()
+                .and_then(|s| BitScheme::from_scheme(s).ok())
+                .and_then(|b| CyclicScheme::from_bits(&b, side))
+                .filter(|c| c.rank() < std.rank())
+                .unwrap_or(std);
+            let wp = walk_plan(&goal, s0, params);
+            crate::with_words!(words, W => drive(&|seed| wp.run(&|s: &CyclicScheme, sd| CyclicWalker::<W>::new(s, sd), seed, &shared, &halted)))
+        }
+        Some(Walk::Prime { p }) => {
+            let gp = goal
+                .with_field(FieldSpec::Prime(p))
+                .map_err(Error::Invalid)?;
+            let std = PScheme::standard(&gp)?;
+            let s0 = start
+                .as_ref()
+                .and_then(|s| PScheme::from_scheme(s, p).ok())
+                .filter(|b| b.rank() < std.rank())
+                .unwrap_or(std);
+            let wp = walk_plan(&goal, s0, params);
+            drive(&|seed| wp.run(&PWalker::new, seed, &shared, &halted))
+        }
+    };
+    let reached = snap.best.as_ref().is_some_and(|s| s.rank() <= target);
+    Ok(Outcome {
+        best: snap.best,
+        reached,
+        moves: snap.moves,
+        walk_rank: snap.walk_rank,
+        next_run: snap.next_run,
+        elapsed: snap.elapsed,
+    })
+}
+
+fn walk_plan<'a, S: Snapshot>(goal: &'a Tensor, start: S, params: &'a Params) -> WalkPlan<'a, S> {
+    let rank = start.rank();
+    WalkPlan {
+        goal,
+        pool: Mutex::new(Pool::new(start.clone(), rank, params.pool.clone())),
+        start,
+        params,
+    }
+}
+
+/// Run the runs of this shard on the worker threads until halted or the run limit is
+/// used up; report progress from the calling thread. Returns the final snapshot.
+fn drive_runs(
+    params: &Params,
+    shared: &Shared,
+    t0: Instant,
+    halted: &(dyn Fn() -> bool + Sync),
+    run: &(dyn Fn(u64, u64) + Sync),
+    progress: &(dyn Fn(&Progress) + Sync),
+) -> Progress {
+    let (k, n) = params.shard;
+    let threads = if params.threads == 0 {
+        std::thread::available_parallelism().map_or(1, |x| x.get())
+    } else {
+        params.threads
+    };
     // run numbers of this shard: base, base + N, base + 2N, ... with base = K (mod N)
     let base = params.first_run + (k + n - params.first_run % n) % n;
     let run_of = |seq: u64| base + seq * n;
@@ -253,100 +393,8 @@ pub fn search_scheme(
                     if params.restarts.is_some_and(|m| seq >= m) {
                         break;
                     }
-                    let run = run_of(seq);
-                    let seed = run_seed(params.seed, run);
-                    match params.method {
-                        Method::Als => {
-                            let mut rng = ChaCha8Rng::seed_from_u64(seed);
-                            if let Some(s) =
-                                als::als_run(&goal, target, &params.als, &mut rng, &halted)
-                            {
-                                shared.offer(s, target);
-                            }
-                        }
-                        Method::Flip if p_start.is_some() => {
-                            let startp = p_start.as_ref().expect("GF(p) start");
-                            let mut ev = |e: WalkEvent<flip_p::PScheme>| -> bool {
-                                match e {
-                                    WalkEvent::Moves(m) => {
-                                        shared.moves.fetch_add(m, Ordering::Relaxed);
-                                        halted()
-                                    }
-                                    WalkEvent::Candidate(b) => {
-                                        let s = b.to_scheme();
-                                        let ok = verify(&s, &goal).is_ok();
-                                        let r = s.rank();
-                                        if ok {
-                                            shared.offer(s, target);
-                                        }
-                                        ok && r <= target
-                                    }
-                                }
-                            };
-                            flip_p::walk_p(
-                                startp,
-                                target,
-                                &params.flip,
-                                seed,
-                                params.walk_budget,
-                                &mut ev,
-                            );
-                        }
-                        Method::Flip => {
-                            let startb = flip_start.as_ref().expect("flip start");
-                            // lifting costs one GF(2) elimination of the Jacobian; retries
-                            // at a rank already tried get at most a fifth of the walk's time
-                            let walk_t0 = Instant::now();
-                            let mut lift_secs = 0.0f64;
-                            let mut tried_rank = usize::MAX;
-                            let mut ev = |e: WalkEvent<BitScheme>| -> bool {
-                                match e {
-                                    WalkEvent::Moves(m) => {
-                                        shared.moves.fetch_add(m, Ordering::Relaxed);
-                                        halted()
-                                    }
-                                    WalkEvent::Candidate(b) => {
-                                        let r = b.rank();
-                                        if r >= shared.best_rank.load(Ordering::SeqCst)
-                                            && r > target
-                                        {
-                                            return false;
-                                        }
-                                        let s = if field == FieldSpec::Rational {
-                                            if r >= tried_rank
-                                                && lift_secs > 0.2 * walk_t0.elapsed().as_secs_f64()
-                                            {
-                                                return false;
-                                            }
-                                            tried_rank = tried_rank.min(r);
-                                            let l0 = Instant::now();
-                                            let s = hensel::lift_scheme(b, &goal, &params.hensel);
-                                            lift_secs += l0.elapsed().as_secs_f64();
-                                            s
-                                        } else {
-                                            let s = b.to_scheme(field);
-                                            verify(&s, &goal).is_ok().then_some(s)
-                                        };
-                                        match s {
-                                            Some(s) => {
-                                                shared.offer(s, target);
-                                                r <= target
-                                            }
-                                            None => false,
-                                        }
-                                    }
-                                }
-                            };
-                            flip::walk(
-                                startb,
-                                target,
-                                &params.flip,
-                                seed,
-                                params.walk_budget,
-                                &mut ev,
-                            );
-                        }
-                    }
+                    let run_no = run_of(seq);
+                    run(run_no, run_seed(params.seed, run_no));
                     if !halted() {
                         shared.done.lock().expect("lock").push(seq);
                     }
@@ -359,20 +407,13 @@ pub fn search_scheme(
             std::thread::sleep(Duration::from_millis(2));
             if last.elapsed() >= Duration::from_millis(500) {
                 last = Instant::now();
-                progress(&snapshot(&shared, t0, &run_of));
+                progress(&snapshot(shared, t0, &run_of));
             }
         }
     });
-    let snap = snapshot(&shared, t0, &run_of);
+    let snap = snapshot(shared, t0, &run_of);
     progress(&snap);
-    let reached = snap.best.as_ref().is_some_and(|s| s.rank() <= target);
-    Ok(Outcome {
-        best: snap.best,
-        reached,
-        moves: snap.moves,
-        next_run: snap.next_run,
-        elapsed: snap.elapsed,
-    })
+    snap
 }
 
 fn snapshot(shared: &Shared, t0: Instant, run_of: &dyn Fn(u64) -> u64) -> Progress {
@@ -387,9 +428,11 @@ fn snapshot(shared: &Shared, t0: Instant, run_of: &dyn Fn(u64) -> u64) -> Progre
             break;
         }
     }
+    let wr = shared.walk_rank.load(Ordering::SeqCst);
     Progress {
         best: shared.best.lock().expect("lock").clone(),
         moves: shared.moves.load(Ordering::Relaxed),
+        walk_rank: (wr != usize::MAX).then_some(wr),
         next_run: run_of(first_open),
         elapsed: t0.elapsed(),
     }

@@ -134,9 +134,9 @@ fn strassen_rank_seven_by_als() {
 /// needs fractions (Toom 1963; Cook 1966, "On the minimum computation time of functions").
 #[test]
 #[cfg_attr(debug_assertions, ignore)]
-fn toom_three_rank_five_by_als() {
+fn toom_three_rank_five_by_lm() {
     let t = poly(3, 3);
-    let o = run(&t, &params(Method::Als, 5, 7));
+    let o = run(&t, &params(Method::Lm, 5, 7));
     let s = o.best.expect("found");
     assert_eq!(s.rank(), 5);
     assert!(verify(&s, &t).is_ok());
@@ -220,4 +220,43 @@ fn rank_zero_is_decided_at_once() {
         let o = run(&complex(), &params(m, 0, 0));
         assert!(!o.reached && o.best.is_none());
     }
+}
+
+/// Toom-Cook with 3 and 4 coefficients: rank 6 = 3 + 4 - 1 by evaluation at 0, 1, -1, 2,
+/// -2 and infinity (Toom 1963; Cook 1966), which needs the denominators 2, 3 and 4. A walk
+/// over GF(5) (whose projective line has exactly these 6 points) lifted 5-adically finds
+/// it, and so does Levenberg-Marquardt with rounding.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn toom_three_by_four_rank_six_by_odd_prime_walk_and_by_lm() {
+    let t = poly(3, 4);
+    let mut p = params(Method::Flip, 6, 1);
+    p.walk_prime = 5;
+    let o = run(&t, &p);
+    let s = o.best.expect("found by the GF(5) walk");
+    assert_eq!((s.rank(), s.field), (6, FieldSpec::Rational));
+    assert!(verify(&s, &t).is_ok());
+    assert!(!hensel::is_integral(&s), "rank 6 needs fractions");
+    let o = run(&t, &params(Method::Lm, 6, 1));
+    let s = o.best.expect("found by Levenberg-Marquardt");
+    assert_eq!(s.rank(), 6);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// A factor space above 64 coordinates: poly:66,2 has 66 left coordinates, so the walk runs
+/// on two-word masks; it lowers the rank below the schoolbook 132 (Karatsuba on pairs of
+/// coefficients gives 99; Karatsuba and Ofman 1962) and the result verifies over GF(2).
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn two_word_masks_search_a_product_with_66_left_coordinates() {
+    let t = poly(66, 2);
+    assert_eq!(flip::walker_words(t.dims()).unwrap(), 2);
+    let mut p = params(Method::Flip, 128, 3);
+    p.field = Some(FieldSpec::Prime(2));
+    p.time_limit = Some(Duration::from_secs(60));
+    let o = run(&t, &p);
+    let s = o.best.expect("found");
+    assert!(s.rank() <= 128, "rank {}", s.rank());
+    assert_eq!(s.field, FieldSpec::Prime(2));
+    assert!(verify(&s, &t.with_field(FieldSpec::Prime(2)).unwrap()).is_ok());
 }

@@ -31,6 +31,25 @@ pub const MAX_DIM: usize = 4096;
 /// vector per product, so this bounds the memory of an empty tensor to about 100 MB).
 pub const MAX_PRODUCTS: usize = 1 << 22;
 
+/// At most this many nonzero coefficients in a tensor read from a file: every coefficient
+/// is held exactly (about 100 bytes each with its big integers), so this bounds the memory
+/// of an input to about 400 MB. Readers count before they store and refuse the first
+/// coefficient beyond the limit.
+pub const MAX_NONZERO: usize = 1 << 22;
+
+/// Check a count of nonzero coefficients against [`MAX_NONZERO`]; the `Err` is a message
+/// for the user. Cost: O(1).
+pub fn check_nonzero(count: usize) -> Result<(), String> {
+    if count <= MAX_NONZERO {
+        return Ok(());
+    }
+    Err(format!(
+        "more than 2^22 = {MAX_NONZERO} nonzero coefficients (this is coefficient number \
+         {count}): every coefficient is held exactly, and larger inputs are refused before \
+         they fill the memory"
+    ))
+}
+
 /// The largest algebra dimension allowed by [`MAX_PRODUCTS`]: `2048 * 2048 = 2^22`.
 pub const MAX_ALGEBRA_DIM: usize = 2048;
 

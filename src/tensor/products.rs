@@ -47,6 +47,10 @@ pub trait Ops: Sync {
     fn add_sv(&self, acc: &mut Self::Acc, c: u32, a: usize, b: usize, w: &Self::V);
     /// `acc += c (S(a,b) (e_y e_x))`.
     fn add_sp(&self, acc: &mut Self::Acc, c: u32, a: usize, b: usize, y: usize, x: usize);
+    /// `acc += c ((e_i e_j) (e_k e_l))`: a product of two products (dense: one
+    /// vector-matrix product per nonzero coordinate of `e_i e_j`).
+    #[allow(clippy::too_many_arguments)]
+    fn add_pp(&self, acc: &mut Self::Acc, c: u32, i: usize, j: usize, k: usize, l: usize);
     /// Reduce `acc` into `out` and clear `acc`.
     fn finish(&self, acc: &mut Self::Acc, out: &mut Self::V);
     /// Reduce `acc` and clear it, returning every coordinate it may have touched with its
@@ -211,6 +215,16 @@ impl Ops for DenseOps<'_> {
     fn add_sp(&self, a: &mut DenseAcc, c: u32, x: usize, y: usize, u: usize, v: usize) {
         let w = self.t.dense_row(u, v).to_vec();
         self.add_sv(a, c, x, y, &w);
+    }
+    fn add_pp(&self, a: &mut DenseAcc, c: u32, i: usize, j: usize, k: usize, l: usize) {
+        // sum_m (e_i e_j)_m e_m (e_k e_l)
+        let w = scaled(c, self.t.dense_row(k, l), self.t.p, &mut a.scratch).to_vec();
+        for (m, &pm) in self.t.dense_row(i, j).iter().enumerate() {
+            if pm != 0 {
+                let coefs = scaled(pm, &w, self.t.p, &mut a.scratch2);
+                a.acc.vec_mat(coefs, self.t.left_block(m));
+            }
+        }
     }
     fn finish(&self, a: &mut DenseAcc, out: &mut Vec<u32>) {
         let v = a.acc.finish();
@@ -377,6 +391,18 @@ impl Ops for SparseOps<'_> {
                 a.scatter(self.m.mul(cs, t), ix, vx);
             }
         });
+    }
+    fn add_pp(&self, a: &mut SparseAcc, c: u32, i: usize, j: usize, k: usize, l: usize) {
+        let (ip, vp) = self.t.row(i, j);
+        let (iw, vw) = self.t.row(k, l);
+        for (&m, &x) in ip.iter().zip(vp) {
+            let cx = self.m.mul(c, x);
+            for (&m2, &t) in iw.iter().zip(vw) {
+                let (ix, vx) = self.t.row(m as usize, m2 as usize);
+                a.room(1);
+                a.scatter(self.m.mul(cx, t), ix, vx);
+            }
+        }
     }
     fn finish(&self, a: &mut SparseAcc, out: &mut Self::V) {
         out.clear();

@@ -1,140 +1,33 @@
-//! Proven lower bounds for the tensor rank R(T) (the least number of multiplications of a
-//! bilinear algorithm), each labelled with the theorem it rests on.
+//! The Alder-Strassen bound: for an associative algebra A with unit over a field F,
+//! R(A) >= 2 dim A - t(A), where t(A) is the number of maximal two-sided ideals of A
+//! (Alder and Strassen 1981, "On the algorithmic complexity of associative algebras",
+//! Theoret. Comput. Sci. 15). A bound on the rank over F itself (t(A) depends on F).
 //!
-//! - *Flattening*: a rank-one tensor has flattenings of rank <= 1, so R(T) >= rank of every
-//!   flattening (common practice; Buergisser, Clausen and Shokrollahi 1997, "Algebraic
-//!   Complexity Theory", ch. 14). Along the result axis this is the number of independent
-//!   result coordinates.
-//! - *Slice span*: contracting one axis of a rank-r decomposition with a linear form gives
-//!   a matrix of rank <= r, so the exact rank of one specific (seeded random) combination of
-//!   slices is a lower bound (same source).
-//! - *Alder-Strassen*: for an associative algebra A with unit, R(A) >= 2 dim A - t(A), where
-//!   t(A) is the number of maximal two-sided ideals (Alder and Strassen 1981, "On the
-//!   algorithmic complexity of associative algebras", Theoret. Comput. Sci. 15).
-//!   t(A) = number of simple components of A/rad A. We compute rad A as the radical of the
-//!   trace form {x : Tr(L_{xy}) = 0 for all y}, which contains rad A in every characteristic,
-//!   and accept it only after checking exactly that it is a nilpotent ideal (then it equals
-//!   rad A). The simple components of S = A/rad A correspond to those of its centre Z(S), a
-//!   commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
-//!   z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
-//!   polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
-//!   number of factors of f mod p for any prime p where f stays squarefree of full degree
-//!   (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
-//!   used on t is stated in the result.
+//! t(A) = number of simple components of A/rad A. We compute rad A as the radical of the
+//! trace form {x : Tr(L_{xy}) = 0 for all y}, which contains rad A in every characteristic,
+//! and accept it only after checking exactly that it is a nilpotent ideal (then it equals
+//! rad A). The simple components of S = A/rad A correspond to those of its centre Z(S), a
+//! commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
+//! z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
+//! polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
+//! number of factors of f mod p for any prime p where f stays squarefree of full degree
+//! (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
+//! used on t is stated in the result.
 //!
-//! This file is self-contained on purpose (radical, centre, factor counts) so that it can
-//! later be pointed at shared invariant code.
+//! A bilinear map that is not an algebra is handled through its unital isotopes
+//! ([`super::isotope`]): the rank does not change under a change of the three bases.
 
+use super::bound::{Bound, BoundsParams, Measure, Method};
 use crate::linalg::{Matrix, nullspace, rank, rref, solve};
 use crate::scalar::{Field, PrimeField, Q};
-use crate::tensor::{Kind, Tensor, flattening_ranks};
+use crate::tensor::{Kind, Tensor};
 use num_traits::One;
 use rand::{Rng, SeedableRng};
 
-/// Parameters of [`lower_bounds`].
-#[derive(Clone, Debug)]
-pub struct BoundsParams {
-    /// Seed of the random slice combinations and primitive elements.
-    pub seed: u64,
-    /// Random slice combinations tried per axis.
-    pub slice_trials: usize,
-    /// Algebras above this dimension skip the Alder-Strassen computation (cost O(n^4)).
-    pub max_algebra_dim: usize,
-}
-
-impl Default for BoundsParams {
-    fn default() -> Self {
-        BoundsParams {
-            seed: 1,
-            slice_trials: 3,
-            max_algebra_dim: 64,
-        }
-    }
-}
-
-/// One proven lower bound.
-#[derive(Clone, Debug, PartialEq, Eq, serde::Serialize)]
-pub struct Bound {
-    /// R(T) >= value.
-    pub value: usize,
-    /// Short name: `flattening`, `slice span`, `Alder-Strassen`.
-    pub name: String,
-    /// The theorem and its source.
-    pub theorem: String,
-    /// How the value was obtained.
-    pub detail: String,
-}
-
-/// All bounds that apply, plus notes on those that do not (and why).
-#[derive(Clone, Debug, serde::Serialize)]
-pub struct Bounds {
-    pub bounds: Vec<Bound>,
-    pub notes: Vec<String>,
-}
-
-impl Bounds {
-    /// The best (largest) bound.
-    pub fn best(&self) -> usize {
-        self.bounds.iter().map(|b| b.value).max().unwrap_or(0)
-    }
-}
-
-/// Compute every applicable lower bound. Cost: three exact flattening ranks, a few slice
-/// ranks, and for algebras of dimension n at most `max_algebra_dim` O(n^4) field operations.
-pub fn lower_bounds(t: &Tensor, params: &BoundsParams) -> Bounds {
-    let mut bounds = Vec::new();
-    let mut notes = Vec::new();
-    let fr = flattening_ranks(t);
-    let src = "Buergisser, Clausen, Shokrollahi 1997, Algebraic Complexity Theory; common practice";
-    bounds.push(Bound {
-        value: *fr.iter().max().unwrap_or(&0),
-        name: "flattening".into(),
-        theorem: format!("R(T) >= rank of each flattening ({src})"),
-        detail: format!(
-            "flattening ranks: left {}, right {}, result {} (result: independent result coordinates)",
-            fr[0], fr[1], fr[2]
-        ),
-    });
-    let (val, axis) = slice_span_rank(t, params);
-    bounds.push(Bound {
-        value: val,
-        name: "slice span".into(),
-        theorem: format!(
-            "R(T) >= rank of any matrix in the span of the slices along one axis ({src})"
-        ),
-        detail: format!(
-            "exact rank of a seeded random combination of the {} slices (seed {})",
-            crate::tensor::AXES[axis],
-            params.seed
-        ),
-    });
-    match alder_strassen(t, params) {
-        Ok(b) => bounds.push(b),
-        Err(why) => notes.push(format!("Alder-Strassen bound not applied: {why}")),
-    }
-    Bounds { bounds, notes }
-}
-
-/// The largest exact rank among seeded random combinations of the slices along each axis;
-/// returns (rank, axis).
-pub fn slice_span_rank(t: &Tensor, params: &BoundsParams) -> (usize, usize) {
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
-    let mut best = (0, 0);
-    for axis in 0..3 {
-        let k = t.dims()[axis];
-        if k == 0 {
-            continue;
-        }
-        for _ in 0..params.slice_trials.max(1) {
-            let c: Vec<i64> = (0..k).map(|_| rng.gen_range(-1000i64..=1000)).collect();
-            let r = crate::ranks::combination_rank(t, axis, &c);
-            if r > best.0 {
-                best = (r, axis);
-            }
-        }
-    }
-    best
-}
+/// The theorem, for reports.
+pub const THEOREM: &str = "R(A) >= 2 dim A - t(A) for an associative algebra A with unit, \
+     t(A) = number of maximal two-sided ideals (Alder and Strassen 1981, On the algorithmic \
+     complexity of associative algebras, Theoret. Comput. Sci. 15)";
 
 /// The Alder-Strassen bound for an associative algebra with unit, or why it does not apply.
 pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String> {
@@ -152,12 +45,14 @@ pub fn alder_strassen(t: &Tensor, params: &BoundsParams) -> Result<Bound, String
     }
     let (t_bound, how) = crate::with_field!(t.field(), f => count_components(f, t, params.seed))?;
     let value = (2 * n).saturating_sub(t_bound);
-    Ok(Bound {
+    Ok(Bound::proven(
+        Method::AlderStrassen,
         value,
-        name: "Alder-Strassen".into(),
-        theorem: "R(A) >= 2 dim A - t(A), t(A) = number of maximal two-sided ideals (Alder and Strassen 1981, On the algorithmic complexity of associative algebras)".into(),
-        detail: format!("dim A = {n}, {how}"),
-    })
+        Measure::Rank,
+        t.field(),
+        false,
+        format!("dim A = {n}, {how}"),
+    ))
 }
 
 /// Structure constants as a dense cube over a field: `c[(i*n + j)*n + k]`.
@@ -588,15 +483,6 @@ mod tests {
     use super::*;
     use crate::scalar::FieldSpec;
     use crate::scheme::testkit::*;
-
-    #[test]
-    fn flattening_bounds_of_matmul() {
-        // flattening ranks of <n,n,n> are n^2 (common practice)
-        let p = BoundsParams::default();
-        assert_eq!(lower_bounds(&matmul(2, 2, 2), &p).bounds[0].value, 4);
-        assert_eq!(lower_bounds(&matmul(3, 3, 3), &p).bounds[0].value, 9);
-        assert_eq!(slice_span_rank(&matmul(2, 2, 2), &p).0, 4);
-    }
 
     #[test]
     fn alder_strassen_complex_and_m2() {

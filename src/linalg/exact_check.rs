@@ -1,0 +1,134 @@
+//! The exact check of a candidate solution basis against every equation of a system (see
+//! step 4 of [`super::nullspace`]): integer vectors, residuals modulo enough primes that a
+//! residual vanishing modulo all of them vanishes over Z.
+
+use super::nullspace::SparseQ;
+use super::primes::{MAX_KERNEL_PRIMES, primes_prefix};
+use super::system::{RowBuf, RowSource};
+use crate::error::{Error, Result};
+use crate::scalar::residue;
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::One;
+use rayon::prelude::*;
+
+/// Whether the residual of one equation vanishes modulo p for every vector of `xs`
+/// (dense residue vectors; `loc` maps a column to its coordinate).
+pub(super) fn residual_zero(
+    cols: &[u32],
+    vals: &[u32],
+    xs: &[Vec<u64>],
+    p: u64,
+    loc: impl Fn(u32) -> usize,
+) -> bool {
+    xs.iter().all(|x| {
+        let mut acc: u128 = 0;
+        for (&c, &v) in cols.iter().zip(vals) {
+            acc += v as u128 * x[loc(c)] as u128;
+        }
+        acc.is_multiple_of(p as u128)
+    })
+}
+
+/// The exact check of candidate vectors in coordinates `0..m` (see the module
+/// documentation): `residuals(p, xs)` says whether every equation vanishes modulo p on the
+/// vectors reduced mod p, and gives the largest number of terms of an equation.
+pub(super) fn exact_check(
+    modulus: Option<u64>,
+    term_bits: u64,
+    m: usize,
+    basis: &[SparseQ],
+    residuals: impl Fn(u64, &[Vec<u64>]) -> (bool, usize),
+) -> Result<bool> {
+    if basis.is_empty() {
+        return Ok(true);
+    }
+    // integer vectors
+    let ints: Vec<Vec<(u32, BigInt)>> = basis
+        .iter()
+        .map(|v| {
+            let l = v
+                .iter()
+                .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
+            v.iter()
+                .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
+                .collect()
+        })
+        .collect();
+    let xbits = ints
+        .iter()
+        .flatten()
+        .map(|(_, x)| x.bits())
+        .max()
+        .unwrap_or(0);
+    let exact_field = modulus.is_some();
+    let mut needed = 1usize;
+    let mut k = 0;
+    while k < needed {
+        let p = match modulus {
+            Some(q) => q,
+            None => primes_prefix(k + 1).get(k).copied().ok_or_else(|| {
+                Error::Invalid(format!(
+                    "the exact check of a solution with {xbits}-bit entries needs more than \
+                     {MAX_KERNEL_PRIMES} primes"
+                ))
+            })?,
+        };
+        let xs: Vec<Vec<u64>> = ints
+            .iter()
+            .map(|v| {
+                let mut d = vec![0u64; m];
+                for (c, x) in v {
+                    d[*c as usize] = residue(x, p);
+                }
+                d
+            })
+            .collect();
+        let (ok, max_terms) = residuals(p, &xs);
+        if !ok {
+            return Ok(false);
+        }
+        if k == 0 && !exact_field {
+            let bits = (max_terms.max(1) as f64).log2().ceil() as u64 + term_bits + xbits + 2;
+            needed = (bits as f64 / 27.99).ceil() as usize;
+        }
+        k += 1;
+    }
+    Ok(true)
+}
+
+/// Check exactly that vectors (in the system's own coordinates) solve **every** equation
+/// of a system, produced block by block (see the module documentation for the bound).
+/// Cost: per prime used, one pass over all blocks, O(terms x vectors).
+pub fn check_solutions(src: &dyn RowSource, basis: &[SparseQ]) -> Result<bool> {
+    let residuals = |p: u64, xs: &[Vec<u64>]| {
+        let res: std::result::Result<Vec<usize>, ()> = (0..src.blocks())
+            .into_par_iter()
+            .map_init(
+                || RowBuf::new(p),
+                |b, blk| {
+                    b.clear();
+                    src.block(blk, p, b);
+                    for r in 0..b.rows() {
+                        let (cols, vals) = b.row(r);
+                        if !residual_zero(cols, vals, xs, p, |c| c as usize) {
+                            return Err(());
+                        }
+                    }
+                    Ok(b.max_terms)
+                },
+            )
+            .collect();
+        match res {
+            Ok(v) => (true, v.into_iter().max().unwrap_or(0)),
+            Err(()) => (false, 0),
+        }
+    };
+    exact_check(
+        src.modulus(),
+        src.term_bits(),
+        src.unknowns(),
+        basis,
+        residuals,
+    )
+}

@@ -1,0 +1,302 @@
+//! Numerical fit by Levenberg-Marquardt with bounded norms (Tichavsky, Phan and Cichocki
+//! 2017, "Numerical CP decomposition of some difficult tensors"), one of the fits of the
+//! numerical route ([`super::numeric`]).
+//!
+//! Unknowns: all factor entries x (N = r (d0 + d1 + d2)). Objective
+//! `||T - sum_t a_t (x) b_t (x) c_t||^2 + gamma ||x||^2`: the ridge term keeps the norms
+//! bounded (gamma decays geometrically to a floor), term norms are balanced after each
+//! step, and a run whose largest entry exceeds `bound` is abandoned (it drifts towards a
+//! border-rank limit). A step solves `(J^T J + (gamma + mu) I) d = -(J^T e + gamma x)` with
+//! the damping mu raised on a rejected step and lowered on an accepted one. `J^T J` is
+//! assembled from the Gram matrices `K_a = F_a^T F_a` without forming J: the block of axes
+//! (a, a) is `I (x) (K_b * K_c)` and the block of axes (a, b) has entries
+//! `F_a[i, x'] F_b[j, x] K_c[x, x']` (c the third axis). During rounding the frozen
+//! entries are left out of the system.
+
+use super::numeric::{Dense, Factors};
+use nalgebra::{DMatrix, DVector};
+use rand_chacha::ChaCha8Rng;
+
+/// Settings of the Levenberg-Marquardt fit.
+#[derive(Clone, Debug)]
+pub struct LmParams {
+    /// Most steps of the numerical phase.
+    pub iters: usize,
+    /// Ridge weight: start, per-step decay factor, floor.
+    pub gamma0: f64,
+    pub gamma_decay: f64,
+    pub gamma_min: f64,
+    /// Initial damping.
+    pub mu0: f64,
+    /// Abandon a run when an entry exceeds this in absolute value (after balancing).
+    pub bound: f64,
+    /// Relative error below which the fit counts as converged.
+    pub tol: f64,
+    /// Steps after each freeze of the rounding.
+    pub round_iters: usize,
+}
+
+impl Default for LmParams {
+    fn default() -> Self {
+        LmParams {
+            iters: 400,
+            gamma0: 1e-3,
+            gamma_decay: 0.8,
+            gamma_min: 0.0,
+            mu0: 1e-2,
+            bound: 40.0,
+            tol: 1e-11,
+            round_iters: 100,
+        }
+    }
+}
+
+/// Index of entry (row i, term x) of axis a in the unknown vector.
+struct Layout {
+    off: [usize; 3],
+    r: usize,
+    n: usize,
+}
+
+impl Layout {
+    fn new(t: &Dense, r: usize) -> Layout {
+        let d = t.dims;
+        Layout {
+            off: [0, d[0] * r, (d[0] + d[1]) * r],
+            r,
+            n: (d[0] + d[1] + d[2]) * r,
+        }
+    }
+    #[inline]
+    fn at(&self, a: usize, i: usize, x: usize) -> usize {
+        self.off[a] + i * self.r + x
+    }
+}
+
+/// `J^T J` and the gradient `J^T (model - T) + gamma x`.
+fn normal_system(t: &Dense, s: &Factors, lay: &Layout, gamma: f64) -> (DMatrix<f64>, DVector<f64>) {
+    let r = lay.r;
+    let d = t.dims;
+    let k: Vec<DMatrix<f64>> = (0..3).map(|a| s.f[a].transpose() * &s.f[a]).collect();
+    let others = |a: usize| match a {
+        0 => (1, 2),
+        1 => (0, 2),
+        _ => (0, 1),
+    };
+    let mut g = DMatrix::<f64>::zeros(lay.n, lay.n);
+    let mut grad = DVector::<f64>::zeros(lay.n);
+    for a in 0..3 {
+        let (b, c) = others(a);
+        let h = k[b].component_mul(&k[c]);
+        for i in 0..d[a] {
+            for x in 0..r {
+                for y in 0..r {
+                    g[(lay.at(a, i, x), lay.at(a, i, y))] = h[(x, y)];
+                }
+            }
+        }
+        // gradient: F_a H - MTTKRP_a + gamma F_a
+        let fh = &s.f[a] * &h;
+        for i in 0..d[a] {
+            for x in 0..r {
+                grad[lay.at(a, i, x)] = fh[(i, x)] + gamma * s.f[a][(i, x)];
+            }
+        }
+    }
+    for (idx, v) in &t.entries {
+        for x in 0..r {
+            grad[lay.at(0, idx[0], x)] -= v * s.f[1][(idx[1], x)] * s.f[2][(idx[2], x)];
+            grad[lay.at(1, idx[1], x)] -= v * s.f[0][(idx[0], x)] * s.f[2][(idx[2], x)];
+            grad[lay.at(2, idx[2], x)] -= v * s.f[0][(idx[0], x)] * s.f[1][(idx[1], x)];
+        }
+    }
+    for (a, b, c) in [(0, 1, 2), (0, 2, 1), (1, 2, 0)] {
+        for i in 0..d[a] {
+            for j in 0..d[b] {
+                for x in 0..r {
+                    for y in 0..r {
+                        let v = s.f[a][(i, y)] * s.f[b][(j, x)] * k[c][(x, y)];
+                        let (p, q) = (lay.at(a, i, x), lay.at(b, j, y));
+                        g[(p, q)] = v;
+                        g[(q, p)] = v;
+                    }
+                }
+            }
+        }
+    }
+    (g, grad)
+}
+
+fn objective(t: &Dense, s: &Factors, gamma: f64) -> f64 {
+    let e = s.error(t) * t.norm;
+    let reg: f64 = s.f.iter().map(|m| m.norm_squared()).sum();
+    e * e + gamma * reg
+}
+
+/// One damped step on the free unknowns; returns false when no damping gives a decrease.
+fn step(
+    t: &Dense,
+    s: &mut Factors,
+    lay: &Layout,
+    free: &[usize],
+    gamma: f64,
+    mu: &mut f64,
+) -> bool {
+    let (g, grad) = normal_system(t, s, lay, gamma);
+    let nf = free.len();
+    let f0 = objective(t, s, gamma);
+    for _ in 0..14 {
+        let mut a = DMatrix::<f64>::zeros(nf, nf);
+        let mut b = DVector::<f64>::zeros(nf);
+        for (p, &fp) in free.iter().enumerate() {
+            b[p] = -grad[fp];
+            for (q, &fq) in free.iter().enumerate() {
+                a[(p, q)] = g[(fp, fq)];
+            }
+            a[(p, p)] += gamma + *mu;
+        }
+        let Some(ch) = a.cholesky() else {
+            *mu *= 5.0;
+            continue;
+        };
+        let delta = ch.solve(&b);
+        let mut s2 = s.clone();
+        for (p, &fp) in free.iter().enumerate() {
+            let (ax, rest) = if fp < lay.off[1] {
+                (0, fp)
+            } else if fp < lay.off[2] {
+                (1, fp - lay.off[1])
+            } else {
+                (2, fp - lay.off[2])
+            };
+            s2.f[ax][(rest / lay.r, rest % lay.r)] += delta[p];
+        }
+        let f1 = objective(t, &s2, gamma);
+        if f1.is_finite() && f1 < f0 {
+            *s = s2;
+            *mu = (*mu / 3.0).max(1e-15);
+            return true;
+        }
+        *mu *= 5.0;
+        if *mu > 1e12 {
+            break;
+        }
+    }
+    false
+}
+
+fn free_unknowns(s: &Factors, lay: &Layout) -> Vec<usize> {
+    let mut out = Vec::with_capacity(lay.n);
+    for a in 0..3 {
+        for (e, fz) in s.frozen[a].iter().enumerate() {
+            if fz.is_none() {
+                out.push(lay.off[a] + e);
+            }
+        }
+    }
+    out
+}
+
+/// The numerical phase from a random start. Returns factors with relative error below
+/// `tol`, or `None` (no convergence, blow-up, or stopped).
+pub fn converge(
+    t: &Dense,
+    r: usize,
+    p: &LmParams,
+    rng: &mut ChaCha8Rng,
+    stop: &dyn Fn() -> bool,
+) -> Option<Factors> {
+    let mut s = Factors::random(t, r, rng);
+    let lay = Layout::new(t, r);
+    let free: Vec<usize> = (0..lay.n).collect();
+    let mut gamma = p.gamma0;
+    let mut mu = p.mu0;
+    for it in 0..p.iters {
+        if it % 8 == 0 && stop() {
+            return None;
+        }
+        if !step(t, &mut s, &lay, &free, gamma, &mut mu) {
+            // stuck at this ridge weight: lower it, or give up at the floor
+            if gamma <= p.gamma_min {
+                return (s.error(t) < p.tol).then_some(s);
+            }
+        }
+        gamma = (gamma * p.gamma_decay).max(p.gamma_min);
+        s.balance();
+        if s.max_abs() > p.bound {
+            return None;
+        }
+        let e = s.error(t);
+        if e < p.tol {
+            return Some(s);
+        }
+        if it > p.iters / 2 && e > 1e-3 {
+            return None;
+        }
+    }
+    (s.error(t) < p.tol).then_some(s)
+}
+
+/// Re-fit the free entries after a freeze; true when the error returns below `tol`.
+pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64) -> bool {
+    let lay = Layout::new(t, s.rank());
+    let free = free_unknowns(s, &lay);
+    let mut mu = p.mu0;
+    for _ in 0..p.round_iters {
+        if s.error(t) < tol {
+            return true;
+        }
+        if free.is_empty() || !step(t, s, &lay, &free, 0.0, &mut mu) {
+            break;
+        }
+    }
+    s.error(t) < tol
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::search::tests::poly;
+    use rand::SeedableRng;
+
+    /// The assembled normal matrix equals J^T J of a finite-difference Jacobian.
+    #[test]
+    fn normal_matrix_matches_finite_differences() {
+        let t = Dense::new(&poly(2, 3));
+        let mut rng = ChaCha8Rng::seed_from_u64(1);
+        let s = Factors::random(&t, 3, &mut rng);
+        let lay = Layout::new(&t, 3);
+        let (g, _) = normal_system(&t, &s, &lay, 0.0);
+        let model = |s: &Factors| -> Vec<f64> {
+            let d = t.dims;
+            let mut out = Vec::new();
+            for i in 0..d[0] {
+                for j in 0..d[1] {
+                    for k in 0..d[2] {
+                        out.push(
+                            (0..3)
+                                .map(|x| s.f[0][(i, x)] * s.f[1][(j, x)] * s.f[2][(k, x)])
+                                .sum::<f64>(),
+                        );
+                    }
+                }
+            }
+            out
+        };
+        let base = model(&s);
+        let mut jac = DMatrix::<f64>::zeros(base.len(), lay.n);
+        for a in 0..3 {
+            for i in 0..t.dims[a] {
+                for x in 0..3 {
+                    let mut s2 = s.clone();
+                    s2.f[a][(i, x)] += 1e-6;
+                    for (row, (m1, m0)) in model(&s2).iter().zip(&base).enumerate() {
+                        jac[(row, lay.at(a, i, x))] = (m1 - m0) / 1e-6;
+                    }
+                }
+            }
+        }
+        let want = jac.transpose() * &jac;
+        assert!((want - g).abs().max() < 1e-4);
+    }
+}

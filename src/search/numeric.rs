@@ -1,0 +1,476 @@
+//! The numerical route to exact schemes, shared by every caller that wants an exact
+//! low-rank decomposition of a tensor over Q: a floating-point fit (alternating least
+//! squares, [`super::als`], or Levenberg-Marquardt with bounded norms, [`super::lm`]),
+//! rounding by rational reconstruction, an exact solve of the result factors and an exact
+//! check. Floating point only *finds*; [`crate::scheme::verify`] *confirms*.
+//!
+//! Rounding: each term is scaled so that the first significant entry of its left and right
+//! factors is 1 (the scaling freedom of a term). Then, repeatedly, free entries of the left
+//! and right factors are frozen at rationals and the free entries are re-fitted: first
+//! every entry within round-off of a simple rational (all at once), else one entry moved to
+//! the *simplest* rational within a radius of it (the rational of least denominator in an
+//! interval, by continued fractions, at radii from 1e-6 to `radius`; no fixed list of
+//! denominators): the first free entry of its factor first (the later entries are often
+//! functions of the earlier ones, such as the powers of an evaluation point), then the
+//! least denominator, then the smallest move. A freeze after which the fit does not return
+//! to round-off level is undone and banned; when every candidate is banned, the bans are
+//! lifted once if a freeze has succeeded since (the fit has moved). When every
+//! left and right entry is frozen, the result factors are solved for exactly over Q (the
+//! Brent equations are linear in them) and the scheme is verified exactly.
+//!
+//! Invariant: [`numeric_run`] returns only schemes verified exactly against the tensor.
+
+use crate::linalg::{Matrix, solve};
+use crate::scalar::{FieldSpec, Q, Rationals, q, q_to_f64};
+use crate::scheme::{Scheme, verify};
+use crate::tensor::Tensor;
+use nalgebra::DMatrix;
+use num_traits::Zero;
+use rand::Rng;
+use rand_chacha::ChaCha8Rng;
+
+/// The numerical fit.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Fit {
+    /// Regularised alternating least squares ([`super::als`]).
+    Als,
+    /// Levenberg-Marquardt with bounded norms ([`super::lm`]).
+    Lm,
+}
+
+/// Settings of the rounding phase.
+#[derive(Clone, Debug)]
+pub struct RoundParams {
+    /// Largest denominator of a chosen freeze.
+    pub max_denominator: i64,
+    /// Entries within `tight_radius / q` (relative) of a rational `p/q` with q up to this
+    /// are frozen there at once (they are determined by the entries frozen before).
+    pub tight_denominator: i64,
+    pub tight_radius: f64,
+    /// Largest move of one freeze (absolute).
+    pub radius: f64,
+    /// Relative error accepted after a freeze (the exact check decides at the end).
+    pub tol: f64,
+    /// Rejected freezes that end the rounding.
+    pub max_rejects: usize,
+    /// Normalisation: the first entry of a left or right factor at least this fraction of
+    /// its largest becomes 1 (small: evaluation-style factors `(1, a, a^2, ...)` keep their
+    /// shape; large: better conditioned refits).
+    pub lead: f64,
+}
+
+impl Default for RoundParams {
+    fn default() -> Self {
+        RoundParams {
+            max_denominator: 64,
+            tight_denominator: 1000,
+            tight_radius: 1e-8,
+            radius: 0.75,
+            tol: 1e-9,
+            max_rejects: 200,
+            lead: 1e-3,
+        }
+    }
+}
+
+/// The tensor as dense f64 plus its sparse entry list.
+pub struct Dense {
+    pub dims: [usize; 3],
+    pub data: Vec<f64>,
+    pub entries: Vec<([usize; 3], f64)>,
+    pub norm: f64,
+}
+
+impl Dense {
+    pub fn new(t: &Tensor) -> Dense {
+        let d = t.dims();
+        let mut data = vec![0.0; d[0] * d[1] * d[2]];
+        let mut entries = Vec::new();
+        for (i, j, k, c) in t.entries() {
+            let v = q_to_f64(c);
+            data[(i * d[1] + j) * d[2] + k] = v;
+            entries.push(([i, j, k], v));
+        }
+        let norm = data.iter().map(|x| x * x).sum::<f64>().sqrt().max(1e-300);
+        Dense {
+            dims: d,
+            data,
+            entries,
+            norm,
+        }
+    }
+}
+
+/// A frozen entry: the rational `p/q`.
+pub type Frozen = Option<(i64, i64)>;
+
+/// Factor matrices `F_a` (`d_a x r`) plus the frozen mask, indexed `row * r + term`.
+#[derive(Clone)]
+pub struct Factors {
+    pub f: [DMatrix<f64>; 3],
+    pub frozen: [Vec<Frozen>; 3],
+}
+
+impl Factors {
+    pub fn random(t: &Dense, r: usize, rng: &mut ChaCha8Rng) -> Factors {
+        let mk = |n: usize, rng: &mut ChaCha8Rng| {
+            DMatrix::from_fn(n, r, |_, _| rng.gen_range(-1.0..1.0))
+        };
+        Factors {
+            f: [mk(t.dims[0], rng), mk(t.dims[1], rng), mk(t.dims[2], rng)],
+            frozen: [
+                vec![None; t.dims[0] * r],
+                vec![None; t.dims[1] * r],
+                vec![None; t.dims[2] * r],
+            ],
+        }
+    }
+
+    pub fn rank(&self) -> usize {
+        self.f[0].ncols()
+    }
+
+    pub fn any_frozen(&self) -> bool {
+        self.frozen.iter().any(|f| f.iter().any(Option::is_some))
+    }
+
+    /// Relative residual `||T - model|| / ||T||`. Cost O(d0 d1 d2 r).
+    pub fn error(&self, t: &Dense) -> f64 {
+        let d = t.dims;
+        let r = self.rank();
+        let mut s = 0.0;
+        for i in 0..d[0] {
+            for j in 0..d[1] {
+                for k in 0..d[2] {
+                    let mut m = 0.0;
+                    for x in 0..r {
+                        m += self.f[0][(i, x)] * self.f[1][(j, x)] * self.f[2][(k, x)];
+                    }
+                    let e = t.data[(i * d[1] + j) * d[2] + k] - m;
+                    s += e * e;
+                }
+            }
+        }
+        s.sqrt() / t.norm
+    }
+
+    /// Rescale each term so its three factors have equal norms (only when nothing frozen).
+    pub fn balance(&mut self) {
+        if self.any_frozen() {
+            return;
+        }
+        for x in 0..self.rank() {
+            let n: Vec<f64> = (0..3).map(|a| self.f[a].column(x).norm()).collect();
+            if n.iter().any(|&v| v < 1e-300) {
+                continue;
+            }
+            let g = (n[0] * n[1] * n[2]).cbrt();
+            for (a, na) in n.iter().enumerate() {
+                let s = g / na;
+                self.f[a].column_mut(x).scale_mut(s);
+            }
+        }
+    }
+
+    /// Scale each term so that the first significant entry (at least `lead` times the
+    /// largest) of its left and right factors is 1, moving the scale into the result, and
+    /// freeze those entries at 1 (the scaling is a symmetry, so this loses no solution).
+    pub fn normalise(&mut self, lead: f64) {
+        let r = self.rank();
+        for x in 0..r {
+            for a in 0..2 {
+                let col = self.f[a].column(x);
+                let big = col.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+                if big < 1e-12 {
+                    continue;
+                }
+                let (i, &first) = col
+                    .iter()
+                    .enumerate()
+                    .find(|(_, v)| v.abs() >= lead * big)
+                    .expect("entry");
+                self.f[a].column_mut(x).scale_mut(1.0 / first);
+                self.f[2].column_mut(x).scale_mut(first);
+                self.f[a][(i, x)] = 1.0;
+                self.frozen[a][i * r + x] = Some((1, 1));
+            }
+        }
+    }
+
+    pub fn max_abs(&self) -> f64 {
+        self.f
+            .iter()
+            .flat_map(|m| m.iter())
+            .fold(0.0, |a, &b| a.max(b.abs()))
+    }
+}
+
+/// The rational of least denominator in `[lo, hi]` (ties: least numerator in absolute
+/// value), by the continued-fraction recursion; `None` beyond `max_den`.
+pub fn simplest_rational(lo: f64, hi: f64, max_den: i64) -> Option<(i64, i64)> {
+    fn go(lo: f64, hi: f64, depth: u32) -> Option<(i128, i128)> {
+        if depth > 40 || !lo.is_finite() || !hi.is_finite() || hi - lo < 0.0 {
+            return None;
+        }
+        if lo <= 0.0 && hi >= 0.0 {
+            return Some((0, 1));
+        }
+        if hi < 0.0 {
+            return go(-hi, -lo, depth + 1).map(|(p, q)| (-p, q));
+        }
+        let c = lo.ceil();
+        if c <= hi {
+            return (c.abs() < 1e15).then_some((c as i128, 1));
+        }
+        let fl = lo.floor();
+        // lo, hi in (fl, fl + 1): fl + 1 / y with y in [1/(hi - fl), 1/(lo - fl)]
+        let (p, q) = go(1.0 / (hi - fl), 1.0 / (lo - fl), depth + 1)?;
+        Some((fl as i128 * p + q, p))
+    }
+    let (p, q) = go(lo, hi, 0)?;
+    (q <= max_den as i128 && p.abs() <= i64::MAX as i128).then_some((p as i64, q as i64))
+}
+
+/// A freeze candidate: ((free entries above it in its factor, denominator, distance),
+/// axis, entry, p/q).
+type Candidate = ((i64, usize, f64), usize, usize, (i64, i64));
+
+/// The radii at which the simplest nearby rational of an entry is taken.
+const RADII: [f64; 6] = [1e-6, 1e-4, 1e-2, 0.1, 0.3, 0.75];
+
+/// The rounding phase: freeze left and right entries at rationals, re-fitting the free
+/// entries with `relax` (true when the fit returns below the tolerance).
+pub fn round_factors(
+    t: &Dense,
+    mut s: Factors,
+    p: &RoundParams,
+    relax: &dyn Fn(&Dense, &mut Factors) -> bool,
+    stop: &dyn Fn() -> bool,
+) -> Option<Factors> {
+    s.normalise(p.lead);
+    if !relax(t, &mut s) {
+        return None;
+    }
+    let r = s.rank();
+    let mut banned: Vec<(usize, usize, (i64, i64))> = Vec::new();
+    let mut rejects = 0;
+    // a freeze succeeded since the bans were last lifted
+    let mut moved = false;
+    loop {
+        if stop() {
+            return None;
+        }
+        let mut cands: Vec<Candidate> = Vec::new();
+        let mut tight = Vec::new();
+        let mut any_free = false;
+        for a in 0..2 {
+            // free entries met so far in each column (term): earlier rows go first
+            let mut above = vec![0usize; r];
+            for (e, fz) in s.frozen[a].iter().enumerate() {
+                if fz.is_some() {
+                    continue;
+                }
+                any_free = true;
+                let order = above[e % r];
+                above[e % r] += 1;
+                let x = s.f[a][(e / r, e % r)];
+                // within tight_radius / q of p/q (relative): a chance match is rare
+                let tr = p.tight_radius * x.abs().max(1.0);
+                if let Some(pq) = simplest_rational(x - tr, x + tr, p.tight_denominator)
+                    .filter(|&(n, d)| (x - n as f64 / d as f64).abs() <= tr / d as f64)
+                {
+                    tight.push((a, e, pq));
+                    continue;
+                }
+                let mut seen: Vec<(i64, i64)> = Vec::new();
+                for rad in RADII.iter().filter(|&&x| x <= p.radius) {
+                    let Some(pq) = simplest_rational(x - rad, x + rad, p.max_denominator) else {
+                        continue;
+                    };
+                    if seen.contains(&pq) || banned.contains(&(a, e, pq)) {
+                        continue;
+                    }
+                    seen.push(pq);
+                    let dist = (x - pq.0 as f64 / pq.1 as f64).abs();
+                    cands.push(((order as i64, pq.1 as usize, dist), a, e, pq));
+                }
+            }
+        }
+        if !any_free {
+            return Some(s);
+        }
+        let batch: Vec<(usize, usize, (i64, i64))> = if !tight.is_empty() {
+            tight
+        } else {
+            let best = cands.iter().min_by(|x, y| {
+                (x.0.0, x.0.1)
+                    .cmp(&(y.0.0, y.0.1))
+                    .then(x.0.2.total_cmp(&y.0.2))
+            });
+            match best {
+                Some(b) => vec![(b.1, b.2, b.3)],
+                // every candidate refused: after a successful freeze the fit has moved,
+                // so the refused ones get one more chance
+                None if moved => {
+                    moved = false;
+                    banned.clear();
+                    continue;
+                }
+                None => return None,
+            }
+        };
+        let saved = s.clone();
+        for &(a, e, pq) in &batch {
+            s.frozen[a][e] = Some(pq);
+            s.f[a][(e / r, e % r)] = pq.0 as f64 / pq.1 as f64;
+        }
+        if relax(t, &mut s) {
+            moved = true;
+            continue;
+        }
+        s = saved;
+        if batch.len() == 1 {
+            banned.push(batch[0]);
+        } else {
+            // a batch that breaks the fit: freeze its entries one at a time instead
+            banned.extend(batch.iter().take(1).copied());
+        }
+        rejects += 1;
+        if rejects > p.max_rejects {
+            return None;
+        }
+    }
+}
+
+/// The exact scheme of rounded factors: left and right factors as frozen, result factors
+/// solved exactly, terms with a zero factor dropped, then verified.
+pub fn exact_scheme(t: &Tensor, s: &Factors) -> Option<Scheme> {
+    let d = t.dims();
+    let r = s.rank();
+    let uv = |a: usize, x: usize| -> Option<Vec<Q>> {
+        (0..d[a])
+            .map(|i| s.frozen[a][i * r + x].map(|(n, m)| q(n, m)))
+            .collect()
+    };
+    let us: Vec<Vec<Q>> = (0..r).map(|x| uv(0, x)).collect::<Option<_>>()?;
+    let vs: Vec<Vec<Q>> = (0..r).map(|x| uv(1, x)).collect::<Option<_>>()?;
+    let ws = solve_result_factors(t, &us, &vs)?;
+    let mut out = Scheme::empty(FieldSpec::Rational, d);
+    for x in 0..r {
+        let zero = |v: &Vec<Q>| v.iter().all(Zero::is_zero);
+        if !(zero(&us[x]) || zero(&vs[x]) || zero(&ws[x])) {
+            out.push(us[x].clone(), vs[x].clone(), ws[x].clone());
+        }
+    }
+    verify(&out, t).ok().map(|_| out)
+}
+
+/// Given exact left and right factors, solve the Brent equations (linear in the result
+/// factors) exactly over Q: for each k, `sum_t u_t[i] v_t[j] w_t[k] = c[i][j][k]`.
+/// Returns `w_t` for each term, or `None` when the system has no solution.
+/// Cost: d2 exact eliminations of a `d0 d1 x r` system.
+pub fn solve_result_factors(t: &Tensor, us: &[Vec<Q>], vs: &[Vec<Q>]) -> Option<Vec<Vec<Q>>> {
+    let d = t.dims();
+    let r = us.len();
+    let mut a = Matrix::zeros(&Rationals, d[0] * d[1], r);
+    for x in 0..r {
+        for i in 0..d[0] {
+            for j in 0..d[1] {
+                a[(i * d[1] + j, x)] = &us[x][i] * &vs[x][j];
+            }
+        }
+    }
+    let mut ws = vec![vec![Q::zero(); d[2]]; r];
+    for k in 0..d[2] {
+        let b: Vec<Q> = (0..d[0] * d[1])
+            .map(|ij| t.get(ij / d[1], ij % d[1], k))
+            .collect();
+        let sol = solve(&Rationals, &a, &b)?;
+        for (w, x) in ws.iter_mut().zip(sol) {
+            w[k] = x;
+        }
+    }
+    Some(ws)
+}
+
+/// Settings of one numerical run.
+#[derive(Clone, Debug)]
+pub struct NumericParams {
+    pub fit: Fit,
+    pub als: super::als::AlsParams,
+    pub lm: super::lm::LmParams,
+    pub round: RoundParams,
+}
+
+impl Default for NumericParams {
+    fn default() -> Self {
+        NumericParams {
+            fit: Fit::Lm,
+            als: super::als::AlsParams::default(),
+            lm: super::lm::LmParams::default(),
+            round: RoundParams::default(),
+        }
+    }
+}
+
+/// One numerical run from a random start (seeded by `rng`): fit at rank `r`, round,
+/// solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
+/// exactly over Q, or `None`. `stop` is polled between iterations.
+/// Cost: per iteration O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) (ALS) or
+/// O((r (d0 + d1 + d2))^3) (Levenberg-Marquardt); each error check O(d0 d1 d2 r).
+pub fn numeric_run(
+    t: &Tensor,
+    r: usize,
+    p: &NumericParams,
+    rng: &mut ChaCha8Rng,
+    stop: &dyn Fn() -> bool,
+) -> Option<Scheme> {
+    if t.field() != FieldSpec::Rational || r == 0 {
+        return None;
+    }
+    let dense = Dense::new(t);
+    let fitted = match p.fit {
+        Fit::Als => super::als::converge(&dense, r, &p.als, rng, stop)?,
+        Fit::Lm => super::lm::converge(&dense, r, &p.lm, rng, stop)?,
+    };
+    let relax_als = |t: &Dense, s: &mut Factors| super::als::relax(t, s, &p.als, p.round.tol);
+    let relax_lm = |t: &Dense, s: &mut Factors| super::lm::relax(t, s, &p.lm, p.round.tol);
+    let relax: &dyn Fn(&Dense, &mut Factors) -> bool = match p.fit {
+        Fit::Als => &relax_als,
+        Fit::Lm => &relax_lm,
+    };
+    // evaluation-style normalisation first (first entry 1), then the better conditioned
+    // one (largest entry 1) on the same fit
+    [p.round.lead, 0.99].iter().find_map(|&lead| {
+        let rp = RoundParams {
+            lead,
+            ..p.round.clone()
+        };
+        let rounded = round_factors(&dense, fitted.clone(), &rp, relax, stop)?;
+        exact_scheme(t, &rounded)
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn simplest_rationals() {
+        assert_eq!(simplest_rational(0.49, 0.51, 100), Some((1, 2)));
+        assert_eq!(simplest_rational(-0.34, -0.33, 100), Some((-1, 3)));
+        assert_eq!(simplest_rational(1.9, 2.1, 100), Some((2, 1)));
+        assert_eq!(simplest_rational(0.1, 0.9, 100), Some((1, 2)));
+        assert_eq!(simplest_rational(-0.2, 0.3, 100), Some((0, 1)));
+        // 1/24 and 5/7 recovered from nearby floats
+        assert_eq!(
+            simplest_rational(1.0 / 24.0 - 1e-9, 1.0 / 24.0 + 1e-9, 100),
+            Some((1, 24))
+        );
+        assert_eq!(
+            simplest_rational(5.0 / 7.0 - 1e-7, 5.0 / 7.0 + 1e-7, 100),
+            Some((5, 7))
+        );
+        assert_eq!(simplest_rational(0.3141592, 0.3141593, 100), None);
+    }
+}
