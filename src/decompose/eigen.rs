@@ -54,12 +54,16 @@ pub fn rational_eigen(x: &Matrix<Q>) -> Result<Vec<Eigen>, EigenFailure> {
         return Err(EigenFailure::NotRational);
     };
     let approx = schur.complex_eigenvalues();
+    // every value is checked to be real before any is confirmed (the exact step is costly)
+    if approx
+        .iter()
+        .any(|z| z.im.abs() > 1e-6 * (1.0 + z.re.abs()))
+    {
+        return Err(EigenFailure::NotReal);
+    }
     let mut found: Vec<Eigen> = Vec::new();
     let mut total = 0;
     for z in approx.iter() {
-        if z.im.abs() > 1e-6 * (1.0 + z.re.abs()) {
-            return Err(EigenFailure::NotReal);
-        }
         let mu = z.re * scale;
         if found
             .iter()
@@ -87,9 +91,18 @@ pub fn rational_eigen(x: &Matrix<Q>) -> Result<Vec<Eigen>, EigenFailure> {
 fn confirm_near(x: &Matrix<Q>, mu: f64) -> Option<Eigen> {
     let n = x.rows;
     let shift = Q::from_float(mu)?;
-    // a shift that is itself an eigenvalue: confirmed at once
-    if let Some(e) = eigen_at(x, &shift) {
-        return Some(e);
+    // the convergents of the floating-point value with small denominators first: an
+    // eigenvalue found to near machine precision is one of them (each refused at once by
+    // a rank modulo a prime unless it is an eigenvalue)
+    for c in convergents(&shift)
+        .into_iter()
+        .take_while(|c| c.denom().bits() <= 20)
+    {
+        if (q_to_f64(&c) - mu).abs() <= 1e-9 * (1.0 + mu.abs())
+            && let Some(e) = eigen_at(x, &c)
+        {
+            return Some(e);
+        }
     }
     let inv = inverse_q(&shifted(x, &shift))?;
     let f = Rationals;

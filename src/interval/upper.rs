@@ -51,10 +51,10 @@ pub fn upper_bounds(
     });
     if !params.no_catalog {
         for stored in STORED_SCHEMES {
-            let Ok(s) = stored.read() else { continue };
-            if s.dims != t.dims() {
+            if stored.dims() != Some(t.dims()) {
                 continue;
             }
+            let Ok(s) = stored.read() else { continue };
             if let Some(s) = verified_over(&s, t) {
                 out.push(Upper {
                     value: s.rank(),
