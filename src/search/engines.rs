@@ -43,6 +43,11 @@ pub struct RunPlan {
     pub reason: String,
 }
 
+/// Unknowns (rank times the sum of the dimensions) up to which [`Method::Auto`] fits by
+/// Levenberg-Marquardt, whose step costs the cube of that number; above it, by
+/// alternating least squares (common practice).
+const LM_MAX_UNKNOWNS: usize = 600;
+
 /// Small primes [`Method::Auto`] tries for the walks of a tensor over Q, after the
 /// requested walk prime.
 const AUTO_PRIMES: [u64; 6] = [2, 3, 5, 7, 11, 13];
@@ -172,6 +177,17 @@ pub fn plan_runs(goal: &Tensor, params: &Params, start_rank: Option<usize>) -> R
         Method::Auto => {
             let walk = prime_keeping_ranks(goal, params);
             let lm_too = aim.is_some();
+            let unknowns = aim.unwrap_or(0) * goal.dims().iter().sum::<usize>();
+            let (fit, fit_name) = if unknowns <= LM_MAX_UNKNOWNS {
+                (Fit::Lm, "Levenberg-Marquardt".to_string())
+            } else {
+                (
+                    Fit::Als,
+                    format!(
+                        "alternating least squares ({unknowns} unknowns: a                          Levenberg-Marquardt step would cost their cube)"
+                    ),
+                )
+            };
             match walk {
                 Ok((p, w)) => {
                     let mut reason = format!(
@@ -180,15 +196,17 @@ pub fn plan_runs(goal: &Tensor, params: &Params, start_rank: Option<usize>) -> R
                     );
                     let mut kinds = vec![RunKind::Walk(w)];
                     if lm_too {
-                        kinds.push(RunKind::Numeric(Fit::Lm));
-                        reason += ", in turn with Levenberg-Marquardt runs (the rank over \
-                                   GF(p) may exceed the rank over Q)";
+                        kinds.push(RunKind::Numeric(fit));
+                        reason += &format!(
+                            ", in turn with runs of {fit_name} (the rank over GF(p) may \
+                             exceed the rank over Q)"
+                        );
                     }
                     Ok(RunPlan { kinds, reason })
                 }
                 Err(why) if lm_too => numeric(
-                    Fit::Lm,
-                    format!("Levenberg-Marquardt runs, rounded and checked exactly: {why}"),
+                    fit,
+                    format!("runs of {fit_name}, rounded and checked exactly: {why}"),
                 ),
                 Err(why) => Err(Error::Invalid(format!(
                     "{why}; the numerical route needs a target rank (--rank)"
