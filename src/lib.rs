@@ -16,9 +16,11 @@
 //! safely (atomic replacement under a lock, devices written through, links kept).
 
 pub mod catalog;
+pub mod decompose;
 pub mod error;
 pub mod generators;
 pub mod input;
+pub mod interval;
 pub mod invariants;
 pub mod laws;
 pub mod linalg;

@@ -38,6 +38,21 @@ fn search_writes_a_verified_scheme_and_merge_keeps_it() {
 /// A search for rank 2 of the 2 x 2 -> 3 polynomial product, which needs 3 (below).
 const OUT_OF_REACH: [&str; 6] = ["search", "poly:2,2", "--rank", "2", "--threads", "1"];
 
+/// A search that runs until its time is up: rank 10 for the product of 2 x 2 and 2 x 3
+/// matrices, above the lower bound bilin proves (9, Koszul-Young) and below the known rank
+/// 11 (Alekseyev 1985, "On the complexity of some algorithms of matrix multiplication",
+/// J. Algorithms 6, from memory).
+const RUNS_OUT: [&str; 8] = [
+    "search",
+    "matmul:2,2,3",
+    "--rank",
+    "10",
+    "--threads",
+    "1",
+    "--method",
+    "flip",
+];
+
 #[test]
 fn unreachable_rank_exits_1_and_bad_input_exits_2() {
     // rank 2 is impossible: the result flattening of this tensor has rank 3, a lower bound
@@ -69,25 +84,21 @@ fn unreachable_rank_exits_1_and_bad_input_exits_2() {
 /// it silent.
 #[test]
 fn progress_lines_in_a_log_and_quiet() {
-    let args = [
-        &OUT_OF_REACH[..],
-        &["--time", "1.6", "--progress-every", "0.4"],
-    ]
-    .concat();
+    let args = [&RUNS_OUT[..], &["--time", "1.6", "--progress-every", "0.4"]].concat();
     let (code, _, err) = bilin(&args);
-    assert_eq!(code, 1, "rank 2 is out of reach");
+    assert_eq!(code, 1, "rank 10 is out of reach");
     let lines: Vec<&str> = err.lines().filter(|l| l.contains("moves/s")).collect();
     assert!(lines.len() >= 2, "{err}");
     assert!(lines[0].starts_with("bilin search: best rank "), "{err}");
     assert!(lines.iter().all(|l| l.contains(" elapsed ")));
-    let (code, _, err) = bilin(&[&args[..7], &["0.3", "--quiet"]].concat());
+    let (code, _, err) = bilin(&[&args[..9], &["0.3", "--quiet"]].concat());
     assert_eq!(code, 1);
     assert!(!err.contains("moves/s"), "{err}");
     assert!(
-        err.contains("best verified rank 3"),
+        err.contains("best verified rank 11"),
         "the result line stays: {err}"
     );
-    let (code, _, err) = bilin(&[&args[..9], &["0"]].concat());
+    let (code, _, err) = bilin(&[&args[..11], &["0"]].concat());
     assert_eq!(code, 2);
     assert!(err.contains("--progress-every"), "{err}");
 }

@@ -357,9 +357,9 @@ fn a_result_that_cannot_be_written_goes_to_standard_output() {
     let child = Command::new(BIN)
         .args([
             "search",
-            "matmul:2,2,2",
+            "matmul:2,2,3",
             "--rank",
-            "6",
+            "10",
             "--threads",
             "1",
             "--time",

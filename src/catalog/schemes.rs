@@ -69,6 +69,12 @@ impl StoredScheme {
 
     /// The scheme read against its entry's tensor and verified exactly. An `Err` is a
     /// defect of the catalog (the test suite catches it).
+    /// The dimensions of the tensor the scheme is for (its catalog entry's), without
+    /// reading the scheme.
+    pub fn dims(&self) -> Option<[usize; 3]> {
+        find_entry(self.entry)?.tensor().ok().map(|t| t.dims())
+    }
+
     pub fn read(&self) -> Result<Scheme> {
         let e = find_entry(self.entry).ok_or_else(|| {
             Error::Invalid(format!("{}: no catalog entry `{}`", self.file, self.entry))

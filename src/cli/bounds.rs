@@ -1,5 +1,7 @@
-//! `bilin bounds INPUT [--json] [--proof-out FILE] [--check-proof FILE]`: proven lower
-//! bounds for the tensor rank, and the certificates of exhaustive proofs over GF(2).
+//! `bilin bounds INPUT [--json] [--scheme FILE]... [--out FILE] [--proof-out FILE]
+//! [--check-proof FILE]`: proven lower bounds for the tensor rank, the interval
+//! `lower <= R <= upper` with a verified scheme for the upper side, and the certificates of
+//! exhaustive proofs over GF(2).
 
 use super::scheme_io::{fail, load_tensor};
 use super::{EXIT_FALSE, EXIT_OK};
@@ -22,6 +24,14 @@ pub struct Args {
     /// Seed of the random slice combinations.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
+    /// A scheme for the tensor (text or JSON form; repeatable): verified exactly, then
+    /// counted among the upper bounds.
+    #[arg(long, value_name = "FILE")]
+    pub scheme: Vec<String>,
+    /// Write the scheme attaining the upper bound to this file (text form for `.txt`,
+    /// JSON otherwise).
+    #[arg(long, value_name = "FILE")]
+    pub out: Option<String>,
     /// Work budget of the exhaustive proofs over GF(2), in millions of rank-one matrices
     /// reduced against a space (0 leaves them out).
     #[arg(long, default_value_t = 100, value_name = "MILLIONS")]
@@ -120,6 +130,13 @@ pub fn run(a: &Args) -> i32 {
     if let Some(path) = &a.check_proof {
         return check_file(&t, path);
     }
+    let mut given = Vec::new();
+    for path in &a.scheme {
+        match super::scheme_io::load_scheme(path, &t) {
+            Ok(s) => given.push((path.clone(), s)),
+            Err(e) => return fail(&e),
+        }
+    }
     let exhaustive = (a.exhaustive_work > 0).then(|| ExhaustiveParams {
         max_work: a.exhaustive_work.saturating_mul(1_000_000),
         max_nodes: a.exhaustive_spaces,
@@ -145,8 +162,30 @@ pub fn run(a: &Args) -> i32 {
             ),
         }
     }
+    let iv = bilin::report::interval::interval_of(
+        &t,
+        &b,
+        &bilin::interval::UpperParams {
+            simultaneous: bilin::decompose::SimultaneousParams {
+                seed: a.seed,
+                ..Default::default()
+            },
+            ..Default::default()
+        },
+        &given,
+    );
+    if let Some(path) = &a.out {
+        let target = match bilin::output::Target::resolve(path) {
+            Ok(x) => x,
+            Err(e) => return fail(&e),
+        };
+        if !super::outputs::emit_result(Some(&target), iv.scheme(), &t, false) {
+            return super::EXIT_USAGE;
+        }
+    }
     if a.json {
         let v = serde_json::json!({
+            "interval": iv.to_json(),
             "input": a.input,
             "field": t.field().name(),
             "dims": t.dims(),
@@ -168,6 +207,10 @@ pub fn run(a: &Args) -> i32 {
         t.field().name()
     );
     for line in bilin::report::sections::bounds_lines(&b) {
+        println!("  {line}");
+    }
+    println!("rank interval:");
+    for line in iv.lines() {
         println!("  {line}");
     }
     EXIT_OK

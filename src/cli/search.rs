@@ -13,6 +13,7 @@ use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::input::read_text_file;
+use bilin::interval::plan::{Plan, known_interval, method_name, plan_search};
 use bilin::search::flip::FlipParams;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
 use bilin::search::pool::PoolParams;
@@ -31,10 +32,10 @@ pub struct SearchArgs {
     /// Target rank: stop when a verified scheme of at most this rank is found.
     #[arg(long)]
     pub rank: Option<usize>,
-    /// Search engine: `flip` (flip-graph walks, lifted to Q), `lm` (Levenberg-Marquardt
-    /// and rounding, over Q), `als` (alternating least squares and rounding, over Q) or
-    /// `auto` (walks and Levenberg-Marquardt runs in turn).
-    #[arg(long, default_value = "flip")]
+    /// Search engine: `auto` (the default: chosen from the tensor, the choice and its
+    /// reason printed), `flip` (flip-graph walks, lifted to Q), `lm` (Levenberg-Marquardt
+    /// and rounding, over Q) or `als` (alternating least squares and rounding, over Q).
+    #[arg(long, default_value = "auto")]
     pub method: String,
     /// Walk over GF(P) and lift p-adically to Q (default 2); an odd prime finds schemes
     /// whose denominators are even.
@@ -158,6 +159,34 @@ fn parse_shard(s: &str) -> Result<(u64, u64), String> {
         return Err(format!("shard {k}/{n}: need 0 <= K < N"));
     }
     Ok((k, n))
+}
+
+/// Write `scheme`, known before any search, as the result and in the checkpoint (seed,
+/// shard and first run as given); exit code 0, or 2 when it cannot be written.
+fn finish_known(
+    files: &OutputFiles,
+    scheme: &bilin::scheme::Scheme,
+    t: &bilin::tensor::Tensor,
+    (seed, shard, next_run): (u64, (u64, u64), u64),
+) -> i32 {
+    files.save_checkpoint(
+        &Checkpoint {
+            seed,
+            shard,
+            next_run,
+            best: Some(scheme.clone()),
+        },
+        t,
+    );
+    if !files.save_result(scheme, t) {
+        return EXIT_USAGE;
+    }
+    note(format!(
+        "best verified rank {} over {} (known before any search)",
+        scheme.rank(),
+        scheme.field.name()
+    ));
+    EXIT_OK
 }
 
 /// Seed, shard and first run: from the checkpoint when resuming one (a conflicting
@@ -340,8 +369,36 @@ pub fn run(a: SearchArgs) -> i32 {
             );
         }
     };
-    let start = resumed.and_then(Saved::into_best);
-    let outcome = match search_scheme(&t, &params, &stop, start, &progress) {
+    if a.rank.is_none() && a.time.is_none() && a.restarts.is_none() {
+        return usage_error("--rank", "give a target rank, a time limit or a run limit");
+    }
+    // what is known first: the resumed scheme counts among the verified upper bounds
+    let given: Vec<(String, bilin::scheme::Scheme)> = resumed
+        .and_then(Saved::into_best)
+        .map(|s| ("the resumed scheme".to_string(), s))
+        .into_iter()
+        .collect();
+    let interval = known_interval(&t, &given, seed);
+    let start = match plan_search(&t, &params, &interval) {
+        Err(e) => return usage_error("--method", e.to_string()),
+        Ok(Plan::Known { scheme, reason }) => {
+            note(format!("answered at once: {reason}"));
+            return finish_known(&files, &scheme, &t, (seed, shard, first_run));
+        }
+        Ok(Plan::Refuse { reason, known, .. }) => {
+            eprintln!("error: refused: {reason}; no scheme of that rank exists");
+            // the best known scheme is still the result, so that nothing is lost
+            if finish_known(&files, &known, &t, (seed, shard, first_run)) != EXIT_OK {
+                return EXIT_USAGE;
+            }
+            return EXIT_FALSE;
+        }
+        Ok(Plan::Search { runs, start }) => {
+            note(format!("method {}: {}", method_name(method), runs.reason));
+            start
+        }
+    };
+    let outcome = match search_scheme(&t, &params, &stop, Some(start), &progress) {
         Ok(o) => o,
         Err(e) => {
             let e = match &a.resume {

@@ -10,6 +10,7 @@
 //! the JSON carries them under `"extra"`. Adding a section never changes existing fields.
 
 pub mod identify;
+pub mod interval;
 pub mod invariants;
 mod invariants_text;
 pub mod sections;
@@ -43,6 +44,8 @@ pub struct Params {
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
     pub bounds: Option<crate::ranks::BoundsParams>,
+    /// The upper bounds of the rank interval shown after the lower bounds.
+    pub upper: crate::interval::UpperParams,
     /// The structure section (solvable, nilpotent, semisimple; blocks, radical and simple
     /// components, Lie structure); `None` leaves out its costly part (the properties stay).
     pub structure: Option<crate::structure::StructureParams>,
@@ -57,6 +60,7 @@ impl Default for Params {
             ranks: ranks::Params::default(),
             invariants: None,
             bounds: None,
+            upper: crate::interval::UpperParams::default(),
             structure: None,
         }
     }
@@ -255,7 +259,13 @@ pub fn analyze_streaming(
     emit(Piece::Head(&report));
     if let Some(bp) = &params.bounds {
         progress("lower bounds");
-        let sec = sections::bounds_section(t, bp);
+        let lower = crate::ranks::lower_bounds(t, bp);
+        let sec = sections::bounds_section(&lower);
+        emit(Piece::Section(&sec));
+        report.extra.push(sec);
+        progress("rank interval");
+        let iv = interval::interval_of(t, &lower, &params.upper, &[]);
+        let sec = interval::interval_section(&iv);
         emit(Piece::Section(&sec));
         report.extra.push(sec);
     }

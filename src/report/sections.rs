@@ -9,7 +9,7 @@ use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
 use crate::invariants::structure::PropertyResult;
-use crate::ranks::{Bounds, BoundsParams, Measure, Status, lower_bounds};
+use crate::ranks::{Bounds, Measure, Status};
 use crate::structure::StructureParams;
 use crate::tensor::Tensor;
 
@@ -94,14 +94,13 @@ pub fn bounds_lines(b: &Bounds) -> Vec<String> {
     lines
 }
 
-/// The proven lower bounds for the tensor rank of `t` as a report section.
-/// Cost: that of [`lower_bounds`].
-pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
-    let b = lower_bounds(t, params);
+/// The proven lower bounds for the tensor rank (as computed by [`crate::ranks::lower_bounds`]) as a
+/// report section.
+pub fn bounds_section(b: &Bounds) -> Section {
     Section {
         id: "lower-bounds".into(),
         title: "Lower bounds for the tensor rank".into(),
-        lines: bounds_lines(&b),
+        lines: bounds_lines(b),
         data: serde_json::json!({
             "best": b.best(),
             "best_border": b.best_border(),

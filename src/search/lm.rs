@@ -133,19 +133,23 @@ fn objective(t: &Dense, s: &Factors, gamma: f64) -> f64 {
     e * e + gamma * reg
 }
 
-/// One damped step on the free unknowns; returns false when no damping gives a decrease.
+/// One damped step on the free unknowns; returns false when no damping gives a decrease
+/// (or `stop` is set between two tries).
 fn step(
     t: &Dense,
     s: &mut Factors,
     lay: &Layout,
     free: &[usize],
-    gamma: f64,
-    mu: &mut f64,
+    (gamma, mu): (f64, &mut f64),
+    stop: &dyn Fn() -> bool,
 ) -> bool {
     let (g, grad) = normal_system(t, s, lay, gamma);
     let nf = free.len();
     let f0 = objective(t, s, gamma);
     for _ in 0..14 {
+        if stop() {
+            return false;
+        }
         let mut a = DMatrix::<f64>::zeros(nf, nf);
         let mut b = DVector::<f64>::zeros(nf);
         for (p, &fp) in free.iter().enumerate() {
@@ -212,10 +216,11 @@ pub fn converge(
     let mut gamma = p.gamma0;
     let mut mu = p.mu0;
     for it in 0..p.iters {
-        if it % 8 == 0 && stop() {
+        // every step: one step of a large fit takes seconds
+        if stop() {
             return None;
         }
-        if !step(t, &mut s, &lay, &free, gamma, &mut mu) {
+        if !step(t, &mut s, &lay, &free, (gamma, &mut mu), stop) {
             // stuck at this ridge weight: lower it, or give up at the floor
             if gamma <= p.gamma_min {
                 return (s.error(t) < p.tol).then_some(s);
@@ -246,7 +251,7 @@ pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64) -> bool {
         if s.error(t) < tol {
             return true;
         }
-        if free.is_empty() || !step(t, s, &lay, &free, 0.0, &mut mu) {
+        if free.is_empty() || !step(t, s, &lay, &free, (0.0, &mut mu), &|| false) {
             break;
         }
     }

@@ -24,6 +24,7 @@
 pub mod als;
 pub mod bits;
 pub mod cyclic;
+mod engines;
 pub mod flip;
 pub mod flip_p;
 pub mod hensel;
@@ -33,6 +34,8 @@ pub mod numeric;
 pub mod pool;
 pub mod store;
 mod walks;
+
+pub use engines::{RunKind, RunPlan, Walk, plan_runs};
 
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
@@ -204,122 +207,6 @@ impl Shared {
     }
 }
 
-/// The walk of a search: its field and kind.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum Walk {
-    /// Over GF(2), factors in `words` 64-bit words.
-    Bits { words: usize },
-    /// Over GF(2), schemes of <n,n,n> invariant under the cyclic symmetry.
-    Cyclic { n: usize, words: usize },
-    /// Over GF(p), p odd.
-    Prime { p: u64 },
-}
-
-/// One kind of run.
-#[derive(Clone, Copy, Debug, PartialEq, Eq)]
-pub enum RunKind {
-    Walk(Walk),
-    Numeric(Fit),
-}
-
-/// The engines of a search: run n is of kind `kinds[n mod kinds.len()]`.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct RunPlan {
-    pub kinds: Vec<RunKind>,
-}
-
-/// The walk for `goal` (over the search field) under `params`, or why there is none.
-fn choose_walk(goal: &Tensor, params: &Params) -> Result<Walk> {
-    let p = match goal.field() {
-        FieldSpec::Prime(p) => p,
-        FieldSpec::Rational => params.walk_prime,
-    };
-    if !crate::scalar::is_prime(p) || p >= 1 << 16 {
-        return Err(Error::Invalid(format!(
-            "the walk prime must be a prime below 65536, not {p}"
-        )));
-    }
-    if params.symmetry == Symmetry::Cyclic {
-        if p != 2 {
-            return Err(Error::Invalid(
-                "the cyclic symmetry is supported for walks over GF(2) only".into(),
-            ));
-        }
-        let d = goal.dims();
-        let n = (d[0] as f64).sqrt().round() as usize;
-        let square = d == [n * n; 3]
-            && n * n <= bits::MAX_DIM
-            && CyclicScheme::standard(n)
-                .ok()
-                .zip(flip::tensor_bits(goal).ok())
-                .is_some_and(|(c, b)| c.to_bits().evaluate() == b);
-        if !square {
-            return Err(Error::Invalid(
-                "the cyclic symmetry needs the square matrix format <n,n,n> (as built by matmul:n,n,n, n <= 16)"
-                    .into(),
-            ));
-        }
-        return Ok(Walk::Cyclic {
-            n,
-            words: flip::walker_words(d)?,
-        });
-    }
-    if p == 2 {
-        flip::tensor_bits(goal)?;
-        Ok(Walk::Bits {
-            words: flip::walker_words(goal.dims())?,
-        })
-    } else {
-        let gp = goal
-            .with_field(FieldSpec::Prime(p))
-            .map_err(Error::Invalid)?;
-        PScheme::standard(&gp)?;
-        Ok(Walk::Prime { p })
-    }
-}
-
-/// Choose the engines of a search for `goal` (the tensor over the search field): the
-/// method selection shared by every caller of the search. Errors name what does not fit
-/// (a numerical method over GF(p), a walk over a prime that divides a denominator, ...).
-pub fn plan_runs(goal: &Tensor, params: &Params) -> Result<RunPlan> {
-    let over_q = goal.field() == FieldSpec::Rational;
-    let numeric = |fit: Fit| -> Result<RunPlan> {
-        if !over_q {
-            return Err(Error::Invalid(
-                "the numerical route works over Q; use --method flip over GF(p)".into(),
-            ));
-        }
-        if params.target_rank.is_none() {
-            return Err(Error::Invalid(
-                "the numerical route needs a target rank (--rank)".into(),
-            ));
-        }
-        Ok(RunPlan {
-            kinds: vec![RunKind::Numeric(fit)],
-        })
-    };
-    match params.method {
-        Method::Als => numeric(Fit::Als),
-        Method::Lm => numeric(Fit::Lm),
-        Method::Flip => Ok(RunPlan {
-            kinds: vec![RunKind::Walk(choose_walk(goal, params)?)],
-        }),
-        Method::Auto => {
-            let walk = choose_walk(goal, params);
-            match (walk, over_q && params.target_rank.is_some()) {
-                (Ok(w), true) => Ok(RunPlan {
-                    kinds: vec![RunKind::Walk(w), RunKind::Numeric(Fit::Lm)],
-                }),
-                (Ok(w), false) => Ok(RunPlan {
-                    kinds: vec![RunKind::Walk(w)],
-                }),
-                (Err(_), true) => numeric(Fit::Lm),
-                (Err(e), false) => Err(e),
-            }
-        }
-    }
-}
-
 /// Search for a scheme of the tensor of rank at most `params.target_rank`.
 ///
 /// `start` (e.g. from a checkpoint) must verify against the tensor; it seeds the best result
@@ -372,7 +259,7 @@ pub fn search_scheme(
             elapsed: Duration::ZERO,
         });
     }
-    let plan = plan_runs(&goal, params)?;
+    let plan = plan_runs(&goal, params, start.as_ref().map(Scheme::rank))?;
     let walk = plan.kinds.iter().find_map(|k| match k {
         RunKind::Walk(w) => Some(*w),
         RunKind::Numeric(_) => None,
@@ -396,7 +283,15 @@ pub fn search_scheme(
             fit,
             ..params.numeric.clone()
         };
-        if let Some(s) = numeric::numeric_run(&goal, target, &np, &mut rng, &halted) {
+        // without a target rank: one below the best verified rank so far
+        let aim = match params.target_rank {
+            Some(r) => r,
+            None => match shared.best_rank.load(Ordering::SeqCst) {
+                usize::MAX => return,
+                b => b.saturating_sub(1),
+            },
+        };
+        if let Some(s) = numeric::numeric_run(&goal, aim, &np, &mut rng, &halted) {
             shared.offer(s, target);
         }
     };

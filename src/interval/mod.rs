@@ -1,0 +1,192 @@
+//! The interval `lower <= R(T) <= upper` for the tensor rank, each side with its reason:
+//! the lower side a proven bound (its theorem), the upper side a scheme verified exactly
+//! ([`upper`]). Where they meet the rank is known. For a cubic format n x n x n the
+//! generic rank over C is reported beside it, labelled as the value for a random tensor
+//! of that format, not a bound for this one. [`plan`] turns the interval into the choice
+//! of a search method.
+
+pub mod plan;
+pub mod upper;
+
+pub use upper::{Upper, UpperParams, upper_bounds};
+
+use crate::decompose::Uniqueness;
+use crate::ranks::Bounds;
+use crate::scheme::Scheme;
+use crate::tensor::Tensor;
+use serde::Serialize;
+
+/// The lower side: the best proven lower bound, as the caller computed it.
+#[derive(Clone, Debug, Serialize)]
+pub struct Lower {
+    pub value: usize,
+    pub name: String,
+    pub theorem: String,
+}
+
+impl Lower {
+    /// The best proven lower bound for the rank over the tensor's field, with its theorem
+    /// ([`Bounds::best_bound`]; border-rank bounds count, since R >= border rank).
+    pub fn best_of(b: &Bounds) -> Lower {
+        match b.best_bound() {
+            Some(x) => Lower {
+                value: x.value,
+                name: x.name.clone(),
+                theorem: x.theorem.clone(),
+            },
+            None => Lower::none(),
+        }
+    }
+
+    /// No lower bound (R >= 0).
+    pub fn none() -> Lower {
+        Lower {
+            value: 0,
+            name: "none".into(),
+            theorem: "-".into(),
+        }
+    }
+}
+
+/// The interval and its reasons.
+#[derive(Clone, Debug, Serialize)]
+pub struct RankInterval {
+    pub lower: Lower,
+    /// The best upper bound (the lowest verified scheme).
+    pub upper: Upper,
+    /// All upper bounds found, lowest first.
+    pub uppers: Vec<Upper>,
+    /// `Some(R)` when lower and upper meet.
+    pub exact: Option<usize>,
+    /// Kruskal's condition for the decomposition by simultaneous diagonalisation.
+    pub uniqueness: Option<Uniqueness>,
+    /// The generic rank over C of the format, where published (a value for random tensors
+    /// of this format, not a bound for this tensor).
+    pub generic_rank: Option<GenericRank>,
+    pub notes: Vec<String>,
+}
+
+/// The generic rank of a format and its source.
+#[derive(Clone, Debug, Serialize)]
+pub struct GenericRank {
+    pub value: usize,
+    pub source: String,
+}
+
+impl RankInterval {
+    /// The scheme attaining the upper bound.
+    pub fn scheme(&self) -> &Scheme {
+        &self.upper.scheme
+    }
+
+    /// Text lines: the interval, then each side with its reason.
+    pub fn lines(&self) -> Vec<String> {
+        let field = self.upper.scheme.field.name();
+        let mut l = vec![match self.exact {
+            Some(r) => format!("R = {r} over {field} (the lower and upper bounds meet)"),
+            None => format!(
+                "{} <= R <= {} over {field}",
+                self.lower.value, self.upper.value
+            ),
+        }];
+        l.push(format!(
+            "  lower {}: {} ({})",
+            self.lower.value, self.lower.name, self.lower.theorem
+        ));
+        for u in &self.uppers {
+            l.push(format!("  upper {}: {}, {}", u.value, u.name, u.detail));
+        }
+        if let Some(k) = &self.uniqueness {
+            l.push(format!(
+                "  Kruskal: k-ranks {}, {}, {} with {} terms: {} (Kruskal 1977, Linear Algebra \
+                 Appl. 18)",
+                k.k_ranks[0],
+                k.k_ranks[1],
+                k.k_ranks[2],
+                k.terms,
+                if k.unique {
+                    "the decomposition is unique up to order and scaling of the terms"
+                } else {
+                    "uniqueness not established"
+                }
+            ));
+        }
+        if let Some(g) = &self.generic_rank {
+            l.push(format!(
+                "  generic rank of the format over C: {} ({}); a value for random tensors, \
+                 not a bound for this one",
+                g.value, g.source
+            ));
+        }
+        for n in &self.notes {
+            l.push(format!("  note: {n}"));
+        }
+        l
+    }
+
+    /// JSON form (the best scheme's rank and text, every bound with its reason).
+    pub fn to_json(&self) -> serde_json::Value {
+        serde_json::json!({
+            "lower": self.lower,
+            "upper": self.upper,
+            "uppers": self.uppers,
+            "exact": self.exact,
+            "uniqueness": self.uniqueness,
+            "generic_rank": self.generic_rank,
+            "notes": self.notes,
+            "scheme": crate::scheme::json::to_json(&self.upper.scheme),
+        })
+    }
+}
+
+/// The interval for `t` from the caller's best lower bound and the upper bounds of
+/// [`upper_bounds`] (with the caller's `given` schemes). Cost: that of [`upper_bounds`].
+pub fn rank_interval(
+    t: &Tensor,
+    lower: Lower,
+    params: &UpperParams,
+    given: &[(String, Scheme)],
+) -> RankInterval {
+    let (uppers, uniqueness, mut notes) = upper_bounds(t, params, given);
+    let upper = uppers[0].clone();
+    // a verified scheme of rank r proves R <= r; a lower bound above it would be a defect
+    let lower = if lower.value > upper.value {
+        notes.push(format!(
+            "the lower bound {} exceeds a verified scheme of rank {}: ignored",
+            lower.value, upper.value
+        ));
+        Lower::none()
+    } else {
+        lower
+    };
+    let exact = (lower.value == upper.value).then_some(upper.value);
+    RankInterval {
+        lower,
+        upper,
+        uppers,
+        exact,
+        uniqueness,
+        generic_rank: generic_rank(t.dims()),
+        notes,
+    }
+}
+
+/// The generic rank over C of the format n x n x n: `ceil(n^3 / (3n - 2))` for n != 3 and
+/// 5 for n = 3 (Lickteig 1985, "Typical tensorial rank", Linear Algebra Appl. 69, from
+/// memory); `None` for other formats.
+pub fn generic_rank(d: [usize; 3]) -> Option<GenericRank> {
+    let n = d[0];
+    if d[1] != n || d[2] != n || n < 2 {
+        return None;
+    }
+    let value = if n == 3 {
+        5
+    } else {
+        (n * n * n).div_ceil(3 * n - 2)
+    };
+    Some(GenericRank {
+        value,
+        source: "Lickteig 1985, Typical tensorial rank, Linear Algebra Appl. 69 (from memory)"
+            .into(),
+    })
+}

@@ -1,0 +1,91 @@
+//! Upper bounds for the tensor rank, each carried by a scheme verified exactly against the
+//! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
+//! `R(T) <= r`. Sources: the slice decomposition and simultaneous diagonalisation
+//! ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
+//! verified against this tensor, whatever its name), and schemes the caller supplies (a
+//! `--scheme` file, a search result).
+
+use crate::catalog::schemes::STORED_SCHEMES;
+use crate::decompose::{SimultaneousParams, Uniqueness, decompose};
+use crate::scheme::{Scheme, verify};
+use crate::tensor::Tensor;
+use serde::Serialize;
+
+/// One upper bound `R(T) <= value` with its verified scheme.
+#[derive(Clone, Debug, Serialize)]
+pub struct Upper {
+    pub value: usize,
+    /// Short name: `slices`, `simultaneous diagonalisation`, `catalog`, `given scheme`.
+    pub name: String,
+    /// Where the scheme comes from and what it shows.
+    pub detail: String,
+    #[serde(skip)]
+    pub scheme: Scheme,
+}
+
+/// Parameters of [`upper_bounds`].
+#[derive(Clone, Debug, Default)]
+pub struct UpperParams {
+    pub simultaneous: SimultaneousParams,
+    /// Leave out the catalog's stored schemes.
+    pub no_catalog: bool,
+}
+
+/// Every upper bound found, lowest first, and Kruskal's verdict when simultaneous
+/// diagonalisation succeeded. `given` schemes that do not verify are left out and named in
+/// the notes. Cost: that of [`decompose`] plus one exact verification per candidate scheme.
+pub fn upper_bounds(
+    t: &Tensor,
+    params: &UpperParams,
+    given: &[(String, Scheme)],
+) -> (Vec<Upper>, Option<Uniqueness>, Vec<String>) {
+    let mut out = Vec::new();
+    let mut notes = Vec::new();
+    let d = decompose(t, &params.simultaneous);
+    notes.extend(d.note.clone());
+    out.push(Upper {
+        value: d.scheme.rank(),
+        name: d.method.into(),
+        detail: d.detail,
+        scheme: d.scheme,
+    });
+    if !params.no_catalog {
+        for stored in STORED_SCHEMES {
+            if stored.dims() != Some(t.dims()) {
+                continue;
+            }
+            let Ok(s) = stored.read() else { continue };
+            if let Some(s) = verified_over(&s, t) {
+                out.push(Upper {
+                    value: s.rank(),
+                    name: "catalog".into(),
+                    detail: format!("stored scheme {} ({})", stored.file, stored.source()),
+                    scheme: s,
+                });
+            }
+        }
+    }
+    for (name, s) in given {
+        match verified_over(s, t) {
+            Some(s) => out.push(Upper {
+                value: s.rank(),
+                name: "given scheme".into(),
+                detail: format!("{name}, verified exactly"),
+                scheme: s,
+            }),
+            None => notes.push(format!("{name}: the scheme does not verify; left out")),
+        }
+    }
+    out.sort_by_key(|u| u.value);
+    (out, d.uniqueness, notes)
+}
+
+/// `s` read over the tensor's field, when it verifies there.
+fn verified_over(s: &Scheme, t: &Tensor) -> Option<Scheme> {
+    let s = if s.field == t.field() {
+        s.clone()
+    } else {
+        s.with_field(t.field()).ok()?
+    };
+    (s.dims == t.dims() && verify(&s, t).is_ok()).then_some(s)
+}

@@ -1,0 +1,195 @@
+//! The rank interval `lower <= R <= upper` and the search plan built on it: every upper
+//! bound carries a scheme verified exactly, planted ranks are recovered exactly, a search
+//! at or above the known upper bound returns its scheme at once and one below a proven
+//! lower bound is refused.
+
+mod common;
+
+use bilin::catalog::store::all_entries;
+use bilin::decompose::planted::planted;
+use bilin::interval::plan::{Plan, known_interval, plan_search};
+use bilin::interval::{Lower, UpperParams, rank_interval};
+use bilin::ranks::{BoundsParams, lower_bounds};
+use bilin::scalar::{FieldSpec, Q};
+use bilin::scheme::verify;
+use bilin::search::{Method, Params};
+use bilin::tensor::{Kind, Tensor, change_basis, random_invertible};
+use common::run as bilin;
+use proptest::prelude::*;
+
+fn interval(t: &Tensor) -> bilin::interval::RankInterval {
+    known_interval(t, &[], 1)
+}
+
+/// The plan of an automatic search for a scheme of rank at most `r`.
+fn plan_at(t: &Tensor, r: usize, iv: &bilin::interval::RankInterval) -> Plan {
+    let params = Params {
+        target_rank: Some(r),
+        method: Method::Auto,
+        ..Params::default()
+    };
+    plan_search(t, &params, iv).expect("a plan")
+}
+
+fn tensor(dims: [usize; 3], vals: &[i64]) -> Tensor {
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, dims, None);
+    let mut it = vals.iter();
+    for i in 0..dims[0] {
+        for j in 0..dims[1] {
+            for k in 0..dims[2] {
+                let v = *it.next().expect("enough values");
+                if v != 0 {
+                    t.set(i, j, k, Q::from_integer(v.into()));
+                }
+            }
+        }
+    }
+    t
+}
+
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 40, rng_algorithm: proptest::test_runner::RngAlgorithm::ChaCha, ..ProptestConfig::default() })]
+    /// A search at any rank at or above the slice bound returns a verified scheme at once,
+    /// for odd, even and mixed entries (the all-even case reduces to zero mod 2).
+    #[test]
+    fn search_at_or_above_the_slice_bound_returns_a_verified_scheme(
+        d0 in 1usize..4, d1 in 1usize..4, d2 in 1usize..4, parity in 0u8..3,
+        vals in proptest::collection::vec(-9i64..10, 27), extra in 0usize..3,
+    ) {
+        let vals: Vec<i64> = vals.iter().map(|&v| match parity {
+            0 => 2 * v + 1,
+            1 => 2 * v,
+            _ => v,
+        }).collect();
+        let t = tensor([d0, d1, d2], &vals);
+        let iv = interval(&t);
+        prop_assert!(iv.lower.value <= iv.upper.value);
+        prop_assert!(verify(iv.scheme(), &t).is_ok());
+        let slice_bound = iv.uppers.iter().map(|u| u.value).max().unwrap();
+        match plan_at(&t, slice_bound + extra, &iv) {
+            Plan::Known { scheme, .. } => prop_assert!(verify(&scheme, &t).is_ok()),
+            other => prop_assert!(false, "not answered at once: {:?}", other),
+        }
+        if iv.lower.value > 0 {
+            let refused = matches!(
+                plan_at(&t, iv.lower.value - 1, &iv),
+                Plan::Refuse { .. }
+            );
+            prop_assert!(refused);
+        }
+    }
+}
+
+/// Planted ranks 3 in 6x5x4 and 5 in 8x8x8 (integer factors, every axis scrambled by an
+/// integer change of basis with entries up to 100): the interval closes on the planted
+/// rank, by simultaneous diagonalisation (Leurgans, Ross and Abel 1993, "A decomposition
+/// for three-way arrays", SIAM J. Matrix Anal. Appl. 14), and the factors verify exactly.
+#[test]
+fn planted_ranks_are_recovered_exactly() {
+    for (dims, r, seed) in [([6, 5, 4], 3, 11), ([8, 8, 8], 5, 12), ([5, 5, 5], 5, 13)] {
+        let (t, _) = planted(dims, r, 100, seed);
+        let iv = interval(&t);
+        assert_eq!(iv.exact, Some(r), "{dims:?}: {:?}", iv.lines());
+        assert!(verify(iv.scheme(), &t).is_ok());
+        assert!(iv.uniqueness.as_ref().is_some_and(|u| u.unique));
+        // the same tensor in another basis: still exact
+        let p = random_invertible(dims[0], 30, seed);
+        let q = random_invertible(dims[1], 30, seed + 1);
+        let s = random_invertible(dims[2], 30, seed + 2);
+        let u = change_basis(&t, &p, &q, &s).unwrap();
+        assert_eq!(interval(&u).exact, Some(r));
+    }
+}
+
+/// `bounds` has an upper bound for every catalog entry, never below the lower bound, and
+/// it is the rank of a scheme that verifies exactly.
+#[test]
+fn every_catalog_entry_has_an_interval() {
+    // the cheaper lower bounds (flattening, slice span, Alder-Strassen for small
+    // algebras): the upper side is what is tested here
+    let cheap = BoundsParams {
+        max_algebra_dim: 16,
+        max_isotope_dim: 8,
+        max_koszul_young_size: 0,
+        exhaustive: None,
+        ..BoundsParams::default()
+    };
+    for e in all_entries().unwrap() {
+        let t = e.tensor().unwrap();
+        let lower = Lower::best_of(&lower_bounds(&t, &cheap));
+        let iv = rank_interval(&t, lower, &UpperParams::default(), &[]);
+        assert!(iv.lower.value <= iv.upper.value, "{}", e.file);
+        assert!(verify(iv.scheme(), &t).is_ok(), "{}", e.file);
+    }
+}
+
+/// Known ranks close the interval: 2 x 2 matrices have rank 7 (Strassen 1969; Winograd
+/// 1971, "On multiplication of 2 x 2 matrices", Linear Algebra Appl. 4), the Alder-Strassen
+/// bound 2 * 4 - 1 of the algebra M_2 meeting the stored scheme; polynomials of degree 1 and 2 have rank 2n - 1 (Toom 1963; Winograd 1980,
+/// "Arithmetic complexity of computations"), which the catalog's schemes and the
+/// flattening bound meet.
+#[test]
+fn published_ranks_close_or_bracket_the_interval() {
+    for (name, lo, hi) in [("polymul2", 3, 3), ("polymul3", 5, 5), ("matmul222", 7, 7)] {
+        let t = bilin::catalog::store::catalog_tensor(name).unwrap();
+        let iv = interval(&t);
+        assert_eq!((iv.lower.value, iv.upper.value), (lo, hi), "{name}");
+    }
+    // a lower bound above a verified scheme is a defect: ignored with a note
+    let t = bilin::catalog::store::catalog_tensor("polymul2").unwrap();
+    let wrong = Lower {
+        value: 9,
+        name: "wrong".into(),
+        theorem: "-".into(),
+    };
+    let iv = rank_interval(&t, wrong, &UpperParams::default(), &[]);
+    assert!(iv.lower.value <= iv.upper.value && !iv.notes.is_empty());
+}
+
+/// The command line: an interval in `bounds`, the known scheme at once in `search`, a
+/// refusal below the lower bound (exit 1, the known scheme still printed), the method
+/// choice printed with its reason.
+#[test]
+fn command_line_interval_and_plan() {
+    let dir = std::env::temp_dir().join(format!("bilin-interval-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let f = dir.join("odd.json");
+    // slices [[3,5],[7,1]] and [[1,3],[5,9]] along the result axis
+    std::fs::write(
+        &f,
+        r#"{"kind":"bilinear","dims":[2,2,2],"entries":[[0,0,0,3],[0,1,0,5],[1,0,0,7],[1,1,0,1],[0,0,1,1],[0,1,1,3],[1,0,1,5],[1,1,1,9]]}"#,
+    )
+    .unwrap();
+    let fs = f.to_str().unwrap();
+    let (code, out, err) = bilin(&["bounds", fs]);
+    assert_eq!(code, 0, "{err}");
+    // Alder-Strassen through the unital isotope: R >= 2 * 2 - 1
+    assert!(out.contains("3 <= R <= 4 over Q"), "{out}");
+    let (code, out, err) = bilin(&["search", fs, "--rank", "8", "--time", "10"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        err.contains("answered at once") && out.contains("\"rank\":4"),
+        "{err}"
+    );
+    let (code, out, err) = bilin(&["search", fs, "--rank", "2"]);
+    assert_eq!(code, 1, "{err}");
+    assert!(err.contains("below the proven lower bound R >= 3"), "{err}");
+    assert!(out.contains("\"rank\":4"), "{out}");
+    let (code, _, err) = bilin(&[
+        "search",
+        fs,
+        "--rank",
+        "3",
+        "--time",
+        "20",
+        "--threads",
+        "1",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    // mod 2 every entry is 1 (flattening ranks drop to 1); mod 3 they are kept
+    assert!(err.contains("method auto: reduced mod 3"), "{err}");
+    let (code, out, _) = bilin(&["analyze", "matmul:2,2,2", "--no-invariants"]);
+    assert_eq!(code, 0);
+    assert!(out.contains("R = 7 over Q"), "{out}");
+    std::fs::remove_dir_all(&dir).ok();
+}
