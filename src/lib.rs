@@ -5,7 +5,10 @@
 //!    factorization of integer polynomials over Q;
 //! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
 //! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
-//! 4. [`scheme`]: bilinear algorithms and their exact verification;
+//! 4. [`laws`], [`invariants`], [`ranks`]: identities, invariant algebras and rank bounds;
+//!    [`iso`]: explicit isomorphisms, verified exactly; [`catalog`]: known algebras and
+//!    identification against them;
+//!    [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
 //! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures),
@@ -19,6 +22,7 @@ pub mod error;
 pub mod generators;
 pub mod input;
 pub mod invariants;
+pub mod iso;
 pub mod laws;
 pub mod linalg;
 pub mod output;
