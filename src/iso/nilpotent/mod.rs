@@ -14,8 +14,10 @@
 //! The images are chosen in turn. Each y_i is looked for inside the characteristic
 //! subspace of X that corresponds to the smallest characteristic subspace of E holding
 //! g_i; the family of characteristic subspaces is built the same way in both algebras:
-//! the terms of the lower and upper central series, their centralisers, and the pairwise
-//! intersections of these. The relations that involve g_i (and earlier generators only)
+//! the terms of the lower and upper central series, the subspaces that the derivation
+//! algebra cuts out ([`derivations`]: the images of Der and of the kernel N of its trace
+//! form, the kernels of N), their centralisers modulo each term of the lower central
+//! series ({x : [x, S] ⊆ L^k}), and the pairwise intersections of these. The relations that involve g_i (and earlier generators only)
 //! are polynomial in y_i; their affine-linear part is read off exactly (interpolation in a
 //! scaling parameter) and solved; a seeded random point of the solution space is then
 //! checked against the full relations, exactly. Choices that fail are retried and, when a
@@ -27,10 +29,12 @@
 //! Invariant: every returned matrix has passed that exact check.
 //!
 //! Files: [`space`] (the exact subspace operations and the characteristic family),
+//! [`derivations`] (the members cut out by the derivation algebra),
 //! [`words`] (words and relations of E), [`adapted`] (X's basis by layers), [`search`]
 //! (the images generator by generator), [`lifting`] (deeper layers and the obstruction).
 
 mod adapted;
+mod derivations;
 mod lifting;
 mod search;
 mod space;
@@ -116,7 +120,7 @@ pub fn find_nilpotent_isomorphism(
     let e2 = le.lower_central().get(1).cloned().unwrap_or_default();
     let adapted = Adapted::new(&lx)?;
     // the smallest member of the family holding each basis vector of E
-    let smallest = |v: &[Q]| -> (usize, Subspace) {
+    let smallest = |v: &[Q]| -> (Subspace, Subspace) {
         let (mut se, mut sx) = (le.whole(), lx.whole());
         for (a, b) in fe.iter().zip(&fx) {
             if le.contains(a, v) {
@@ -124,12 +128,12 @@ pub fn find_nilpotent_isomorphism(
                 sx = lx.intersect(&sx, b);
             }
         }
-        (se.len(), sx)
+        (se, sx)
     };
     let mut order: Vec<(usize, usize, Subspace)> = (0..n)
         .map(|i| {
-            let (d, sx) = smallest(&le.unit(i));
-            (d, i, sx)
+            let (se, sx) = smallest(&le.unit(i));
+            (se.len(), i, sx)
         })
         .collect();
     // the most general generators first: the scale of a special one is then a rational
@@ -139,10 +143,10 @@ pub fn find_nilpotent_isomorphism(
     let mut places = Vec::new();
     let mut span = e2;
     for (_, i, sx) in order {
-        let g = le.unit(i);
-        if le.contains(&span, &g) {
+        if le.contains(&span, &le.unit(i)) {
             continue;
         }
+        let g = le.unit(i);
         span.push(g.clone());
         gens.push(g);
         let lead: Vec<Vector> = sx.iter().map(|v| adapted.layer_part(v, 1)).collect();

@@ -82,15 +82,22 @@ impl Lie<'_> {
         self.span(v)
     }
 
-    /// The centraliser {x : [x, s] = 0 for s in S}.
-    pub(super) fn centraliser(&self, s: &Subspace) -> Subspace {
+    /// The centraliser of S modulo T, {x : [x, s] in T for s in S} (T = 0: the
+    /// centraliser).
+    pub(super) fn centraliser_modulo(&self, s: &Subspace, t: &Subspace) -> Subspace {
+        // the functionals vanishing on T
+        let perp = self.solutions(t.clone());
         let mut rows = Vec::new();
         for b in s {
             let cols: Vec<Vector> = (0..self.n)
                 .map(|j| self.bracket(&self.unit(j), b))
                 .collect();
-            for k in 0..self.n {
-                rows.push(cols.iter().map(|c| c[k].clone()).collect());
+            for p in &perp {
+                rows.push(
+                    cols.iter()
+                        .map(|c| c.iter().zip(p).map(|(a, b)| a * b).sum())
+                        .collect(),
+                );
             }
         }
         self.solutions(rows)
@@ -143,7 +150,16 @@ impl Lie<'_> {
     pub(super) fn characteristic_family(&self) -> Vec<Subspace> {
         let mut base = self.lower_central();
         base.extend(self.upper_central());
-        let cents: Vec<Subspace> = base.iter().map(|s| self.centraliser(s)).collect();
+        base.extend(super::derivations::derivation_subspaces(self).unwrap_or_default());
+        // the centralisers of the members modulo each term of the lower central series,
+        // {x : [x, S] ⊆ L^k} (the plain centraliser for the last term, 0)
+        let lower = self.lower_central();
+        let mut cents: Vec<Subspace> = Vec::new();
+        for s in &base {
+            for t in &lower[1..] {
+                cents.push(self.centraliser_modulo(s, t));
+            }
+        }
         base.extend(cents);
         let mut family: Vec<Subspace> = Vec::new();
         let add = |s: Subspace, family: &mut Vec<Subspace>| {
