@@ -211,7 +211,10 @@ fn entries_are_identified_after_a_change_of_basis_with_large_coefficients() {
 /// L_{5,8} needs the subspaces cut out by the derivations).
 #[test]
 fn nilpotent_entries_get_an_explicit_isomorphism_in_a_random_basis() {
-    for (k, name) in ["L_{4,3}", "L_{5,6}", "L_{5,8}", "L_{6,26}"].iter().enumerate() {
+    for (k, name) in ["L_{4,3}", "L_{5,6}", "L_{5,8}", "L_{6,26}"]
+        .iter()
+        .enumerate()
+    {
         let e = catalog::find_entry(name).unwrap();
         let t = e.tensor().unwrap();
         let n = t.dim();
