@@ -6,7 +6,9 @@
 //! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
 //! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
 //! 4. [`laws`], [`invariants`], [`structure`] (blocks, radicals, simple components, Lie
-//!    structure), [`ranks`]; [`scheme`]: bilinear algorithms and their exact verification;
+//!    structure), [`ranks`]; [`iso`]: explicit isomorphisms, verified exactly;
+//!    [`catalog`]: known algebras and identification against them;
+//!    [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
 //! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures),
@@ -22,6 +24,7 @@ pub mod generators;
 pub mod input;
 pub mod interval;
 pub mod invariants;
+pub mod iso;
 pub mod laws;
 pub mod linalg;
 pub mod output;

@@ -6,10 +6,9 @@
 //! that has been found and checked proves it.
 
 use super::fingerprint::{Fingerprint, FingerprintParams, compute_fingerprint};
-use super::iso::{IsoParams, find_isomorphism};
-use super::lie_iso::{LieIsoParams, find_nilpotent_isomorphism};
 use super::store::{Entry, all_entries};
 use crate::error::Error;
+use crate::iso::{IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism};
 use crate::linalg::Matrix;
 use crate::scalar::Q;
 use crate::tensor::Tensor;

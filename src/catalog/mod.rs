@@ -8,7 +8,7 @@
 //! - [`store`]: the embedded entries, lookup by name, each entry's tensor;
 //! - [`fingerprint`]: invariant (key, value) lists, computed exactly;
 //! - [`facts`]: recomputing the stored facts;
-//! - [`identify`]: matching fingerprints and explicit isomorphisms ([`iso`]);
+//! - [`identify`]: matching fingerprints and explicit isomorphisms ([`crate::iso`]);
 //! - [`schemes`]: known schemes stored with the entries, verified exactly;
 //! - [`doc`]: the reference page docs/catalog.md, generated from the entries.
 
@@ -18,18 +18,15 @@ mod entries;
 pub mod facts;
 pub mod fingerprint;
 pub mod identify;
-pub mod iso;
-pub mod lie_iso;
 pub mod meta;
 pub mod rank_facts;
 pub mod schemes;
 pub mod store;
 
+pub use crate::iso::{IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism};
 pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};
 pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
-pub use iso::{IsoParams, find_isomorphism};
-pub use lie_iso::{LieIsoParams, find_nilpotent_isomorphism};
 pub use meta::{Fact, Meta, parse_meta};
 pub use schemes::{STORED_SCHEMES, StoredScheme, find_stored, stored_schemes};
 pub use store::{

@@ -12,7 +12,8 @@
 //! X's structure constants exactly. The search is bounded by a node budget; "not found"
 //! means not found with these coordinates and budget, not "not isomorphic".
 
-use crate::linalg::{Matrix, solve};
+use super::{express, same_constants};
+use crate::linalg::Matrix;
 use crate::scalar::{Field, FieldSpec, Q};
 use crate::tensor::{IntegralTensor, Kind, Tensor, change_basis_algebra, rank_over};
 use num_traits::Zero;
@@ -86,29 +87,6 @@ impl Default for IsoParams {
             max_dim: 4,
         }
     }
-}
-
-/// Coefficients of `v` in the span of `cols`, if it lies there.
-pub(super) fn express(field: crate::scalar::FieldSpec, cols: &[Vec<Q>], v: &[Q]) -> Option<Vec<Q>> {
-    let n = v.len();
-    if cols.is_empty() {
-        return if v.iter().all(|x| x.is_zero()) {
-            Some(Vec::new())
-        } else {
-            None
-        };
-    }
-    crate::with_field!(field, f => {
-        let mut data = Vec::with_capacity(n * cols.len());
-        for r in 0..n {
-            for c in cols {
-                data.push(f.from_rational(&c[r]).expect("in field"));
-            }
-        }
-        let m = Matrix { rows: n, cols: cols.len(), data };
-        let b: Vec<_> = v.iter().map(|x| f.from_rational(x).expect("in field")).collect();
-        solve(f, &m, &b).map(|x| x.iter().map(|y| f.to_rational(y)).collect())
-    })
 }
 
 fn combine(d: &Alg, coeffs: &[Q], vecs: &[Vec<Q>]) -> Vec<Q> {
@@ -301,13 +279,6 @@ pub fn find_isomorphism(x: &Tensor, e: &Tensor, params: &IsoParams) -> Option<Ma
     };
     let y = change_basis_algebra(e, &mat)?;
     same_constants(&y, x).then_some(mat)
-}
-
-/// Whether two tensors have the same structure constants, coefficient by coefficient.
-pub(super) fn same_constants(a: &Tensor, b: &Tensor) -> bool {
-    a.entries()
-        .map(|(i, j, k, v)| (i, j, k, v.clone()))
-        .eq(b.entries().map(|(i, j, k, v)| (i, j, k, v.clone())))
 }
 
 fn backtrack(
