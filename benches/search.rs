@@ -86,6 +86,8 @@ fn case(name: &str, t: &Tensor, method: Method, r: usize, seeds: u64, threads: u
             seed,
             threads,
             time_limit: Some(Duration::from_secs_f64(limit)),
+            // the walk itself is measured: from the standard scheme
+            known_start: false,
             ..Params::default()
         };
         let stop = Arc::new(AtomicBool::new(false));

@@ -145,8 +145,12 @@ pub fn run(a: &Args) -> i32 {
             ),
         }
     }
+    let built = built_upper(&t);
     if a.json {
         let v = serde_json::json!({
+            "upper_built": built.as_ref().map(|(f, r, how)| serde_json::json!({
+                "format": f, "rank": r, "how": how,
+            })),
             "input": a.input,
             "field": t.field().name(),
             "dims": t.dims(),
@@ -170,5 +174,20 @@ pub fn run(a: &Args) -> i32 {
     for line in bilin::report::sections::bounds_lines(&b) {
         println!("  {line}");
     }
+    if let Some(([n, m, p], r, how)) = built {
+        println!(
+            "upper bound: R <= {r}, a scheme built as {how}, verified exactly \
+             (`bilin scheme build matmul:{n},{m},{p}`)"
+        );
+    }
     EXIT_OK
+}
+
+/// For the matrix multiplication tensor <n,m,p> in the generator's basis: the format, the
+/// rank of the best scheme built from the catalog's stored schemes (verified exactly) and
+/// how it is built.
+fn built_upper(t: &Tensor) -> Option<([usize; 3], usize, String)> {
+    let f = bilin::scheme::build::matmul_format_of(t)?;
+    let b = bilin::catalog::schemes::best_matmul_scheme(f, t.field()).ok()?;
+    Some((f, b.scheme.rank(), b.how))
 }
