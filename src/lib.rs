@@ -1,11 +1,12 @@
 //! bilin: exact analysis of bilinear products.
 //!
 //! Layers, each importing only from the ones before it:
-//! 1. [`scalar`]: the fields Q and GF(p); [`poly`]: polynomials over GF(p) and Z, and the
-//!    factorization of integer polynomials over Q;
+//! 1. [`scalar`]: the fields Q and GF(p); [`poly`]: univariate polynomials and their
+//!    factorisation over GF(p) and Q;
 //! 2. [`linalg`]: exact dense linear algebra, with a multi-modular fast path over Q;
 //! 3. [`tensor`]: structure tensors, flattenings, slices, change of basis;
-//! 4. [`scheme`]: bilinear algorithms and their exact verification;
+//! 4. [`laws`], [`invariants`], [`structure`] (blocks, radicals, simple components, Lie
+//!    structure), [`ranks`]; [`scheme`]: bilinear algorithms and their exact verification;
 //!    [`search`]: searches for low-rank schemes, every result verified exactly.
 //!
 //! 5. reports over those: [`report`] (text and JSON), [`picture`] (SVG pictures),
@@ -30,6 +31,7 @@ pub mod scalar;
 pub mod scheme;
 pub mod search;
 pub mod site;
+pub mod structure;
 pub mod tensor;
 
 pub use error::{Error, Result};

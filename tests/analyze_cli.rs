@@ -36,7 +36,7 @@ fn octonions_text_and_json() {
         .unwrap();
     assert!(line.contains("yes"), "{line}");
     let j = json(&["analyze", "octonions"]);
-    assert_eq!(j["schema"], "bilin.analyze/1");
+    assert_eq!(j["schema"], "bilin.analyze/2");
     assert_eq!(j["input"]["dims"], serde_json::json!([8, 8, 8]));
     assert_eq!(law(&j, "associative")["holds"], false);
     assert!(law(&j, "associative")["witness"]["value"].is_string());
@@ -154,7 +154,28 @@ fn invariants_and_bounds_sections() {
         .find(|s| s["id"] == "lower-bounds")
         .expect("bounds section");
     assert_eq!(lb["data"]["best"], 7);
-    let j = json(&["analyze", "quaternions", "--no-invariants", "--no-bounds"]);
+    let j = json(&[
+        "analyze",
+        "quaternions",
+        "--no-invariants",
+        "--no-bounds",
+        "--no-structure",
+    ]);
+    // left: the structure section with the verdicts decided with the laws, without `split`
+    let extra = j["extra"].as_array().unwrap();
+    assert_eq!(extra.len(), 1, "{j}");
+    assert_eq!(extra[0]["id"], "structure");
+    assert!(extra[0]["data"]["split"].is_null(), "{j}");
+    assert_eq!(extra[0]["data"]["properties"].as_array().unwrap().len(), 3);
+    let j = json(&[
+        "analyze",
+        "quaternions",
+        "--no-invariants",
+        "--no-bounds",
+        "--no-structure",
+        "--laws",
+        "none",
+    ]);
     assert!(j["extra"].as_array().unwrap().is_empty());
     let (code, _, err) = run(&["analyze", "quaternions", "--invariants", "nonsense"]);
     assert_eq!(code, 2, "{err}");

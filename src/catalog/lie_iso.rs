@@ -458,7 +458,7 @@ impl Search<'_> {
                 Some(p) => p
                     .iter()
                     .find(|c| c.iter().any(|x| !x.is_zero()))
-                    .map(|c| crate::poly::factor::rational_roots(c))
+                    .map(|c| crate::poly::rational::rational_roots(c))
                     .unwrap_or_default(),
                 None => Vec::new(),
             }

@@ -1,6 +1,6 @@
 //! `bilin analyze INPUT [--json] [--field F] [--laws a,b] [--expect a,!b] [--seed N]`: laws,
 //! ranks and the rest of the analysis of one product, as text or JSON (schema
-//! `bilin.analyze/1`). With `--expect`, exit code 1 when a claimed law verdict is false, and
+//! `bilin.analyze/2`). With `--expect`, exit code 1 when a claimed law verdict is false, and
 //! `all N claims hold` on standard error when every one is true.
 
 use super::common::{generators_help, load_with, report_error};
@@ -19,7 +19,7 @@ pub struct Args {
     /// A file (table format or JSON), a generator spec such as `octonions` or
     /// `matmul:2,2,2`, or a catalog name.
     pub input: String,
-    /// Print the report as JSON (schema `bilin.analyze/1`, see docs/report-json.md).
+    /// Print the report as JSON (schema `bilin.analyze/2`, see docs/report-json.md).
     #[arg(long)]
     pub json: bool,
     /// Read the input over this field (`Q` or `GF(p)`).
@@ -50,6 +50,10 @@ pub struct Args {
     /// Leave out the lower bounds for the tensor rank.
     #[arg(long)]
     pub no_bounds: bool,
+    /// Leave out the structure section (blocks, radical and simple components, Lie
+    /// structure; see `bilin split`).
+    #[arg(long)]
+    pub no_structure: bool,
     /// Also write a picture of the tensor (its slices, SVG) to this file.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<String>,
@@ -115,6 +119,12 @@ pub fn run(args: Args) -> i32 {
             inv.solve.max_memory = m;
         }
         params.invariants = Some(inv);
+    }
+    if !args.no_structure {
+        params.structure = Some(bilin::structure::StructureParams {
+            seed: args.seed,
+            ..Default::default()
+        });
     }
     if !args.no_bounds {
         params.bounds = Some(BoundsParams {

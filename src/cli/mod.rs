@@ -22,6 +22,7 @@ mod outputs;
 mod scheme;
 mod scheme_io;
 mod search;
+mod split;
 mod transform;
 mod verify;
 
@@ -56,6 +57,9 @@ enum Command {
     Scheme(scheme::Args),
     /// Invariant algebras: centre, nuclei, centroid, derivations, radical, ... (exact).
     Invariants(invariants::Args),
+    /// What a product is made of: indecomposable blocks, radical and simple components,
+    /// Lie radicals, Levi factor and Cartan subalgebra (exact, checked).
+    Split(split::Args),
     /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
     Search(search::SearchArgs),
     /// Keep the lowest-rank verified scheme among result and checkpoint files.
@@ -146,6 +150,7 @@ fn dispatch() -> i32 {
         Command::Emit(a) => emit::run(&a),
         Command::Scheme(a) => scheme::run(&a),
         Command::Invariants(a) => invariants::run(a),
+        Command::Split(a) => split::run(a),
         Command::Search(a) => search::run(a),
         Command::Merge(a) => merge::run(a),
         Command::Catalog(a) => catalog::run(a),

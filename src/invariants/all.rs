@@ -160,6 +160,8 @@ pub struct Invariants {
     /// `Some(None)`: no unit.
     pub unit: Option<Option<Vec<Q>>>,
     pub centroid: Option<Centroid>,
+    /// Whether the centroid is a field, with its degree and a defining polynomial.
+    pub centroid_field: Option<crate::structure::FieldDecision>,
     pub derivations: Option<Derivations>,
     pub adjoint: Option<Space>,
     pub radical: Option<RadicalPart>,
@@ -241,8 +243,23 @@ pub fn compute_invariants(
         let mut compute = || -> Result<()> {
             match part {
                 Part::Centre => {
-                    r.commutative_centre = Some(es(ElementSpace::CommutativeCentre)?);
-                    r.centre = Some(es(ElementSpace::Centre)?);
+                    let comm = es(ElementSpace::CommutativeCentre)?;
+                    // in an associative algebra (proven by the law engine) every element
+                    // associates with everything, so Z(A) = Comm(A)
+                    r.centre = Some(if r.associative == Some(true) {
+                        comm.clone()
+                    } else {
+                        es(ElementSpace::Centre)?
+                    });
+                    r.commutative_centre = Some(comm);
+                }
+                Part::Nuclei if r.associative == Some(true) => {
+                    // every associator vanishes: each nucleus is A itself
+                    let whole = Space::whole(n);
+                    r.left_nucleus = Some(whole.clone());
+                    r.middle_nucleus = Some(whole.clone());
+                    r.right_nucleus = Some(whole.clone());
+                    r.nucleus = Some(whole);
                 }
                 Part::Nuclei => {
                     r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
@@ -256,7 +273,16 @@ pub fn compute_invariants(
                     r.annihilator = Some(es(ElementSpace::Annihilator)?);
                 }
                 Part::Unit => r.unit = Some(unit(&it, sp)?),
-                Part::Centroid => r.centroid = Some(centroid(t, &it, sp)?),
+                Part::Centroid => {
+                    let mut c = centroid(t, &it, sp)?;
+                    let decision = crate::structure::centroid_is_field(t, &c.space, sp)?;
+                    c.field = Some(matches!(
+                        decision,
+                        crate::structure::FieldDecision::Field { .. }
+                    ));
+                    r.centroid_field = Some(decision);
+                    r.centroid = Some(c);
+                }
                 Part::Derivations => {
                     let space = derivations(&it, sp)?;
                     let inner_lie = if r.associative == Some(true) {
@@ -286,11 +312,9 @@ pub fn compute_invariants(
                     } else {
                         match radical(t, &it, sp)? {
                             Some(rad) => RadicalPart::Computed(rad),
-                            None => RadicalPart::NotAvailable(
-                                "not available over GF(p): the trace-form criterion needs \
-                             characteristic 0"
-                                    .into(),
-                            ),
+                            None => {
+                                RadicalPart::NotAvailable("not available over this field".into())
+                            }
                         }
                     })
                 }

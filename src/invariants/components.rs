@@ -9,7 +9,7 @@
 //! degree d (z generates Z; otherwise another z is drawn), Z is isomorphic to `Q[t]/(m)`,
 //! m the minimal polynomial of z. Z is semisimple exactly when m is squarefree, and then
 //! its simple components are the fields `Q[t]/(g)` for the irreducible factors g of m
-//! ([`crate::poly::factor_over_q`]), so the sorted degrees of the factors are an invariant.
+//! ([`crate::poly::rational::factor_rational`]), so the sorted degrees of the factors are an invariant.
 //! The trace form `(x, y) -> Tr_Z(x y)` of Z, in the basis `1, t, ..., t^(d-1)` the Hankel
 //! matrix of the power sums of the roots of m (Newton's identities), gives the signature
 //! `(r1 + r2, r2)` (r1 real, r2 pairs of complex embeddings of the components) and the
@@ -94,12 +94,11 @@ pub fn centre_components(
         let Some(m) = minimal_polynomial(it, &one, &z, d, &params.solve)? else {
             continue;
         };
-        let mi = crate::poly::factor::from_rationals(&m);
-        if !crate::poly::is_squarefree(&mi) {
+        let factors = crate::poly::rational::factor_rational(&m)?.factors;
+        if factors.iter().any(|(_, mult)| *mult > 1) {
             return Ok(None);
         }
-        let factors = crate::poly::factor_over_q(&mi).map_err(crate::Error::Invalid)?;
-        let mut degrees: Vec<usize> = factors.iter().map(|g| g.len() - 1).collect();
+        let mut degrees: Vec<usize> = factors.iter().map(|(g, _)| g.len() - 1).collect();
         degrees.sort_unstable();
         let trace = form_invariants(FieldSpec::Rational, &hankel_trace_form(&m));
         return Ok(Some(CentreComponents { degrees, trace }));

@@ -241,7 +241,8 @@ fn candidate_mod(
     p: u64,
     order: &[(usize, usize)],
     pairs_fed: usize,
-) -> Option<Candidate> {
+    probe_seed: Option<u64>,
+) -> Option<Found> {
     let residues = it.residues(p);
     let t = &*residues;
     let n = it.dims[0];
@@ -361,15 +362,127 @@ fn candidate_mod(
         }
         maps.push(x);
     }
+    if let Some(seed) = probe_seed {
+        let broken = violated_pairs(t, kind, &wv, &maps, seed, 2 * s + 2);
+        if !broken.is_empty() {
+            return Some(Found::Broken(broken));
+        }
+    }
     // canonical form: reduced echelon form of the candidate maps
     let k = maps.len();
     let mut data: Vec<u64> = maps.iter().flatten().map(|&x| x as u64).collect();
     let piv = rref_mod(&mut data, k, n * n, p, true);
     let r = piv.len();
-    Some(Candidate {
+    Some(Found::Candidate(Candidate {
         pivots: piv,
         rows: data[..r * n * n].iter().map(|&x| x as u32).collect(),
-    })
+    }))
+}
+
+/// What one prime gives: the candidate space, or word pairs where a random combination
+/// of the candidates breaks the rule (so more pairs must be fed).
+enum Found {
+    Candidate(Candidate),
+    Broken(Vec<(usize, usize)>),
+}
+
+/// Rounds of [`violated_pairs`] before pairs are only fed in the seeded order.
+const MAX_PROBE_ROUNDS: u64 = 16;
+
+/// Largest dimension for which [`violated_pairs`] is run (its dense table has n^3 words).
+const MAX_PROBE_DIM: usize = 320;
+
+/// Word pairs `(a, b)` at which a seeded random combination `X` of the candidate maps
+/// breaks the defining rule modulo p, at most `limit` of them (seeded choice), or none.
+/// The defect `V(x, y)` (for a derivation `X(xy) - X(x)y - xX(y)`; for the centroid both
+/// `X(xy) - X(x)y` and `X(xy) - xX(y)`) is bilinear, so it vanishes on every pair of words
+/// iff it vanishes on every pair of basis elements; it is computed on basis pairs by
+/// matrix products and carried to word pairs as `W V W^T` (rows of `W`: the words).
+/// A random combination breaks the rule wherever some candidate does, except with
+/// probability about 1/p. `maps[f][l n + j]` is the coefficient of `e_l` in `X_f(e_j)`.
+/// Cost: about 5 n^4 multiply-adds modulo p (7 n^4 for the centroid), n^3 words.
+fn violated_pairs(
+    t: &ModTable,
+    kind: Kind,
+    wv: &[Vec<u32>],
+    maps: &[Vec<u32>],
+    seed: u64,
+    limit: usize,
+) -> Vec<(usize, usize)> {
+    use rayon::prelude::*;
+    let n = t.dims[0];
+    let p = t.p;
+    if maps.is_empty() || n > MAX_PROBE_DIM {
+        return Vec::new();
+    }
+    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+    // X = sum r_f X_f; xt[a][b] = X[b][a]
+    let mut acc = LazyAcc::new(n * n, p);
+    for m in maps {
+        acc.axpy(rng.gen_range(1..p) as u32, m);
+    }
+    let x: Vec<u32> = acc.finish().iter().map(|&v| v as u32).collect();
+    let xt: Vec<u32> = (0..n * n).map(|ab| x[(ab % n) * n + ab / n]).collect();
+    // the dense table c[(i n + j) n + k]
+    let mut c = vec![0u32; n * n * n];
+    for i in 0..n {
+        for j in 0..n {
+            let (ks, vs) = t.row(i, j);
+            for (&k, &v) in ks.iter().zip(vs) {
+                c[(i * n + j) * n + k as usize] = v;
+            }
+        }
+    }
+    let w: Vec<u32> = wv.iter().flatten().copied().collect();
+    let width = match kind {
+        Kind::Derivations => n,
+        Kind::Centroid => 2 * n,
+    };
+    let sub = |a: &[u32], b: &[u32]| -> Vec<u32> {
+        a.iter()
+            .zip(b)
+            .map(|(&u, &v)| ((u as u64 + p - v as u64) % p) as u32)
+            .collect::<Vec<u32>>()
+    };
+    // u[i][(b, k)] = sum_j W[b][j] V(e_i, e_j)[k]
+    let u: Vec<u32> = (0..n)
+        .into_par_iter()
+        .flat_map_iter(|i| {
+            let ci = &c[i * n * n..(i + 1) * n * n];
+            // X(e_i e_j)[k] = sum_l c[i][j][l] X[k][l]
+            let t1 = mat_mul(ci, &xt, n, n, n, p);
+            // (X(e_i) e_j)[k] = sum_l X[l][i] c[l][j][k]
+            let mut acc = LazyAcc::new(n * n, p);
+            acc.vec_mat(&xt[i * n..(i + 1) * n], &c);
+            let t2: Vec<u32> = acc.finish().iter().map(|&v| v as u32).collect();
+            // (e_i X(e_j))[k] = sum_l X[l][j] c[i][l][k]
+            let t3 = mat_mul(&xt, ci, n, n, n, p);
+            let v: Vec<u32> = match kind {
+                Kind::Derivations => sub(&sub(&t1, &t2), &t3),
+                Kind::Centroid => {
+                    let (a, b) = (sub(&t1, &t2), sub(&t1, &t3));
+                    (0..n)
+                        .flat_map(|j| {
+                            a[j * n..(j + 1) * n]
+                                .iter()
+                                .chain(&b[j * n..(j + 1) * n])
+                                .copied()
+                        })
+                        .collect()
+                }
+            };
+            mat_mul(&w, &v, n, n, width, p)
+        })
+        .collect();
+    // V(w_a, w_b) = sum_i W[a][i] u[i][(b, k)]
+    let vw = mat_mul(&w, &u, n, n, n * width, p);
+    let mut broken: Vec<(usize, usize)> = (0..n * n)
+        .filter(|&ab| vw[ab * width..(ab + 1) * width].iter().any(|&v| v != 0))
+        .map(|ab| (ab / n, ab % n))
+        .collect();
+    broken.shuffle(&mut rng);
+    broken.truncate(limit);
+    broken
 }
 
 /// The derivation algebra or the centroid through generators, proven by the exact check
@@ -417,9 +530,23 @@ pub fn solve_by_generators(
     );
     let s = words.gens.len();
     let mut fed = (2 * s).max(4).min(order.len());
+    // rounds in which pairs where the candidates break the rule are fed first
+    let mut probes = 0u64;
     loop {
-        if let Some(space) = lift(it, &words, kind, &primes, &order, fed, &plain)? {
-            return Ok(Some(space));
+        let probe_seed = (probes < MAX_PROBE_ROUNDS).then_some(params.seed ^ probes);
+        match lift(it, &words, kind, &primes, &order, fed, &plain, probe_seed)? {
+            Lifted::Space(space) => return Ok(Some(space)),
+            Lifted::Broken(pairs) => {
+                probes += 1;
+                for pair in pairs {
+                    if let Some(pos) = order[fed..].iter().position(|&q| q == pair) {
+                        order.swap(fed, fed + pos);
+                        fed += 1;
+                    }
+                }
+                continue;
+            }
+            Lifted::Failed => {}
         }
         if fed == order.len() {
             return Ok(None);
@@ -428,7 +555,18 @@ pub fn solve_by_generators(
     }
 }
 
+/// What [`lift`] gives: the proven space, word pairs to feed first (the candidates of the
+/// first prime break the rule there), or nothing (more pairs are needed).
+enum Lifted {
+    Space(Space),
+    Broken(Vec<(usize, usize)>),
+    Failed,
+}
+
 /// Candidates modulo successive primes, combined and reconstructed, checked exactly.
+/// With `probe_seed`, the first prime's candidates are first probed for pairs where they
+/// break the rule ([`violated_pairs`]).
+#[allow(clippy::too_many_arguments)]
 fn lift(
     it: &IntegralTensor,
     words: &Words,
@@ -437,7 +575,8 @@ fn lift(
     order: &[(usize, usize)],
     fed: usize,
     plain: &System,
-) -> Result<Option<Space>> {
+    probe_seed: Option<u64>,
+) -> Result<Lifted> {
     let n = it.dims[0];
     let nn = n * n;
     let exact_field = it.modulus().is_some();
@@ -452,8 +591,11 @@ fn lift(
         if modulus.bits() > cap {
             break;
         }
-        let Some(c) = candidate_mod(it, words, kind, p, order, fed) else {
-            continue;
+        let probe = if best.is_none() { probe_seed } else { None };
+        let c = match candidate_mod(it, words, kind, p, order, fed, probe) {
+            None => continue,
+            Some(Found::Broken(pairs)) => return Ok(Lifted::Broken(pairs)),
+            Some(Found::Candidate(c)) => c,
         };
         let better = match &best {
             None => true,
@@ -506,7 +648,7 @@ fn lift(
         let stable = exact_field || basis.is_some();
         if stable && let Some(basis) = &basis {
             if check_solutions(plain, basis)? {
-                return Ok(Some(Space {
+                return Ok(Lifted::Space(Space {
                     unknowns: nn,
                     basis: basis.clone(),
                 }));
@@ -514,13 +656,13 @@ fn lift(
             // the same reconstruction from two moduli, and still not a solution: the
             // candidate space itself is too large (too few pairs fed), not its lift
             if previous_basis.as_ref() == Some(basis) {
-                return Ok(None);
+                return Ok(Lifted::Failed);
             }
             previous_basis = Some(basis.clone());
         }
         if exact_field {
-            return Ok(None);
+            return Ok(Lifted::Failed);
         }
     }
-    Ok(None)
+    Ok(Lifted::Failed)
 }

@@ -9,7 +9,8 @@
 //!
 //! - [`elements`]: centre, commutative centre, nuclei, annihilators, unit;
 //! - [`maps`]: centroid, derivations, inner derivations, adjoint algebra;
-//! - [`radical`]: radical of an associative algebra over Q (trace form), semisimple quotient;
+//! - [`radical`]: radical of an associative algebra over Q (trace form) and over GF(p)
+//!   ([`radical_modp`]), semisimple quotient ([`quotient`]);
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
 //! - [`central`]: the upper central series;
 //! - [`components`]: the simple components of a semisimple centre (field degrees);
@@ -28,7 +29,9 @@ pub mod lie;
 pub mod maps;
 #[cfg(test)]
 mod properties;
+pub mod quotient;
 pub mod radical;
+pub mod radical_modp;
 pub mod spans;
 pub mod structure;
 #[cfg(test)]

@@ -244,6 +244,7 @@ fn over_prime_fields() {
             element_space(&it, ElementSpace::Centre, &sp).unwrap().dim(),
             1
         );
-        assert!(radical(&t, &it, &sp).unwrap().is_none());
+        // M_2 is simple over every field: radical 0 (common practice)
+        assert_eq!(radical(&t, &it, &sp).unwrap().unwrap().space.dim(), 0);
     }
 }

@@ -1,29 +1,33 @@
-//! The (Jacobson) radical of a finite-dimensional associative algebra over Q, by Dickson's
-//! trace-form criterion, and the semisimple quotient.
+//! The (Jacobson) radical of a finite-dimensional associative algebra, in every
+//! characteristic, and the semisimple quotient.
 //!
-//! Criterion (char 0): `rad A = {x : Tr(L_{xy}) = 0 for all y in A}` with `L` the left
-//! regular representation. Proof sketch: `T(x, y) = Tr(L_x L_y)` is symmetric and
-//! associative (`T(xy, z) = T(x, yz)`), so its radical I is an ideal; for x in I,
-//! `Tr(L_x^k) = 0` for all k >= 1, so in characteristic 0 `L_x` is nilpotent and so is x
-//! (`L_x^k 1 = x^k` in the unital hull), hence I is a nil ideal, I ⊆ rad A; conversely
+//! Over Q, Dickson's trace-form criterion (char 0): `rad A = {x : Tr(L_{xy}) = 0 for all
+//! y in A}` with `L` the left regular representation. Proof sketch: `T(x, y) = Tr(L_x L_y)`
+//! is symmetric and associative (`T(xy, z) = T(x, yz)`), so its radical I is an ideal; for
+//! x in I, `Tr(L_x^k) = 0` for all k >= 1, so in characteristic 0 `L_x` is nilpotent and so
+//! is x (`L_x^k 1 = x^k` in the unital hull), hence I is a nil ideal, I ⊆ rad A; conversely
 //! x in rad A makes `xy` nilpotent and `Tr(L_{xy}) = 0`. (Curtis and Reiner 1962,
 //! Representation Theory of Finite Groups and Associative Algebras; Pierce 1982,
 //! Associative Algebras.) The condition `Tr(L_x) = 0` (y = 1 in the unital hull) is added
-//! to the equations; it is implied by the others. Over GF(p) the criterion fails and the
-//! radical is reported as not available.
+//! to the equations; it is implied by the others.
 //!
-//! Cost: one n x n Gram system, plus the quotient's structure constants
-//! (O((n - r)^2 (nnz-row + r n))) and its centre.
+//! Over GF(p) the criterion fails (the trace of 1 may vanish); the radical is computed by
+//! the method of Cohen, Ivanyos and Wales 1997 ([`super::radical_modp`]) and checked to be
+//! a nilpotent ideal.
+//!
+//! Cost: one n x n Gram system over Q (see [`super::radical_modp`] over GF(p)), plus the
+//! quotient's structure constants (O((n - r)^2 (nnz-row + r n))) and its centre.
 
 use super::elements::{ElementSpace, element_space};
 use super::equations::{Eq, System};
+use super::radical_modp::radical_mod_p;
 use crate::error::Result;
 use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
-use crate::linalg::{Matrix, echelon};
-use crate::scalar::{FieldSpec, Q, Rationals};
+use crate::scalar::FieldSpec;
 use crate::tensor::IntegralTensor;
 use crate::tensor::Tensor;
-use num_traits::Zero;
+
+pub use super::quotient::quotient;
 
 /// The radical and the semisimple quotient A / rad A.
 #[derive(Clone, Debug)]
@@ -34,16 +38,30 @@ pub struct Radical {
     /// Dimension of the centre of A / rad A (its number of simple components over their
     /// centres' degrees, by Wedderburn's theorem).
     pub quotient_centre_dim: usize,
+    /// How the radical was computed (the criterion and its source).
+    pub method: String,
 }
 
-/// The radical of an associative algebra over Q (the caller checks associativity).
-/// `None` over GF(p) (the trace-form criterion needs characteristic 0).
-pub fn radical(t: &Tensor, it: &IntegralTensor, params: &SolveParams) -> Result<Option<Radical>> {
-    if t.field() != FieldSpec::Rational {
-        return Ok(None);
+/// The text naming the method of each characteristic.
+pub fn radical_method(field: FieldSpec) -> &'static str {
+    match field {
+        FieldSpec::Rational => "trace form Tr(L_xy), Dickson's criterion (char 0)",
+        FieldSpec::Prime(_) => {
+            "characteristic-polynomial ideals (Cohen, Ivanyos and Wales 1997), \
+             checked to be a nilpotent ideal"
+        }
     }
+}
+
+/// The radical of an associative algebra (the caller checks associativity), over Q or
+/// GF(p). Always `Some` (the option is kept for callers written when GF(p) had none).
+/// Errors: those of the engine (GF(p) with p >= 2^28).
+pub fn radical(t: &Tensor, it: &IntegralTensor, params: &SolveParams) -> Result<Option<Radical>> {
     let n = t.dim();
-    let space = solve_nullspace(&System::new(it, &[Eq::TraceForm]), params)?;
+    let space = match t.field() {
+        FieldSpec::Rational => solve_nullspace(&System::new(it, &[Eq::TraceForm]), params)?,
+        FieldSpec::Prime(_) => radical_mod_p(t, it, params)?,
+    };
     let r = space.dim();
     let q = quotient(t, &space.dense_basis());
     let qc = if q.dim() == 0 {
@@ -61,46 +79,8 @@ pub fn radical(t: &Tensor, it: &IntegralTensor, params: &SolveParams) -> Result<
         quotient_dim: n - r,
         quotient_centre_dim: qc,
         space,
+        method: radical_method(t.field()).to_string(),
     }))
-}
-
-/// The quotient algebra A / I for an ideal I with the given basis: basis the images of
-/// the e_s for s outside the pivot columns of I's reduced echelon form.
-pub fn quotient(t: &Tensor, ideal: &[Vec<Q>]) -> Tensor {
-    let n = t.dim();
-    let mut m = Matrix::from_rows(ideal.to_vec(), n);
-    let pivots = echelon::rref(&Rationals, &mut m);
-    let mut is_p = vec![false; n];
-    for &p in &pivots {
-        is_p[p] = true;
-    }
-    let keep: Vec<usize> = (0..n).filter(|&c| !is_p[c]).collect();
-    let names: Vec<String> = keep.iter().map(|&s| t.name(0, s).to_string()).collect();
-    let mut out = Tensor::algebra(t.field(), names);
-    for (a, &i) in keep.iter().enumerate() {
-        for (b, &j) in keep.iter().enumerate() {
-            let mut w = vec![Q::zero(); n];
-            for (k, c) in t.product(i, j) {
-                w[*k] = c.clone();
-            }
-            for (row, &p) in pivots.iter().enumerate() {
-                if !w[p].is_zero() {
-                    let f = w[p].clone();
-                    for (x, y) in w.iter_mut().zip(m.row(row)) {
-                        if !y.is_zero() {
-                            *x -= &f * y;
-                        }
-                    }
-                }
-            }
-            for (c, &s) in keep.iter().enumerate() {
-                if !w[s].is_zero() {
-                    out.set(a, b, c, w[s].clone());
-                }
-            }
-        }
-    }
-    out
 }
 
 #[cfg(test)]
@@ -135,5 +115,38 @@ mod tests {
         // M_2 simple: rad = 0, centre of the quotient = Q.
         let r = rad(&matrix_algebra(2));
         assert_eq!((r.space.dim(), r.quotient_centre_dim), (0, 1));
+    }
+
+    #[test]
+    fn radicals_in_characteristic_p() {
+        // F_p[x]/(x^n) is local with radical (x) in every characteristic; F_2[C_2] =
+        // F_2[x]/(x^2 - 1) = F_2[y]/(y^2) with y = x + 1 (common practice).
+        for p in [2u64, 3, 5] {
+            let t = truncated_polynomials(4)
+                .with_field(FieldSpec::Prime(p))
+                .unwrap();
+            assert_eq!(rad(&t).space.dim(), 3, "p = {p}");
+        }
+        let mut c2 = Tensor::algebra(FieldSpec::Prime(2), vec!["g0".into(), "g1".into()]);
+        for i in 0..2 {
+            for j in 0..2 {
+                c2.set(i, j, (i + j) % 2, crate::scalar::q(1, 1));
+            }
+        }
+        let r = rad(&c2);
+        assert_eq!((r.space.dim(), r.quotient_dim), (1, 1));
+        // F_p[S_3]: semisimple for p = 5, 7 (Maschke); for p = 2 the radical is the line
+        // of the sum of all group elements (F_2[S_3] = B_0 + M_2(F_2) with B_0 local of
+        // dimension 2); for p = 3 it has dimension 4 (two simple modules, both of
+        // dimension 1). Brauer theory; common practice, checked by hand.
+        for (p, want) in [(2u64, 1usize), (3, 4), (5, 0), (7, 0)] {
+            let t = group_algebra_s3().with_field(FieldSpec::Prime(p)).unwrap();
+            assert_eq!(rad(&t).space.dim(), want, "p = {p}");
+        }
+        // upper triangular 2x2 over GF(2): rad = the strictly upper part
+        let t = upper_triangular_2()
+            .with_field(FieldSpec::Prime(2))
+            .unwrap();
+        assert_eq!(rad(&t).space.dim(), 1);
     }
 }

@@ -43,6 +43,9 @@ pub struct Check {
     pub witness: Option<Witness>,
     /// That instance as indices: the sorted multiset and the linear variables' tuple.
     pub first: Option<(Vec<usize>, Vec<usize>)>,
+    /// Why the failing instances were not all counted (the identity stopped at its first
+    /// failure), if so.
+    pub partial: Option<String>,
 }
 
 /// `C(n+d-1, d) * n^m`: the number of instances (saturating).

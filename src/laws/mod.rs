@@ -157,6 +157,10 @@ pub struct Params {
     /// An identity whose estimated number of multiply-adds (for the first prime) exceeds
     /// this is skipped: reported undecided, never guessed.
     pub max_work: f64,
+    /// Failing instances are counted in full only while the estimated multiply-adds of an
+    /// identity (first prime) stay below this; above it the identity stops at its first
+    /// failure and says so (the verdict and the witness do not change).
+    pub count_work: f64,
     /// Over GF(p) with p below an identity's degree, a failing identity is also checked on
     /// every element when there are at most this many (p^n).
     pub max_pointwise_elements: u64,
@@ -168,6 +172,7 @@ impl Default for Params {
             laws: Law::ALL.to_vec(),
             stop_first: false,
             max_work: 2e11,
+            count_work: 5e7,
             max_pointwise_elements: 1 << 14,
         }
     }
@@ -289,7 +294,13 @@ fn modular_check<F: Field>(
     params: &Params,
 ) -> std::result::Result<Check, String> {
     let d = def(c);
-    let o = modular::decide(images, c, params.stop_first, params.max_work);
+    let o = modular::decide(
+        images,
+        c,
+        params.stop_first,
+        params.max_work,
+        params.count_work,
+    );
     if let Some(why) = o.skipped {
         return Err(why);
     }
@@ -306,6 +317,7 @@ fn modular_check<F: Field>(
         failures: o.failures,
         witness,
         first: o.first,
+        partial: o.partial,
     })
 }
 
@@ -461,7 +473,12 @@ fn assemble<F: Field>(
                     })
                 } else {
                     match decide(c) {
-                        Ok(res) => Some(res),
+                        Ok(res) => {
+                            if let Some(why) = &res.partial {
+                                notes.push(format!("`{}`: {why}", identity_text(&d)));
+                            }
+                            Some(res)
+                        }
                         Err(why) => {
                             notes.push(format!("`{}` not decided: {why}", identity_text(&d)));
                             None

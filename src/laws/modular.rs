@@ -53,6 +53,8 @@ pub struct Outcome {
     pub skipped: Option<String>,
     /// The primes that were needed (1 over GF(q)).
     pub primes: usize,
+    /// Why the failures were not all counted (the work was above the counting budget).
+    pub partial: Option<String>,
 }
 
 /// The residue tables of one tensor, built on demand, shared by the components.
@@ -249,7 +251,15 @@ pub fn instance_count(n: usize, c: Component) -> u128 {
 
 /// Decide one component (see the module documentation). `max_work` bounds the estimated
 /// multiply-adds of the first prime; above it the component is skipped, never guessed.
-pub fn decide(images: &mut Images, c: Component, stop_first: bool, max_work: f64) -> Outcome {
+/// Above `count_work` the failing instances are not all counted: the component stops at
+/// its first failure, as with `stop_first` (the verdict and the witness are the same).
+pub fn decide(
+    images: &mut Images,
+    c: Component,
+    stop_first: bool,
+    max_work: f64,
+    count_work: f64,
+) -> Outcome {
     let n = images.n();
     let (d, m) = c.shape();
     let total = instance_count(n, c);
@@ -283,6 +293,15 @@ pub fn decide(images: &mut Images, c: Component, stop_first: bool, max_work: f64
         ));
         return out;
     }
+    let stop_first = if !stop_first && work > count_work {
+        out.partial = Some(format!(
+            "stopped at the first failure: counting every failing instance would take about \
+             {work:.1e} multiply-adds, above the counting budget {count_work:.1e}"
+        ));
+        true
+    } else {
+        stop_first
+    };
     let counts: Vec<u64> = (0..n).map(|a| part_count(n, d, m, a) as u64).collect();
     let mut marks: Vec<Vec<u64>> = counts
         .iter()
@@ -329,6 +348,9 @@ pub fn decide(images: &mut Images, c: Component, stop_first: bool, max_work: f64
     }
     out.failures = marks.iter().flatten().map(|w| w.count_ones() as u64).sum();
     out.checked = total as u64;
+    if first.is_none() {
+        out.partial = None;
+    }
     if let Some((a, l)) = first {
         if stop_first {
             out.checked = counts[..a].iter().sum::<u64>() + l + 1;

@@ -4,7 +4,8 @@
 //! and rational reconstruction, each candidate passed to the exact check.
 
 use super::dense_echelon::DenseEchelon;
-use super::exact_check::{check_solutions, exact_check, residual_zero};
+use super::exact_check::{Residues, check_solutions, exact_check, residual_zero};
+use super::kernels::LazyAcc;
 use super::nullspace::{SolveParams, SparseQ, human_bytes};
 use super::primes::{cached_primes, hadamard_bits};
 use super::sparse_echelon::SparseEchelon;
@@ -449,12 +450,20 @@ impl Ctx<'_, '_> {
         if self.c.streamed {
             return check_solutions(self.s.src, basis);
         }
-        let rows_ok = |p: u64, xs: &[Vec<u64>]| {
+        let rows_ok = |p: u64, xs: &Residues| {
             let rows = self.s.rows_mod(p);
-            let ok = self.c.rows.par_iter().all(|&r| {
-                let (cols, vals) = rows.row(r as usize);
-                residual_zero(cols, vals, xs, p, |c| self.local[&c] as usize)
-            });
+            let ok = self
+                .c
+                .rows
+                .par_iter()
+                .map_init(
+                    || LazyAcc::new(xs.count, p),
+                    |acc, &r| {
+                        let (cols, vals) = rows.row(r as usize);
+                        residual_zero(cols, vals, xs, acc, |c| self.local[&c] as usize)
+                    },
+                )
+                .all(|ok| ok);
             (ok, rows.max_terms)
         };
         exact_check(

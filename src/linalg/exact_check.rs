@@ -2,6 +2,7 @@
 //! step 4 of [`super::nullspace`]): integer vectors, residuals modulo enough primes that a
 //! residual vanishing modulo all of them vanishes over Z.
 
+use super::kernels::LazyAcc;
 use super::nullspace::SparseQ;
 use super::primes::{MAX_KERNEL_PRIMES, primes_prefix};
 use super::system::{RowBuf, RowSource};
@@ -12,22 +13,31 @@ use num_integer::Integer;
 use num_traits::One;
 use rayon::prelude::*;
 
-/// Whether the residual of one equation vanishes modulo p for every vector of `xs`
-/// (dense residue vectors; `loc` maps a column to its coordinate).
+/// The candidate vectors modulo p, by coordinate: row `c` (of `count` words) holds the
+/// residues of every vector at coordinate `c`, so one equation's residuals for all the
+/// vectors are a combination of its columns' rows (a vector-times-matrix product).
+pub(super) struct Residues {
+    pub by_coordinate: Vec<u32>,
+    pub count: usize,
+}
+
+/// Whether the residual of one equation vanishes modulo p for every candidate vector
+/// (`loc` maps a column to its coordinate; `acc` is scratch of `xs.count` words).
+/// Cost: one multiply-add per term and vector, vectorised across the vectors.
 pub(super) fn residual_zero(
     cols: &[u32],
     vals: &[u32],
-    xs: &[Vec<u64>],
-    p: u64,
+    xs: &Residues,
+    acc: &mut LazyAcc,
     loc: impl Fn(u32) -> usize,
 ) -> bool {
-    xs.iter().all(|x| {
-        let mut acc: u128 = 0;
-        for (&c, &v) in cols.iter().zip(vals) {
-            acc += v as u128 * x[loc(c)] as u128;
-        }
-        acc.is_multiple_of(p as u128)
-    })
+    let k = xs.count;
+    acc.clear();
+    for (&c, &v) in cols.iter().zip(vals) {
+        let at = loc(c) * k;
+        acc.axpy(v, &xs.by_coordinate[at..at + k]);
+    }
+    acc.finish().iter().all(|&r| r == 0)
 }
 
 /// The exact check of candidate vectors in coordinates `0..m` (see the module
@@ -38,7 +48,7 @@ pub(super) fn exact_check(
     term_bits: u64,
     m: usize,
     basis: &[SparseQ],
-    residuals: impl Fn(u64, &[Vec<u64>]) -> (bool, usize),
+    residuals: impl Fn(u64, &Residues) -> (bool, usize),
 ) -> Result<bool> {
     if basis.is_empty() {
         return Ok(true);
@@ -74,16 +84,17 @@ pub(super) fn exact_check(
                 ))
             })?,
         };
-        let xs: Vec<Vec<u64>> = ints
-            .iter()
-            .map(|v| {
-                let mut d = vec![0u64; m];
-                for (c, x) in v {
-                    d[*c as usize] = residue(x, p);
-                }
-                d
-            })
-            .collect();
+        let count = ints.len();
+        let mut by_coordinate = vec![0u32; m * count];
+        for (f, v) in ints.iter().enumerate() {
+            for (c, x) in v {
+                by_coordinate[*c as usize * count + f] = residue(x, p) as u32;
+            }
+        }
+        let xs = Residues {
+            by_coordinate,
+            count,
+        };
         let (ok, max_terms) = residuals(p, &xs);
         if !ok {
             return Ok(false);
@@ -101,17 +112,17 @@ pub(super) fn exact_check(
 /// of a system, produced block by block (see the module documentation for the bound).
 /// Cost: per prime used, one pass over all blocks, O(terms x vectors).
 pub fn check_solutions(src: &dyn RowSource, basis: &[SparseQ]) -> Result<bool> {
-    let residuals = |p: u64, xs: &[Vec<u64>]| {
+    let residuals = |p: u64, xs: &Residues| {
         let res: std::result::Result<Vec<usize>, ()> = (0..src.blocks())
             .into_par_iter()
             .map_init(
-                || RowBuf::new(p),
-                |b, blk| {
+                || (RowBuf::new(p), LazyAcc::new(xs.count, p)),
+                |(b, acc), blk| {
                     b.clear();
                     src.block(blk, p, b);
                     for r in 0..b.rows() {
                         let (cols, vals) = b.row(r);
-                        if !residual_zero(cols, vals, xs, p, |c| c as usize) {
+                        if !residual_zero(cols, vals, xs, acc, |c| c as usize) {
                             return Err(());
                         }
                     }

@@ -7,7 +7,10 @@
 //! - [`modular`]: a fast word-size kernel mod p < 2^31, and the rational fast path:
 //!   rank and nullspace over Q through several primes, rational reconstruction and a final
 //!   exact check over Q. The dispatchers [`rank_q`] and [`nullspace_q`] choose the method.
+//! - [`subspace`]: subspaces in reduced form (kernels, spans, coordinates), proven by the
+//!   engine of [`nullspace`]; [`charpoly`]: characteristic polynomials (Hessenberg form).
 
+pub mod charpoly;
 mod components;
 pub mod dense_echelon;
 pub mod echelon;
@@ -18,8 +21,10 @@ pub mod modular;
 pub mod nullspace;
 mod primes;
 pub mod sparse_echelon;
+pub mod subspace;
 pub mod system;
 
+pub use charpoly::charpoly;
 pub use echelon::{determinant, inverse, nullspace, rank, rref, solve};
 pub use matrix::Matrix;
 pub use modular::{nullspace_q, rank_q};

@@ -93,6 +93,16 @@ pub struct Space {
 }
 
 impl Space {
+    /// The whole space of `unknowns` coordinates, with its standard basis.
+    pub fn whole(unknowns: usize) -> Space {
+        Space {
+            unknowns,
+            basis: (0..unknowns)
+                .map(|i| vec![(i as u32, Q::from_integer(1.into()))])
+                .collect(),
+        }
+    }
+
     pub fn dim(&self) -> usize {
         self.basis.len()
     }

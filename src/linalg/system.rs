@@ -142,17 +142,32 @@ pub fn materialize(src: &dyn RowSource, p: u64) -> RowBuf {
     out
 }
 
-/// A dense integer matrix (rows of big integers) as a system: one block per row.
+/// A dense integer matrix (rows of big integers) as a system: one block per row. Its
+/// solutions are over Q, or over GF(q) when built with [`IntegerRows::modulo`].
 pub struct IntegerRows {
     pub cols: usize,
     pub rows: Vec<Vec<num_bigint::BigInt>>,
     bits: u64,
+    modulus: Option<u64>,
 }
 
 impl IntegerRows {
     pub fn new(cols: usize, rows: Vec<Vec<num_bigint::BigInt>>) -> Self {
         let bits = rows.iter().flatten().map(|x| x.bits()).max().unwrap_or(0);
-        IntegerRows { cols, rows, bits }
+        IntegerRows {
+            cols,
+            rows,
+            bits,
+            modulus: None,
+        }
+    }
+
+    /// The same rows read modulo the prime q: a system over GF(q).
+    pub fn modulo(cols: usize, rows: Vec<Vec<num_bigint::BigInt>>, q: u64) -> Self {
+        IntegerRows {
+            modulus: Some(q),
+            ..IntegerRows::new(cols, rows)
+        }
     }
 }
 
@@ -164,7 +179,7 @@ impl RowSource for IntegerRows {
         self.rows.len()
     }
     fn modulus(&self) -> Option<u64> {
-        None
+        self.modulus
     }
     fn block(&self, b: usize, p: u64, out: &mut RowBuf) {
         use num_traits::Zero;

@@ -3,10 +3,10 @@
 //! (Alder and Strassen 1981, "On the algorithmic complexity of associative algebras",
 //! Theoret. Comput. Sci. 15). A bound on the rank over F itself (t(A) depends on F).
 //!
-//! t(A) = number of simple components of A/rad A. We compute rad A as the radical of the
-//! trace form {x : Tr(L_{xy}) = 0 for all y}, which contains rad A in every characteristic,
-//! and accept it only after checking exactly that it is a nilpotent ideal (then it equals
-//! rad A). The simple components of S = A/rad A correspond to those of its centre Z(S), a
+//! t(A) = number of simple components of A/rad A. rad A comes from the shared invariants
+//! ([`crate::invariants::radical`]: Dickson's trace-form criterion over Q, the method of
+//! Cohen, Ivanyos and Wales 1997 over GF(p), checked to be a nilpotent ideal). The simple
+//! components of S = A/rad A correspond to those of its centre Z(S), a
 //! commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
 //! z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
 //! polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
@@ -21,7 +21,6 @@ use super::bound::{Bound, BoundsParams, Measure, Method};
 use crate::linalg::{Matrix, nullspace, rank, rref, solve};
 use crate::scalar::{Field, PrimeField, Q};
 use crate::tensor::{Kind, Tensor};
-use num_traits::One;
 use rand::{Rng, SeedableRng};
 
 /// The theorem, for reports.
@@ -98,7 +97,6 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
         }
     }
     let a = Alg { n, c };
-    let e = |i: usize| Alg::<F::Elem>::unit_vec(f, n, i);
     // associativity and the unit, by the shared law engine
     let lp = crate::laws::Params {
         laws: vec![crate::laws::Law::Associative],
@@ -128,36 +126,33 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
         .iter()
         .map(|x| f.from_rational(x).expect("in the field"))
         .collect();
-    let rad: Vec<Vec<F::Elem>> = if f.characteristic() == 0 {
-        // Dickson's criterion (characteristic 0): the radical is the kernel of the trace
-        // form, by the shared invariants engine; a simple quotient settles t at once
-        let r = crate::invariants::radical(t, &it, &sp)
-            .map_err(|e| e.to_string())?
-            .ok_or("no radical over this field")?;
-        if r.quotient_centre_dim <= 1 {
-            return Ok((
-                1,
-                format!(
-                    "dim rad A = {}, dim A/rad A = {}, dim Z(A/rad A) = {}, so t = 1 \
-                     (A/rad A is simple)",
-                    r.space.dim(),
-                    r.quotient_dim,
-                    r.quotient_centre_dim
-                ),
-            ));
-        }
-        r.space
-            .dense_basis()
-            .iter()
-            .map(|v| {
-                v.iter()
-                    .map(|x| f.from_rational(x).expect("in field"))
-                    .collect()
-            })
-            .collect()
-    } else {
-        trace_form_radical(f, &a, n, &e)?
-    };
+    // the radical by the shared invariants engine (Dickson's criterion in characteristic
+    // 0, the method of Cohen, Ivanyos and Wales over GF(p)); a simple quotient settles t
+    let r = crate::invariants::radical(t, &it, &sp)
+        .map_err(|e| e.to_string())?
+        .ok_or("no radical over this field")?;
+    if r.quotient_centre_dim <= 1 {
+        return Ok((
+            1,
+            format!(
+                "dim rad A = {}, dim A/rad A = {}, dim Z(A/rad A) = {}, so t = 1 \
+                 (A/rad A is simple)",
+                r.space.dim(),
+                r.quotient_dim,
+                r.quotient_centre_dim
+            ),
+        ));
+    }
+    let rad: Vec<Vec<F::Elem>> = r
+        .space
+        .dense_basis()
+        .iter()
+        .map(|v| {
+            v.iter()
+                .map(|x| f.from_rational(x).expect("in field"))
+                .collect()
+        })
+        .collect();
     // quotient S = A / rad: coordinates on the non-pivot columns of rref(rad)
     let mut rm = Matrix::from_rows(rad.clone(), n);
     let pivots = rref(f, &mut rm);
@@ -261,68 +256,6 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
     Ok((dz, format!("{head}, t <= dim Z(A/rad A) = {dz}")))
 }
 
-/// The radical of the trace form `{x : Tr(L_{xy}) = 0 for all y}` (which contains rad A in
-/// every characteristic), accepted only when it is checked to be a nilpotent two-sided
-/// ideal (then it is rad A).
-fn trace_form_radical<F: Field>(
-    f: &F,
-    a: &Alg<F::Elem>,
-    n: usize,
-    e: &dyn Fn(usize) -> Vec<F::Elem>,
-) -> Result<Vec<Vec<F::Elem>>, String> {
-    // trace form G[i][j] = Tr(L_{e_i e_j}) = sum_k c[i][j][k] tau_k, tau_k = Tr L_{e_k}
-    let tau: Vec<F::Elem> = (0..n)
-        .map(|k| {
-            let mut s = f.zero();
-            for j in 0..n {
-                s = f.add(&s, &a.c[(k * n + j) * n + j]);
-            }
-            s
-        })
-        .collect();
-    let mut g = Matrix::zeros(f, n, n);
-    for i in 0..n {
-        for j in 0..n {
-            let mut s = f.zero();
-            for (k, tk) in tau.iter().enumerate() {
-                f.add_mul_assign(&mut s, &a.c[(i * n + j) * n + k], tk);
-            }
-            g[(j, i)] = s; // row j: the condition sum_i x_i G[i][j] = 0
-        }
-    }
-    let rad = nullspace(f, &g);
-    // check: rad is a nilpotent two-sided ideal
-    let mut power = rad.clone();
-    let mut steps = 0;
-    while !power.is_empty() {
-        let mut prods = Vec::new();
-        for x in &power {
-            for y in &rad {
-                prods.push(a.mul(f, x, y));
-            }
-        }
-        let next = span_basis(f, prods, n);
-        if next.len() >= power.len() {
-            return Err("the trace-form radical is not nilpotent (cannot certify rad A)".into());
-        }
-        power = next;
-        steps += 1;
-        if steps > n + 1 {
-            return Err("nilpotency check did not terminate".into());
-        }
-    }
-    for x in &rad {
-        for i in 0..n {
-            for p in [a.mul(f, x, &e(i)), a.mul(f, &e(i), x)] {
-                if !in_span(f, &rad, &p, n) {
-                    return Err("the trace-form radical is not an ideal".into());
-                }
-            }
-        }
-    }
-    Ok(rad)
-}
-
 /// A product on coordinate vectors.
 type Product<'a, E> = &'a dyn Fn(&[E], &[E]) -> Vec<E>;
 
@@ -342,36 +275,13 @@ fn pow_in<E: Clone>(z: &[E], mut e: u64, one: &[E], mul: Product<'_, E>) -> Vec<
     r
 }
 
-fn span_basis<F: Field>(f: &F, vecs: Vec<Vec<F::Elem>>, n: usize) -> Vec<Vec<F::Elem>> {
-    if vecs.is_empty() {
-        return vecs;
-    }
-    let mut m = Matrix::from_rows(vecs, n);
-    let r = rref(f, &mut m).len();
-    (0..r).map(|i| m.row(i).to_vec()).collect()
-}
-
-fn in_span<F: Field>(f: &F, basis: &[Vec<F::Elem>], x: &[F::Elem], n: usize) -> bool {
-    let mut rows = basis.to_vec();
-    let r0 = span_basis(f, rows.clone(), n).len();
-    rows.push(x.to_vec());
-    span_basis(f, rows, n).len() == r0
-}
-
 /// The least number of irreducible factors of the integer polynomial proportional to
 /// `coeffs` (low degree first) modulo primes where it keeps its degree and stays
 /// squarefree: an upper bound for the number of its irreducible factors over Q.
 /// Returns (count, prime) or `None` if no prime among the first few qualifies.
 fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
-    use num_integer::Integer;
-    let lcm = coeffs
-        .iter()
-        .fold(num_bigint::BigInt::one(), |l, c| l.lcm(c.denom()));
-    let ints: Vec<num_bigint::BigInt> = coeffs
-        .iter()
-        .map(|c| (c * Q::from_integer(lcm.clone())).to_integer())
-        .collect();
-    let d = ints.len() - 1;
+    let ints = crate::poly::integer::primitive(coeffs);
+    let d = ints.len().checked_sub(1)?;
     let mut best: Option<(usize, u64)> = None;
     for p in crate::scalar::word_primes(40)
         .into_iter()
@@ -384,9 +294,8 @@ fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
         if poly[d] == 0 {
             continue;
         }
-        let inv = fp.inv(&poly[d]).expect("nonzero");
-        let poly: Vec<u64> = poly.iter().map(|c| fp.mul(c, &inv)).collect();
-        if !squarefree(&fp, &poly) {
+        let poly = crate::poly::monic(&fp, &poly);
+        if !crate::poly::finite::is_squarefree_mod_p(&fp, &poly) {
             continue;
         }
         let r = berlekamp_count(&fp, &poly);
@@ -400,80 +309,20 @@ fn min_factor_count(coeffs: &[Q]) -> Option<(usize, u64)> {
     best
 }
 
-/// Reduce `a` modulo the monic polynomial `m` (coefficients low first).
-fn poly_rem(fp: &PrimeField, mut a: Vec<u64>, m: &[u64]) -> Vec<u64> {
-    let d = m.len() - 1;
-    while a.len() > d {
-        let lead = a.pop().expect("nonempty");
-        if lead != 0 {
-            let off = a.len() - d;
-            for i in 0..d {
-                a[off + i] = fp.sub(&a[off + i], &fp.mul(&lead, &m[i]));
-            }
-        }
-    }
-    a
-}
-
-fn poly_mulmod(fp: &PrimeField, a: &[u64], b: &[u64], m: &[u64]) -> Vec<u64> {
-    let mut out = vec![0u64; a.len() + b.len()];
-    for (i, x) in a.iter().enumerate().filter(|(_, x)| **x != 0) {
-        for (j, y) in b.iter().enumerate() {
-            fp.add_mul_assign(&mut out[i + j], x, y);
-        }
-    }
-    poly_rem(fp, out, m)
-}
-
-fn trim(mut a: Vec<u64>) -> Vec<u64> {
-    while a.last() == Some(&0) {
-        a.pop();
-    }
-    a
-}
-
-/// gcd(f, f') == 1 over GF(p) (f monic).
-fn squarefree(fp: &PrimeField, f: &[u64]) -> bool {
-    let der: Vec<u64> = (1..f.len())
-        .map(|i| fp.mul(&f[i], &fp.from_i64(i as i64)))
-        .collect();
-    let mut a = trim(f.to_vec());
-    let mut b = trim(der);
-    if b.is_empty() {
-        return false;
-    }
-    while !b.is_empty() {
-        let inv = fp.inv(b.last().expect("nonempty")).expect("nonzero lead");
-        let bm: Vec<u64> = b.iter().map(|c| fp.mul(c, &inv)).collect();
-        let r = trim(poly_rem(fp, a, &bm));
-        a = bm;
-        b = r;
-    }
-    a.len() == 1
-}
-
 /// Number of irreducible factors of a squarefree monic f over GF(p): d - rank(Q - I),
 /// Q the matrix of x^i -> x^{ip} mod f (Berlekamp 1967).
 fn berlekamp_count(fp: &PrimeField, f: &[u64]) -> usize {
+    use crate::poly::{mulmod, one, powmod, rem, x};
     let d = f.len() - 1;
-    let mut xp = vec![1u64];
-    let mut base = poly_rem(fp, vec![0, 1], f);
-    let mut e = fp.modulus();
-    while e > 0 {
-        if e & 1 == 1 {
-            xp = poly_mulmod(fp, &xp, &base, f);
-        }
-        base = poly_mulmod(fp, &base, &base, f);
-        e >>= 1;
-    }
+    let xp = powmod(fp, &x(fp), fp.modulus(), f);
     let mut m = Matrix::zeros(fp, d, d);
-    let mut cur = poly_rem(fp, vec![1], f);
+    let mut cur = rem(fp, &one(fp), f);
     for i in 0..d {
         for (j, c) in cur.iter().enumerate() {
             m[(i, j)] = *c;
         }
         m[(i, i)] = fp.sub(&m[(i, i)], &1);
-        cur = poly_mulmod(fp, &cur, &xp, f);
+        cur = mulmod(fp, &cur, &xp, f);
     }
     d - rank(fp, &m)
 }
@@ -483,6 +332,7 @@ mod tests {
     use super::*;
     use crate::scalar::FieldSpec;
     use crate::scheme::testkit::*;
+    use num_traits::One;
 
     #[test]
     fn alder_strassen_complex_and_m2() {
@@ -525,6 +375,24 @@ mod tests {
         ] {
             let a = crate::generators::generate(spec).unwrap();
             assert_eq!(alder_strassen(&a, &p).unwrap().value, want, "{spec}");
+        }
+        // over GF(p) the radical comes from the characteristic-p method: F_2[C_4] is local
+        // (t = 1), F_3[S_3] / rad = F_3 x F_3 (t = 2), F_2[S_3] / rad = F_2 x M_2(F_2)
+        // (t = 2); Brauer theory, common practice
+        for (spec, prime, want) in [
+            ("cyclic:4", 2u64, 7),
+            ("symmetric:3", 3, 10),
+            ("symmetric:3", 2, 10),
+        ] {
+            let a = crate::generators::generate(spec)
+                .unwrap()
+                .with_field(FieldSpec::Prime(prime))
+                .unwrap();
+            assert_eq!(
+                alder_strassen(&a, &p).unwrap().value,
+                want,
+                "{spec} mod {prime}"
+            );
         }
         // not an algebra
         assert!(alder_strassen(&matmul(2, 2, 2), &p).is_err());

@@ -92,10 +92,9 @@ fn invertible_factor(t: &Tensor, axis: usize, seed: u64) -> Option<Vec<i64>> {
         .find(|c| rank(&fp, &slice_matrix(&fp, t, axis, c)) == n)
 }
 
-/// A unital isotope of a tensor with three equal dimensions, or why none was found.
-/// Cost: a few slice ranks modulo a prime, two exact n x n inverses and O(n^4) field
-/// operations.
-pub fn unital_isotope(t: &Tensor) -> Result<Isotope, String> {
+/// The factors `u0`, `v0` of a unital isotope of a tensor with three equal dimensions,
+/// or why none was found. Cost: a few n x n slice ranks modulo a prime.
+fn isotope_factors(t: &Tensor) -> Result<(Vec<i64>, Vec<i64>), String> {
     let d = t.dims();
     if d[0] != d[1] || d[1] != d[2] {
         return Err(format!(
@@ -103,17 +102,70 @@ pub fn unital_isotope(t: &Tensor) -> Result<Isotope, String> {
             d[0], d[1], d[2]
         ));
     }
-    let n = d[0];
     let u0 = invertible_factor(t, 0, 11).ok_or("no invertible left slice was found")?;
     let v0 = invertible_factor(t, 1, 12).ok_or("no invertible right slice was found")?;
-    let algebra = crate::with_field!(t.field(), f => build(f, t, &u0, &v0))
+    Ok((u0, v0))
+}
+
+/// A unital isotope of a tensor with three equal dimensions, or why none was found.
+/// Cost: a few slice ranks modulo a prime, two exact n x n inverses and O(n^4) field
+/// operations.
+pub fn unital_isotope(t: &Tensor) -> Result<Isotope, String> {
+    let (u0, v0) = isotope_factors(t)?;
+    let algebra = crate::with_field!(t.field(), f => build(f, t, &u0, &v0, t.field()))
         .ok_or("a slice that is invertible modulo a prime is singular (internal error)")?;
-    debug_assert_eq!(algebra.dim(), n);
+    debug_assert_eq!(algebra.dim(), t.dims()[2]);
     Ok(Isotope { algebra, u0, v0 })
 }
 
+/// Over Q: why the isotope with factors `u0`, `v0` is not associative, when its reduction
+/// modulo a prime p already is not (with a failing triple of basis elements). The
+/// reduction of a p-integral associative algebra is associative, so a failure modulo p
+/// proves that the isotope over Q is not associative. Cost: O(n^4) operations modulo p and
+/// the law check of the reduction; it spares the O(n^4) operations on growing fractions
+/// of the exact isotope when the answer is no.
+fn nonassociative_reduction(t: &Tensor, u0: &[i64], v0: &[i64]) -> Option<String> {
+    if t.field() != FieldSpec::Rational {
+        return None;
+    }
+    let p = crate::linalg::nullspace::cached_primes()[0];
+    let fp = PrimeField::new(p)?;
+    let p_integral = t
+        .entries()
+        .all(|(_, _, _, v)| fp.from_rational(v).is_some());
+    if !p_integral {
+        return None;
+    }
+    let reduced = build(&fp, t, u0, v0, FieldSpec::Prime(p))?;
+    let params = crate::laws::Params {
+        laws: vec![crate::laws::Law::Associative],
+        stop_first: true,
+        ..Default::default()
+    };
+    let report = crate::laws::check_laws(&reduced, &params).ok()?;
+    let r = report.get(crate::laws::Law::Associative)?;
+    if r.holds != Some(false) {
+        return None;
+    }
+    let at = r
+        .witness
+        .as_ref()
+        .map(|w| format!(" (at {})", w.expression))
+        .unwrap_or_default();
+    Some(format!(
+        "its reduction modulo {p} is not associative{at}, so neither is the isotope over Q"
+    ))
+}
+
 /// The constants `c'[x][y][z] = sum_ij Rinv[i][x] Linv[j][y] c[i][j][z]`.
-fn build<F: Field>(f: &F, t: &Tensor, u0: &[i64], v0: &[i64]) -> Option<Tensor> {
+/// The isotope is written over `out_field` (the tensor's field, or GF(p) for a reduction).
+fn build<F: Field>(
+    f: &F,
+    t: &Tensor,
+    u0: &[i64],
+    v0: &[i64],
+    out_field: FieldSpec,
+) -> Option<Tensor> {
     let n = t.dims()[0];
     let linv = inverse(f, &slice_matrix(f, t, 0, u0))?; // j x k -> rows j (right factor)
     let rinv = inverse(f, &slice_matrix(f, t, 1, v0))?; // rows i (left factor)
@@ -129,7 +181,7 @@ fn build<F: Field>(f: &F, t: &Tensor, u0: &[i64], v0: &[i64]) -> Option<Tensor> 
         }
     }
     let names: Vec<String> = t.names()[2].clone();
-    let mut out = Tensor::algebra(t.field(), names);
+    let mut out = Tensor::algebra(out_field, names);
     for x in 0..n {
         for y in 0..n {
             let mut row = vec![f.zero(); n];
@@ -164,7 +216,7 @@ pub fn alder_strassen_of_isotope(t: &Tensor, params: &BoundsParams) -> Result<Bo
             params.max_isotope_dim
         ));
     }
-    let iso = unital_isotope(t)?;
+    let (u0, v0) = isotope_factors(t)?;
     let show = |v: &[i64]| {
         v.iter()
             .map(|x| x.to_string())
@@ -173,9 +225,15 @@ pub fn alder_strassen_of_isotope(t: &Tensor, params: &BoundsParams) -> Result<Bo
     };
     let how = format!(
         "the unital isotope x o y = T(R^-1 x, L^-1 y), L = T(u0, .), R = T(., v0), u0 = ({}), v0 = ({})",
-        show(&iso.u0),
-        show(&iso.v0)
+        show(&u0),
+        show(&v0)
     );
+    if let Some(why) = nonassociative_reduction(t, &u0, &v0) {
+        return Err(format!(
+            "{how}: {why}, so T is not isotopic to an associative algebra with unit"
+        ));
+    }
+    let iso = unital_isotope(t)?;
     match alder_strassen(&iso.algebra, params) {
         Ok(mut b) => {
             if t.kind() == Kind::Algebra {

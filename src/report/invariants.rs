@@ -70,6 +70,11 @@ pub struct CentroidReport {
     pub commutative: Option<bool>,
     pub commutative_reason: String,
     pub field: Option<bool>,
+    /// When a field: its degree over the ground field and a defining polynomial.
+    pub field_degree: Option<usize>,
+    pub field_polynomial: Option<String>,
+    /// When not a field: why.
+    pub field_reason: Option<String>,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -86,8 +91,10 @@ pub struct DerivationsReport {
 #[derive(Clone, Debug, Serialize)]
 pub struct RadicalReport {
     pub available: bool,
-    /// Why not available (not associative, or not over Q).
+    /// Why not available (not associative).
     pub note: Option<String>,
+    /// How the radical was computed (`null` when not available).
+    pub method: Option<String>,
     pub radical: Option<VectorSpaceReport>,
     pub semisimple: Option<bool>,
     pub quotient_dim: Option<usize>,
@@ -275,11 +282,24 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
             exists: u.is_some(),
             unit: u.as_ref().map(|v| combination(v, names)),
         }),
-        centroid: inv.centroid.as_ref().map(|c| CentroidReport {
-            space: map_space(&c.space, &[n], omit),
-            commutative: c.commutative,
-            commutative_reason: c.commutative_reason.clone(),
-            field: c.field,
+        centroid: inv.centroid.as_ref().map(|c| {
+            use crate::structure::FieldDecision;
+            let (degree, poly, reason) = match &inv.centroid_field {
+                Some(FieldDecision::Field { degree, poly }) => {
+                    (Some(*degree), Some(crate::poly::to_text(poly, "x")), None)
+                }
+                Some(FieldDecision::NotField(why)) => (None, None, Some(why.clone())),
+                None => (None, None, None),
+            };
+            CentroidReport {
+                space: map_space(&c.space, &[n], omit),
+                commutative: c.commutative,
+                commutative_reason: c.commutative_reason.clone(),
+                field: c.field,
+                field_degree: degree,
+                field_polynomial: poly,
+                field_reason: reason,
+            }
         }),
         derivations: inv.derivations.as_ref().map(|d| {
             let inner = d.inner.as_ref().map(Space::dim);
@@ -297,6 +317,7 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
             RadicalPart::NotAvailable(note) => RadicalReport {
                 available: false,
                 note: Some(note.clone()),
+                method: None,
                 radical: None,
                 semisimple: None,
                 quotient_dim: None,
@@ -305,6 +326,7 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
             RadicalPart::Computed(rad) => RadicalReport {
                 available: true,
                 note: None,
+                method: Some(rad.method.clone()),
                 radical: Some(vectors(&rad.space, names, omit)),
                 semisimple: Some(rad.semisimple),
                 quotient_dim: Some(rad.quotient_dim),

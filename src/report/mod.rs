@@ -1,8 +1,9 @@
 //! The `analyze` report: everything bilin computes about one product, as data.
+//! ([`structure`] is the report of `bilin split`, also a section of `analyze`.)
 //!
 //! [`analyze`] gathers the input summary, the laws (for an algebra or a square map) and
 //! the ranks into an [`AnalyzeReport`]. It renders as aligned text ([`render_text`]) or
-//! as JSON (`serde_json`, schema `bilin.analyze/1`, documented in docs/report-json.md).
+//! as JSON (`serde_json`, schema `bilin.analyze/2`, documented in docs/report-json.md).
 //!
 //! Extensibility: other analyses append [`Section`]s to `extra` (each with an id, a title,
 //! text lines and a JSON value); the text renderer prints them after the built-in ones and
@@ -12,19 +13,21 @@ pub mod identify;
 pub mod invariants;
 mod invariants_text;
 pub mod sections;
+pub mod structure;
+mod structure_text;
 mod text;
 
-pub use text::{render_head, render_notes, render_section, render_text};
+pub use text::{render_head, render_notes, render_properties, render_section, render_text};
 
 use crate::error::Result;
-use crate::invariants::structure::{self, KnownLaws, Property, PropertyResult};
+use crate::invariants::structure::{KnownLaws, Property, PropertyResult, decide_properties};
 use crate::laws::{self, Law, LawReport};
 use crate::ranks::{self, RankReport};
 use crate::tensor::{Kind, Tensor};
 use serde::Serialize;
 
 /// The schema identifier written into every JSON report.
-pub const SCHEMA: &str = "bilin.analyze/1";
+pub const SCHEMA: &str = "bilin.analyze/2";
 
 /// Options of [`analyze`].
 #[derive(Clone, Debug)]
@@ -40,6 +43,9 @@ pub struct Params {
     pub invariants: Option<invariants::InvariantParams>,
     /// The lower-bounds section; `None` leaves it out.
     pub bounds: Option<crate::ranks::BoundsParams>,
+    /// The structure section (solvable, nilpotent, semisimple; blocks, radical and simple
+    /// components, Lie structure); `None` leaves out its costly part (the properties stay).
+    pub structure: Option<crate::structure::StructureParams>,
 }
 
 impl Default for Params {
@@ -51,6 +57,7 @@ impl Default for Params {
             ranks: ranks::Params::default(),
             invariants: None,
             bounds: None,
+            structure: None,
         }
     }
 }
@@ -92,8 +99,9 @@ pub struct AnalyzeReport {
     pub input: InputSummary,
     /// `None` for a bilinear map (unless asked) and when no law is asked.
     pub laws: Option<LawReport>,
-    /// Solvable, nilpotent, semisimple (those asked for).
-    #[serde(skip_serializing_if = "Vec::is_empty")]
+    /// Solvable, nilpotent, semisimple (those asked for). In JSON they are part of the
+    /// structure section (`extra`, id `structure`, field `properties`).
+    #[serde(skip)]
     pub properties: Vec<PropertyResult>,
     pub ranks: RankReport,
     /// Sections added by other analyses.
@@ -138,15 +146,16 @@ pub fn analyze_with_progress(
 
 /// A part of the report, handed out as soon as it is computed.
 pub enum Piece<'a> {
-    /// The input, laws, properties and ranks (the report without its extra sections).
+    /// The input, laws and ranks (the report without its extra sections).
     Head(&'a AnalyzeReport),
     /// One extra section.
     Section(&'a Section),
 }
 
 /// [`analyze_with_progress`], handing each part of the report to `emit` as soon as it is
-/// computed: first the cheap head (input, laws, properties, ranks), then the lower bounds,
-/// then the invariants (the costly part), so that a caller can print them at once.
+/// computed: first the cheap head (input, laws, ranks), then the lower bounds, then the
+/// invariants, then the structure section (the properties decided with the laws, then the
+/// blocks, radical and components), so that a caller can print them at once.
 pub fn analyze_streaming(
     t: &Tensor,
     source: &str,
@@ -203,7 +212,7 @@ pub fn analyze_streaming(
                 .as_ref()
                 .map(|ip| ip.solve.clone())
                 .unwrap_or_default();
-            properties = structure::decide_properties(&alg, &params.properties, known, &solve)?;
+            properties = decide_properties(&alg, &params.properties, known, &solve)?;
         }
         if !params.laws.laws.is_empty() {
             laws = Some(lr);
@@ -252,6 +261,16 @@ pub fn analyze_streaming(
     }
     if let Some(ip) = &params.invariants {
         let sec = sections::invariants_section(t, source, ip, progress)?;
+        emit(Piece::Section(&sec));
+        report.extra.push(sec);
+    }
+    if !report.properties.is_empty() || params.structure.is_some() {
+        let sec = sections::structure_section(
+            t,
+            &report.properties,
+            params.structure.as_ref(),
+            progress,
+        )?;
         emit(Piece::Section(&sec));
         report.extra.push(sec);
     }

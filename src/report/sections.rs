@@ -1,12 +1,16 @@
 //! Extra sections of the `analyze` report contributed by other analyses: the invariant
-//! algebras ([`invariants_section`]) and the proven lower bounds for the tensor rank
-//! ([`bounds_section`]). Each section carries text lines and the same content as JSON.
+//! algebras ([`invariants_section`]), the proven lower bounds for the tensor rank
+//! ([`bounds_section`]) and the structure: blocks, radical, simple components, Lie
+//! structure ([`structure_section`]). Each section carries text lines and the same content
+//! as JSON.
 
 use super::Section;
 use super::invariants::{InvariantParams, invariants_report};
 use super::invariants_text;
 use crate::error::Result;
+use crate::invariants::structure::PropertyResult;
 use crate::ranks::{Bounds, BoundsParams, Measure, Status, lower_bounds};
+use crate::structure::StructureParams;
 use crate::tensor::Tensor;
 
 /// The invariants of `t` (all parts that apply to its kind unless `params.only` says
@@ -106,4 +110,40 @@ pub fn bounds_section(t: &Tensor, params: &BoundsParams) -> Section {
             "notes": b.notes,
         }),
     }
+}
+
+/// The one structure section of `analyze`: the solvable, nilpotent and semisimple verdicts
+/// `properties` (already decided with the laws), then, when `params` is given, the
+/// structure of `t` (blocks, radical and simple components, Lie structure: the parts that
+/// apply), the content of `bilin split`. JSON data: `{"properties": [...], "split": the
+/// split report or null}`. Cost: that of [`super::structure::split_report`].
+pub fn structure_section(
+    t: &Tensor,
+    properties: &[PropertyResult],
+    params: Option<&StructureParams>,
+    progress: &mut dyn FnMut(&str),
+) -> Result<Section> {
+    let mut lines: Vec<String> = super::render_properties(properties)
+        .lines()
+        .map(str::to_string)
+        .collect();
+    let split = match params {
+        Some(sp) => {
+            let (r, _) = super::structure::split_report(t, sp, progress)?;
+            let text = super::structure::render_text(&r);
+            let body = text.lines().skip(1).skip_while(|l| l.is_empty());
+            if !lines.is_empty() {
+                lines.push(String::new());
+            }
+            lines.extend(body.map(str::to_string));
+            Some(r)
+        }
+        None => None,
+    };
+    Ok(Section {
+        id: "structure".into(),
+        title: "Structure".into(),
+        lines,
+        data: serde_json::json!({ "properties": properties, "split": split }),
+    })
 }

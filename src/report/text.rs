@@ -24,16 +24,14 @@ pub fn render_text(r: &AnalyzeReport) -> String {
     s
 }
 
-/// The head of the report: the input, the laws, the properties and the ranks.
+/// The head of the report: the input, the laws and the ranks (the solvable, nilpotent and
+/// semisimple verdicts open the structure section, [`render_properties`]).
 pub fn render_head(r: &AnalyzeReport) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "bilin analyze: {}", r.input.source);
     input(&mut s, r);
     if let Some(l) = &r.laws {
         laws(&mut s, l);
-    }
-    if !r.properties.is_empty() {
-        properties(&mut s, &r.properties);
     }
     ranks(&mut s, &r.ranks);
     s
@@ -65,8 +63,15 @@ pub fn render_notes(r: &AnalyzeReport) -> String {
     s
 }
 
+/// The solvable, nilpotent and semisimple verdicts with their witnesses, as text without a
+/// heading (the structure section opens with them).
+pub fn render_properties(props: &[PropertyResult]) -> String {
+    let mut s = String::new();
+    properties(&mut s, props);
+    s
+}
+
 fn properties(s: &mut String, props: &[PropertyResult]) {
-    let _ = writeln!(s, "\n== Structure ==");
     let w = props
         .iter()
         .map(|p| p.property.name().len())
@@ -78,7 +83,7 @@ fn properties(s: &mut String, props: &[PropertyResult]) {
             Some(false) => "no",
             None => "undecided",
         };
-        let head = format!("  {:<w$}  {:<9}  ", p.property.name(), verdict);
+        let head = format!("{:<w$}  {:<9}  ", p.property.name(), verdict);
         let indent = " ".repeat(head.len());
         wrap(s, &head, &indent, &p.detail);
         if let Some(wi) = &p.witness {
