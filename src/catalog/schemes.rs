@@ -175,7 +175,11 @@ mod tests {
     fn built_schemes_for_matrix_formats() {
         use crate::scalar::FieldSpec;
         let bases = matmul_bases(FieldSpec::Rational);
-        assert!(bases.iter().any(|b| b.format == [2, 2, 2] && b.scheme.rank() == 7));
+        assert!(
+            bases
+                .iter()
+                .any(|b| b.format == [2, 2, 2] && b.scheme.rank() == 7)
+        );
         let b = best_matmul_scheme([4, 4, 4], FieldSpec::Rational).unwrap();
         assert_eq!(b.scheme.rank(), 49, "{}", b.how);
         let b = best_matmul_scheme([2, 4, 5], FieldSpec::Rational).unwrap();

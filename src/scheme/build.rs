@@ -211,14 +211,17 @@ impl<'a> Planner<'a> {
         if let Some(&(r, _)) = self.memo.get(&key) {
             return r;
         }
-        let mut best = (key.iter().map(|&x| x as u128).product::<u128>(), Step::Schoolbook);
+        let mut best = (
+            key.iter().map(|&x| x as u128).product::<u128>(),
+            Step::Schoolbook,
+        );
         if let Some(&i) = self.base_of.get(&key) {
             let r = self.bases[i].scheme.rank() as u128;
             if r <= best.0 {
                 best = (r, Step::Base(i));
             }
         }
-        let divisors = |x: usize| (1..=x).filter(move |d| x % d == 0);
+        let divisors = |x: usize| (1..=x).filter(move |d| x.is_multiple_of(*d));
         for d0 in divisors(key[0]) {
             for d1 in divisors(key[1]) {
                 for d2 in divisors(key[2]) {
@@ -406,7 +409,11 @@ mod tests {
                 let rows = (0..n)
                     .map(|_| {
                         (0..n)
-                            .map(|_| Q::from_integer(rng.gen_range(-1_000_000_000i64..=1_000_000_000).into()))
+                            .map(|_| {
+                                Q::from_integer(
+                                    rng.gen_range(-1_000_000_000i64..=1_000_000_000).into(),
+                                )
+                            })
                             .collect()
                     })
                     .collect();
@@ -492,7 +499,10 @@ mod tests {
             assert!(checks(&b.scheme, f));
         }
         let b = build_matmul([3, 2, 2], FieldSpec::Rational, &[]).unwrap();
-        assert_eq!((b.scheme.rank(), b.how.as_str()), (12, "schoolbook <3,2,2>"));
+        assert_eq!(
+            (b.scheme.rank(), b.how.as_str()),
+            (12, "schoolbook <3,2,2>")
+        );
         // over GF(2) the same construction verifies there
         let b = build_matmul([4, 4, 4], FieldSpec::Prime(2), &bases).unwrap();
         assert_eq!((b.scheme.rank(), b.scheme.field), (49, FieldSpec::Prime(2)));

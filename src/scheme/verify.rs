@@ -218,7 +218,10 @@ mod tests {
         assert_eq!(wrong_coefficients_sparse(&bad, &t), dense);
         let t5 = t.with_field(FieldSpec::Prime(5)).unwrap();
         let b5 = bad.with_field(FieldSpec::Prime(5)).unwrap();
-        assert_eq!(wrong_coefficients_sparse(&b5, &t5), wrong_coefficients(&b5, &t5));
+        assert_eq!(
+            wrong_coefficients_sparse(&b5, &t5),
+            wrong_coefficients(&b5, &t5)
+        );
     }
 
     proptest! {

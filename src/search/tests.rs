@@ -278,6 +278,9 @@ fn matmul_444_starts_at_49_from_the_built_scheme() {
     p.target_rank = Some(40);
     p.time_limit = Some(Duration::from_millis(300));
     let o = run(&t, &p);
-    assert!(o.best.is_some_and(|s| s.rank() <= 49 && verify(&s, &t).is_ok()));
+    assert!(
+        o.best
+            .is_some_and(|s| s.rank() <= 49 && verify(&s, &t).is_ok())
+    );
     assert!(o.walk_rank.is_none_or(|r| r <= 49));
 }
