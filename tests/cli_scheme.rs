@@ -302,3 +302,43 @@ fn polish_reports_the_cost_model() {
     assert_eq!(v["cost"]["multiplications"], 5);
     assert_eq!(v["cost"]["max_denominator"], "6");
 }
+
+/// Schemes built from schemes: `scheme build` gives <4,4,4> at 49 (Strassen 1969 on 2 x 2
+/// blocks), `scheme join` glues <2,2,2> and <2,2,1> along p into <2,2,3> at 7 + 4 = 11,
+/// `bounds` prints the built upper bound; bad axes and formats exit 2.
+#[test]
+fn build_and_join_matrix_formats() {
+    let (c, out, err) = bilin(&["scheme", "build", "matmul:4,4,4"]);
+    assert_eq!(c, 0, "{err}");
+    assert!(out.contains("rank 49 scheme, verified exactly"), "{out}");
+    let join = |second: &str, axis: &str| {
+        bilin(&[
+            "scheme",
+            "join",
+            "matmul:2,2,2",
+            "examples/schemes/strassen.txt",
+            "matmul:2,2,1",
+            second,
+            "--axis",
+            axis,
+        ])
+    };
+    assert_eq!(join("matmul221.none", "p").0, 2);
+    let (_, school, _) = bilin(&["scheme", "standard", "matmul:2,2,1"]);
+    let f = tmp("s221.txt", &school);
+    let (c, out, err) = join(&f, "p");
+    assert_eq!(c, 0, "{err}");
+    assert!(
+        out.contains("matmul:2,2,3") && out.contains("rank 11"),
+        "{out}"
+    );
+    assert_eq!(join(&f, "q").0, 2);
+    assert_eq!(join(&f, "n").0, 2);
+    assert_eq!(bilin(&["scheme", "build", "poly:3,3"]).0, 2);
+    let (c, out, _) = bilin(&["bounds", "matmul:4,4,4", "--exhaustive-work", "0"]);
+    assert_eq!(c, 0);
+    assert!(
+        out.contains("R <= 49") && out.contains("upper 49: built"),
+        "{out}"
+    );
+}

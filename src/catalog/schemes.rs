@@ -8,6 +8,7 @@
 
 use super::store::find_entry;
 use crate::error::{Error, Result};
+use crate::scheme::build::{BaseScheme, Built, build_matmul};
 use crate::scheme::{Scheme, parse_scheme, verify};
 
 /// One stored scheme: the entry it belongs to, a short label, its file name and text.
@@ -47,10 +48,13 @@ pub const STORED_SCHEMES: &[StoredScheme] = &[
     stored!("matmul234", "found"),
     stored!("matmul235", "found"),
     stored!("matmul244", "found"),
+    stored!("matmul245", "found"),
+    stored!("matmul255", "found"),
     stored!("matmul333", "found"),
     stored!("matmul334", "found"),
     stored!("matmul335", "found"),
     stored!("matmul344", "found"),
+    stored!("matmul445", "found"),
     stored!("polymul2", "karatsuba"),
     stored!("polymul3", "toom3"),
     stored!("polymul4", "found"),
@@ -111,6 +115,40 @@ pub fn stored_schemes(entry: &str) -> Vec<&'static StoredScheme> {
         .collect()
 }
 
+/// The stored schemes of matrix formats (entries built by `matmul:n,m,p`) as building
+/// blocks for [`crate::scheme::build::build_matmul`], over `field` (schemes whose
+/// coefficients do not reduce into it are left out), each named `entry.label`.
+/// Cost: reading and verifying the stored schemes of matrix formats.
+pub fn matmul_bases(field: crate::scalar::FieldSpec) -> Vec<BaseScheme> {
+    STORED_SCHEMES
+        .iter()
+        .filter_map(|st| {
+            let e = find_entry(st.entry)?;
+            let spec = e.meta.generate.as_deref()?.trim().strip_prefix("matmul:")?;
+            let f: Vec<usize> = spec
+                .split(',')
+                .map(|x| x.trim().parse().ok())
+                .collect::<Option<_>>()?;
+            let format: [usize; 3] = f.try_into().ok()?;
+            let scheme = st.read().ok()?.with_field(field).ok()?;
+            Some(BaseScheme {
+                format,
+                scheme,
+                name: st.file.trim_end_matches(".txt").to_string(),
+            })
+        })
+        .collect()
+}
+
+/// The best scheme of `<n,m,p>` over `field` built from the stored schemes (products,
+/// direct sums along an axis, the symmetries of the format; see
+/// [`crate::scheme::build`]), verified exactly. For a format with a stored scheme of the
+/// lowest rank this is that scheme. Cost: that of [`matmul_bases`] and
+/// [`crate::scheme::build::build_matmul`].
+pub fn best_matmul_scheme(nmp: [usize; 3], field: crate::scalar::FieldSpec) -> Result<Built> {
+    build_matmul(nmp, field, &matmul_bases(field))
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -134,5 +172,28 @@ mod tests {
         assert_eq!(stored_schemes("matmul222")[0].read().unwrap().rank(), 7);
         assert_eq!(stored_schemes("POLYMUL2")[0].read().unwrap().rank(), 3);
         assert!(stored_schemes("octonions").is_empty());
+    }
+
+    /// Formats without a stored scheme get one built from the stored ones: <4,4,4> at 49
+    /// (Strassen 1969, on 2 x 2 blocks), <2,4,5> at most 34 (<2,4,4> + <2,4,1>; the
+    /// published 33 is Hopcroft and Kerr 1971); a stored format gets its stored rank.
+    #[test]
+    fn built_schemes_for_matrix_formats() {
+        use crate::scalar::FieldSpec;
+        let bases = matmul_bases(FieldSpec::Rational);
+        assert!(
+            bases
+                .iter()
+                .any(|b| b.format == [2, 2, 2] && b.scheme.rank() == 7)
+        );
+        let b = best_matmul_scheme([4, 4, 4], FieldSpec::Rational).unwrap();
+        assert_eq!(b.scheme.rank(), 49, "{}", b.how);
+        let b = best_matmul_scheme([2, 4, 5], FieldSpec::Rational).unwrap();
+        assert!(b.scheme.rank() <= 34, "{}", b.how);
+        let b = best_matmul_scheme([3, 3, 3], FieldSpec::Rational).unwrap();
+        assert_eq!((b.scheme.rank(), b.how.as_str()), (23, "matmul333.found"));
+        // over GF(2): only the stored schemes that reduce mod 2
+        let b = best_matmul_scheme([4, 4, 4], FieldSpec::Prime(2)).unwrap();
+        assert!(b.scheme.rank() <= 49);
     }
 }

@@ -342,7 +342,7 @@ fn show(e: &Entry, recompute: bool) -> i32 {
     if !stored.is_empty() {
         println!("\nschemes (use the name with emit, verify, scheme cost):");
     }
-    for s in stored {
+    for s in &stored {
         let name = s.file.trim_end_matches(".txt");
         match s.read() {
             Ok(sc) => println!(
@@ -356,6 +356,25 @@ fn show(e: &Entry, recompute: bool) -> i32 {
                 println!("  {name}: DOES NOT VERIFY: {err}");
             }
         }
+    }
+    let best_stored = stored
+        .iter()
+        .filter_map(|s| s.read().ok().map(|x| x.rank()))
+        .min();
+    if let Some(f) = bilin::scheme::build::matmul_format_of(&t)
+        && let Ok(b) = catalog::schemes::best_matmul_scheme(f, t.field())
+        && best_stored.is_none_or(|r| b.scheme.rank() < r)
+    {
+        println!(
+            "\nbuilt from the stored schemes (`bilin scheme build matmul:{},{},{}`): rank {}, \
+             over {}, verified exactly\n      as {}",
+            f[0],
+            f[1],
+            f[2],
+            b.scheme.rank(),
+            b.scheme.field.name(),
+            b.how
+        );
     }
     match &m.generate {
         Some(g) => {

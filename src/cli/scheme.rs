@@ -119,6 +119,27 @@ pub enum Op {
     },
     /// Direct sum (block diagonal).
     Sum(Two),
+    /// Matrix multiplication: join schemes of matmul:n,m,p and one that agrees on the two
+    /// other sides along --axis n, m or p (e.g. <2,2,3> and <2,2,1> along p give <2,2,4>;
+    /// rank r1 + r2).
+    Join {
+        #[command(flatten)]
+        two: Two,
+        #[arg(long)]
+        axis: String,
+    },
+    /// Matrix multiplication: the best scheme of matmul:n,m,p that products, joins along an
+    /// axis and the symmetries build from the catalog's stored schemes and schoolbook
+    /// schemes, verified exactly (its construction on the title line).
+    Build {
+        input: String,
+        /// Build the scheme over this field (Q or GF(p); stored schemes with denominators
+        /// divisible by p are left out).
+        #[arg(long)]
+        field: Option<String>,
+        #[arg(long)]
+        json: bool,
+    },
     /// Permute the axes: --axes 1,2,0 means new axis a is old axis axes[a].
     Permute {
         #[command(flatten)]
@@ -377,6 +398,39 @@ fn run_op(op: &Op) -> Result<i32, Error> {
                 &format!("direct sum of {} and {}", two.scheme1, two.scheme2),
                 two.json,
             )
+        }
+        Op::Join { two, axis } => {
+            let f = two.field.as_deref();
+            let t1 = load_tensor(&two.input1, f)?;
+            let s1 = load_scheme(&two.scheme1, &t1)?;
+            let t2 = load_tensor(&two.input2, f)?;
+            let s2 = load_scheme(&two.scheme2, &t2)?;
+            let (f1, f2) = (fmt_of(&two.input1, None)?, fmt_of(&two.input2, None)?);
+            let ax = match axis.trim().to_ascii_lowercase().as_str() {
+                "n" | "0" => 0,
+                "m" | "1" => 1,
+                "p" | "2" => 2,
+                a => {
+                    return Err(Error::Invalid(format!(
+                        "--axis: expected n, m or p, found `{a}`"
+                    )));
+                }
+            };
+            let j = bilin::scheme::build::matmul_join(&s1, f1, &s2, f2, ax)?;
+            let mut fm = f1;
+            fm[ax] += f2[ax];
+            let t = matmul_tensor(fm, f)?;
+            let title = format!(
+                "{} and {} joined along {axis}: matmul:{},{},{}",
+                two.scheme1, two.scheme2, fm[0], fm[1], fm[2]
+            );
+            show(&j, &t, &title, two.json)
+        }
+        Op::Build { input, field, json } => {
+            let fmt = fmt_of(input, None)?;
+            let t = matmul_tensor(fmt, field.as_deref())?;
+            let b = bilin::catalog::schemes::best_matmul_scheme(fmt, t.field())?;
+            show(&b.scheme, &t, &format!("{input} built as {}", b.how), *json)
         }
         Op::Permute { one, axes } => {
             let (t, s) = both(one)?;

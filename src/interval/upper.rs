@@ -15,7 +15,8 @@ use serde::Serialize;
 #[derive(Clone, Debug, Serialize)]
 pub struct Upper {
     pub value: usize,
-    /// Short name: `slices`, `simultaneous diagonalisation`, `catalog`, `given scheme`.
+    /// Short name: `slices`, `simultaneous diagonalisation`, `catalog`, `built`,
+    /// `given scheme`.
     pub name: String,
     /// Where the scheme comes from and what it shows.
     pub detail: String,
@@ -50,6 +51,19 @@ pub fn upper_bounds(
         scheme: d.scheme,
     });
     if !params.no_catalog {
+        // a matrix multiplication tensor: the best scheme built from the stored ones
+        // (tensor products, direct sums, symmetries), verified against this tensor
+        if let Some(f) = crate::scheme::build::matmul_format_of(t)
+            && let Ok(b) = crate::catalog::schemes::best_matmul_scheme(f, t.field())
+            && let Some(s) = verified_over(&b.scheme, t)
+        {
+            out.push(Upper {
+                value: s.rank(),
+                name: "built".into(),
+                detail: format!("a scheme built as {}, verified exactly", b.how),
+                scheme: s,
+            });
+        }
         for stored in STORED_SCHEMES {
             if stored.dims() != Some(t.dims()) {
                 continue;

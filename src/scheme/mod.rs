@@ -8,6 +8,7 @@
 //! Invariants: every factor vector has the length of its axis; over GF(p) the entries are
 //! integers in `0..p`.
 
+pub mod build;
 pub mod construct;
 pub mod cost;
 pub mod diagnose;

@@ -60,6 +60,9 @@ pub fn scheme_tensor(s: &Scheme, field: FieldSpec) -> Vec<Q> {
 /// Cost: that of [`scheme_tensor`].
 pub fn wrong_coefficients(s: &Scheme, t: &Tensor) -> Vec<Wrong> {
     let d = t.dims();
+    if d[0].saturating_mul(d[1]).saturating_mul(d[2]) > DENSE_LIMIT {
+        return wrong_coefficients_sparse(s, t);
+    }
     let acc = scheme_tensor(s, t.field());
     let mut out = Vec::new();
     for i in 0..d[0] {
@@ -77,6 +80,62 @@ pub fn wrong_coefficients(s: &Scheme, t: &Tensor) -> Vec<Wrong> {
             }
         }
     }
+    out
+}
+
+/// Above this many coefficients `d0 d1 d2` the check accumulates the scheme's tensor
+/// sparsely (a dense table of exact rationals would take gigabytes).
+const DENSE_LIMIT: usize = 1 << 21;
+
+/// [`wrong_coefficients`] with the scheme's tensor accumulated in a hash map of its
+/// nonzero positions. Cost: O(sum_t nnz(u_t) nnz(v_t) nnz(w_t) + nnz(T)) exact operations.
+fn wrong_coefficients_sparse(s: &Scheme, t: &Tensor) -> Vec<Wrong> {
+    let d = t.dims();
+    let nz = |x: &[Q]| -> Vec<(usize, Q)> {
+        x.iter()
+            .enumerate()
+            .filter(|(_, c)| !c.is_zero())
+            .map(|(i, c)| (i, c.clone()))
+            .collect()
+    };
+    let mut acc: std::collections::HashMap<[usize; 3], Q> = std::collections::HashMap::new();
+    for t_ in 0..s.rank() {
+        let (u, v, w) = (nz(&s.u[t_]), nz(&s.v[t_]), nz(&s.w[t_]));
+        for (i, ui) in &u {
+            for (j, vj) in &v {
+                let uv = ui * vj;
+                for (k, wk) in &w {
+                    *acc.entry([*i, *j, *k]).or_insert_with(Q::zero) += &uv * wk;
+                }
+            }
+        }
+    }
+    let red = |x: Q| match t.field() {
+        FieldSpec::Prime(_) => super::reduce_into(t.field(), &x).unwrap_or(x),
+        FieldSpec::Rational => x,
+    };
+    let mut out = Vec::new();
+    for (i, j, k, c) in t.entries() {
+        let got = red(acc.remove(&[i, j, k]).unwrap_or_else(Q::zero));
+        if got != *c {
+            out.push(Wrong {
+                index: [i, j, k],
+                expected: c.clone(),
+                got,
+            });
+        }
+    }
+    for (index, got) in acc {
+        let got = red(got);
+        if !got.is_zero() && index.iter().zip(d).all(|(x, n)| *x < n) {
+            out.push(Wrong {
+                index,
+                expected: Q::zero(),
+                got,
+            });
+        }
+    }
+    out.sort_by_key(|w| w.index);
     out
 }
 
@@ -142,6 +201,27 @@ mod tests {
         let m = verify(&s, &t).unwrap_err();
         assert_eq!(m.index, [2, 0, 2]); // a21 * b11 -> c21
         assert_eq!(m.count, 2);
+    }
+
+    /// The sparse accumulation used for large shapes finds the same wrong coefficients,
+    /// in the same order, as the dense one.
+    #[test]
+    fn sparse_check_agrees_with_dense() {
+        let t = matmul(2, 2, 2);
+        let good = scheme(STRASSEN, &t);
+        assert!(wrong_coefficients_sparse(&good, &t).is_empty());
+        let mut bad = good.clone();
+        bad.w[1][2] = Q::zero();
+        bad.u[6][0] += Q::from_integer(3.into());
+        let dense = wrong_coefficients(&bad, &t);
+        assert!(!dense.is_empty());
+        assert_eq!(wrong_coefficients_sparse(&bad, &t), dense);
+        let t5 = t.with_field(FieldSpec::Prime(5)).unwrap();
+        let b5 = bad.with_field(FieldSpec::Prime(5)).unwrap();
+        assert_eq!(
+            wrong_coefficients_sparse(&b5, &t5),
+            wrong_coefficients(&b5, &t5)
+        );
     }
 
     proptest! {

@@ -62,6 +62,8 @@ fn params(method: Method, rank: usize, seed: u64) -> Params {
         seed,
         threads: 1,
         time_limit: Some(Duration::from_secs(120)),
+        // these tests exercise the engines from the standard scheme
+        known_start: false,
         ..Params::default()
     }
 }
@@ -259,4 +261,26 @@ fn two_word_masks_search_a_product_with_66_left_coordinates() {
     assert!(s.rank() <= 128, "rank {}", s.rank());
     assert_eq!(s.field, FieldSpec::Prime(2));
     assert!(verify(&s, &t.with_field(FieldSpec::Prime(2)).unwrap()).is_ok());
+}
+
+/// <4,4,4> over Q at rank 49 (Strassen 1969 applied to 2 x 2 blocks of 2 x 2 blocks): the
+/// search starts from the scheme built from the stored ones and returns at once; below it,
+/// the walks start there (the walk rank never exceeds 49).
+#[test]
+fn matmul_444_starts_at_49_from_the_built_scheme() {
+    let t = matmul(4, 4, 4);
+    let mut p = params(Method::Flip, 49, 3);
+    p.known_start = true;
+    let o = run(&t, &p);
+    let s = o.best.expect("built");
+    assert!(o.reached && s.rank() == 49 && o.moves == 0);
+    assert!(verify(&s, &t).is_ok());
+    p.target_rank = Some(40);
+    p.time_limit = Some(Duration::from_millis(300));
+    let o = run(&t, &p);
+    assert!(
+        o.best
+            .is_some_and(|s| s.rank() <= 49 && verify(&s, &t).is_ok())
+    );
+    assert!(o.walk_rank.is_none_or(|r| r <= 49));
 }
