@@ -20,9 +20,8 @@
 
 use super::eigen::{EigenFailure, rational_eigen};
 use super::kruskal::{Uniqueness, kruskal_uniqueness};
-use super::slices::reduce;
 use crate::linalg::Matrix;
-use crate::linalg::modular::inverse_q;
+use crate::linalg::modular::{inverse_q, skeleton_q};
 use crate::scalar::{FieldSpec, Q, Rationals};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::{Tensor, flattening, flattening_ranks, slice};
@@ -216,7 +215,7 @@ fn combine(core: &[Matrix<Q>], x: &[i64], r: usize) -> Matrix<Q> {
 
 /// Indices of a maximal set of linearly independent rows of `m` (exact).
 fn independent_rows(m: &Matrix<Q>) -> Vec<usize> {
-    reduce(FieldSpec::Rational, &m.transpose()).1
+    skeleton_q(m).rows
 }
 
 /// From the eigenvectors (columns of A' = A restricted to the rows `pa` of axis a), the
@@ -271,7 +270,7 @@ fn read_factors(
             .collect(),
         d[b] * d[c],
     );
-    let sel = reduce(FieldSpec::Rational, &kr).1;
+    let sel = skeleton_q(&kr).cols;
     if sel.len() != r {
         return None;
     }

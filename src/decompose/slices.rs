@@ -9,6 +9,7 @@
 //! reduced row echelon form, one term per pivot. The result is a scheme over the tensor's
 //! field; the caller verifies it (invariant of every upper bound in [`super`]).
 
+use crate::linalg::modular::skeleton_q;
 use crate::linalg::{Matrix, rref};
 use crate::scalar::{Field, FieldSpec, Q};
 use crate::scheme::Scheme;
@@ -58,6 +59,21 @@ fn echelon_basis(t: &Tensor, axis: usize) -> Vec<(Matrix<Q>, Vec<Q>)> {
     let d = t.dims();
     let (o1, o2) = others(axis);
     let f = flattening(t, axis);
+    if t.field() == FieldSpec::Rational {
+        // f = left f[R, :]: the independent rows of the flattening, no elimination over Q
+        let sk = skeleton_q(&f);
+        return sk
+            .rows
+            .iter()
+            .enumerate()
+            .map(|(m, &r)| {
+                (
+                    Matrix::from_rows(reshape(f.row(r), d[o1], d[o2]), d[o2]),
+                    sk.left.column(m),
+                )
+            })
+            .collect();
+    }
     let (e, piv) = reduce(t.field(), &f);
     piv.iter()
         .enumerate()
@@ -88,8 +104,21 @@ pub fn reduce(field: FieldSpec, m: &Matrix<Q>) -> (Matrix<Q>, Vec<usize>) {
 }
 
 /// The exact rank-one split of a matrix: `M = sum_l col_l row_l^T` with
-/// `col_l = M[:, pivot_l]`, `row_l` the l-th row of the reduced echelon form.
+/// `col_l = M[:, pivot_l]`, `row_l` the l-th row of the reduced echelon form; over Q,
+/// `row_l` the l-th of r independent rows and `col_l` the l-th column of `M[:, P] B^-1`
+/// ([`skeleton_q`]).
 pub fn rank_one_terms(field: FieldSpec, m: &Matrix<Q>) -> Vec<(Vec<Q>, Vec<Q>)> {
+    if field == FieldSpec::Rational {
+        // M = left M[R, :] (see `skeleton_q`): the same number of terms, without the
+        // growth of an elimination over Q
+        let sk = skeleton_q(m);
+        return sk
+            .rows
+            .iter()
+            .enumerate()
+            .map(|(l, &r)| (sk.left.column(l), m.row(r).to_vec()))
+            .collect();
+    }
     let (e, piv) = reduce(field, m);
     piv.iter()
         .enumerate()

@@ -263,6 +263,120 @@ pub fn rank_q(m: &Matrix<Q>) -> usize {
     }
 }
 
+/// A skeleton of a rational matrix M of rank r: r row indices R and r column indices P
+/// with `B = M[R, P]` invertible, and `left = M[:, P] B^-1`, so that `M = left M[R, :]`
+/// exactly (for any r independent rows and r independent columns of a rank-r matrix, B is
+/// invertible and the identity holds). R and P are read modulo a prime and accepted once
+/// the rank modulo it equals the rank over Q proven by [`rank_q`].
+/// Cost: two modular eliminations, [`rank_q`], [`inverse_q`] of B and `rows r^2` rational
+/// products; no elimination over Q.
+pub struct Skeleton {
+    pub rows: Vec<usize>,
+    pub cols: Vec<usize>,
+    pub left: Matrix<Q>,
+}
+
+/// `M[:, cols] X` for a rational X, by one integer product: with `X = A / d` (d the lcm of
+/// X's denominators) and each row of `M[:, cols]` scaled to integers by `c_i`, entry
+/// `(i, l)` is `(C A)[i][l] / (c_i d)`, so only the results are reduced.
+fn times_inverse(m: &Matrix<Q>, cols: &[usize], x: &Matrix<Q>) -> Matrix<Q> {
+    let r = x.cols;
+    let d = x
+        .data
+        .iter()
+        .fold(BigInt::one(), |acc, q| acc.lcm(q.denom()));
+    let a: Vec<BigInt> = x
+        .data
+        .iter()
+        .map(|q| q.numer() * (&d / q.denom()))
+        .collect();
+    let rows: Vec<Vec<Q>> = (0..m.rows)
+        .map(|i| {
+            let c_i = cols
+                .iter()
+                .fold(BigInt::one(), |acc, &j| acc.lcm(m[(i, j)].denom()));
+            let ci: Vec<BigInt> = cols
+                .iter()
+                .map(|&j| m[(i, j)].numer() * (&c_i / m[(i, j)].denom()))
+                .collect();
+            let den = &c_i * &d;
+            (0..r)
+                .map(|l| {
+                    let mut s = BigInt::zero();
+                    for (k, v) in ci.iter().enumerate() {
+                        if !v.is_zero() {
+                            s += v * &a[k * r + l];
+                        }
+                    }
+                    Q::new(s, den.clone())
+                })
+                .collect()
+        })
+        .collect();
+    Matrix::from_rows(rows, r)
+}
+
+/// See [`Skeleton`].
+pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
+    let rank = rank_q(m);
+    if rank == 0 {
+        return Skeleton {
+            rows: Vec::new(),
+            cols: Vec::new(),
+            left: Matrix::from_rows(vec![Vec::new(); m.rows], 0),
+        };
+    }
+    let ints = integer_rows(m);
+    let t = m.transpose();
+    let ints_t = integer_rows(&t);
+    for &p in kernel_primes(8).iter() {
+        let mut data: Vec<u64> = ints.iter().flatten().map(|x| residue(x, p)).collect();
+        let cols = rref_mod(&mut data, m.rows, m.cols, p, false);
+        if cols.len() != rank {
+            continue;
+        }
+        let mut data: Vec<u64> = ints_t.iter().flatten().map(|x| residue(x, p)).collect();
+        let rows = rref_mod(&mut data, t.rows, t.cols, p, false);
+        if rows.len() != rank {
+            continue;
+        }
+        let b = Matrix::from_rows(
+            rows.iter()
+                .map(|&i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
+                .collect(),
+            rank,
+        );
+        let Some(b_inv) = inverse_q(&b) else {
+            continue;
+        };
+        let left = times_inverse(m, &cols, &b_inv);
+        return Skeleton { rows, cols, left };
+    }
+    // eight unlucky primes: exact elimination over Q
+    let mut e = m.clone();
+    let cols = echelon::rref(&Rationals, &mut e);
+    let mut et = t.clone();
+    let rows = echelon::rref(&Rationals, &mut et);
+    let b = Matrix::from_rows(
+        rows.iter()
+            .map(|&i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
+            .collect(),
+        rank,
+    );
+    let b_inv = echelon::inverse(&Rationals, &b).expect("independent rows and columns");
+    let c = Matrix::from_rows(
+        (0..m.rows)
+            .map(|i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
+            .collect(),
+        rank,
+    );
+    Skeleton {
+        rows,
+        cols,
+        left: c.mul(&Rationals, &b_inv),
+    }
+}
+
 /// A basis of the right nullspace {x in Q^c : m x = 0}, in reduced form (one vector per
 /// free column: 1 there, 0 at the other free columns), proven exactly over Q by the
 /// engine of [`super::nullspace`] (modular elimination, lifting, exact check).
