@@ -335,6 +335,24 @@ pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
         if cols.len() != rank {
             continue;
         }
+        if rank == m.rows {
+            // full row rank: M = I M, no inverse needed
+            let left = Matrix::from_rows(
+                (0..rank)
+                    .map(|i| {
+                        (0..rank)
+                            .map(|j| Q::from_integer(BigInt::from(u8::from(i == j))))
+                            .collect()
+                    })
+                    .collect(),
+                rank,
+            );
+            return Skeleton {
+                rows: (0..rank).collect(),
+                cols,
+                left,
+            };
+        }
         let mut data: Vec<u64> = ints_t.iter().flatten().map(|x| residue(x, p)).collect();
         let rows = rref_mod(&mut data, t.rows, t.cols, p, false);
         if rows.len() != rank {
