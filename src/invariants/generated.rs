@@ -423,16 +423,24 @@ fn violated_pairs(
     }
     let x: Vec<u32> = acc.finish().iter().map(|&v| v as u32).collect();
     let xt: Vec<u32> = (0..n * n).map(|ab| x[(ab % n) * n + ab / n]).collect();
-    // the dense table c[(i n + j) n + k]
-    let mut c = vec![0u32; n * n * n];
-    for i in 0..n {
-        for j in 0..n {
-            let (ks, vs) = t.row(i, j);
-            for (&k, &v) in ks.iter().zip(vs) {
-                c[(i * n + j) * n + k as usize] = v;
+    // the dense table c[(i n + j) n + k], built only when the table is sparse
+    let built;
+    let c: &[u32] = match t.dense_table() {
+        Some(c) => c,
+        None => {
+            let mut d = vec![0u32; n * n * n];
+            for i in 0..n {
+                for j in 0..n {
+                    let (ks, vs) = t.row(i, j);
+                    for (&k, &v) in ks.iter().zip(vs) {
+                        d[(i * n + j) * n + k as usize] = v;
+                    }
+                }
             }
+            built = d;
+            &built
         }
-    }
+    };
     let w: Vec<u32> = wv.iter().flatten().copied().collect();
     let width = match kind {
         Kind::Derivations => n,
@@ -453,7 +461,7 @@ fn violated_pairs(
             let t1 = mat_mul(ci, &xt, n, n, n, p);
             // (X(e_i) e_j)[k] = sum_l X[l][i] c[l][j][k]
             let mut acc = LazyAcc::new(n * n, p);
-            acc.vec_mat(&xt[i * n..(i + 1) * n], &c);
+            acc.vec_mat(&xt[i * n..(i + 1) * n], c);
             let t2: Vec<u32> = acc.finish().iter().map(|&v| v as u32).collect();
             // (e_i X(e_j))[k] = sum_l X[l][j] c[i][l][k]
             let t3 = mat_mul(&xt, ci, n, n, n, p);

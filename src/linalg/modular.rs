@@ -337,16 +337,7 @@ pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
         }
         if rank == m.rows {
             // full row rank: M = I M, no inverse needed
-            let left = Matrix::from_rows(
-                (0..rank)
-                    .map(|i| {
-                        (0..rank)
-                            .map(|j| Q::from_integer(BigInt::from(u8::from(i == j))))
-                            .collect()
-                    })
-                    .collect(),
-                rank,
-            );
+            let left = Matrix::identity(&Rationals, rank);
             return Skeleton {
                 rows: (0..rank).collect(),
                 cols,
@@ -358,41 +349,29 @@ pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
         if rows.len() != rank {
             continue;
         }
-        let b = Matrix::from_rows(
-            rows.iter()
-                .map(|&i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
-                .collect(),
-            rank,
-        );
-        let Some(b_inv) = inverse_q(&b) else {
+        let Some(b_inv) = inverse_q(&submatrix(m, &rows, &cols)) else {
             continue;
         };
         let left = times_inverse(m, &cols, &b_inv);
         return Skeleton { rows, cols, left };
     }
     // eight unlucky primes: exact elimination over Q
-    let mut e = m.clone();
-    let cols = echelon::rref(&Rationals, &mut e);
-    let mut et = t.clone();
-    let rows = echelon::rref(&Rationals, &mut et);
-    let b = Matrix::from_rows(
+    let cols = echelon::rref(&Rationals, &mut m.clone());
+    let rows = echelon::rref(&Rationals, &mut t.clone());
+    let b_inv = echelon::inverse(&Rationals, &submatrix(m, &rows, &cols))
+        .expect("independent rows and columns");
+    let left = times_inverse(m, &cols, &b_inv);
+    Skeleton { rows, cols, left }
+}
+
+/// `M[rows, cols]`.
+fn submatrix(m: &Matrix<Q>, rows: &[usize], cols: &[usize]) -> Matrix<Q> {
+    Matrix::from_rows(
         rows.iter()
             .map(|&i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
             .collect(),
-        rank,
-    );
-    let b_inv = echelon::inverse(&Rationals, &b).expect("independent rows and columns");
-    let c = Matrix::from_rows(
-        (0..m.rows)
-            .map(|i| cols.iter().map(|&j| m[(i, j)].clone()).collect())
-            .collect(),
-        rank,
-    );
-    Skeleton {
-        rows,
-        cols,
-        left: c.mul(&Rationals, &b_inv),
-    }
+        cols.len(),
+    )
 }
 
 /// A basis of the right nullspace {x in Q^c : m x = 0}, in reduced form (one vector per

@@ -112,6 +112,11 @@ fn isotope_factors(t: &Tensor) -> Result<(Vec<i64>, Vec<i64>), String> {
 /// operations.
 pub fn unital_isotope(t: &Tensor) -> Result<Isotope, String> {
     let (u0, v0) = isotope_factors(t)?;
+    isotope_with(t, u0, v0)
+}
+
+/// The isotope with the factors `u0`, `v0` (invertible slices), exactly over t's field.
+fn isotope_with(t: &Tensor, u0: Vec<i64>, v0: Vec<i64>) -> Result<Isotope, String> {
     let algebra = crate::with_field!(t.field(), f => build(f, t, &u0, &v0, t.field()))
         .ok_or("a slice that is invertible modulo a prime is singular (internal error)")?;
     debug_assert_eq!(algebra.dim(), t.dims()[2]);
@@ -233,7 +238,7 @@ pub fn alder_strassen_of_isotope(t: &Tensor, params: &BoundsParams) -> Result<Bo
             "{how}: {why}, so T is not isotopic to an associative algebra with unit"
         ));
     }
-    let iso = unital_isotope(t)?;
+    let iso = isotope_with(t, u0, v0)?;
     match alder_strassen(&iso.algebra, params) {
         Ok(mut b) => {
             if t.kind() == Kind::Algebra {

@@ -251,6 +251,12 @@ impl ModTable {
         !self.by_product.is_empty()
     }
 
+    /// The whole dense table `(i d1 + j) d2 + k -> residue`, when the dense layouts are
+    /// present.
+    pub fn dense_table(&self) -> Option<&[u32]> {
+        self.is_dense().then_some(&self.by_product[..])
+    }
+
     /// The dense product `i * j` (requires the dense layouts).
     #[inline]
     pub fn dense_row(&self, i: usize, j: usize) -> &[u32] {
