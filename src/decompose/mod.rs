@@ -3,8 +3,9 @@
 //! - [`slices`]: the sum of the slice ranks along the best axis (any tensor, any field);
 //! - [`simultaneous`]: simultaneous diagonalisation over Q when the rank is at most two of
 //!   the three dimensions, with Kruskal's uniqueness ([`kruskal`]);
-//! - [`pencil`]: slices paired as matrix pencils, each pair split by evaluation at
-//!   rational points (over Q; fewer terms than the slice ranks for general data);
+//! - [`pencil`]: slices grouped (most often in pairs, matrix pencils), each group split
+//!   by evaluation at rational points (over Q; fewer terms than the slice ranks for
+//!   general data);
 //! - [`eigen`]: rational eigenvalues, found numerically and confirmed exactly.
 //!
 //! Invariant: every scheme returned here has passed the exact verification against the

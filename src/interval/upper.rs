@@ -54,9 +54,9 @@ pub fn upper_bounds(
         detail: d.detail,
         scheme: d.scheme,
     });
-    // general data: pairs of slices split as pencils, below the slice bound
+    // general data: groups of slices split together, below the slice bound
     if slices_only
-        && let Some((s, axis, pairs)) = pencil_decomposition(t, &params.pencil)
+        && let Some((s, axis, groups)) = pencil_decomposition(t, &params.pencil)
         && s.rank() < out[0].value
     {
         match verify(&s, t) {
@@ -64,10 +64,10 @@ pub fn upper_bounds(
                 value: s.rank(),
                 name: "pencils".into(),
                 detail: format!(
-                    "{pairs} {} of {} slices split as pencils by evaluation at rational \
-                     points, verified exactly (Ja'Ja' 1979, Optimal evaluation of pairs of \
-                     bilinear forms, SIAM J. Comput. 8, from memory)",
-                    if pairs == 1 { "pair" } else { "pairs" },
+                    "{groups} {} of {} slices (pairs: matrix pencils) split by evaluation at \
+                     rational points, verified exactly (Ja'Ja' 1979, Optimal evaluation of \
+                     pairs of bilinear forms, SIAM J. Comput. 8, from memory)",
+                    if groups == 1 { "group" } else { "groups" },
                     crate::tensor::AXES[axis]
                 ),
                 scheme: s,
