@@ -136,7 +136,11 @@ fn numeric_run(t: &Tensor, target: usize, secs: f64, seed: u64) -> Run {
             found: format!(
                 "rank {}{}",
                 best.rank(),
-                if o.reached { "" } else { ", target not reached" }
+                if o.reached {
+                    ""
+                } else {
+                    ", target not reached"
+                }
             ),
         },
         None => Run {

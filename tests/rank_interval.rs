@@ -139,7 +139,10 @@ fn random_counts_get_an_upper_bound_below_the_slice_bound() {
     let (code, out, err) = bilin(&["bounds", "tests/data/counts_10x12x7.json"]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("<= R <= 45 over Q"), "{out}");
-    assert!(out.contains("upper 45: pencils") && out.contains("Ja'Ja' 1979"), "{out}");
+    assert!(
+        out.contains("upper 45: pencils") && out.contains("Ja'Ja' 1979"),
+        "{out}"
+    );
     assert!(out.contains("upper 70: slices"), "{out}");
 }
 
@@ -243,11 +246,22 @@ fn command_line_interval_and_plan() {
     // ranks drop to 1), mod 3 they are kept
     let g = dir.join("odd3.json");
     let entries: Vec<String> = (0..27)
-        .map(|n| format!("[{},{},{},{}]", n / 9, n / 3 % 3, n % 3, [3, 1, 5, 7, 9, 1, 3, 11, 5][n % 9] + 2 * (n / 9) as i64))
+        .map(|n| {
+            format!(
+                "[{},{},{},{}]",
+                n / 9,
+                n / 3 % 3,
+                n % 3,
+                [3, 1, 5, 7, 9, 1, 3, 11, 5][n % 9] + 2 * (n / 9) as i64
+            )
+        })
         .collect();
     std::fs::write(
         &g,
-        format!(r#"{{"kind":"bilinear","dims":[3,3,3],"entries":[{}]}}"#, entries.join(",")),
+        format!(
+            r#"{{"kind":"bilinear","dims":[3,3,3],"entries":[{}]}}"#,
+            entries.join(",")
+        ),
     )
     .unwrap();
     let gs = g.to_str().unwrap();

@@ -142,7 +142,8 @@ pub fn split_slices(
                         .map(|i| {
                             let mut r = a.row(i).to_vec();
                             r.extend(
-                                (0..extra).map(|_| Q::from_integer(rng.gen_range(-9i64..=9).into())),
+                                (0..extra)
+                                    .map(|_| Q::from_integer(rng.gen_range(-9i64..=9).into())),
                             );
                             r
                         })
@@ -264,7 +265,11 @@ fn plan_groups(ranked: &[Ranked], m: usize, n: usize) -> (usize, Vec<usize>) {
     let cost = |from: usize, to: usize| -> usize {
         let sum: usize = ranked[from..to].iter().map(|x| x.0).sum();
         let k = to - from;
-        if k < 2 { sum } else { sum.min(slices_width(m, n, k)) }
+        if k < 2 {
+            sum
+        } else {
+            sum.min(slices_width(m, n, k))
+        }
     };
     let mut best = vec![(0usize, 0usize); s + 1];
     for i in 1..=s {

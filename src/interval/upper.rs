@@ -7,7 +7,9 @@
 //! `--scheme` file, a search result).
 
 use crate::catalog::schemes::STORED_SCHEMES;
-use crate::decompose::{PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition};
+use crate::decompose::{
+    PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
+};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use serde::Serialize;

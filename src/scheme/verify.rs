@@ -47,10 +47,7 @@ pub fn scheme_tensor(s: &Scheme, field: FieldSpec) -> Vec<Q> {
     let ints: Vec<[(Vec<BigInt>, BigInt); 3]> = (0..s.rank())
         .map(|t_| [&s.u[t_], &s.v[t_], &s.w[t_]].map(|x| integer_over(x)))
         .collect();
-    let dens: Vec<BigInt> = ints
-        .iter()
-        .map(|[a, b, c]| &a.1 * &b.1 * &c.1)
-        .collect();
+    let dens: Vec<BigInt> = ints.iter().map(|[a, b, c]| &a.1 * &b.1 * &c.1).collect();
     let lcm = dens.iter().fold(BigInt::one(), |l, x| l.lcm(x));
     let widest = dens.iter().map(|x| x.bits()).max().unwrap_or(0).max(64);
     let mut acc = if lcm.bits() <= 32 * widest {
