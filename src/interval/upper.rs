@@ -57,6 +57,16 @@ pub fn upper_bounds(
         scheme: d.scheme,
     });
     // general data: groups of slices split together, below the slice bound
+    if slices_only && t.field() == crate::scalar::FieldSpec::Rational {
+        let bits = crate::decompose::pencil::entry_bits(t);
+        if bits > params.pencil.max_entry_bits {
+            notes.push(format!(
+                "pencil bound not tried: entries of {bits} bits once denominators are \
+                 cleared, above {} (its exact kernels grow with them)",
+                params.pencil.max_entry_bits
+            ));
+        }
+    }
     if slices_only
         && let Some((s, axis, groups)) = pencil_decomposition(t, &params.pencil)
         && s.rank() < out[0].value
