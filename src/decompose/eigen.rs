@@ -55,10 +55,7 @@ pub fn rational_eigen(x: &Matrix<Q>) -> Result<Vec<Eigen>, EigenFailure> {
     };
     let approx = schur.complex_eigenvalues();
     // every value is checked to be real before any is confirmed (the exact step is costly)
-    if approx
-        .iter()
-        .any(|z| z.im.abs() > 1e-6 * (1.0 + z.re.abs()))
-    {
+    if classify(approx.as_slice()) == FloatSpectrum::NotReal {
         return Err(EigenFailure::NotReal);
     }
     let mut found: Vec<Eigen> = Vec::new();
@@ -85,6 +82,73 @@ pub fn rational_eigen(x: &Matrix<Q>) -> Result<Vec<Eigen>, EigenFailure> {
         return Err(EigenFailure::NotRational);
     }
     Ok(found)
+}
+
+/// What the floating-point eigenvalues say before any exact work (a filter only: nothing
+/// is concluded from it but which exact step is worth trying).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum FloatSpectrum {
+    /// Real and pairwise distinct.
+    Distinct,
+    /// One has a clear imaginary part: no rational eigenvalue there.
+    NotReal,
+    /// Real, but two agree to about nine digits.
+    Repeated,
+    /// The floating-point step failed (overflow, a singular solve, no convergence).
+    Unknown,
+}
+
+fn classify(values: &[nalgebra::Complex<f64>]) -> FloatSpectrum {
+    if values
+        .iter()
+        .any(|z| !z.re.is_finite() || !z.im.is_finite())
+    {
+        return FloatSpectrum::Unknown;
+    }
+    if values
+        .iter()
+        .any(|z| z.im.abs() > 1e-6 * (1.0 + z.re.abs()))
+    {
+        return FloatSpectrum::NotReal;
+    }
+    let mut re: Vec<f64> = values.iter().map(|z| z.re).collect();
+    re.sort_by(f64::total_cmp);
+    if re
+        .windows(2)
+        .any(|w| (w[1] - w[0]).abs() <= 1e-9 * (1.0 + w[0].abs().max(w[1].abs())))
+    {
+        return FloatSpectrum::Repeated;
+    }
+    FloatSpectrum::Distinct
+}
+
+/// The kind of the eigenvalues of `X = tx ty^-1` (ty square, invertible), read in f64
+/// from the Schur form of `ty^-T`-solved `tx^T` after scaling both to entries of size at
+/// most 1 (scaling multiplies X by a constant and leaves the kind unchanged).
+/// Cost: one LU solve and one Schur form of n x n f64 matrices, O(n^3) flops.
+pub fn pencil_spectrum(tx: &Matrix<Q>, ty: &Matrix<Q>) -> FloatSpectrum {
+    let n = tx.rows;
+    let to_f64 = |m: &Matrix<Q>| {
+        let scale = m
+            .data
+            .iter()
+            .map(|v| q_to_f64(v).abs())
+            .fold(0.0f64, f64::max)
+            .max(f64::MIN_POSITIVE);
+        nalgebra::DMatrix::from_fn(n, n, |i, j| q_to_f64(&m[(i, j)]) / scale)
+    };
+    let (fx, fy) = (to_f64(tx), to_f64(ty));
+    if fx.iter().chain(fy.iter()).any(|v| !v.is_finite()) {
+        return FloatSpectrum::Unknown;
+    }
+    // X^T = ty^-T tx^T
+    let Some(xt) = fy.transpose().lu().solve(&fx.transpose()) else {
+        return FloatSpectrum::Unknown;
+    };
+    let Some(schur) = nalgebra::linalg::Schur::try_new(xt, f64::EPSILON, 200 * n.max(1)) else {
+        return FloatSpectrum::Unknown;
+    };
+    classify(schur.complex_eigenvalues().as_slice())
 }
 
 /// The rational eigenvalue of `x` nearest the real number `mu`, confirmed exactly.

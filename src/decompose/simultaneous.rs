@@ -18,10 +18,10 @@
 //! Uniqueness: A and B have k-rank R and C has k-rank >= 2, so Kruskal's condition
 //! `k_A + k_B + k_C >= 2R + 2` holds ([`super::kruskal`]); the k-ranks are reported.
 
-use super::eigen::{EigenFailure, rational_eigen};
+use super::eigen::{EigenFailure, FloatSpectrum, pencil_spectrum, rational_eigen};
 use super::kruskal::{Uniqueness, kruskal_uniqueness};
 use crate::linalg::Matrix;
-use crate::linalg::modular::{inverse_q, skeleton_q};
+use crate::linalg::modular::{inverse_q, product_q, skeleton_q};
 use crate::scalar::{FieldSpec, Q, Rationals};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::{Tensor, flattening, flattening_ranks, slice};
@@ -104,6 +104,10 @@ pub fn simultaneous_diagonalisation(
     Err(why)
 }
 
+const NOT_REAL: &str =
+    "the eigenvalues are not real: no decomposition over Q with this many terms along this route";
+const REPEATED: &str = "repeated eigenvalues: two third-axis factors may be proportional";
+
 fn along(
     t: &Tensor,
     [a, b, c]: [usize; 3],
@@ -111,10 +115,9 @@ fn along(
     params: &SimultaneousParams,
 ) -> Result<Simultaneous, String> {
     let d = t.dims();
-    let f = Rationals;
     let slices: Vec<Matrix<Q>> = (0..d[c]).map(|k| slice(t, c, k)).collect();
-    let pa = independent_rows(&flattening(t, a));
-    let pb = independent_rows(&flattening(t, b));
+    let pa = independent_rows(t, a, r);
+    let pb = independent_rows(t, b, r);
     let core: Vec<Matrix<Q>> = slices
         .iter()
         .map(|s| {
@@ -132,20 +135,24 @@ fn along(
         let x: Vec<i64> = (0..d[c]).map(|_| rng.gen_range(-9..=9)).collect();
         let y: Vec<i64> = (0..d[c]).map(|_| rng.gen_range(-9..=9)).collect();
         let (tx, ty) = (combine(&core, &x, r), combine(&core, &y, r));
+        // the floating-point spectrum first: the exact product and eigenproblem are
+        // the costly part, and most tensors fail here
+        match pencil_spectrum(&tx, &ty) {
+            FloatSpectrum::NotReal => return Err(NOT_REAL.into()),
+            FloatSpectrum::Repeated => {
+                why = REPEATED.into();
+                continue;
+            }
+            FloatSpectrum::Distinct | FloatSpectrum::Unknown => {}
+        }
         let Some(ty_inv) = inverse_q(&ty) else {
             continue;
         };
-        let eig = match rational_eigen(&tx.mul(&f, &ty_inv)) {
+        let eig = match rational_eigen(&product_q(&tx, &ty_inv)) {
             Ok(e) => e,
             // for a decomposition of this kind every pair of generic combinations has
             // the same kind of eigenvalues: no use trying another pair
-            Err(EigenFailure::NotReal) => {
-                return Err(
-                    "the eigenvalues are not real: no decomposition over Q with this \
-                            many terms along this route"
-                        .into(),
-                );
-            }
+            Err(EigenFailure::NotReal) => return Err(NOT_REAL.into()),
             Err(EigenFailure::NotRational) => {
                 return Err("the eigenvalues are not all rational (or repeated): no \
                             decomposition over Q found along this route"
@@ -153,7 +160,7 @@ fn along(
             }
         };
         if eig.len() != r || eig.iter().any(|e| e.vectors.len() != 1) {
-            why = "repeated eigenvalues: two third-axis factors may be proportional".into();
+            why = REPEATED.into();
             continue;
         }
         match read_factors(
@@ -214,8 +221,13 @@ fn combine(core: &[Matrix<Q>], x: &[i64], r: usize) -> Matrix<Q> {
 }
 
 /// Indices of a maximal set of linearly independent rows of `m` (exact).
-fn independent_rows(m: &Matrix<Q>) -> Vec<usize> {
-    skeleton_q(m).rows
+/// `r` independent rows of the flattening along `axis` (of rank r): all of them when r is
+/// the dimension.
+fn independent_rows(t: &Tensor, axis: usize, r: usize) -> Vec<usize> {
+    if r == t.dims()[axis] {
+        return (0..r).collect();
+    }
+    skeleton_q(&flattening(t, axis)).rows
 }
 
 /// From the eigenvectors (columns of A' = A restricted to the rows `pa` of axis a), the

@@ -9,7 +9,7 @@
 //! reduced row echelon form, one term per pivot. The result is a scheme over the tensor's
 //! field; the caller verifies it (invariant of every upper bound in [`super`]).
 
-use crate::linalg::modular::skeleton_q;
+use crate::linalg::modular::{rank_q, skeleton_q};
 use crate::linalg::{Matrix, rref};
 use crate::scalar::{Field, FieldSpec, Q};
 use crate::scheme::Scheme;
@@ -20,6 +20,22 @@ use num_traits::Zero;
 /// that axis. Cost: O(sum over axes of d_a * rref of a d_b x d_c matrix), plus one rref of
 /// each flattening.
 pub fn slice_decomposition(t: &Tensor) -> (Scheme, usize) {
+    if t.field() == FieldSpec::Rational {
+        // over Q the terms are built along the best axis only: the echelon basis is a
+        // subset of the slices (independent rows of the flattening), so the count of an
+        // axis is the sum of the ranks of those slices, read before any split
+        let axis = (0..3)
+            .min_by_key(|&axis| {
+                let f = flattening(t, axis);
+                skeleton_q(&f)
+                    .rows
+                    .iter()
+                    .map(|&r| rank_q(&slice_matrix(t, &f, axis, r)))
+                    .sum::<usize>()
+            })
+            .expect("three axes");
+        return (slice_scheme(t, axis), axis);
+    }
     let mut best: Option<(Scheme, usize)> = None;
     for axis in 0..3 {
         let s = slice_scheme(t, axis);
@@ -30,11 +46,22 @@ pub fn slice_decomposition(t: &Tensor) -> (Scheme, usize) {
     best.expect("three axes")
 }
 
+/// Row `r` of the flattening along `axis`, reshaped to its slice matrix.
+fn slice_matrix(t: &Tensor, f: &Matrix<Q>, axis: usize, r: usize) -> Matrix<Q> {
+    let d = t.dims();
+    let (o1, o2) = others(axis);
+    Matrix::from_rows(reshape(f.row(r), d[o1], d[o2]), d[o2])
+}
+
 /// The sum of the slice ranks along `axis`, split into rank-one terms: the better of the
 /// slices themselves and the echelon basis of their span.
 pub fn slice_scheme(t: &Tensor, axis: usize) -> Scheme {
     let field = t.field();
     let d = t.dims();
+    if field == FieldSpec::Rational {
+        // over Q the echelon basis is a subset of the slices: never more terms
+        return terms_of(field, axis, d, &echelon_basis(t, axis));
+    }
     // (matrix, coefficient vector along the axis) pairs whose sum of products is T
     let plain: Vec<(Matrix<Q>, Vec<Q>)> = slices(t, axis)
         .into_iter()
@@ -66,12 +93,7 @@ fn echelon_basis(t: &Tensor, axis: usize) -> Vec<(Matrix<Q>, Vec<Q>)> {
             .rows
             .iter()
             .enumerate()
-            .map(|(m, &r)| {
-                (
-                    Matrix::from_rows(reshape(f.row(r), d[o1], d[o2]), d[o2]),
-                    sk.left.column(m),
-                )
-            })
+            .map(|(m, &r)| (slice_matrix(t, &f, axis, r), sk.left.column(m)))
             .collect();
     }
     let (e, piv) = reduce(t.field(), &f);
@@ -109,6 +131,29 @@ pub fn reduce(field: FieldSpec, m: &Matrix<Q>) -> (Matrix<Q>, Vec<usize>) {
 /// ([`skeleton_q`]).
 pub fn rank_one_terms(field: FieldSpec, m: &Matrix<Q>) -> Vec<(Vec<Q>, Vec<Q>)> {
     if field == FieldSpec::Rational {
+        // when the nonzero rows (or columns) are as many as the rank, they are the split
+        let nonzero_rows: Vec<usize> = (0..m.rows)
+            .filter(|&i| m.row(i).iter().any(|x| !x.is_zero()))
+            .collect();
+        let nonzero_cols: Vec<usize> = (0..m.cols)
+            .filter(|&j| (0..m.rows).any(|i| !m[(i, j)].is_zero()))
+            .collect();
+        if nonzero_rows.len().min(nonzero_cols.len()) == 0 {
+            return Vec::new();
+        }
+        let r = rank_q(m);
+        if nonzero_rows.len() == r {
+            return nonzero_rows
+                .into_iter()
+                .map(|i| (unit(m.rows, i), m.row(i).to_vec()))
+                .collect();
+        }
+        if nonzero_cols.len() == r {
+            return nonzero_cols
+                .into_iter()
+                .map(|j| (m.column(j), unit(m.cols, j)))
+                .collect();
+        }
         // M = left M[R, :] (see `skeleton_q`): the same number of terms, without the
         // growth of an elimination over Q
         let sk = skeleton_q(m);

@@ -373,7 +373,8 @@ fn in_product<'t, F: Field>(
 /// - associativity implies the alternative, flexible, third and fourth power laws (their
 ///   instances are sums of associators), the Jacobi identity of the commutator and the
 ///   Jordan identity of the anticommutator (identities of the free associative ring);
-/// - associative and commutative imply the Jordan identity;
+/// - associativity implies the Jordan identity `((xy)x)x = (xy)(xx)` (both sides are the
+///   word xyxx);
 /// - anticommutative and Jacobi imply the Jacobi identity of the commutator (`[x,y] = 2xy`);
 /// - left alternative implies third powers (`(x,x,x)` is an instance of it);
 /// - left and right alternative imply flexible (`(x,y,x) = -(x,x,y)`);
@@ -389,7 +390,7 @@ pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
         Power3 => &[&[Assoc], &[LeftAlt]],
         CommutatorJacobi => &[&[Assoc], &[Anti, Jacobi]],
         AnticommutatorJordan => &[&[Assoc], &[Comm, JordanId]],
-        JordanId => &[&[Assoc, Comm]],
+        JordanId => &[&[Assoc]],
         MalcevId => &[&[Jacobi]],
         Assoc | Comm | Anti | Jacobi => &[],
     }

@@ -117,14 +117,29 @@ pub fn rank_mod(mut m: Matrix<u64>, p: u64) -> usize {
 }
 
 /// Scale each row by the lcm of its denominators: an integer matrix with the same row space.
-fn integer_rows(m: &Matrix<Q>) -> Vec<Vec<BigInt>> {
+/// Each row scaled to integers: `(l_i, l_i * row_i)` with `l_i` the lcm of the row's
+/// denominators.
+fn scaled_rows(m: &Matrix<Q>) -> Vec<(BigInt, Vec<BigInt>)> {
     (0..m.rows)
         .map(|i| {
             let row = m.row(i);
-            let l = row.iter().fold(BigInt::one(), |acc, x| acc.lcm(x.denom()));
-            row.iter().map(|x| x.numer() * (&l / x.denom())).collect()
+            // integer entries (the common case) need no gcd
+            let l = row
+                .iter()
+                .filter(|x| !x.denom().is_one())
+                .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()));
+            let ints = if l.is_one() {
+                row.iter().map(|x| x.numer().clone()).collect()
+            } else {
+                row.iter().map(|x| x.numer() * (&l / x.denom())).collect()
+            };
+            (l, ints)
         })
         .collect()
+}
+
+fn integer_rows(m: &Matrix<Q>) -> Vec<Vec<BigInt>> {
+    scaled_rows(m).into_iter().map(|(_, r)| r).collect()
 }
 
 /// The inverse of a square rational matrix, exactly, or `None` when it is singular.
@@ -143,15 +158,8 @@ pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
     if n == 0 {
         return Some(m.clone());
     }
-    let ints = integer_rows(m);
     // row scales: M[i] = A[i] / d_i
-    let scales: Vec<BigInt> = (0..n)
-        .map(|i| {
-            m.row(i)
-                .iter()
-                .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()))
-        })
-        .collect();
+    let (scales, ints): (Vec<BigInt>, Vec<Vec<BigInt>>) = scaled_rows(m).into_iter().unzip();
     // enough primes for the Hadamard bound of the adjugate (Cramer's rule)
     let bits = ints.iter().flatten().map(|x| x.bits()).max().unwrap_or(1);
     let count = (super::nullspace::hadamard_bits(n, bits, n) as f64 / 27.0).ceil() as usize + 4;
@@ -238,7 +246,11 @@ pub fn rank_q(m: &Matrix<Q>) -> usize {
     if m.rows == 0 || m.cols == 0 {
         return 0;
     }
-    let ints = integer_rows(m);
+    rank_of_rows(m, integer_rows(m))
+}
+
+/// [`rank_q`] of `m` given its rows scaled to integers.
+fn rank_of_rows(m: &Matrix<Q>, ints: Vec<Vec<BigInt>>) -> usize {
     let p = kernel_primes(1)[0];
     let data: Vec<u64> = ints.iter().flatten().map(|x| residue(x, p)).collect();
     let r = rank_mod(
@@ -276,49 +288,63 @@ pub struct Skeleton {
     pub left: Matrix<Q>,
 }
 
-/// `M[:, cols] X` for a rational X, by one integer product: with `X = A / d` (d the lcm of
-/// X's denominators) and each row of `M[:, cols]` scaled to integers by `c_i`, entry
-/// `(i, l)` is `(C A)[i][l] / (c_i d)`, so only the results are reduced.
-fn times_inverse(m: &Matrix<Q>, cols: &[usize], x: &Matrix<Q>) -> Matrix<Q> {
-    let r = x.cols;
-    let d = x
-        .data
-        .iter()
-        .fold(BigInt::one(), |acc, q| acc.lcm(q.denom()));
-    let a: Vec<BigInt> = x
-        .data
-        .iter()
-        .map(|q| q.numer() * (&d / q.denom()))
+/// The product `A B` of two rational matrices by one integer product: each row of A is
+/// scaled to integers by the lcm `c_i` of its denominators and each column of B by the
+/// lcm `e_j` of its denominators, so entry `(i, j)` is `(A' B')[i][j] / (c_i e_j)` and only
+/// the m n results are reduced (no gcd inside the sums).
+/// Cost: m k n big-integer multiply-adds and m n reductions, for A m x k and B k x n.
+pub fn product_q(a: &Matrix<Q>, b: &Matrix<Q>) -> Matrix<Q> {
+    assert_eq!(a.cols, b.rows, "product_q: inner dimensions differ");
+    let (k, n) = (b.rows, b.cols);
+    let col_scale: Vec<BigInt> = (0..n)
+        .map(|j| (0..k).fold(BigInt::one(), |acc, l| acc.lcm(b[(l, j)].denom())))
         .collect();
-    let rows: Vec<Vec<Q>> = (0..m.rows)
-        .map(|i| {
-            let c_i = cols
+    // B' transposed, so that each sum reads two contiguous rows
+    let bt: Vec<Vec<BigInt>> = (0..n)
+        .map(|j| {
+            (0..k)
+                .map(|l| b[(l, j)].numer() * (&col_scale[j] / b[(l, j)].denom()))
+                .collect()
+        })
+        .collect();
+    let rows: Vec<Vec<Q>> = scaled_rows(a)
+        .into_iter()
+        .map(|(c_i, ai)| {
+            let nonzero: Vec<(usize, &BigInt)> = ai
                 .iter()
-                .fold(BigInt::one(), |acc, &j| acc.lcm(m[(i, j)].denom()));
-            let ci: Vec<BigInt> = cols
-                .iter()
-                .map(|&j| m[(i, j)].numer() * (&c_i / m[(i, j)].denom()))
+                .enumerate()
+                .filter(|(_, v)| !v.is_zero())
                 .collect();
-            let den = &c_i * &d;
-            (0..r)
-                .map(|l| {
+            (0..n)
+                .map(|j| {
                     let mut s = BigInt::zero();
-                    for (k, v) in ci.iter().enumerate() {
-                        if !v.is_zero() {
-                            s += v * &a[k * r + l];
+                    for &(l, v) in &nonzero {
+                        if !bt[j][l].is_zero() {
+                            s += v * &bt[j][l];
                         }
                     }
-                    Q::new(s, den.clone())
+                    Q::new(s, &c_i * &col_scale[j])
                 })
                 .collect()
         })
         .collect();
-    Matrix::from_rows(rows, r)
+    Matrix::from_rows(rows, n)
+}
+
+/// `M[:, cols] X` for a rational X (see [`product_q`]).
+fn times_inverse(m: &Matrix<Q>, cols: &[usize], x: &Matrix<Q>) -> Matrix<Q> {
+    let all: Vec<usize> = (0..m.rows).collect();
+    product_q(&submatrix(m, &all, cols), x)
 }
 
 /// See [`Skeleton`].
 pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
-    let rank = rank_q(m);
+    let ints = integer_rows(m);
+    let rank = if m.rows == 0 || m.cols == 0 {
+        0
+    } else {
+        rank_of_rows(m, ints.clone())
+    };
     if rank == 0 {
         return Skeleton {
             rows: Vec::new(),
@@ -326,11 +352,10 @@ pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
             left: Matrix::from_rows(vec![Vec::new(); m.rows], 0),
         };
     }
-    let ints = integer_rows(m);
     let t = m.transpose();
-    let ints_t = integer_rows(&t);
     for &p in kernel_primes(8).iter() {
-        let mut data: Vec<u64> = ints.iter().flatten().map(|x| residue(x, p)).collect();
+        let residues: Vec<u64> = ints.iter().flatten().map(|x| residue(x, p)).collect();
+        let mut data = residues.clone();
         let cols = rref_mod(&mut data, m.rows, m.cols, p, false);
         if cols.len() != rank {
             continue;
@@ -344,7 +369,11 @@ pub fn skeleton_q(m: &Matrix<Q>) -> Skeleton {
                 left,
             };
         }
-        let mut data: Vec<u64> = ints_t.iter().flatten().map(|x| residue(x, p)).collect();
+        // the rows of M scaled to integers are independent where those of M are, so the
+        // transposed residues serve (a prime dividing a scale only lowers the rank seen)
+        let mut data: Vec<u64> = (0..m.cols)
+            .flat_map(|j| residues.iter().skip(j).step_by(m.cols).copied())
+            .collect();
         let rows = rref_mod(&mut data, t.rows, t.cols, p, false);
         if rows.len() != rank {
             continue;

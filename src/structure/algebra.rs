@@ -282,28 +282,43 @@ impl<F: Field> Alg<F> {
         params: &SolveParams,
     ) -> Result<Vec<F::Elem>> {
         let f = &self.f;
+        let top = max_degree.min(self.n);
         let mut powers = vec![one.to_vec()];
-        for _ in 0..max_degree.min(self.n) {
-            let next = self.mul(powers.last().expect("a power"), y);
-            powers.push(next);
+        // degree bounds 1, 2, 4, ... (then top): the powers are computed only up to twice
+        // the degree of the minimal polynomial, and each kernel is proven exactly
+        let mut bound = 1;
+        loop {
+            let bound_now = bound.min(top);
+            while powers.len() <= bound_now {
+                let next = self.mul(powers.last().expect("a power"), y);
+                powers.push(next);
+            }
+            let m = powers.len();
+            // rows: one per coordinate, unknowns: the coefficients of the powers
+            let rows: Vec<Vec<F::Elem>> = (0..self.n)
+                .map(|c| powers.iter().map(|p| p[c].clone()).collect())
+                .collect();
+            let ker = kernel(f, &rows, m, params)?;
+            // the kernel is in reduced form: its vector of least degree is the minimal
+            // polynomial's coefficient vector
+            let best = ker
+                .basis
+                .iter()
+                .filter_map(|v| {
+                    let d = v.iter().rposition(|x| !f.is_zero(x))?;
+                    Some((d, v))
+                })
+                .min_by_key(|(d, _)| *d);
+            if let Some((d, v)) = best {
+                return Ok(crate::poly::monic(f, &v[..=d]));
+            }
+            if bound_now >= top {
+                return Err(Error::Invalid(
+                    "internal error: no minimal polynomial".into(),
+                ));
+            }
+            bound *= 2;
         }
-        let m = powers.len();
-        // rows: one per coordinate, unknowns: the coefficients of the powers
-        let rows: Vec<Vec<F::Elem>> = (0..self.n)
-            .map(|c| powers.iter().map(|p| p[c].clone()).collect())
-            .collect();
-        let ker = kernel(f, &rows, m, params)?;
-        let best = ker
-            .basis
-            .iter()
-            .filter_map(|v| {
-                let d = v.iter().rposition(|x| !f.is_zero(x))?;
-                Some((d, v))
-            })
-            .min_by_key(|(d, _)| *d)
-            .ok_or_else(|| Error::Invalid("internal error: no minimal polynomial".into()))?;
-        let (d, v) = best;
-        Ok(crate::poly::monic(f, &v[..=d]))
     }
 
     /// An idempotent congruent to x modulo a nilpotent ideal (x^2 - x nilpotent), by the
