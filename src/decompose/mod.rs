@@ -3,6 +3,9 @@
 //! - [`slices`]: the sum of the slice ranks along the best axis (any tensor, any field);
 //! - [`simultaneous`]: simultaneous diagonalisation over Q when the rank is at most two of
 //!   the three dimensions, with Kruskal's uniqueness ([`kruskal`]);
+//! - [`pencil`]: slices grouped (most often in pairs, matrix pencils), each group split
+//!   by evaluation at rational points (over Q; fewer terms than the slice ranks for
+//!   general data);
 //! - [`eigen`]: rational eigenvalues, found numerically and confirmed exactly.
 //!
 //! Invariant: every scheme returned here has passed the exact verification against the
@@ -10,11 +13,13 @@
 
 pub mod eigen;
 pub mod kruskal;
+pub mod pencil;
 pub mod planted;
 pub mod simultaneous;
 pub mod slices;
 
 pub use kruskal::Uniqueness;
+pub use pencil::{PencilParams, pencil_decomposition};
 pub use simultaneous::{Simultaneous, SimultaneousParams, simultaneous_diagonalisation};
 pub use slices::{slice_decomposition, slice_scheme};
 

@@ -27,7 +27,7 @@ use crate::scheme::{Scheme, verify};
 use crate::tensor::{Tensor, flattening, flattening_ranks, slice};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::Zero;
+use num_traits::{One, Zero};
 use rand::{Rng, SeedableRng};
 
 /// Parameters of [`simultaneous_diagonalisation`].
@@ -129,6 +129,19 @@ fn along(
             )
         })
         .collect();
+    // a common scale makes the core integral: the combinations below are then sums of
+    // integers, and X = T_x T_y^-1 does not change
+    let scale = core
+        .iter()
+        .flat_map(|m| m.data.iter())
+        .filter(|v| !v.denom().is_one())
+        .fold(BigInt::from(1), |acc, v| acc.lcm(v.denom()));
+    let core: Vec<Matrix<Q>> = if scale.is_one() {
+        core
+    } else {
+        let s = Q::from_integer(scale);
+        core.into_iter().map(|m| m.map(|v| v * &s)).collect()
+    };
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ (a * 9 + b * 3 + c) as u64);
     let mut why = "no pair of slice combinations was invertible".to_string();
     for _ in 0..params.tries.max(1) {
@@ -185,7 +198,7 @@ fn oriented(t: &Tensor, axis: usize, i: usize, in_order: bool) -> Matrix<Q> {
 
 /// `v = s * w` with w a primitive integer vector (coprime entries, first nonzero one
 /// positive) and s rational; the zero vector gives (v, 1).
-fn primitive(v: &[Q]) -> (Vec<Q>, Q) {
+pub(super) fn primitive(v: &[Q]) -> (Vec<Q>, Q) {
     let lcm = v.iter().fold(BigInt::from(1), |l, x| l.lcm(x.denom()));
     let ints: Vec<BigInt> = v.iter().map(|x| (x * &lcm).to_integer()).collect();
     let mut g = ints.iter().fold(BigInt::from(0), |g, x| g.gcd(x));

@@ -74,7 +74,7 @@ pub fn slice_scheme(t: &Tensor, axis: usize) -> Scheme {
     if b.rank() < a.rank() { b } else { a }
 }
 
-fn unit(n: usize, i: usize) -> Vec<Q> {
+pub(super) fn unit(n: usize, i: usize) -> Vec<Q> {
     let mut v = vec![Q::zero(); n];
     v[i] = Q::from_integer(1.into());
     v
@@ -82,7 +82,7 @@ fn unit(n: usize, i: usize) -> Vec<Q> {
 
 /// The slice span as `sum_m B_m (x) z_m`: B_m the nonzero rows of the reduced flattening
 /// (reshaped), z_m the pivot columns of the flattening.
-fn echelon_basis(t: &Tensor, axis: usize) -> Vec<(Matrix<Q>, Vec<Q>)> {
+pub(super) fn echelon_basis(t: &Tensor, axis: usize) -> Vec<(Matrix<Q>, Vec<Q>)> {
     let d = t.dims();
     let (o1, o2) = others(axis);
     let f = flattening(t, axis);
@@ -174,19 +174,25 @@ pub fn rank_one_terms(field: FieldSpec, m: &Matrix<Q>) -> Vec<(Vec<Q>, Vec<Q>)> 
 /// The scheme `sum over pairs (M, z) of sum_l col_l (x) row_l (x) z`, placed on the axes
 /// (rows of M on the first other axis, columns on the second, z on `axis`).
 fn terms_of(field: FieldSpec, axis: usize, d: [usize; 3], pairs: &[(Matrix<Q>, Vec<Q>)]) -> Scheme {
-    let (o1, o2) = others(axis);
     let mut s = Scheme::empty(field, d);
     for (m, z) in pairs {
         for (col, row) in rank_one_terms(field, m) {
-            let mut f: [Vec<Q>; 3] = Default::default();
-            f[o1] = col;
-            f[o2] = row;
-            f[axis] = z.clone();
-            let [u, v, w] = f;
-            s.push(u, v, w);
+            push_placed(&mut s, axis, col, row, z.clone());
         }
     }
     s
+}
+
+/// Push the term `col (x) row (x) z` with `col` on the first other axis of `axis`, `row`
+/// on the second and `z` on `axis` (the placement of a slice's rank-one terms).
+pub(super) fn push_placed(s: &mut Scheme, axis: usize, col: Vec<Q>, row: Vec<Q>, z: Vec<Q>) {
+    let (o1, o2) = others(axis);
+    let mut f: [Vec<Q>; 3] = Default::default();
+    f[o1] = col;
+    f[o2] = row;
+    f[axis] = z;
+    let [u, v, w] = f;
+    s.push(u, v, w);
 }
 
 #[cfg(test)]

@@ -1,12 +1,15 @@
 //! Upper bounds for the tensor rank, each carried by a scheme verified exactly against the
 //! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
-//! `R(T) <= r`. Sources: the slice decomposition and simultaneous diagonalisation
+//! `R(T) <= r`. Sources: the slice decomposition, simultaneous diagonalisation and, when
+//! the latter does not apply, the pencil bound (slices paired as pencils, over Q)
 //! ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
 //! verified against this tensor, whatever its name), and schemes the caller supplies (a
 //! `--scheme` file, a search result).
 
 use crate::catalog::schemes::STORED_SCHEMES;
-use crate::decompose::{SimultaneousParams, Uniqueness, decompose};
+use crate::decompose::{
+    PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
+};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use serde::Serialize;
@@ -15,8 +18,8 @@ use serde::Serialize;
 #[derive(Clone, Debug, Serialize)]
 pub struct Upper {
     pub value: usize,
-    /// Short name: `slices`, `simultaneous diagonalisation`, `catalog`, `built`,
-    /// `given scheme`.
+    /// Short name: `slices`, `simultaneous diagonalisation`, `pencils`, `catalog`,
+    /// `built`, `given scheme`.
     pub name: String,
     /// Where the scheme comes from and what it shows.
     pub detail: String,
@@ -28,13 +31,15 @@ pub struct Upper {
 #[derive(Clone, Debug, Default)]
 pub struct UpperParams {
     pub simultaneous: SimultaneousParams,
+    pub pencil: PencilParams,
     /// Leave out the catalog's stored schemes.
     pub no_catalog: bool,
 }
 
 /// Every upper bound found, lowest first, and Kruskal's verdict when simultaneous
 /// diagonalisation succeeded. `given` schemes that do not verify are left out and named in
-/// the notes. Cost: that of [`decompose`] plus one exact verification per candidate scheme.
+/// the notes. Cost: that of [`decompose`] and [`pencil_decomposition`] plus one exact
+/// verification per candidate scheme.
 pub fn upper_bounds(
     t: &Tensor,
     params: &UpperParams,
@@ -44,12 +49,34 @@ pub fn upper_bounds(
     let mut notes = Vec::new();
     let d = decompose(t, &params.simultaneous);
     notes.extend(d.note.clone());
+    let slices_only = d.uniqueness.is_none();
     out.push(Upper {
         value: d.scheme.rank(),
         name: d.method.into(),
         detail: d.detail,
         scheme: d.scheme,
     });
+    // general data: groups of slices split together, below the slice bound
+    if slices_only
+        && let Some((s, axis, groups)) = pencil_decomposition(t, &params.pencil)
+        && s.rank() < out[0].value
+    {
+        match verify(&s, t) {
+            Ok(()) => out.push(Upper {
+                value: s.rank(),
+                name: "pencils".into(),
+                detail: format!(
+                    "{groups} {} of {} slices (pairs: matrix pencils) split by evaluation at \
+                     rational points, verified exactly (Ja'Ja' 1979, Optimal evaluation of \
+                     pairs of bilinear forms, SIAM J. Comput. 8, from memory)",
+                    if groups == 1 { "group" } else { "groups" },
+                    crate::tensor::AXES[axis]
+                ),
+                scheme: s,
+            }),
+            Err(_) => notes.push("the pencil scheme does not verify; left out".into()),
+        }
+    }
     if !params.no_catalog {
         // a matrix multiplication tensor: the best scheme built from the stored ones
         // (tensor products, direct sums, symmetries), verified against this tensor

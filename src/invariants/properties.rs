@@ -24,7 +24,7 @@ fn dims_of(t: &Tensor) -> Vec<usize> {
     }
     out.push(centroid(t, &it, &p).unwrap().space.dim());
     out.push(derivations(&it, &p).unwrap().dim());
-    out.push(adjoint_algebra(&it, &p).unwrap().dim());
+    out.push(adjoint_algebra(t, &it, &p).unwrap().dim());
     out.push(unit(&it, &p).unwrap().is_some() as usize);
     out
 }

@@ -86,6 +86,9 @@ pub struct DerivationsReport {
     pub inner_dim: Option<usize>,
     /// dim Der - dim Inn.
     pub outer_dim: Option<usize>,
+    /// The theorem that gave the space, when it was not solved for (absent otherwise).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub method: Option<String>,
 }
 
 #[derive(Clone, Debug, Serialize)]
@@ -310,6 +313,7 @@ pub fn render_report(t: &Tensor, inv: &Invariants, omit: bool) -> InvariantsRepo
                     .map(|l| if l { "lie" } else { "associative" }.to_string()),
                 inner_dim: inner,
                 outer_dim: inner.map(|i| d.space.dim() - i),
+                method: d.method.clone(),
             }
         }),
         adjoint: inv.adjoint.as_ref().map(|s| map_space(s, &[n, n], omit)),

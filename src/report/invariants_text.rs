@@ -124,6 +124,9 @@ pub fn render_text(r: &InvariantsReport, names: &[String]) -> String {
             }
             _ => s += "  inner derivations: defined here for associative or Lie algebras only\n",
         }
+        if let Some(m) = &d.method {
+            s += &format!("  method: {m}\n");
+        }
     }
     if let Some(a) = &r.adjoint {
         ms(&mut s, "adjoint algebra {(f, g) : f(a)b = a g(b)}", a);

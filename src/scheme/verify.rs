@@ -4,7 +4,9 @@
 use super::Scheme;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::Tensor;
-use num_traits::Zero;
+use num_bigint::BigInt;
+use num_integer::Integer;
+use num_traits::{One, Zero};
 
 /// The first coefficient where a scheme and a tensor disagree.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -33,26 +35,65 @@ pub struct Wrong {
 
 /// The tensor a scheme computes, `sum_t u_t (x) v_t (x) w_t`, reduced into `field`
 /// (normally the scheme's own), dense with index `(i * d1 + j) * d2 + k`.
-/// Cost: O(r * d0 * d1 * d2), skipping zeros.
+///
+/// Each term is written as integer vectors over one denominator `D_t` (the product of
+/// the least common denominators of its three factors); when the least common multiple L
+/// of the `D_t` stays within 32 times the size of the largest `D_t`, the terms are summed
+/// as integers over L (no gcd per operation) and each entry is reduced once at the end;
+/// otherwise term by term in exact rationals.
+/// Cost: O(r * d0 * d1 * d2) exact operations, skipping zeros.
 pub fn scheme_tensor(s: &Scheme, field: FieldSpec) -> Vec<Q> {
     let d = s.dims;
-    let mut acc = vec![Q::zero(); d[0] * d[1] * d[2]];
-    for t_ in 0..s.rank() {
-        for (i, ui) in s.u[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-            for (j, vj) in s.v[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                let uv = ui * vj;
-                for (k, wk) in s.w[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                    acc[(i * d[1] + j) * d[2] + k] += &uv * wk;
+    let ints: Vec<[(Vec<BigInt>, BigInt); 3]> = (0..s.rank())
+        .map(|t_| [&s.u[t_], &s.v[t_], &s.w[t_]].map(|x| integer_over(x)))
+        .collect();
+    let dens: Vec<BigInt> = ints.iter().map(|[a, b, c]| &a.1 * &b.1 * &c.1).collect();
+    let lcm = dens.iter().fold(BigInt::one(), |l, x| l.lcm(x));
+    let widest = dens.iter().map(|x| x.bits()).max().unwrap_or(0).max(64);
+    let mut acc = if lcm.bits() <= 32 * widest {
+        let mut num = vec![BigInt::zero(); d[0] * d[1] * d[2]];
+        for ([(u, _), (v, _), (w, _)], den) in ints.iter().zip(&dens) {
+            let scale = &lcm / den;
+            let v: Vec<BigInt> = v.iter().map(|x| x * &scale).collect();
+            for (i, ui) in u.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                for (j, vj) in v.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                    let uv = ui * vj;
+                    for (k, wk) in w.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                        num[(i * d[1] + j) * d[2] + k] += &uv * wk;
+                    }
                 }
             }
         }
-    }
+        num.into_iter()
+            .map(|x| Q::new(x, lcm.clone()))
+            .collect::<Vec<Q>>()
+    } else {
+        let mut acc = vec![Q::zero(); d[0] * d[1] * d[2]];
+        for t_ in 0..s.rank() {
+            for (i, ui) in s.u[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                for (j, vj) in s.v[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                    let uv = ui * vj;
+                    for (k, wk) in s.w[t_].iter().enumerate().filter(|(_, x)| !x.is_zero()) {
+                        acc[(i * d[1] + j) * d[2] + k] += &uv * wk;
+                    }
+                }
+            }
+        }
+        acc
+    };
     if let FieldSpec::Prime(_) = field {
         for x in acc.iter_mut() {
             *x = super::reduce_into(field, x).unwrap_or_else(|_| x.clone());
         }
     }
     acc
+}
+
+/// `x = X / D` with X an integer vector and D the least common denominator of `x`.
+fn integer_over(x: &[Q]) -> (Vec<BigInt>, BigInt) {
+    let den = x.iter().fold(BigInt::one(), |l, c| l.lcm(c.denom()));
+    let num = x.iter().map(|c| c.numer() * (&den / c.denom())).collect();
+    (num, den)
 }
 
 /// Every coefficient where `s` and `t` disagree, in lexicographic (i, j, k) order; empty

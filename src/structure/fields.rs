@@ -303,6 +303,26 @@ pub fn field_decision<F: Field>(
             rad.space.dim()
         )));
     }
+    // a quick witness first: c is semisimple here, so a basis element whose minimal
+    // polynomial (of degree >= 2) has a small integer root r gives coprime factors x - r
+    // and g / (x - r), hence a nontrivial idempotent (no factorisation needed)
+    let f = &c.f;
+    for i in 0..c.n {
+        let g = c.min_poly(&c.basis(i), one, c.n, params)?;
+        if g.len() < 3 {
+            continue;
+        }
+        for r in [0i64, 1, -1, 2, -2] {
+            if f.is_zero(&poly::eval(f, &g, &f.from_i64(r))) {
+                return Ok(FieldDecision::NotField(format!(
+                    "it has nontrivial idempotents (the minimal polynomial of basis element \
+                     {}, of degree {}, has the root {r})",
+                    i + 1,
+                    g.len() - 1
+                )));
+            }
+        }
+    }
     let parts = split_into_fields(c, one, params, 0x5eed)?;
     if parts.len() > 1 {
         return Ok(FieldDecision::NotField(format!(
