@@ -10,9 +10,9 @@
 //! n <= m <= p <= 5, the best published ranks over Q and GF(2) (from the catalog, with
 //! sources), then a search over Q (walks over GF(2), lifted 2-adically, 2 threads) with a
 //! budget of `RECORD_SECS` seconds per format (default 20), stopping at the published rank
-//! over Q. The search starts from the best scheme built from the catalog's stored schemes
-//! (`bilin::scheme::build`), so a format whose stored or built scheme is at the published
-//! rank takes no time. `RECORD_OUT=dir` writes each best scheme there as `matmulNMP.txt`.
+//! over Q. The best scheme built from the catalog's stored schemes (`bilin::scheme::build`)
+//! is known first, so a format whose stored or built scheme is at the published rank takes
+//! no time; the walks go down from the schoolbook scheme (the default walk start). `RECORD_OUT=dir` writes each best scheme there as `matmulNMP.txt`.
 
 use bilin::scalar::{FieldSpec, Q, q};
 use bilin::scheme::verify;

@@ -71,19 +71,35 @@ impl StoredScheme {
             .unwrap_or("")
     }
 
-    /// The scheme read against its entry's tensor and verified exactly. An `Err` is a
-    /// defect of the catalog (the test suite catches it).
+    /// The field named on the file's `field` line, if any.
+    pub fn field(&self) -> Option<crate::scalar::FieldSpec> {
+        self.text
+            .lines()
+            .map(str::trim)
+            .find_map(|l| l.strip_prefix("field "))
+            .and_then(|f| crate::scalar::FieldSpec::parse(f.trim()).ok())
+    }
+
     /// The dimensions of the tensor the scheme is for (its catalog entry's), without
     /// reading the scheme.
     pub fn dims(&self) -> Option<[usize; 3]> {
         find_entry(self.entry)?.tensor().ok().map(|t| t.dims())
     }
 
+    /// The scheme read against its entry's tensor (reduced mod p for a scheme stored over
+    /// GF(p)) and verified exactly. An `Err` is a defect of the catalog (the test suite
+    /// catches it).
     pub fn read(&self) -> Result<Scheme> {
         let e = find_entry(self.entry).ok_or_else(|| {
             Error::Invalid(format!("{}: no catalog entry `{}`", self.file, self.entry))
         })?;
         let t = e.tensor()?;
+        // a scheme stored over GF(p) (a `field GF(p)` line: found over GF(p), it does not
+        // lift) is read and verified against the entry's tensor reduced mod p
+        let t = match self.field() {
+            Some(f) if f != t.field() => t.with_field(f).map_err(Error::Invalid)?,
+            _ => t,
+        };
         let s = parse_scheme(self.text, self.file, &t)?;
         verify(&s, &t).map_err(|m| {
             Error::Invalid(format!(

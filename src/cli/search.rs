@@ -17,7 +17,7 @@ use bilin::interval::plan::{Plan, known_interval, method_name, plan_search};
 use bilin::search::flip::FlipParams;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
 use bilin::search::pool::PoolParams;
-use bilin::search::{Method, Params, Progress, Symmetry, search_scheme};
+use bilin::search::{Method, Params, Progress, Symmetry, WalkStart, search_scheme};
 use clap::Args;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -44,16 +44,24 @@ pub struct SearchArgs {
     /// Keep a symmetry in the walks: `cyclic` (square formats matmul:n,n,n) or `none`.
     #[arg(long, default_value = "none")]
     pub symmetry: String,
+    /// Where the walks start: `best` (the best known scheme that reduces modulo the walk
+    /// prime) or `standard` (the standard scheme; the known scheme stays the result).
+    #[arg(long, value_name = "FROM")]
+    pub walk_start: Option<String>,
     /// Schemes kept at the lowest rank reached, from which walks restart (0: every walk
     /// starts from the standard scheme).
     #[arg(long, value_name = "N")]
     pub pool: Option<usize>,
-    /// Moves per walk.
+    /// A walk ends after this many moves in a row without a new lowest rank.
     #[arg(long, value_name = "MOVES")]
     pub walk_moves: Option<u64>,
     /// Moves without a lower rank before a plus transition.
     #[arg(long, value_name = "MOVES")]
     pub plateau: Option<u64>,
+    /// Plus transitions raise a walk's rank to at most its lowest rank plus this (default
+    /// 2); a walk that far above its lowest rank returns to its lowest scheme instead.
+    #[arg(long, value_name = "N")]
+    pub max_excess: Option<usize>,
     /// Field the scheme must hold over (default: the tensor's field), e.g. `GF(2)`.
     #[arg(long)]
     pub field: Option<String>,
@@ -107,11 +115,12 @@ fn best_and_rate(last: &mut (Duration, u64), p: &Progress) -> (String, f64) {
     (best, rate)
 }
 
-/// `, walk at rank N` when the walks went below the best verified rank (schemes over the
-/// walk's field that have not lifted to Q).
+/// `, walk at rank N` when the lowest rank the walks reached differs from the best verified
+/// rank: below it, schemes over the walk's field that have not lifted to Q; above it,
+/// walks still on their way down from a higher start (`--walk-start standard`).
 fn walk_note(p: &Progress) -> String {
     match (p.walk_rank, &p.best) {
-        (Some(w), Some(b)) if w < b.rank() => format!(", walk at rank {w}"),
+        (Some(w), Some(b)) if w != b.rank() => format!(", walk at rank {w}"),
         (Some(w), None) => format!(", walk at rank {w}"),
         _ => String::new(),
     }
@@ -238,6 +247,11 @@ pub fn run(a: SearchArgs) -> i32 {
             );
         }
     };
+    let defaults = Params::default();
+    let walk_start = match a.walk_start.as_deref().map(WalkStart::parse).transpose() {
+        Ok(w) => w.unwrap_or(defaults.walk_start),
+        Err(e) => return usage_error("--walk-start", e.to_string()),
+    };
     if let Some(p) = a.prime
         && !(bilin::scalar::is_prime(p) && p < 1 << 16)
     {
@@ -288,7 +302,6 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(f) => f,
         Err(code) => return code,
     };
-    let defaults = Params::default();
     let params = Params {
         target_rank: a.rank,
         time_limit: a.time.map(Duration::from_secs_f64),
@@ -301,6 +314,7 @@ pub fn run(a: SearchArgs) -> i32 {
         first_run,
         walk_prime: a.prime.unwrap_or(2),
         symmetry,
+        walk_start,
         walk_budget: a.walk_moves.unwrap_or(defaults.walk_budget),
         pool: PoolParams {
             size: a.pool.unwrap_or(defaults.pool.size),
@@ -308,6 +322,7 @@ pub fn run(a: SearchArgs) -> i32 {
         },
         flip: FlipParams {
             plateau: a.plateau.unwrap_or(defaults.flip.plateau),
+            max_excess: a.max_excess.unwrap_or(defaults.flip.max_excess),
             ..defaults.flip.clone()
         },
         ..defaults

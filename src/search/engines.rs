@@ -184,7 +184,8 @@ pub fn plan_runs(goal: &Tensor, params: &Params, start_rank: Option<usize>) -> R
                 (
                     Fit::Als,
                     format!(
-                        "alternating least squares ({unknowns} unknowns: a                          Levenberg-Marquardt step would cost their cube)"
+                        "alternating least squares ({unknowns} unknowns: a \
+                         Levenberg-Marquardt step would cost their cube)"
                     ),
                 )
             };

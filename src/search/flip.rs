@@ -403,7 +403,8 @@ impl<const W: usize> WalkState for Walker<W> {
     }
 }
 
-/// Walk from `start` over GF(2) for at most `budget` attempted moves; see [`walk_state`].
+/// Walk from `start` over GF(2) until `budget` moves in a row bring no new lowest rank;
+/// see [`walk_state`].
 /// Fails when an axis has more than [`super::bits::MAX_DIM`] basis vectors.
 pub fn walk(
     start: &BitScheme,
@@ -420,7 +421,10 @@ pub fn walk(
     }))
 }
 
-/// Walk for at most `budget` attempted moves. `event` sees each new lowest rank and, at or
+/// Walk until `budget` attempted moves in a row bring no new lowest rank (a walk that keeps
+/// going down is not cut short: from a high start it descends to where it stalls, instead
+/// of handing a half-way scheme back to a pool that restarts from higher up). `event` sees
+/// each new lowest rank and, at or
 /// below `target`, a candidate every `retry_every` moves; the walk ends when it returns
 /// true for a candidate (returned) or for a `Moves` report (stop). After `plateau` moves
 /// without a new lowest rank the walk makes a plus transition, or returns to its best
@@ -442,7 +446,8 @@ pub fn walk_state<Wk: WalkState>(
     let mut last_try = 0u64;
     let mut unreported = 0u64;
     let mut moves = 0u64;
-    while moves < budget {
+    let mut best_at = 0u64;
+    while moves - best_at < budget {
         w.flip();
         moves += 1;
         since += 1;
@@ -453,6 +458,7 @@ pub fn walk_state<Wk: WalkState>(
             best = w.snap();
             since = 0;
             last_try = moves;
+            best_at = moves;
             if event(WalkEvent::Candidate(&best)) {
                 event(WalkEvent::Moves(unreported));
                 return Some(best);

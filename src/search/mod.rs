@@ -91,6 +91,31 @@ pub enum Symmetry {
     Cyclic,
 }
 
+/// Where the flip walks of a search start.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum WalkStart {
+    /// The lowest-rank known scheme (given, stored or built) whose coefficients reduce
+    /// modulo the walk prime, when it is below the standard rank.
+    Best,
+    /// The standard scheme (one term per nonzero structure constant) whatever is known: the
+    /// known scheme stays the best result, but a stored best can sit in a region of the
+    /// flip graph with no path down, which walks from higher up avoid.
+    Standard,
+}
+
+impl WalkStart {
+    /// `best` or `standard`.
+    pub fn parse(s: &str) -> Result<WalkStart> {
+        match s.to_ascii_lowercase().as_str() {
+            "best" => Ok(WalkStart::Best),
+            "standard" => Ok(WalkStart::Standard),
+            _ => Err(Error::Invalid(format!(
+                "unknown walk start `{s}` (expected best or standard)"
+            ))),
+        }
+    }
+}
+
 /// Settings of a search.
 #[derive(Clone, Debug)]
 pub struct Params {
@@ -112,13 +137,15 @@ pub struct Params {
     pub shard: (u64, u64),
     /// Execute only runs numbered at least this (to resume: the checkpoint's `next_run`).
     pub first_run: u64,
-    /// Moves per walk (one run).
+    /// A walk (one run) ends after this many moves in a row without a new lowest rank.
     pub walk_budget: u64,
     /// The prime of the walks of a search over Q (2: bit-packed GF(2); an odd prime below
     /// 65536: walks over GF(p), lifted p-adically, for schemes with even denominators).
     pub walk_prime: u64,
     /// A symmetry the walks keep.
     pub symmetry: Symmetry,
+    /// Where the walks start.
+    pub walk_start: WalkStart,
     pub pool: PoolParams,
     pub flip: FlipParams,
     pub numeric: NumericParams,
@@ -144,6 +171,7 @@ impl Default for Params {
             walk_budget: 4_000_000,
             walk_prime: 2,
             symmetry: Symmetry::None,
+            walk_start: WalkStart::Standard,
             pool: PoolParams::default(),
             flip: FlipParams::default(),
             numeric: NumericParams::default(),
@@ -257,7 +285,10 @@ pub fn search_scheme(
         None if known => known_start(&goal, None),
         s => s,
     };
-    let starts = [start.as_ref(), walk_start.as_ref()];
+    let starts = match params.walk_start {
+        WalkStart::Best => [start.as_ref(), walk_start.as_ref()],
+        WalkStart::Standard => [None, None],
+    };
     let target = params.target_rank.unwrap_or(0);
     // rank 0: only the zero tensor, decided at once
     if params.target_rank == Some(0) || goal.nnz() == 0 {

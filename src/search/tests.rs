@@ -271,6 +271,7 @@ fn matmul_444_starts_at_49_from_the_built_scheme() {
     let t = matmul(4, 4, 4);
     let mut p = params(Method::Flip, 49, 3);
     p.known_start = true;
+    p.walk_start = WalkStart::Best;
     let o = run(&t, &p);
     let s = o.best.expect("built");
     assert!(o.reached && s.rank() == 49 && o.moves == 0);
@@ -283,4 +284,31 @@ fn matmul_444_starts_at_49_from_the_built_scheme() {
             .is_some_and(|s| s.rank() <= 49 && verify(&s, &t).is_ok())
     );
     assert!(o.walk_rank.is_none_or(|r| r <= 49));
+}
+
+/// The default walks start from the standard scheme even when a better scheme is known:
+/// <2,2,2> has rank 7 (Strassen 1969) and <2,2,3> rank 11 (Hopcroft and Kerr 1971, "On
+/// minimizing the number of multiplications necessary for matrix multiplication"), both
+/// reached from the schoolbook scheme with the default walk settings; and for <4,4,4> the known 49 (Strassen 1969 on 2 x 2 blocks) stays the result while
+/// the walks go down from the schoolbook 64.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn default_walks_go_down_from_the_standard_scheme() {
+    assert_eq!(Params::default().walk_start, WalkStart::Standard);
+    for (t, r) in [(matmul(2, 2, 2), 7), (matmul(2, 2, 3), 11)] {
+        for seed in 0..3 {
+            let s = run(&t, &params(Method::Flip, r, seed)).best.expect("found");
+            assert_eq!(s.rank(), r);
+            assert!(verify(&s, &t).is_ok());
+        }
+    }
+    let t = matmul(4, 4, 4);
+    let mut p = params(Method::Flip, 40, 1);
+    p.known_start = true;
+    p.field = Some(FieldSpec::Prime(2));
+    p.time_limit = Some(Duration::from_millis(400));
+    let o = run(&t, &p);
+    let s = o.best.expect("built");
+    assert!(s.rank() <= 49 && o.moves > 0);
+    assert!(verify(&s, &t.with_field(FieldSpec::Prime(2)).unwrap()).is_ok());
 }

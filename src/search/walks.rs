@@ -27,7 +27,8 @@ pub(crate) struct WalkPlan<'a, S> {
 }
 
 impl<S: Snapshot> WalkPlan<'_, S> {
-    /// One run: a walk of `params.walk_budget` moves. `make` builds the walker at a
+    /// One run: a walk that ends after `params.walk_budget` moves without a new lowest
+    /// rank. `make` builds the walker at a
     /// snapshot with a seed; `halted` is polled with the move reports.
     pub fn run<Wk: WalkState<Snap = S>>(
         &self,
@@ -80,6 +81,14 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                         return ok && r <= target;
                     }
                     if !(improves || use_pool && lower) {
+                        return false;
+                    }
+                    // above the best verified rank a scheme is a waypoint of a walk going
+                    // down from a higher start: it joins the pool unlifted (a lift costs
+                    // an elimination and could not improve the result)
+                    if !improves && r > shared.best_rank.load(Ordering::SeqCst) {
+                        let pick = shared.moves.load(Ordering::Relaxed);
+                        self.pool.lock().expect("lock").offer(b.clone(), r, pick);
                         return false;
                     }
                     if r >= tried_rank && lift_secs > 0.2 * walk_t0.elapsed().as_secs_f64() {
