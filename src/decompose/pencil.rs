@@ -409,12 +409,10 @@ pub fn entry_bits(t: &Tensor) -> u64 {
         .fold(num_bigint::BigInt::from(1), |acc, d| {
             num_integer::Integer::lcm(&acc, d)
         });
-    let top = t
-        .entries()
+    t.entries()
         .map(|(_, _, _, v)| (v.numer() * (&den / v.denom())).bits())
         .max()
-        .unwrap_or(0);
-    top
+        .unwrap_or(0)
 }
 
 #[cfg(test)]
