@@ -152,10 +152,9 @@ fn along(
         // the costly part, and most tensors fail here
         match pencil_spectrum(&tx, &ty) {
             FloatSpectrum::NotReal => return Err(NOT_REAL.into()),
-            FloatSpectrum::Repeated => {
-                why = REPEATED.into();
-                continue;
-            }
+            // eigenvalues equal to nine digits for a random pair are a property of the
+            // tensor (two proportional third-axis factors), not of the pair
+            FloatSpectrum::Repeated => return Err(REPEATED.into()),
             FloatSpectrum::Distinct | FloatSpectrum::Unknown => {}
         }
         let Some(ty_inv) = inverse_q(&ty) else {

@@ -24,17 +24,16 @@ pub fn slice_decomposition(t: &Tensor) -> (Scheme, usize) {
         // over Q the terms are built along the best axis only: the echelon basis is a
         // subset of the slices (independent rows of the flattening), so the count of an
         // axis is the sum of the ranks of those slices, read before any split
-        let axis = (0..3)
-            .min_by_key(|&axis| {
-                let f = flattening(t, axis);
-                skeleton_q(&f)
-                    .rows
-                    .iter()
-                    .map(|&r| rank_q(&slice_matrix(t, &f, axis, r)))
-                    .sum::<usize>()
+        let (axis, pairs) = (0..3)
+            .map(|axis| {
+                let pairs = echelon_basis(t, axis);
+                let count: usize = pairs.iter().map(|(m, _)| rank_q(m)).sum();
+                (count, axis, pairs)
             })
+            .min_by_key(|(count, axis, _)| (*count, *axis))
+            .map(|(_, axis, pairs)| (axis, pairs))
             .expect("three axes");
-        return (slice_scheme(t, axis), axis);
+        return (terms_of(t.field(), axis, t.dims(), &pairs), axis);
     }
     let mut best: Option<(Scheme, usize)> = None;
     for axis in 0..3 {
