@@ -115,33 +115,35 @@ fn along(
     params: &SimultaneousParams,
 ) -> Result<Simultaneous, String> {
     let d = t.dims();
-    let slices: Vec<Matrix<Q>> = (0..d[c]).map(|k| slice(t, c, k)).collect();
     let pa = independent_rows(t, a, r);
     let pb = independent_rows(t, b, r);
-    let core: Vec<Matrix<Q>> = slices
-        .iter()
-        .map(|s| {
-            Matrix::from_rows(
-                pa.iter()
-                    .map(|&i| pb.iter().map(|&j| s[(i, j)].clone()).collect())
-                    .collect(),
-                r,
-            )
+    // the core: the entries on the rows pa (axis a) and pb (axis b), as (row, column,
+    // slice, value); a common scale makes it integral, so the combinations below are sums
+    // of integers, and X = T_x T_y^-1 does not change. O(nnz), no dense slices.
+    let position = |rows: &[usize], len: usize| {
+        let mut at = vec![usize::MAX; len];
+        for (p, &i) in rows.iter().enumerate() {
+            at[i] = p;
+        }
+        at
+    };
+    let (at_a, at_b) = (position(&pa, d[a]), position(&pb, d[b]));
+    let mut core: Vec<(usize, usize, usize, Q)> = t
+        .entries()
+        .filter_map(|(i, j, k, v)| {
+            let idx = [i, j, k];
+            let (p, q) = (at_a[idx[a]], at_b[idx[b]]);
+            (p != usize::MAX && q != usize::MAX).then(|| (p, q, idx[c], v.clone()))
         })
         .collect();
-    // a common scale makes the core integral: the combinations below are then sums of
-    // integers, and X = T_x T_y^-1 does not change
     let scale = core
         .iter()
-        .flat_map(|m| m.data.iter())
-        .filter(|v| !v.denom().is_one())
-        .fold(BigInt::from(1), |acc, v| acc.lcm(v.denom()));
-    let core: Vec<Matrix<Q>> = if scale.is_one() {
-        core
-    } else {
+        .filter(|e| !e.3.denom().is_one())
+        .fold(BigInt::from(1), |acc, e| acc.lcm(e.3.denom()));
+    if !scale.is_one() {
         let s = Q::from_integer(scale);
-        core.into_iter().map(|m| m.map(|v| v * &s)).collect()
-    };
+        core.iter_mut().for_each(|e| e.3 *= &s);
+    }
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ (a * 9 + b * 3 + c) as u64);
     let mut why = "no pair of slice combinations was invertible".to_string();
     for _ in 0..params.tries.max(1) {
@@ -216,17 +218,12 @@ pub(super) fn primitive(v: &[Q]) -> (Vec<Q>, Q) {
 }
 
 /// `sum_k x_k S_k`.
-fn combine(core: &[Matrix<Q>], x: &[i64], r: usize) -> Matrix<Q> {
+/// `sum_k x_k core_k` as an r x r matrix, from the core's entries.
+fn combine(core: &[(usize, usize, usize, Q)], x: &[i64], r: usize) -> Matrix<Q> {
     let mut m = Matrix::filled(r, r, Q::zero());
-    for (s, &xk) in core.iter().zip(x) {
-        if xk == 0 {
-            continue;
-        }
-        let xq = Q::from_integer(xk.into());
-        for (acc, v) in m.data.iter_mut().zip(&s.data) {
-            if !v.is_zero() {
-                *acc += v * &xq;
-            }
+    for (p, q, k, v) in core {
+        if x[*k] != 0 {
+            m[(*p, *q)] += v * Q::from_integer(x[*k].into());
         }
     }
     m
