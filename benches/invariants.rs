@@ -17,7 +17,7 @@ fn bench(c: &mut Criterion) {
             b.iter(|| derivations(&it, &p))
         });
         g.bench_function(format!("centroid {spec}"), |b| {
-            b.iter(|| centroid(&t, &it, &p))
+            b.iter(|| centroid(&t, &it, &p, None))
         });
     }
     let t = load_input("matrix:4", None).expect("generator");

@@ -39,7 +39,7 @@ fn main() {
         der = derivations(&it, &sp).ok();
     });
     tm("centroid", &mut || {
-        let _ = centroid(&u, &it, &sp);
+        let _ = centroid(&u, &it, &sp, None);
     });
     tm("der form", &mut || {
         let d = der.as_ref().unwrap();

@@ -264,7 +264,7 @@ fn algebra_keys(t: &Tensor, params: &FingerprintParams, fp: &mut Fingerprint) {
                 centroid_form = Some(restricted_form(&trace_form(&it, true), z, it.modulus()));
             }
             _ => {
-                if let Ok(c) = centroid(t, &it, sp) {
+                if let Ok(c) = centroid(t, &it, sp, None) {
                     fp.push("centroid", Value::Int(c.space.dim()));
                     centroid_form = Some(map_trace_form(&c.space, t.dim(), it.modulus()));
                 }

@@ -181,13 +181,7 @@ fn split_wide(
     let one = Q::from_integer(1.into());
     // the kernels below do not change when every matrix is scaled by one common
     // denominator, and the combinations are then sums of integers (no gcd per entry)
-    let scale = mats
-        .iter()
-        .flat_map(|a| a.data.iter())
-        .filter(|v| !v.denom().is_one())
-        .fold(num_bigint::BigInt::from(1), |acc, v| {
-            num_integer::Integer::lcm(&acc, v.denom())
-        });
+    let scale = crate::scalar::common_denominator(mats.iter().flat_map(|a| a.data.iter()));
     let scaled: Vec<Matrix<Q>> = if scale.is_one() {
         mats.to_vec()
     } else {
@@ -367,14 +361,23 @@ fn pencil_scheme_of(
 /// slices splits as a pencil. The axes are built in the order of the terms their slice
 /// ranks predict, and an axis whose prediction cannot beat the best built one is skipped.
 /// Cost: three times the slice ranks, and [`split_pencil`] per pair of the axes built
-/// (usually one).
-pub fn pencil_decomposition(t: &Tensor, params: &PencilParams) -> Option<(Scheme, usize, usize)> {
+/// (usually one). `Err`: not tried because the entries, scaled to integers, exceed
+/// `max_entry_bits` (the reason, in words).
+pub fn pencil_decomposition(
+    t: &Tensor,
+    params: &PencilParams,
+) -> Result<Option<(Scheme, usize, usize)>, String> {
     let d = t.dims();
-    if t.field() != FieldSpec::Rational
-        || d.iter().product::<usize>() > params.max_cells
-        || entry_bits(t) > params.max_entry_bits
-    {
-        return None;
+    if t.field() != FieldSpec::Rational || d.iter().product::<usize>() > params.max_cells {
+        return Ok(None);
+    }
+    let bits = crate::tensor::IntegralTensor::from_tensor(t).constant_bits();
+    if bits > params.max_entry_bits {
+        return Err(format!(
+            "pencil bound not tried: entries of {bits} bits once denominators are cleared, \
+             above {} (its exact kernels grow with them)",
+            params.max_entry_bits
+        ));
     }
     type Axis = (usize, usize, Vec<Ranked>, Vec<usize>);
     let mut axes: Vec<Axis> = (0..3)
@@ -397,22 +400,7 @@ pub fn pencil_decomposition(t: &Tensor, params: &PencilParams) -> Option<(Scheme
             best = Some((s, *axis, split));
         }
     }
-    best
-}
-
-/// Bits of the largest entry of `t` scaled to integers by the lcm of its denominators.
-pub fn entry_bits(t: &Tensor) -> u64 {
-    let den = t
-        .entries()
-        .map(|(_, _, _, v)| v.denom())
-        .filter(|d| !d.is_one())
-        .fold(num_bigint::BigInt::from(1), |acc, d| {
-            num_integer::Integer::lcm(&acc, d)
-        });
-    t.entries()
-        .map(|(_, _, _, v)| (v.numer() * (&den / v.denom())).bits())
-        .max()
-        .unwrap_or(0)
+    Ok(best)
 }
 
 #[cfg(test)]

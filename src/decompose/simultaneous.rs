@@ -22,7 +22,7 @@ use super::eigen::{EigenFailure, FloatSpectrum, pencil_spectrum, rational_eigen}
 use super::kruskal::{Uniqueness, kruskal_uniqueness};
 use crate::linalg::Matrix;
 use crate::linalg::modular::{inverse_q, product_q, skeleton_q};
-use crate::scalar::{FieldSpec, Q, Rationals};
+use crate::scalar::{FieldSpec, Q, Rationals, common_denominator};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::{Tensor, flattening, flattening_ranks, slice};
 use num_bigint::BigInt;
@@ -136,10 +136,7 @@ fn along(
             (p != usize::MAX && q != usize::MAX).then(|| (p, q, idx[c], v.clone()))
         })
         .collect();
-    let scale = core
-        .iter()
-        .filter(|e| !e.3.denom().is_one())
-        .fold(BigInt::from(1), |acc, e| acc.lcm(e.3.denom()));
+    let scale = common_denominator(core.iter().map(|e| &e.3));
     if !scale.is_one() {
         let s = Q::from_integer(scale);
         core.iter_mut().for_each(|e| e.3 *= &s);

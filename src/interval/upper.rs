@@ -57,34 +57,25 @@ pub fn upper_bounds(
         scheme: d.scheme,
     });
     // general data: groups of slices split together, below the slice bound
-    if slices_only && t.field() == crate::scalar::FieldSpec::Rational {
-        let bits = crate::decompose::pencil::entry_bits(t);
-        if bits > params.pencil.max_entry_bits {
-            notes.push(format!(
-                "pencil bound not tried: entries of {bits} bits once denominators are \
-                 cleared, above {} (its exact kernels grow with them)",
-                params.pencil.max_entry_bits
-            ));
-        }
-    }
-    if slices_only
-        && let Some((s, axis, groups)) = pencil_decomposition(t, &params.pencil)
-        && s.rank() < out[0].value
-    {
-        match verify(&s, t) {
-            Ok(()) => out.push(Upper {
-                value: s.rank(),
-                name: "pencils".into(),
-                detail: format!(
-                    "{groups} {} of {} slices (pairs: matrix pencils) split by evaluation at \
-                     rational points, verified exactly (Ja'Ja' 1979, Optimal evaluation of \
-                     pairs of bilinear forms, SIAM J. Comput. 8, from memory)",
-                    if groups == 1 { "group" } else { "groups" },
-                    crate::tensor::AXES[axis]
-                ),
-                scheme: s,
-            }),
-            Err(_) => notes.push("the pencil scheme does not verify; left out".into()),
+    if slices_only {
+        match pencil_decomposition(t, &params.pencil) {
+            Err(why) => notes.push(why),
+            Ok(Some((s, axis, groups))) if s.rank() < out[0].value => match verify(&s, t) {
+                Ok(()) => out.push(Upper {
+                    value: s.rank(),
+                    name: "pencils".into(),
+                    detail: format!(
+                        "{groups} {} of {} slices (pairs: matrix pencils) split by evaluation \
+                         at rational points, verified exactly (Ja'Ja' 1979, Optimal evaluation \
+                         of pairs of bilinear forms, SIAM J. Comput. 8, from memory)",
+                        if groups == 1 { "group" } else { "groups" },
+                        crate::tensor::AXES[axis]
+                    ),
+                    scheme: s,
+                }),
+                Err(_) => notes.push("the pencil scheme does not verify; left out".into()),
+            },
+            Ok(_) => {}
         }
     }
     if !params.no_catalog {

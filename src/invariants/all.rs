@@ -278,7 +278,7 @@ pub fn compute_invariants(
                 }
                 Part::Unit => r.unit = Some(unit(&it, sp)?),
                 Part::Centroid => {
-                    let mut c = centroid(t, &it, sp)?;
+                    let mut c = centroid(t, &it, sp, r.associative)?;
                     let decision = crate::structure::centroid_is_field(t, &c.space, sp)?;
                     c.field = Some(matches!(
                         decision,
@@ -331,7 +331,7 @@ pub fn compute_invariants(
                         method,
                     });
                 }
-                Part::Adjoint => r.adjoint = Some(adjoint_algebra(t, &it, sp)?),
+                Part::Adjoint => r.adjoint = Some(adjoint_algebra(t, &it, sp, r.associative)?),
                 Part::Radical => {
                     r.radical = Some(if r.associative != Some(true) {
                         RadicalPart::NotAvailable(

@@ -39,13 +39,19 @@ pub struct Centroid {
 /// C(A): XY(ab) = X(a Y(b)) = X(a) Y(b) = Y(X(a) b) = YX(ab); Jacobson 1962, Lie Algebras,
 /// ch. X); otherwise the basis maps are multiplied exactly (when n <= 32 and dim <= 32).
 /// With a unit the basis is read from the centre ([`centroid_of_unital`]): a system in n
-/// unknowns instead of n^2.
-pub fn centroid(t: &Tensor, k: &IntegralTensor, params: &SolveParams) -> Result<Centroid> {
+/// unknowns instead of n^2. `associative`: the verdict when already known (otherwise the
+/// law engine decides it when needed).
+pub fn centroid(
+    t: &Tensor,
+    k: &IntegralTensor,
+    params: &SolveParams,
+    associative: Option<bool>,
+) -> Result<Centroid> {
     let n = k.dims[0];
     let space = if crate::laws::find_unit(k, params)?.is_some() {
         // in an associative algebra (proven by the law engine) the centre is the
         // commutative centre: n^2 equations instead of the nuclei's 3 n^3
-        let which = if is_associative(t)? {
+        let which = if is_associative(t, associative)? {
             ElementSpace::CommutativeCentre
         } else {
             ElementSpace::Centre
@@ -124,10 +130,16 @@ fn solve_maps(k: &IntegralTensor, kind: Kind, params: &SolveParams) -> Result<Sp
 
 /// The adjoint algebra: pairs (f, g) with `f(a) b = a g(b)`; a vector holds f (first n^2
 /// coordinates) then g. With a unit the basis is read from the middle nucleus (see
-/// [`adjoint_of_unital`]): a system in n unknowns instead of 2 n^2.
-pub fn adjoint_algebra(t: &Tensor, k: &IntegralTensor, params: &SolveParams) -> Result<Space> {
+/// [`adjoint_of_unital`]): a system in n unknowns instead of 2 n^2. `associative` as for
+/// [`centroid`].
+pub fn adjoint_algebra(
+    t: &Tensor,
+    k: &IntegralTensor,
+    params: &SolveParams,
+    associative: Option<bool>,
+) -> Result<Space> {
     if crate::laws::find_unit(k, params)?.is_some() {
-        let middle = if is_associative(t)? {
+        let middle = if is_associative(t, associative)? {
             Space::whole(k.dims[0])
         } else {
             element_space(k, ElementSpace::MiddleNucleus, params)?
@@ -137,8 +149,12 @@ pub fn adjoint_algebra(t: &Tensor, k: &IntegralTensor, params: &SolveParams) -> 
     solve_nullspace(&System::new(k, &[Eq::AdjointPairs]), params)
 }
 
-/// Associativity decided by the law engine (stopping at a first failure).
-fn is_associative(t: &Tensor) -> Result<bool> {
+/// Associativity: the known verdict, or decided by the law engine (stopping at a first
+/// failure).
+fn is_associative(t: &Tensor, known: Option<bool>) -> Result<bool> {
+    if let Some(a) = known {
+        return Ok(a);
+    }
     let lp = crate::laws::Params {
         laws: vec![crate::laws::Law::Associative],
         stop_first: true,
@@ -159,17 +175,10 @@ pub fn adjoint_of_unital(k: &IntegralTensor, middle: &Space) -> Space {
         .map(|b| {
             let w = middle.dense(b);
             let mut v = vec![Q::zero(); 2 * n * n];
+            // f = R_w first, then g = L_w
             for (p, wp) in w.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                for i in 0..n {
-                    // R_w(e_i) = e_i w: entry [l][i] of f
-                    for (l, c) in k.product(i, p) {
-                        v[*l as usize * n + i] += Q::from_integer(c.clone()) * wp;
-                    }
-                    // L_w(e_i) = w e_i: entry [l][i] of g
-                    for (l, c) in k.product(p, i) {
-                        v[n * n + *l as usize * n + i] += Q::from_integer(c.clone()) * wp;
-                    }
-                }
+                add_multiplication(k, p, wp, false, &mut v, 0);
+                add_multiplication(k, p, wp, true, &mut v, n * n);
             }
             map_vector(k, v)
         })
@@ -232,13 +241,9 @@ pub fn centroid_of_unital(k: &IntegralTensor, centre: &Space) -> Space {
         .map(|b| {
             let z = centre.dense(b);
             let mut v = vec![Q::zero(); n * n];
-            // L_z(e_i) = sum_p z_p e_p e_i: entry [l][i]
+            // L_z = sum_p z_p L_{e_p}
             for (p, zp) in z.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                for i in 0..n {
-                    for (l, c) in k.product(p, i) {
-                        v[*l as usize * n + i] += Q::from_integer(c.clone()) * zp;
-                    }
-                }
+                add_multiplication(k, p, zp, true, &mut v, 0);
             }
             map_vector(k, v)
         })
@@ -249,21 +254,38 @@ pub fn centroid_of_unital(k: &IntegralTensor, centre: &Space) -> Space {
     }
 }
 
+/// Add `coef L_{e_p}` (`left`) or `coef R_{e_p}` to the map stored at `offset` in `v`, in
+/// the integer-scaled constants: `L_{e_p}(e_i) = e_p e_i`, `R_{e_p}(e_i) = e_i e_p`, entry
+/// `[l][i]`. Cost: O(nnz of the row or column of p).
+fn add_multiplication(
+    k: &IntegralTensor,
+    p: usize,
+    coef: &Q,
+    left: bool,
+    v: &mut [Q],
+    offset: usize,
+) {
+    let n = k.dims[0];
+    for i in 0..n {
+        let row = if left {
+            k.product(p, i)
+        } else {
+            k.product(i, p)
+        };
+        for (l, c) in row {
+            v[offset + *l as usize * n + i] += Q::from_integer(c.clone()) * coef;
+        }
+    }
+}
+
 /// `ad_{e_p}` as a sparse map vector in the original constants (scaled back by 1/L; over
-/// GF(q) the representatives).
+/// GF(q) the representatives): `x e_i - e_i x` (associative) or `x e_i` (Lie).
 fn ad_vector(k: &IntegralTensor, p: usize, lie: bool) -> Vec<(u32, Q)> {
     let n = k.dims[0];
     let mut v = vec![Q::zero(); n * n];
-    // ad_x(e_i) = x e_i - e_i x (associative) or x e_i (Lie): entry [l][i]
-    for i in 0..n {
-        for (l, c) in k.product(p, i) {
-            v[*l as usize * n + i] += Q::from_integer(c.clone());
-        }
-        if !lie {
-            for (l, c) in k.product(i, p) {
-                v[*l as usize * n + i] -= Q::from_integer(c.clone());
-            }
-        }
+    add_multiplication(k, p, &Q::one(), true, &mut v, 0);
+    if !lie {
+        add_multiplication(k, p, &-Q::one(), false, &mut v, 0);
     }
     map_vector(k, v)
 }
@@ -343,7 +365,7 @@ mod tests {
         let p = SolveParams::default();
         for t in [octonions(), quaternions(), matrix_algebra(2)] {
             let it = IntegralTensor::from_tensor(&t);
-            let c = centroid(&t, &it, &p).unwrap();
+            let c = centroid(&t, &it, &p, None).unwrap();
             assert_eq!(c.space.dim(), 1);
             assert_eq!(c.field, Some(true));
         }
@@ -351,7 +373,7 @@ mod tests {
         for d in [2, -1] {
             let t = quadratic_field(d);
             let it = IntegralTensor::from_tensor(&t);
-            let c = centroid(&t, &it, &p).unwrap();
+            let c = centroid(&t, &it, &p, None).unwrap();
             assert_eq!(c.space.dim(), 2);
             assert_eq!(c.commutative, Some(true));
         }
@@ -364,7 +386,7 @@ mod tests {
         let t = matrix_algebra(2);
         let it = IntegralTensor::from_tensor(&t);
         assert_eq!(
-            adjoint_algebra(&t, &it, &SolveParams::default())
+            adjoint_algebra(&t, &it, &SolveParams::default(), None)
                 .unwrap()
                 .dim(),
             4
@@ -395,13 +417,13 @@ mod tests {
         for t in cases {
             let it = IntegralTensor::from_tensor(&t);
             let system = solve_maps(&it, Kind::Centroid, &p).unwrap();
-            let fast = centroid(&t, &it, &p).unwrap().space;
+            let fast = centroid(&t, &it, &p, None).unwrap().space;
             assert_eq!(fast.dim(), system.dim());
             let plain = System::new(&it, &[Eq::Centroid]);
             assert!(crate::linalg::nullspace::check_solutions(&plain, &fast.basis).unwrap());
             // the adjoint algebra likewise, from the middle nucleus
             let pairs = System::new(&it, &[Eq::AdjointPairs]);
-            let fast = adjoint_algebra(&t, &it, &p).unwrap();
+            let fast = adjoint_algebra(&t, &it, &p, None).unwrap();
             assert_eq!(fast.dim(), solve_nullspace(&pairs, &p).unwrap().dim());
             assert!(crate::linalg::nullspace::check_solutions(&pairs, &fast.basis).unwrap());
         }

@@ -22,9 +22,9 @@ fn dims_of(t: &Tensor) -> Vec<usize> {
     ] {
         out.push(element_space(&it, w, &p).unwrap().dim());
     }
-    out.push(centroid(t, &it, &p).unwrap().space.dim());
+    out.push(centroid(t, &it, &p, None).unwrap().space.dim());
     out.push(derivations(&it, &p).unwrap().dim());
-    out.push(adjoint_algebra(t, &it, &p).unwrap().dim());
+    out.push(adjoint_algebra(t, &it, &p, None).unwrap().dim());
     out.push(unit(&it, &p).unwrap().is_some() as usize);
     out
 }
@@ -95,7 +95,7 @@ fn bases_satisfy_their_definitions() {
                 }
             }
         }
-        let cen = centroid(&t, &it, &p).unwrap();
+        let cen = centroid(&t, &it, &p, None).unwrap();
         for x in &cen.space.dense_basis() {
             for i in 0..n {
                 for j in 0..n {
@@ -183,7 +183,7 @@ print(der, cen)
         let p = SolveParams::default();
         assert_eq!(derivations(&it, &p).unwrap().dim(), v[0], "seed {seed}");
         assert_eq!(
-            centroid(&t, &it, &p).unwrap().space.dim(),
+            centroid(&t, &it, &p, None).unwrap().space.dim(),
             v[1],
             "seed {seed}"
         );

@@ -11,7 +11,7 @@
 
 use super::{Matrix, echelon};
 use crate::scalar::residue;
-use crate::scalar::{Q, Rationals, crt_combine};
+use crate::scalar::{Q, Rationals, common_denominator, crt_combine};
 use num_bigint::BigInt;
 use num_integer::Integer;
 use num_traits::{One, Zero};
@@ -124,10 +124,7 @@ fn scaled_rows(m: &Matrix<Q>) -> Vec<(BigInt, Vec<BigInt>)> {
         .map(|i| {
             let row = m.row(i);
             // integer entries (the common case) need no gcd
-            let l = row
-                .iter()
-                .filter(|x| !x.denom().is_one())
-                .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()));
+            let l = common_denominator(row);
             let ints = if l.is_one() {
                 row.iter().map(|x| x.numer().clone()).collect()
             } else {
@@ -299,7 +296,7 @@ pub fn product_q(a: &Matrix<Q>, b: &Matrix<Q>) -> Matrix<Q> {
     assert_eq!(a.cols, b.rows, "product_q: inner dimensions differ");
     let (k, n) = (b.rows, b.cols);
     let col_scale: Vec<BigInt> = (0..n)
-        .map(|j| (0..k).fold(BigInt::one(), |acc, l| acc.lcm(b[(l, j)].denom())))
+        .map(|j| common_denominator((0..k).map(|l| &b[(l, j)])))
         .collect();
     // B' transposed, so that each sum reads two contiguous rows
     let bt: Vec<Vec<BigInt>> = (0..n)

@@ -15,8 +15,8 @@ mod rational;
 pub use prime::PrimeField;
 pub use primes::{is_prime, word_primes};
 pub use rational::{
-    Q, Rationals, Reconstructor, crt, crt_combine, parse_rational, q, q_to_f64, q_to_string,
-    rational_reconstruct, residue,
+    Q, Rationals, Reconstructor, common_denominator, crt, crt_combine, parse_rational, q, q_to_f64,
+    q_to_string, rational_reconstruct, residue,
 };
 
 use std::fmt::Debug;

@@ -231,6 +231,14 @@ pub fn q_to_f64(a: &Q) -> f64 {
     a.to_f64().unwrap_or(f64::NAN)
 }
 
+/// The lcm of the denominators of some rationals (1 for none); integer entries cost no
+/// gcd. Cost: one lcm per entry with a denominator other than 1.
+pub fn common_denominator<'a>(xs: impl IntoIterator<Item = &'a Q>) -> BigInt {
+    xs.into_iter()
+        .filter(|x| !x.denom().is_one())
+        .fold(BigInt::one(), |acc, x| acc.lcm(x.denom()))
+}
+
 /// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
 /// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of

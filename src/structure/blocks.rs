@@ -429,7 +429,7 @@ fn split_algebra<F: Field>(
             return Ok(out);
         }
     }
-    let c = centroid(sub, &it, sp)?;
+    let c = centroid(sub, &it, sp, None)?;
     let csub = reduce(f, n * n, from_space(f, &c.space));
     let images = centroid_blocks(f, &csub, &[n], params)?;
     Ok(images
@@ -663,7 +663,7 @@ fn certify<F: Field>(f: &F, t: &Tensor, params: &BlockParams) -> Result<Certific
     let it = IntegralTensor::from_tensor(t);
     let d = t.dims();
     let (space, sizes) = if t.kind() == Kind::Algebra {
-        (centroid(t, &it, sp)?.space, vec![d[0]])
+        (centroid(t, &it, sp, None)?.space, vec![d[0]])
     } else {
         (
             map_invariant(&it, MapInvariant::CentroidTriples, sp)?,

@@ -71,9 +71,7 @@ impl IntegralTensor {
     pub fn from_tensor(t: &Tensor) -> Self {
         let dims = t.dims();
         let scale = match t.field() {
-            FieldSpec::Rational => t
-                .entries()
-                .fold(BigInt::one(), |acc, (_, _, _, v)| acc.lcm(v.denom())),
+            FieldSpec::Rational => crate::scalar::common_denominator(t.entries().map(|e| e.3)),
             FieldSpec::Prime(_) => BigInt::one(),
         };
         let mut products = Vec::with_capacity(dims[0] * dims[1]);

@@ -62,7 +62,7 @@ pub struct Plan {
 }
 
 fn lcm_of_denominators<'a>(cs: impl Iterator<Item = &'a Q>) -> BigInt {
-    cs.fold(BigInt::one(), |l, c| l.lcm(c.denom()))
+    crate::scalar::common_denominator(cs)
 }
 
 /// Rewrite a program whose input variable i holds `input_scale[i]` times the original
