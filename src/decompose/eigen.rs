@@ -49,11 +49,9 @@ pub fn rational_eigen(x: &Matrix<Q>) -> Result<Vec<Eigen>, EigenFailure> {
         .fold(0.0f64, f64::max)
         .max(f64::MIN_POSITIVE);
     let m = nalgebra::DMatrix::from_fn(n, n, |i, j| q_to_f64(&x[(i, j)]) / scale);
-    // a bounded number of QR iterations: repeated eigenvalues can stall the Schur form
-    let Some(schur) = nalgebra::linalg::Schur::try_new(m, f64::EPSILON, 200 * n.max(1)) else {
+    let Some(approx) = float_eigenvalues(m) else {
         return Err(EigenFailure::NotRational);
     };
-    let approx = schur.complex_eigenvalues();
     // every value is checked to be real before any is confirmed (the exact step is costly)
     if classify(approx.as_slice()) == FloatSpectrum::NotReal {
         return Err(EigenFailure::NotReal);
@@ -122,6 +120,21 @@ fn classify(values: &[nalgebra::Complex<f64>]) -> FloatSpectrum {
     FloatSpectrum::Distinct
 }
 
+/// The eigenvalues of a square f64 matrix from its Schur form, by a bounded number of QR
+/// iterations; `None` when they do not converge. A subdiagonal entry counts as zero below
+/// 1e-14 of its neighbours, then 1e-12: at machine epsilon the iteration often fails to
+/// converge on clustered eigenvalues, a common case (the tensors of algebras).
+/// Cost: O(n^3) flops per try.
+fn float_eigenvalues(
+    m: nalgebra::DMatrix<f64>,
+) -> Option<nalgebra::DVector<nalgebra::Complex<f64>>> {
+    let n = m.nrows();
+    [1e-14, 1e-12].into_iter().find_map(|eps| {
+        nalgebra::linalg::Schur::try_new(m.clone(), eps, 200 * n.max(1))
+            .map(|schur| schur.complex_eigenvalues())
+    })
+}
+
 /// The kind of the eigenvalues of `X = tx ty^-1` (ty square, invertible), read in f64
 /// from the Schur form of `ty^-T`-solved `tx^T` after scaling both to entries of size at
 /// most 1 (scaling multiplies X by a constant and leaves the kind unchanged).
@@ -145,10 +158,10 @@ pub fn pencil_spectrum(tx: &Matrix<Q>, ty: &Matrix<Q>) -> FloatSpectrum {
     let Some(xt) = fy.transpose().lu().solve(&fx.transpose()) else {
         return FloatSpectrum::Unknown;
     };
-    let Some(schur) = nalgebra::linalg::Schur::try_new(xt, f64::EPSILON, 200 * n.max(1)) else {
-        return FloatSpectrum::Unknown;
-    };
-    classify(schur.complex_eigenvalues().as_slice())
+    match float_eigenvalues(xt) {
+        Some(values) => classify(values.as_slice()),
+        None => FloatSpectrum::Unknown,
+    }
 }
 
 /// The rational eigenvalue of `x` nearest the real number `mu`, confirmed exactly.

@@ -16,6 +16,10 @@ use crate::scheme::Scheme;
 use crate::tensor::Tensor;
 use serde::Serialize;
 
+/// Most coordinates (terms times the sum of the dimensions) of a scheme written into the
+/// JSON form of an interval.
+pub const MAX_JSON_SCHEME_COORDINATES: usize = 100_000;
+
 /// The lower side: the best proven lower bound, as the caller computed it.
 #[derive(Clone, Debug, Serialize)]
 pub struct Lower {
@@ -124,8 +128,24 @@ impl RankInterval {
         l
     }
 
-    /// JSON form (the best scheme's rank and text, every bound with its reason).
+    /// JSON form: every bound with its reason, and the scheme attaining the upper bound
+    /// when it has at most [`MAX_JSON_SCHEME_COORDINATES`] coordinates (else `null`, with
+    /// `scheme_omitted` saying its size; `bilin bounds --out` writes any scheme).
     pub fn to_json(&self) -> serde_json::Value {
+        let s = &self.upper.scheme;
+        let coordinates = s.rank() * s.dims.iter().sum::<usize>();
+        let (scheme, omitted) = if coordinates <= MAX_JSON_SCHEME_COORDINATES {
+            (crate::scheme::json::to_json(s), None)
+        } else {
+            (
+                serde_json::Value::Null,
+                Some(format!(
+                    "{} terms, {coordinates} coordinates: above {MAX_JSON_SCHEME_COORDINATES}; \
+                     `bilin bounds INPUT --out FILE` writes it",
+                    s.rank()
+                )),
+            )
+        };
         serde_json::json!({
             "lower": self.lower,
             "upper": self.upper,
@@ -134,7 +154,8 @@ impl RankInterval {
             "uniqueness": self.uniqueness,
             "generic_rank": self.generic_rank,
             "notes": self.notes,
-            "scheme": crate::scheme::json::to_json(&self.upper.scheme),
+            "scheme": scheme,
+            "scheme_omitted": omitted,
         })
     }
 }

@@ -221,9 +221,25 @@ pub fn compute_invariants(
         r.lie_algebra = lr.holds(Law::Lie);
     }
     let es = |w: ElementSpace| element_space(&it, w, sp);
+    let nuclei = |once: &mut Option<[Space; 3]>| -> Result<[Space; 3]> {
+        if once.is_none() {
+            *once = Some([
+                es(ElementSpace::LeftNucleus)?,
+                es(ElementSpace::MiddleNucleus)?,
+                es(ElementSpace::RightNucleus)?,
+            ]);
+        }
+        Ok(once.clone().expect("computed"))
+    };
     let dense = crate::tensor::prefers_dense(t.dims(), t.nnz());
     // the radical, once: asked for itself, and by the derivations of an associative algebra
     let mut radical_once: Option<Option<Radical>> = None;
+    // the left, middle and right nuclei, once: asked for themselves, and by the centre
+    let mut nuclei_once: Option<[Space; 3]> = None;
+    let modulus = match t.field() {
+        crate::scalar::FieldSpec::Prime(q) => Some(q),
+        crate::scalar::FieldSpec::Rational => None,
+    };
     for part in parts {
         let start = Instant::now();
         let m = part.unknowns(t.dims());
@@ -249,11 +265,15 @@ pub fn compute_invariants(
                 Part::Centre => {
                     let comm = es(ElementSpace::CommutativeCentre)?;
                     // in an associative algebra (proven by the law engine) every element
-                    // associates with everything, so Z(A) = Comm(A)
+                    // associates with everything, so Z(A) = Comm(A); otherwise Z(A) is
+                    // Comm(A) intersected with the three nuclei
                     r.centre = Some(if r.associative == Some(true) {
                         comm.clone()
                     } else {
-                        es(ElementSpace::Centre)?
+                        let [left, middle, right] = nuclei(&mut nuclei_once)?;
+                        comm.intersection(&left, modulus)?
+                            .intersection(&middle, modulus)?
+                            .intersection(&right, modulus)?
                     });
                     r.commutative_centre = Some(comm);
                 }
@@ -266,10 +286,15 @@ pub fn compute_invariants(
                     r.nucleus = Some(whole);
                 }
                 Part::Nuclei => {
-                    r.left_nucleus = Some(es(ElementSpace::LeftNucleus)?);
-                    r.middle_nucleus = Some(es(ElementSpace::MiddleNucleus)?);
-                    r.right_nucleus = Some(es(ElementSpace::RightNucleus)?);
-                    r.nucleus = Some(es(ElementSpace::Nucleus)?);
+                    // the nucleus is the intersection of the three (no second system)
+                    let [left, middle, right] = nuclei(&mut nuclei_once)?;
+                    r.nucleus = Some(
+                        left.intersection(&middle, modulus)?
+                            .intersection(&right, modulus)?,
+                    );
+                    r.left_nucleus = Some(left);
+                    r.middle_nucleus = Some(middle);
+                    r.right_nucleus = Some(right);
                 }
                 Part::Annihilators => {
                     r.left_annihilator = Some(es(ElementSpace::LeftAnnihilator)?);

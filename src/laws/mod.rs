@@ -368,32 +368,64 @@ fn in_product<'t, F: Field>(
     }
 }
 
-/// The components whose joint validity implies a component, each as a polynomial
-/// identity (so that every instance of the implied one vanishes):
+/// The components whose joint validity implies a component in characteristic `p` (0 for
+/// Q), each as a polynomial identity (so that every instance of the implied one vanishes):
 /// - associativity implies the alternative, flexible, third and fourth power laws (their
 ///   instances are sums of associators), the Jacobi identity of the commutator and the
 ///   Jordan identity of the anticommutator (identities of the free associative ring);
 /// - associativity implies the Jordan identity `((xy)x)x = (xy)(xx)` (both sides are the
 ///   word xyxx);
 /// - anticommutative and Jacobi imply the Jacobi identity of the commutator (`[x,y] = 2xy`);
-/// - left alternative implies third powers (`(x,x,x)` is an instance of it);
+/// - left alternative implies third powers (`(x,x,x)` is an instance of it), and so does
+///   flexibility (the linearized third power is a sum of linearized flexible instances
+///   `(a,m,b) + (b,m,a)`, one per middle factor m);
 /// - left and right alternative imply flexible (`(x,y,x) = -(x,x,y)`);
 /// - commutative and Jordan imply the Jordan identity of `xy + yx = 2xy`;
-/// - the Jacobi identity implies the Malcev identity (both of its sides are Jacobians).
+/// - the Jacobi identity implies the Malcev identity (both of its sides are Jacobians);
+/// - in characteristic 0 or at least 5, flexible and Jordan-admissible imply the Jordan
+///   identity `(x^2 y) x = x^2 (y x)`: such an algebra is a noncommutative Jordan algebra
+///   (Schafer 1966, ch. V.1); and they imply fourth powers: with `x^3 = x^2 x = x x^2`
+///   (flexible), the Jordan identity of `A^+` at `y = x` gives `x^2 x^2 = (x^3 x + x x^3)/2`,
+///   and flexibility at `y = x^2` gives `x^3 x = x x^3`.
 ///
-/// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. I-III; common practice.)
-pub fn implied_by(c: Component) -> &'static [&'static [Component]] {
+/// (Schafer 1966, An Introduction to Nonassociative Algebras, ch. I-III and V; common
+/// practice.)
+pub fn implied_by(c: Component, p: u64) -> &'static [&'static [Component]] {
     use Component::*;
+    let noncommutative_jordan = p == 0 || p >= 5;
     match c {
-        LeftAlt | RightAlt | Power4 => &[&[Assoc]],
+        LeftAlt | RightAlt => &[&[Assoc]],
+        Power4 | JordanId if noncommutative_jordan => &[&[Assoc], &[Flex, AnticommutatorJordan]],
+        Power4 | JordanId => &[&[Assoc]],
         Flex => &[&[Assoc], &[LeftAlt, RightAlt]],
-        Power3 => &[&[Assoc], &[LeftAlt]],
+        Power3 => &[&[Assoc], &[LeftAlt], &[Flex]],
         CommutatorJacobi => &[&[Assoc], &[Anti, Jacobi]],
         AnticommutatorJordan => &[&[Assoc], &[Comm, JordanId]],
-        JordanId => &[&[Assoc]],
         MalcevId => &[&[Jacobi]],
         Assoc | Comm | Anti | Jacobi => &[],
     }
+}
+
+/// A decided component's verdict: `Some(true)` proven, `Some(false)` failed or not
+/// decidable; `None` not decided yet.
+fn verdict(cache: &[(Component, Option<Check>, Vec<String>)], c: Component) -> Option<bool> {
+    cache
+        .iter()
+        .find(|e| e.0 == c)
+        .map(|(_, res, _)| res.as_ref().is_some_and(|r| r.failures == 0))
+}
+
+/// The components of `laws`, each once, in the order the laws ask for them.
+fn requested_components(laws: &[Law]) -> Vec<Component> {
+    let mut requested: Vec<Component> = Vec::new();
+    for law in laws {
+        for &c in law.components() {
+            if !requested.contains(&c) {
+                requested.push(c);
+            }
+        }
+    }
+    requested
 }
 
 fn component_name(c: Component) -> &'static str {
@@ -429,6 +461,81 @@ fn assemble<F: Field>(
     let p = f.characteristic();
     let mut cache: Vec<(Component, Option<Check>, Vec<String>)> = Vec::new();
     let mut tables: [Option<Table<F::Elem>>; 2] = [None, None];
+    // Decide the requested components in order; before evaluating one, first settle the
+    // other requested components of a set that could imply it (none failed so far), so
+    // that an implication is found before a costly evaluation.
+    let requested = requested_components(&params.laws);
+    let mut stack: Vec<Component> = Vec::new();
+    let mut next = requested.iter();
+    loop {
+        let Some(&c) = stack.last() else {
+            match next.next() {
+                Some(&c) => {
+                    stack.push(c);
+                    continue;
+                }
+                None => break,
+            }
+        };
+        if cache.iter().any(|e| e.0 == c) {
+            stack.pop();
+            continue;
+        }
+        let proven = |x: &Component| verdict(&cache, *x) == Some(true);
+        let sets = implied_by(c, p);
+        if !sets.iter().any(|set| set.iter().all(proven)) {
+            // a set none of whose members failed, with one not decided yet
+            let alive = |x: &Component| {
+                requested.contains(x) && !stack.contains(x) && verdict(&cache, *x) != Some(false)
+            };
+            let first = sets
+                .iter()
+                .filter(|set| set.iter().all(alive))
+                .find_map(|set| set.iter().find(|x| verdict(&cache, **x).is_none()));
+            if let Some(&x) = first {
+                stack.push(x);
+                continue;
+            }
+        }
+        stack.pop();
+        let d = def(c);
+        let mut notes = Vec::new();
+        let res = if let Some(set) = sets.iter().find(|s| s.iter().all(proven)) {
+            let why: Vec<&str> = set.iter().map(|x| component_name(*x)).collect();
+            let proof = if why.len() == 1 {
+                "proven"
+            } else {
+                "each proven"
+            };
+            notes.push(format!("holds: implied by {} ({proof})", why.join(" and ")));
+            Some(Check {
+                checked: modular::instance_count(n, c) as u64,
+                ..Check::default()
+            })
+        } else {
+            match decide(c) {
+                Ok(res) => {
+                    if let Some(why) = &res.partial {
+                        notes.push(format!("`{}`: {why}", identity_text(&d)));
+                    }
+                    Some(res)
+                }
+                Err(why) => {
+                    notes.push(format!("`{}` not decided: {why}", identity_text(&d)));
+                    None
+                }
+            }
+        };
+        if let Some(res) = &res
+            && res.failures > 0
+            && p > 0
+            && p < d.degree as u64
+        {
+            let table = in_product(f, t, d.product, &mut tables);
+            notes.push(char_note(f, table, names, &d, params));
+        }
+        cache.push((c, res, notes));
+    }
     let mut results = Vec::new();
     for &law in &params.laws {
         if law == Law::Unital {
@@ -454,47 +561,6 @@ fn assemble<F: Field>(
             let m = method_text(&d);
             if !methods.contains(&m) {
                 methods.push(m);
-            }
-            if !cache.iter().any(|e| e.0 == c) {
-                let mut notes = Vec::new();
-                let proven = |x: &Component| {
-                    cache
-                        .iter()
-                        .any(|(y, res, _)| y == x && res.as_ref().is_some_and(|r| r.failures == 0))
-                };
-                let res = if let Some(set) = implied_by(c).iter().find(|s| s.iter().all(proven)) {
-                    let why: Vec<&str> = set.iter().map(|x| component_name(*x)).collect();
-                    notes.push(format!(
-                        "holds: implied by {} (proven above)",
-                        why.join(" and ")
-                    ));
-                    Some(Check {
-                        checked: modular::instance_count(n, c) as u64,
-                        ..Check::default()
-                    })
-                } else {
-                    match decide(c) {
-                        Ok(res) => {
-                            if let Some(why) = &res.partial {
-                                notes.push(format!("`{}`: {why}", identity_text(&d)));
-                            }
-                            Some(res)
-                        }
-                        Err(why) => {
-                            notes.push(format!("`{}` not decided: {why}", identity_text(&d)));
-                            None
-                        }
-                    }
-                };
-                if let Some(res) = &res
-                    && res.failures > 0
-                    && p > 0
-                    && p < d.degree as u64
-                {
-                    let table = in_product(f, t, d.product, &mut tables);
-                    notes.push(char_note(f, table, names, &d, params));
-                }
-                cache.push((c, res, notes));
             }
             let (_, res, notes) = cache.iter().find(|e| e.0 == c).expect("cached");
             for note in notes {

@@ -31,7 +31,8 @@ use super::dense_echelon::DenseEchelon;
 use super::kernels::KERNEL_PRIME_BITS;
 use super::system::{RowBuf, RowSource, materialize};
 use crate::error::{Error, Result};
-use crate::scalar::Q;
+use crate::scalar::{Q, common_denominator};
+use num_bigint::BigInt;
 use num_traits::Zero;
 use rayon::prelude::*;
 
@@ -120,6 +121,64 @@ impl Space {
     pub fn dense_basis(&self) -> Vec<Vec<Q>> {
         (0..self.dim()).map(|i| self.dense(i)).collect()
     }
+
+    /// The linear equations cutting out this space: a proven basis of `{w : w . b = 0 for
+    /// every basis vector b}` (over GF(q) when `modulus` is `Some(q)`).
+    fn equations(&self, modulus: Option<u64>) -> Result<Space> {
+        let rows: Vec<Vec<BigInt>> = self
+            .basis
+            .iter()
+            .map(|v| {
+                let scale = common_denominator(v.iter().map(|(_, x)| x));
+                let mut row = vec![BigInt::zero(); self.unknowns];
+                for (c, x) in v {
+                    row[*c as usize] = x.numer() * (&scale / x.denom());
+                }
+                row
+            })
+            .collect();
+        solve_integer_rows(self.unknowns, rows, modulus)
+    }
+
+    /// The intersection of two spaces of the same ambient space, a proven basis in reduced
+    /// form: the solutions of the equations of both (over GF(q) when `modulus` is
+    /// `Some(q)`). Cost: three exact nullspaces of at most n x n systems (n unknowns).
+    pub fn intersection(&self, other: &Space, modulus: Option<u64>) -> Result<Space> {
+        let n = self.unknowns;
+        if self.dim() == n {
+            return Ok(other.clone());
+        }
+        if other.dim() == n {
+            return Ok(self.clone());
+        }
+        if self.dim() == 0 || other.dim() == 0 {
+            return Ok(Space {
+                unknowns: n,
+                basis: Vec::new(),
+            });
+        }
+        let mut rows = Vec::new();
+        for s in [self, other] {
+            rows.extend(s.equations(modulus)?.dense_basis().iter().map(|w| {
+                let scale = common_denominator(w.iter());
+                w.iter().map(|x| x.numer() * (&scale / x.denom())).collect()
+            }));
+        }
+        solve_integer_rows(n, rows, modulus)
+    }
+}
+
+/// The proven nullspace of integer rows (read modulo q when `modulus` is `Some(q)`).
+fn solve_integer_rows(cols: usize, rows: Vec<Vec<BigInt>>, modulus: Option<u64>) -> Result<Space> {
+    let sys = match modulus {
+        Some(q) => super::system::IntegerRows::modulo(cols, rows, q),
+        None => super::system::IntegerRows::new(cols, rows),
+    };
+    let params = SolveParams {
+        max_memory: usize::MAX,
+        ..Default::default()
+    };
+    solve_nullspace(&sys, &params)
 }
 
 /// Systems with at most this many terms are written out modulo the first prime and split
@@ -282,6 +341,33 @@ mod tests {
     use super::super::system::IntegerRows;
     use super::*;
     use num_bigint::BigInt;
+
+    #[test]
+    fn intersections_of_spaces() {
+        // in Q^3: {x0 = x1} meets {x2 = 2 x0} in the line through (1, 1, 2); over GF(3)
+        // the same equations; a space meets the whole space in itself (common practice)
+        let solve = |rows: Vec<Vec<i64>>, modulus| {
+            let rows = rows
+                .into_iter()
+                .map(|r| r.into_iter().map(BigInt::from).collect())
+                .collect();
+            solve_integer_rows(3, rows, modulus).unwrap()
+        };
+        for modulus in [None, Some(3)] {
+            let a = solve(vec![vec![1, -1, 0]], modulus);
+            let b = solve(vec![vec![-2, 0, 1]], modulus);
+            let c = a.intersection(&b, modulus).unwrap();
+            assert_eq!(c, solve(vec![vec![1, -1, 0], vec![-2, 0, 1]], modulus));
+            assert_eq!(c.dim(), 1);
+            assert_eq!(a.intersection(&Space::whole(3), modulus).unwrap(), a);
+            let zero = solve(vec![vec![1, 0, 0], vec![0, 1, 0], vec![0, 0, 1]], modulus);
+            assert_eq!(a.intersection(&zero, modulus).unwrap().dim(), 0);
+        }
+        let c = solve(vec![vec![1, -1, 0], vec![-2, 0, 1]], None);
+        // reduced form: 1 at the free coordinate x2
+        let half = Q::new(1.into(), 2.into());
+        assert_eq!(c.dense(0), [half.clone(), half, Q::from_integer(1.into())]);
+    }
 
     #[test]
     fn small_systems_over_q_and_mod_p() {

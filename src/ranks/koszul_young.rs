@@ -34,11 +34,11 @@ use super::minor::{Minor, check_minor, find_minor};
 use crate::linalg::kernels::KERNEL_PRIME_BITS;
 use crate::linalg::nullspace::cached_primes;
 use crate::linalg::system::{RowBuf, RowSource};
-use crate::scalar::FieldSpec;
+use crate::scalar::{FieldSpec, common_denominator};
 use crate::tensor::{AXES, IntegralTensor, Tensor};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, ToPrimitive};
+use num_traits::ToPrimitive;
 use rand::{Rng, SeedableRng};
 use std::collections::HashMap;
 use std::sync::{Arc, Mutex};
@@ -456,32 +456,34 @@ pub fn check_certificate(t: &Tensor, choice: &Choice, minor: &Minor) -> Result<(
     {
         return Err(format!("over GF({q}) the minor must be taken modulo {q}"));
     }
-    let scale = t
-        .entries()
-        .fold(BigInt::one(), |acc, (_, _, _, v)| acc.lcm(v.denom()));
+    let scale = common_denominator(t.entries().map(|(_, _, _, v)| v));
     let pb = BigInt::from(minor.prime);
+    let p = minor.prime;
     let lower = subsets(choice.sub, choice.p);
     let upper = subsets(choice.sub, choice.p + 1);
     let (db, dc) = (dims[roles[1]], dims[roles[2]]);
-    // t'[i][j][k] modulo the prime, from the exact constants
-    let coef = |i: usize, j: usize, k: usize| -> u64 {
-        let mut acc = BigInt::from(0);
-        for a in 0..da {
-            let w: BigInt = match &choice.projection {
-                None if a == i => BigInt::one(),
-                None => continue,
-                Some(pr) => BigInt::from(pr[i][a]),
-            };
-            let mut idx = [0usize; 3];
-            idx[roles[0]] = a;
-            idx[roles[1]] = j;
-            idx[roles[2]] = k;
-            let v = t.get(idx[0], idx[1], idx[2]);
-            acc += w * (v.numer() * (&scale / v.denom()));
+    // t'[i][j][k] = sum_a w[i][a] t[a][j][k] modulo the prime (w the projection, or the
+    // identity), from the exact constants scaled to integers: one pass over the entries
+    let mut projected = vec![0u64; choice.sub * db * dc];
+    for (i0, i1, i2, v) in t.entries() {
+        let idx = [i0, i1, i2];
+        let (a, j, k) = (idx[roles[0]], idx[roles[1]], idx[roles[2]]);
+        let value = (v.numer() * (&scale / v.denom()))
+            .mod_floor(&pb)
+            .to_u64()
+            .expect("reduced");
+        let weights: Vec<(usize, u64)> = match &choice.projection {
+            None => vec![(a, 1)],
+            Some(pr) => (0..choice.sub)
+                .map(|i| (i, pr[i][a].rem_euclid(p as i64) as u64))
+                .collect(),
+        };
+        for (i, w) in weights {
+            let cell = &mut projected[(i * db + j) * dc + k];
+            *cell = ((*cell as u128 + w as u128 * value as u128) % p as u128) as u64;
         }
-        acc.mod_floor(&pb).to_u64().expect("reduced")
-    };
-    let p = minor.prime;
+    }
+    let coef = |i: usize, j: usize, k: usize| projected[(i * db + j) * dc + k];
     check_minor(minor, choice.shape(dims), |row, col| {
         let (g, k) = (upper[row / dc], row % dc);
         let (a, j) = (lower[col / db], col % db);

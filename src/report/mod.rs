@@ -24,6 +24,7 @@ use crate::error::Result;
 use crate::invariants::structure::{KnownLaws, Property, PropertyResult, decide_properties};
 use crate::laws::{self, Law, LawReport};
 use crate::ranks::{self, RankReport};
+use crate::structure::StructureParams;
 use crate::tensor::{Kind, Tensor};
 use serde::Serialize;
 
@@ -48,7 +49,7 @@ pub struct Params {
     pub upper: crate::interval::UpperParams,
     /// The structure section (solvable, nilpotent, semisimple; blocks, radical and simple
     /// components, Lie structure); `None` leaves out its costly part (the properties stay).
-    pub structure: Option<crate::structure::StructureParams>,
+    pub structure: Option<StructureParams>,
 }
 
 impl Default for Params {
@@ -171,6 +172,7 @@ pub fn analyze_streaming(
     let is_map = t.kind() == Kind::Bilinear;
     let wanted = !params.laws.laws.is_empty() || !params.properties.is_empty();
     let mut laws = None;
+    let mut known_laws = Vec::new();
     let mut properties = Vec::new();
     if is_map && !params.laws_of_maps {
         notes.push(
@@ -193,6 +195,13 @@ pub fn analyze_streaming(
         let alg = t.as_algebra().expect("square");
         progress("laws");
         let lr = laws::check_laws(&alg, &params.laws)?;
+        if !is_map {
+            known_laws = lr
+                .results
+                .iter()
+                .filter_map(|r| r.holds.map(|v| (r.law, v)))
+                .collect();
+        }
         if !params.properties.is_empty() {
             progress("solvable, nilpotent, semisimple");
             let mut known = KnownLaws {
@@ -275,12 +284,11 @@ pub fn analyze_streaming(
         report.extra.push(sec);
     }
     if !report.properties.is_empty() || params.structure.is_some() {
-        let sec = sections::structure_section(
-            t,
-            &report.properties,
-            params.structure.as_ref(),
-            progress,
-        )?;
+        let structure = params.structure.clone().map(|sp| StructureParams {
+            known_laws: known_laws.clone(),
+            ..sp
+        });
+        let sec = sections::structure_section(t, &report.properties, structure.as_ref(), progress)?;
         emit(Piece::Section(&sec));
         report.extra.push(sec);
     }

@@ -5,7 +5,7 @@
 
 use super::invariants::{VectorSpaceReport, combination};
 use crate::error::Result;
-use crate::laws::{self, Law};
+use crate::laws::Law;
 use crate::poly::to_text;
 use crate::scalar::{FieldSpec, Q, q_to_string};
 use crate::structure::{
@@ -223,7 +223,7 @@ fn indecomposable(field: FieldSpec, b: &Block) -> IndecomposableReport {
     }
 }
 
-fn block_report(t: &Tensor, i: usize, b: &Block) -> Result<BlockReport> {
+fn block_report(t: &Tensor, i: usize, b: &Block, laws: Option<&[Law]>) -> BlockReport {
     let alg = t.kind() == Kind::Algebra;
     let axes = if alg { 1 } else { 3 };
     let names = (0..axes).map(|a| b.tensor.names()[a].clone()).collect();
@@ -235,20 +235,9 @@ fn block_report(t: &Tensor, i: usize, b: &Block) -> Result<BlockReport> {
                 .collect()
         })
         .collect();
-    let laws = if alg && b.kind == BlockKind::Product {
-        let lr = laws::check_laws(&b.tensor, &laws::Params::default())?;
-        Some(
-            Law::ALL
-                .iter()
-                .filter(|l| lr.holds(**l) == Some(true))
-                .map(|l| l.name().to_string())
-                .collect(),
-        )
-    } else {
-        None
-    };
+    let laws = laws.map(|ls| ls.iter().map(|l| l.name().to_string()).collect());
     let flattening = (!alg && b.kind == BlockKind::Product).then(|| flattening_ranks(&b.tensor));
-    Ok(BlockReport {
+    BlockReport {
         index: i + 1,
         kind: b.kind,
         dims: b.dims,
@@ -257,11 +246,12 @@ fn block_report(t: &Tensor, i: usize, b: &Block) -> Result<BlockReport> {
         laws,
         flattening_ranks: flattening,
         indecomposable: indecomposable(t.field(), b),
-    })
+    }
 }
 
-fn blocks_report(t: &Tensor, d: &Decomposition) -> Result<BlocksReport> {
-    Ok(BlocksReport {
+/// `block_laws`: the laws holding in each block ([`Structure::block_laws`]).
+fn blocks_report(t: &Tensor, d: &Decomposition, block_laws: &[Option<Vec<Law>>]) -> BlocksReport {
+    BlocksReport {
         count: d.blocks.len(),
         support_components: d.support_components,
         block_diagonal_checked: true,
@@ -270,9 +260,12 @@ fn blocks_report(t: &Tensor, d: &Decomposition) -> Result<BlocksReport> {
             .blocks
             .iter()
             .enumerate()
-            .map(|(i, b)| block_report(t, i, b))
-            .collect::<Result<_>>()?,
-    })
+            .map(|(i, b)| {
+                let laws = block_laws.get(i).and_then(|l| l.as_deref());
+                block_report(t, i, b, laws)
+            })
+            .collect(),
+    }
 }
 
 /// `M_n(D)` in words.
@@ -383,7 +376,10 @@ pub fn render_report(t: &Tensor, s: &Structure) -> Result<SplitReport> {
         dims: t.dims(),
         associative: s.associative,
         lie_algebra: s.lie_algebra,
-        blocks: s.blocks.as_ref().map(|d| blocks_report(t, d)).transpose()?,
+        blocks: s
+            .blocks
+            .as_ref()
+            .map(|d| blocks_report(t, d, &s.block_laws)),
         components: s.components.as_ref().map(|c| components_report(t, c)),
         lie: s.lie.as_ref().map(|l| lie_report(t, l)),
         seconds: s.seconds.clone(),

@@ -105,6 +105,10 @@ pub struct StructureParams {
     pub seed: u64,
     /// Recompute each block's centroid to certify that it does not split further.
     pub certify_blocks: bool,
+    /// Verdicts on laws of the whole algebra already decided by the caller (laws are
+    /// invariant under a change of basis): used for the associativity and Lie tests and for
+    /// a block that is the whole algebra instead of deciding them again.
+    pub known_laws: Vec<(Law, bool)>,
 }
 
 impl Default for StructureParams {
@@ -114,6 +118,7 @@ impl Default for StructureParams {
             solve: SolveParams::default(),
             seed: 1,
             certify_blocks: true,
+            known_laws: Vec::new(),
         }
     }
 }
@@ -134,6 +139,9 @@ pub struct Structure {
     pub blocks: Option<Decomposition>,
     pub components: Option<Outcome<Wedderburn>>,
     pub lie: Option<Outcome<LieStructure>>,
+    /// For each block of [`Structure::blocks`], in order: the laws of [`Law::ALL`] that
+    /// hold in it, for a product block of an algebra (`None` otherwise).
+    pub block_laws: Vec<Option<Vec<Law>>>,
     /// Wall-clock seconds per part (informative).
     pub seconds: Vec<(String, f64)>,
 }
@@ -153,14 +161,10 @@ pub fn compute_structure(
     let mut out = Structure::default();
     let is_alg = t.kind() == Kind::Algebra;
     if is_alg {
-        let lp = laws::Params {
-            laws: vec![Law::Associative, Law::Lie],
-            stop_first: true,
-            ..Default::default()
-        };
-        let lr = laws::check_laws(t, &lp)?;
-        out.associative = lr.holds(Law::Associative);
-        out.lie_algebra = lr.holds(Law::Lie);
+        let verdicts = decide_laws(t, &[Law::Associative, Law::Lie], &params.known_laws)?;
+        let verdict = |law| verdicts.iter().find(|(l, _)| *l == law).map(|(_, v)| *v);
+        out.associative = verdict(Law::Associative);
+        out.lie_algebra = verdict(Law::Lie);
     }
     for part in parts {
         let start = Instant::now();
@@ -172,7 +176,9 @@ pub fn compute_structure(
                     seed: params.seed,
                     certify: params.certify_blocks,
                 };
-                out.blocks = Some(decompose(t, &bp)?);
+                let d = decompose(t, &bp)?;
+                out.block_laws = block_laws(t, &d, &params.known_laws)?;
+                out.blocks = Some(d);
             }
             Part::Components => {
                 out.components = Some(if !is_alg {
@@ -213,4 +219,60 @@ pub fn compute_structure(
             .push((part.name().to_string(), start.elapsed().as_secs_f64()));
     }
     Ok(out)
+}
+
+/// The verdicts on `wanted` for the algebra `t`: those in `known` as given, the others
+/// decided by [`laws::check_laws`] (stopping at the first failure: only the verdict is
+/// needed). Undecided laws (work budget) are left out. Cost: that of the laws not known.
+fn decide_laws(t: &Tensor, wanted: &[Law], known: &[(Law, bool)]) -> Result<Vec<(Law, bool)>> {
+    let mut out: Vec<(Law, bool)> = Vec::new();
+    let mut missing = Vec::new();
+    for &law in wanted {
+        match known.iter().find(|(l, _)| *l == law) {
+            Some(&(_, v)) => out.push((law, v)),
+            None => missing.push(law),
+        }
+    }
+    if !missing.is_empty() {
+        let lp = laws::Params {
+            laws: missing,
+            stop_first: true,
+            ..Default::default()
+        };
+        let lr = laws::check_laws(t, &lp)?;
+        out.extend(
+            lr.results
+                .iter()
+                .filter_map(|r| r.holds.map(|v| (r.law, v))),
+        );
+    }
+    Ok(out)
+}
+
+/// The laws holding in each product block of an algebra's decomposition `d` (see
+/// [`Structure::block_laws`]). A block that is the whole algebra (in another basis) has
+/// the verdicts `known` of the whole algebra. Cost: the laws of each other block.
+fn block_laws(
+    t: &Tensor,
+    d: &Decomposition,
+    known: &[(Law, bool)],
+) -> Result<Vec<Option<Vec<Law>>>> {
+    let whole = d.blocks.len() == 1;
+    d.blocks
+        .iter()
+        .map(|b| {
+            if t.kind() != Kind::Algebra || b.kind != BlockKind::Product {
+                return Ok(None);
+            }
+            let known = if whole { known } else { &[] };
+            let verdicts = decide_laws(&b.tensor, &Law::ALL, known)?;
+            Ok(Some(
+                Law::ALL
+                    .iter()
+                    .copied()
+                    .filter(|l| verdicts.contains(&(*l, true)))
+                    .collect(),
+            ))
+        })
+        .collect()
 }
