@@ -243,7 +243,8 @@ pub fn converge(
 }
 
 /// Re-fit the free entries after a freeze; true when the error returns below `tol`.
-pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64) -> bool {
+/// `stop` is polled before every step.
+pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64, stop: &dyn Fn() -> bool) -> bool {
     let lay = Layout::new(t, s.rank());
     let free = free_unknowns(s, &lay);
     let mut mu = p.mu0;
@@ -251,7 +252,7 @@ pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64) -> bool {
         if s.error(t) < tol {
             return true;
         }
-        if free.is_empty() || !step(t, s, &lay, &free, (0.0, &mut mu), &|| false) {
+        if free.is_empty() || stop() || !step(t, s, &lay, &free, (0.0, &mut mu), stop) {
             break;
         }
     }
