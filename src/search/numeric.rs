@@ -4,7 +4,11 @@
 //! rounding by rational reconstruction, an exact solve of the result factors and an exact
 //! check. Floating point only *finds*; [`crate::scheme::verify`] *confirms*.
 //!
-//! Rounding: each term is scaled so that the first significant entry of its left and right
+//! A converged fit is first read as it is ([`super::recover`]): when the decomposition is
+//! unique and rational (data built from integer factors), its directions are rational and
+//! their common denominators give the exact factors at once.
+//!
+//! Rounding (otherwise): each term is scaled so that the first significant entry of its left and right
 //! factors is 1 (the scaling freedom of a term). Then, repeatedly, free entries of the left
 //! and right factors are frozen at rationals and the free entries are re-fitted: first
 //! every entry within round-off of a simple rational (all at once), else one entry moved to
@@ -438,8 +442,8 @@ impl Default for NumericParams {
     }
 }
 
-/// One numerical run from a random start (seeded by `rng`): fit at rank `r`, round,
-/// solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
+/// One numerical run from a random start (seeded by `rng`): fit at rank `r`, read the
+/// fit as an exact decomposition or round it, solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
 /// exactly over Q, or `None`. `stop` is polled between iterations.
 /// Cost: per iteration O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) (ALS) or
 /// O((r (d0 + d1 + d2))^3) (Levenberg-Marquardt); each error check O(d0 d1 d2 r).
