@@ -347,7 +347,7 @@ pub fn search_scheme(
         // every other fit lets its ridge vanish: fastest where the decomposition is unique
         // (planted data), while a ridge held at a floor keeps the fits of a family of
         // decompositions (matrix products) away from their border-rank limits
-        if turn % 2 == 0 {
+        if turn.is_multiple_of(2) {
             np.lm.gamma_min = 0.0;
         }
         // without a target rank: one below the best verified rank so far

@@ -103,7 +103,7 @@ mod tests {
         // (3, -7, 12, 0, 5) seen through a scale and round-off
         let x: Vec<f64> = [3.0, -7.0, 12.0, 0.0, 5.0]
             .iter()
-            .map(|v| v * -0.318_309_886 + v * 1e-13)
+            .map(|v| v * -0.297_531_104 + v * 1e-13)
             .collect();
         assert_eq!(
             integral_direction(&x, 1e-10, MAX_DENOMINATOR),
