@@ -274,3 +274,37 @@ fn command_line_interval_and_plan() {
     assert!(out.contains("R = 7 over Q"), "{out}");
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// A search with a short time limit ends near it whatever step it is in (walks over
+/// GF(p), p-adic lifts, numerical fits) and closes with the rank interval: planted rank 18
+/// in 8 x 8 x 8 searched at 17. A planted rank 12 in 8 x 8 x 8 (above every dimension) is
+/// found at its rank, read off a numerical fit, and the interval closes on it (the
+/// Koszul-Young bound proves 12). Integer factors in a user's basis.
+#[test]
+fn a_time_limited_search_ends_near_its_limit_with_the_interval() {
+    let dir = common::tmpdir("time-limit");
+    let search = |rank: usize, r: &str, time: &str| {
+        let f = dir.join(format!("planted-{rank}.json"));
+        let (t, _) = planted([8, 8, 8], rank, 100, 1);
+        std::fs::write(&f, bilin::input::write_json(&t)).unwrap();
+        let t0 = std::time::Instant::now();
+        let args = ["search", f.to_str().unwrap(), "--rank", r, "--time", time];
+        let (code, out, err) = bilin(&[&args[..], &["--seed", "1", "--quiet"]].concat());
+        (code, out, err, t0.elapsed().as_secs_f64())
+    };
+    let (code, _, err, secs) = search(18, "17", "2");
+    assert_eq!(code, 1, "{err}");
+    // generous: the interval is computed before the limit starts, and the machine is shared
+    assert!(secs < 15.0, "{secs} s\n{err}");
+    assert!(
+        err.contains("the rank over Q lies in") && err.contains("<= R <="),
+        "{err}"
+    );
+    let (code, out, err, _) = search(12, "12", "60");
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("\"rank\":12") && err.contains("the rank over Q is 12"),
+        "{out}\n{err}"
+    );
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -461,5 +461,30 @@ pub fn run(a: SearchArgs) -> i32 {
         }
         None => note("no verified scheme found"),
     }
+    note(closing_interval(&interval, outcome.best.as_ref()));
     code
+}
+
+/// The rank interval after a search: the proven lower bound with its name, and the lower
+/// of the known upper bound and the best scheme the search verified.
+fn closing_interval(
+    iv: &bilin::interval::RankInterval,
+    best: Option<&bilin::scheme::Scheme>,
+) -> String {
+    let field = iv.upper.scheme.field.name();
+    let lower = &iv.lower;
+    let upper = best.map_or(iv.upper.value, |s| s.rank().min(iv.upper.value));
+    if lower.value >= upper {
+        format!(
+            "the rank over {field} is {upper}: a verified scheme of rank {upper} meets the \
+             proven lower bound ({})",
+            lower.name
+        )
+    } else {
+        format!(
+            "the rank over {field} lies in {} <= R <= {upper} (lower: {}, proven; upper: a \
+             verified scheme)",
+            lower.value, lower.name
+        )
+    }
 }

@@ -155,9 +155,9 @@ pub fn converge(
 }
 
 /// Re-solve the free entries after freezing; true when the error returns below `tol`.
-pub fn relax(t: &Dense, s: &mut Factors, p: &AlsParams, tol: f64) -> bool {
+pub fn relax(t: &Dense, s: &mut Factors, p: &AlsParams, tol: f64, stop: &dyn Fn() -> bool) -> bool {
     for it in 0..p.round_sweeps {
-        if !sweep(s, t, p.lambda_min) {
+        if (it % 10 == 0 && stop()) || !sweep(s, t, p.lambda_min) {
             return false;
         }
         if it % 10 == 9 {

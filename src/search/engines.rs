@@ -197,10 +197,23 @@ pub fn plan_runs(goal: &Tensor, params: &Params, start_rank: Option<usize>) -> R
                     );
                     let mut kinds = vec![RunKind::Walk(w)];
                     if lm_too {
-                        kinds.push(RunKind::Numeric(fit));
+                        // above every dimension simultaneous diagonalisation does not
+                        // apply, and a unique decomposition is read off a fit at once
+                        let above = aim.is_some_and(|r| goal.dims().iter().all(|&d| r > d));
+                        if above {
+                            kinds.insert(0, RunKind::Numeric(fit));
+                        } else {
+                            kinds.push(RunKind::Numeric(fit));
+                        }
                         reason += &format!(
                             ", in turn with runs of {fit_name} (the rank over GF(p) may \
-                             exceed the rank over Q)"
+                             exceed the rank over Q{})",
+                            if above {
+                                "; the fits first: at a rank above every dimension a \
+                                 unique decomposition is read off a fit"
+                            } else {
+                                ""
+                            }
                         );
                     }
                     Ok(RunPlan { kinds, reason })

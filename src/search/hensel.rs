@@ -36,6 +36,9 @@ pub struct HenselParams {
     /// Odd p: the largest elimination (equations x unknowns x min of both) attempted; a
     /// larger system is not lifted (the GF(2) elimination is bit-packed and has no cap).
     pub max_work: u64,
+    /// Give up (return `None`) once this is reached, polled between pivots of the
+    /// elimination, digits of the lift and candidates.
+    pub halt: super::halt::Halt,
 }
 
 impl Default for HenselParams {
@@ -43,6 +46,7 @@ impl Default for HenselParams {
         HenselParams {
             max_bits: 63,
             max_work: 4_000_000_000,
+            halt: super::halt::Halt::default(),
         }
     }
 }
@@ -180,7 +184,7 @@ impl Kernel {
     ) -> Option<Kernel> {
         let m = jac.len();
         if p == 2 {
-            return Some(Self::bits(jac, n));
+            return Self::bits(jac, n, &params.halt);
         }
         if (m as u64) * (n as u64) * (m.min(n) as u64) > params.max_work {
             return None;
@@ -199,6 +203,9 @@ impl Kernel {
         let mut ops = Vec::new();
         let mut pivots = Vec::new();
         for &c in order {
+            if params.halt.reached() {
+                return None;
+            }
             let Some(r) = (0..m).find(|&i| !used[i] && rows[i][c] != 0) else {
                 continue;
             };
@@ -231,7 +238,7 @@ impl Kernel {
         Some(Kernel::Prime { p, ops, pivots })
     }
 
-    fn bits(jac: Vec<Vec<(usize, u64)>>, n: usize) -> Kernel {
+    fn bits(jac: Vec<Vec<(usize, u64)>>, n: usize, halt: &super::halt::Halt) -> Option<Kernel> {
         let m = jac.len();
         let (wn, wm) = (words(n), words(m));
         let mut rows: Vec<Vec<u64>> = jac
@@ -257,6 +264,9 @@ impl Kernel {
             if r == m {
                 break;
             }
+            if c % 64 == 0 && halt.reached() {
+                return None;
+            }
             let (w, b) = (c / 64, 1u64 << (c % 64));
             let Some(p) = (r..m).find(|&i| rows[i][w] & b != 0) else {
                 continue;
@@ -277,7 +287,7 @@ impl Kernel {
             pivots.push(c);
             r += 1;
         }
-        Kernel::Bits { trans, pivots }
+        Some(Kernel::Bits { trans, pivots })
     }
 
     /// Solve `J d = e (mod p)` (e in `0..p`); `None` if inconsistent.
@@ -422,12 +432,7 @@ impl Brent {
             us.push(rec(&b[..d[0]])?);
             vs.push(rec(&b[d[0]..d[0] + d[1]])?);
         }
-        let ws = super::numeric::solve_result_factors(t, &us, &vs)?;
-        let mut s = Scheme::empty(FieldSpec::Rational, d);
-        for ((u, v), w) in us.into_iter().zip(vs).zip(ws) {
-            s.push(u, v, w);
-        }
-        verify(&s, t).is_ok().then_some(s)
+        super::numeric::scheme_from_left_right(t, us, vs)
     }
 }
 
@@ -487,6 +492,9 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
     let kernel = Kernel::new(jacobian(&x0, d, rank, p), n, &order, p, params)?;
     let mut prec = 1u32; // x is a solution mod p^prec
     loop {
+        if params.halt.reached() {
+            return None;
+        }
         let res = brent.residual(&x);
         let exact = res.iter().all(|&v| v == 0);
         let modulus = if exact { ring.m } else { ring.pow(prec) };

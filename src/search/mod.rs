@@ -27,11 +27,13 @@ pub mod cyclic;
 mod engines;
 pub mod flip;
 pub mod flip_p;
+pub mod halt;
 pub mod hensel;
 pub mod json;
 pub mod lm;
 pub mod numeric;
 pub mod pool;
+pub mod recover;
 pub mod store;
 mod walks;
 
@@ -218,7 +220,7 @@ pub fn run_seed(seed: u64, run: u64) -> u64 {
 pub(crate) struct Shared {
     best: Mutex<Option<Scheme>>,
     best_rank: AtomicUsize,
-    found: AtomicBool,
+    found: Arc<AtomicBool>,
     moves: AtomicU64,
     walk_rank: AtomicUsize,
     /// runs handed out (sequence numbers within the shard) and finished flags
@@ -254,6 +256,7 @@ pub fn search_scheme(
     start: Option<Scheme>,
     progress: &(dyn Fn(&Progress) + Sync),
 ) -> Result<Outcome> {
+    let called = Instant::now();
     let (k, n) = params.shard;
     if n == 0 || k >= n {
         return Err(Error::Invalid(format!("shard {k}/{n}: need 0 <= K < N")));
@@ -311,23 +314,42 @@ pub fn search_scheme(
     });
     let shared = Shared {
         best_rank: AtomicUsize::new(start.as_ref().map_or(usize::MAX, Scheme::rank)),
-        found: AtomicBool::new(start.as_ref().is_some_and(|s| s.rank() <= target)),
+        found: Arc::new(AtomicBool::new(
+            start.as_ref().is_some_and(|s| s.rank() <= target),
+        )),
         best: Mutex::new(start.clone()),
         moves: AtomicU64::new(0),
         walk_rank: AtomicUsize::new(usize::MAX),
         next_seq: AtomicU64::new(0),
         done: Mutex::new(Vec::new()),
     };
+    // every long step polls the same halt: the time limit (counted from the call), the
+    // stop flag and the target met by another worker
+    let halt = halt::Halt {
+        deadline: params.time_limit.and_then(|l| called.checked_add(l)),
+        flags: vec![stop.clone(), shared.found.clone()],
+    };
+    let params = &Params {
+        hensel: hensel::HenselParams {
+            halt: halt.clone(),
+            ..params.hensel.clone()
+        },
+        ..params.clone()
+    };
     let t0 = Instant::now();
-    let out_of_time = || params.time_limit.is_some_and(|l| t0.elapsed() >= l);
-    let halted =
-        || stop.load(Ordering::Relaxed) || shared.found.load(Ordering::Relaxed) || out_of_time();
-    let numeric_run = |fit: Fit, seed: u64| {
+    let halted = || halt.reached();
+    let numeric_run = |fit: Fit, seed: u64, turn: u64| {
         let mut rng = ChaCha8Rng::seed_from_u64(seed);
-        let np = NumericParams {
+        let mut np = NumericParams {
             fit,
             ..params.numeric.clone()
         };
+        // every other fit lets its ridge vanish: fastest where the decomposition is unique
+        // (planted data), while a ridge held at a floor keeps the fits of a family of
+        // decompositions (matrix products) away from their border-rank limits
+        if turn.is_multiple_of(2) {
+            np.lm.gamma_min = 0.0;
+        }
         // without a target rank: one below the best verified rank so far
         let aim = match params.target_rank {
             Some(r) => r,
@@ -345,7 +367,7 @@ pub fn search_scheme(
             [(run_no % plan.kinds.len() as u64) as usize]
         {
             RunKind::Walk(_) => walk_run(seed),
-            RunKind::Numeric(fit) => numeric_run(fit, seed),
+            RunKind::Numeric(fit) => numeric_run(fit, seed, run_no / plan.kinds.len() as u64),
         };
         drive_runs(params, &shared, t0, &halted, &run, progress)
     };

@@ -4,7 +4,11 @@
 //! rounding by rational reconstruction, an exact solve of the result factors and an exact
 //! check. Floating point only *finds*; [`crate::scheme::verify`] *confirms*.
 //!
-//! Rounding: each term is scaled so that the first significant entry of its left and right
+//! A converged fit is first read as it is ([`super::recover`]): when the decomposition is
+//! unique and rational (data built from integer factors), its directions are rational and
+//! their common denominators give the exact factors at once.
+//!
+//! Rounding (otherwise): each term is scaled so that the first significant entry of its left and right
 //! factors is 1 (the scaling freedom of a term). Then, repeatedly, free entries of the left
 //! and right factors are frozen at rationals and the free entries are re-fitted: first
 //! every entry within round-off of a simple rational (all at once), else one entry moved to
@@ -73,21 +77,37 @@ impl Default for RoundParams {
     }
 }
 
-/// The tensor as dense f64 plus its sparse entry list.
+/// The tensor as dense f64 plus its sparse entry list, divided by its largest entry in
+/// absolute value (`scale`), so that the factor bounds of the fits mean the same for a
+/// table of 0s and 1s and for a user's array with entries in the millions. The scaling
+/// changes no rank and no scheme up to the scale of the result factors, which the exact
+/// solve recomputes against the tensor itself.
 pub struct Dense {
     pub dims: [usize; 3],
     pub data: Vec<f64>,
     pub entries: Vec<([usize; 3], f64)>,
     pub norm: f64,
+    /// The largest entry in absolute value of the tensor (1 for the zero tensor).
+    pub scale: f64,
 }
 
 impl Dense {
     pub fn new(t: &Tensor) -> Dense {
         let d = t.dims();
+        let raw: Vec<([usize; 3], f64)> = t
+            .entries()
+            .map(|(i, j, k, c)| ([i, j, k], q_to_f64(c)))
+            .collect();
+        let big = raw.iter().fold(0.0f64, |m, e| m.max(e.1.abs()));
+        let scale = if big > 0.0 && big.is_finite() {
+            big
+        } else {
+            1.0
+        };
         let mut data = vec![0.0; d[0] * d[1] * d[2]];
-        let mut entries = Vec::new();
-        for (i, j, k, c) in t.entries() {
-            let v = q_to_f64(c);
+        let mut entries = Vec::with_capacity(raw.len());
+        for ([i, j, k], v) in raw {
+            let v = v / scale;
             data[(i * d[1] + j) * d[2] + k] = v;
             entries.push(([i, j, k], v));
         }
@@ -97,6 +117,7 @@ impl Dense {
             data,
             entries,
             norm,
+            scale,
         }
     }
 }
@@ -354,12 +375,20 @@ pub fn exact_scheme(t: &Tensor, s: &Factors) -> Option<Scheme> {
     };
     let us: Vec<Vec<Q>> = (0..r).map(|x| uv(0, x)).collect::<Option<_>>()?;
     let vs: Vec<Vec<Q>> = (0..r).map(|x| uv(1, x)).collect::<Option<_>>()?;
+    scheme_from_left_right(t, us, vs)
+}
+
+/// The scheme with exact left and right factors `us`, `vs` and the result factors solved
+/// for exactly ([`solve_result_factors`]), terms with a zero factor dropped, verified
+/// exactly against `t`; `None` when the result factors have no solution.
+/// Cost: that of [`solve_result_factors`] plus one verification.
+pub fn scheme_from_left_right(t: &Tensor, us: Vec<Vec<Q>>, vs: Vec<Vec<Q>>) -> Option<Scheme> {
     let ws = solve_result_factors(t, &us, &vs)?;
-    let mut out = Scheme::empty(FieldSpec::Rational, d);
-    for x in 0..r {
-        let zero = |v: &Vec<Q>| v.iter().all(Zero::is_zero);
-        if !(zero(&us[x]) || zero(&vs[x]) || zero(&ws[x])) {
-            out.push(us[x].clone(), vs[x].clone(), ws[x].clone());
+    let mut out = Scheme::empty(FieldSpec::Rational, t.dims());
+    let zero = |v: &Vec<Q>| v.iter().all(Zero::is_zero);
+    for ((u, v), w) in us.into_iter().zip(vs).zip(ws) {
+        if !(zero(&u) || zero(&v) || zero(&w)) {
+            out.push(u, v, w);
         }
     }
     verify(&out, t).ok().map(|_| out)
@@ -413,8 +442,8 @@ impl Default for NumericParams {
     }
 }
 
-/// One numerical run from a random start (seeded by `rng`): fit at rank `r`, round,
-/// solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
+/// One numerical run from a random start (seeded by `rng`): fit at rank `r`, read the
+/// fit as an exact decomposition or round it, solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
 /// exactly over Q, or `None`. `stop` is polled between iterations.
 /// Cost: per iteration O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) (ALS) or
 /// O((r (d0 + d1 + d2))^3) (Levenberg-Marquardt); each error check O(d0 d1 d2 r).
@@ -433,8 +462,12 @@ pub fn numeric_run(
         Fit::Als => super::als::converge(&dense, r, &p.als, rng, stop)?,
         Fit::Lm => super::lm::converge(&dense, r, &p.lm, rng, stop)?,
     };
-    let relax_als = |t: &Dense, s: &mut Factors| super::als::relax(t, s, &p.als, p.round.tol);
-    let relax_lm = |t: &Dense, s: &mut Factors| super::lm::relax(t, s, &p.lm, p.round.tol);
+    // a unique decomposition made of rational directions is read off the fit at once
+    if let Some(s) = super::recover::read_exact_scheme(t, &fitted) {
+        return Some(s);
+    }
+    let relax_als = |t: &Dense, s: &mut Factors| super::als::relax(t, s, &p.als, p.round.tol, stop);
+    let relax_lm = |t: &Dense, s: &mut Factors| super::lm::relax(t, s, &p.lm, p.round.tol, stop);
     let relax: &dyn Fn(&Dense, &mut Factors) -> bool = match p.fit {
         Fit::Als => &relax_als,
         Fit::Lm => &relax_lm,

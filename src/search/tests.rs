@@ -132,6 +132,35 @@ fn strassen_rank_seven_by_als() {
     assert!(verify(&s, &t).is_ok());
 }
 
+/// <2,2,2> rank 7 by Levenberg-Marquardt and rounding to an exact scheme (Strassen 1969):
+/// the decompositions of rank 7 form a family, so the rounding freezes entries at simple
+/// rationals one at a time before the exact solve and check.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn strassen_rank_seven_by_lm() {
+    let t = matmul(2, 2, 2);
+    let o = run(&t, &params(Method::Lm, 7, 1));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 7);
+    assert!(verify(&s, &t).is_ok());
+}
+
+/// A planted decomposition of rank 8 in 6 x 6 x 6 (above every dimension; integer factors
+/// scrambled by integer changes of basis with entries up to 100) is read off a
+/// Levenberg-Marquardt fit and verified exactly. With factors in general position the
+/// k-ranks are 6, 6, 6 and 6 + 6 + 6 >= 2 * 8 + 2, so the decomposition is unique up to
+/// order and scale (Kruskal 1977, "Three-way arrays: rank and uniqueness of trilinear
+/// decompositions") and the fit is the planted one.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn planted_rank_above_the_dimensions_read_off_a_fit() {
+    let (t, _) = crate::decompose::planted::planted([6, 6, 6], 8, 100, 3);
+    let o = run(&t, &params(Method::Lm, 8, 1));
+    let s = o.best.expect("found");
+    assert_eq!(s.rank(), 8);
+    assert!(verify(&s, &t).is_ok());
+}
+
 /// Toom-Cook: polynomials with 3 coefficients each multiply with 5 multiplications, which
 /// needs fractions (Toom 1963; Cook 1966, "On the minimum computation time of functions").
 #[test]
