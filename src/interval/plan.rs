@@ -12,10 +12,11 @@
 //! [`crate::ranks`] and the verified upper bounds of [`super::upper`], with any scheme the
 //! caller already holds.
 
-use super::{Lower, RankInterval, UpperParams, rank_interval};
+use super::{Lower, RankInterval, Upper, UpperParams, rank_interval};
 use crate::error::Result;
 use crate::ranks::{BoundsParams, lower_bounds};
 use crate::scheme::Scheme;
+use crate::search::hensel::is_integral;
 use crate::search::{Method, Params, RunPlan, plan_runs};
 use crate::tensor::Tensor;
 
@@ -52,8 +53,27 @@ pub fn known_interval(t: &Tensor, given: &[(String, Scheme)], seed: u64) -> Rank
 /// The plan for a search of `t` (over its own field) with `params` (target rank, method;
 /// [`Method::Auto`] chooses from the tensor) given what is known, `interval`.
 /// Errors: the engines do not fit the tensor (see [`plan_runs`]).
+/// With `params.integral` (over Z) only schemes with integer coefficients count: the
+/// lowest such upper bound (the standard scheme when none is known).
 pub fn plan_search(t: &Tensor, params: &Params, interval: &RankInterval) -> Result<Plan> {
-    let upper = &interval.upper;
+    let standard;
+    let upper = if params.integral {
+        match interval.uppers.iter().find(|u| is_integral(&u.scheme)) {
+            Some(u) => u,
+            None => {
+                let s = Scheme::standard(t);
+                standard = Upper {
+                    value: s.rank(),
+                    name: "standard".into(),
+                    detail: "one term per nonzero entry".into(),
+                    scheme: s,
+                };
+                &standard
+            }
+        }
+    } else {
+        &interval.upper
+    };
     if let Some(r) = params.target_rank {
         if r >= upper.value {
             return Ok(Plan::Known {
