@@ -613,11 +613,11 @@ mod tests {
     fn three_dependent_terms_reduce_to_two() {
         let s = BitScheme {
             dims: [1, 2, 3],
-            terms: vec![[vec![1], vec![1], vec![1]], [vec![1], vec![2], vec![2]], [
-                vec![1],
-                vec![3],
-                vec![4],
-            ]],
+            terms: vec![
+                [vec![1], vec![1], vec![1]],
+                [vec![1], vec![2], vec![2]],
+                [vec![1], vec![3], vec![4]],
+            ],
         };
         let mut w = Walker::<1>::new(&s, 1);
         assert_eq!(w.rank(), 3, "no two terms share two factors");
