@@ -17,7 +17,7 @@ use crate::error::Result;
 use crate::ranks::{BoundsParams, lower_bounds};
 use crate::scheme::Scheme;
 use crate::search::hensel::is_integral;
-use crate::search::{Method, Params, RunPlan, plan_runs};
+use crate::search::{Method, Params, RunPlan, known_start, plan_runs};
 use crate::tensor::Tensor;
 
 /// What a search should do.
@@ -54,23 +54,34 @@ pub fn known_interval(t: &Tensor, given: &[(String, Scheme)], seed: u64) -> Rank
 /// [`Method::Auto`] chooses from the tensor) given what is known, `interval`.
 /// Errors: the engines do not fit the tensor (see [`plan_runs`]).
 /// With `params.integral` (over Z) only schemes with integer coefficients count: the
-/// lowest such upper bound (the standard scheme when none is known).
+/// lowest such upper bound, or the scheme built from the stored integer schemes of a
+/// matrix format ([`known_start`]) when lower (the standard scheme when none is known).
 pub fn plan_search(t: &Tensor, params: &Params, interval: &RankInterval) -> Result<Plan> {
-    let standard;
+    let integral_best;
     let upper = if params.integral {
-        match interval.uppers.iter().find(|u| is_integral(&u.scheme)) {
-            Some(u) => u,
-            None => {
+        let built = known_start(t, None, true).map(|s| Upper {
+            value: s.rank(),
+            name: "built".into(),
+            detail: "a scheme built from the stored integer schemes, verified exactly".into(),
+            scheme: s,
+        });
+        integral_best = interval
+            .uppers
+            .iter()
+            .filter(|u| is_integral(&u.scheme))
+            .chain(built.iter())
+            .min_by_key(|u| u.value)
+            .cloned()
+            .unwrap_or_else(|| {
                 let s = Scheme::standard(t);
-                standard = Upper {
+                Upper {
                     value: s.rank(),
                     name: "standard".into(),
                     detail: "one term per nonzero entry".into(),
                     scheme: s,
-                };
-                &standard
-            }
-        }
+                }
+            });
+        &integral_best
     } else {
         &interval.upper
     };
