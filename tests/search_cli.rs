@@ -102,3 +102,53 @@ fn progress_lines_in_a_log_and_quiet() {
     assert_eq!(code, 2);
     assert!(err.contains("--progress-every"), "{err}");
 }
+
+/// `--ring Z`: <2,2,3> at rank 11 (Hopcroft and Kerr 1971, "On minimizing the number of
+/// multiplications necessary for matrix multiplication") with integer coefficients, the
+/// closing line saying so; a tensor over GF(2) or a ring other than Z and Q is refused.
+#[test]
+fn search_over_the_integers() {
+    let (code, stdout, err) = bilin(&[
+        "search",
+        "matmul:2,2,3",
+        "--rank",
+        "11",
+        "--ring",
+        "Z",
+        "--seed",
+        "1",
+        "--threads",
+        "1",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("over Z"), "{err}");
+    assert!(stdout.contains("\"rank\":11"), "{stdout}");
+    // every coefficient an integer: no quoted fraction besides the schema name
+    let fractions = stdout
+        .split('"')
+        .filter(|x| x.contains('/') && *x != "bilin.scheme/1")
+        .count();
+    assert_eq!(fractions, 0, "{stdout}");
+    // <2,5,5>: the stored rank-40 scheme has fractions; over Z the known scheme is the
+    // one built from the stored integer schemes (43), answered at once
+    let (code, _, err) = bilin(&["search", "matmul:2,5,5", "--rank", "43", "--ring", "Z"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        err.contains("answered at once") && err.contains("rank 43 over Z"),
+        "{err}"
+    );
+    for ring in ["Z", "N"] {
+        let (code, _, err) = bilin(&[
+            "search",
+            "matmul:2,2,3",
+            "--rank",
+            "11",
+            "--field",
+            if ring == "Z" { "GF(2)" } else { "Q" },
+            "--ring",
+            ring,
+        ]);
+        assert_eq!(code, 2, "{err}");
+        assert!(err.contains("--ring"), "{err}");
+    }
+}

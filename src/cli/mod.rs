@@ -61,7 +61,7 @@ enum Command {
     /// Lie radicals, Levi factor and Cartan subalgebra (exact, checked).
     Split(split::Args),
     /// Search for a low-rank scheme (bilinear algorithm) of a tensor.
-    Search(search::SearchArgs),
+    Search(Box<search::SearchArgs>),
     /// Keep the lowest-rank verified scheme among result and checkpoint files.
     Merge(merge::MergeArgs),
     /// Browse the catalog of known algebras and bilinear maps (list, show, check, doc).
@@ -151,7 +151,7 @@ fn dispatch() -> i32 {
         Command::Scheme(a) => scheme::run(&a),
         Command::Invariants(a) => invariants::run(a),
         Command::Split(a) => split::run(a),
-        Command::Search(a) => search::run(a),
+        Command::Search(a) => search::run(*a),
         Command::Merge(a) => merge::run(a),
         Command::Catalog(a) => catalog::run(a),
         Command::Identify(a) => identify::run(a),

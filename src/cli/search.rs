@@ -65,6 +65,11 @@ pub struct SearchArgs {
     /// Field the scheme must hold over (default: the tensor's field), e.g. `GF(2)`.
     #[arg(long)]
     pub field: Option<String>,
+    /// Ring the scheme's coefficients must lie in, for a tensor over Q with integer
+    /// entries: `Z` (integers only: a scheme with fractions does not count) or `Q` (the
+    /// default).
+    #[arg(long)]
+    pub ring: Option<String>,
     /// Time limit in seconds.
     #[arg(long)]
     pub time: Option<f64>,
@@ -177,6 +182,7 @@ fn finish_known(
     scheme: &bilin::scheme::Scheme,
     t: &bilin::tensor::Tensor,
     (seed, shard, next_run): (u64, (u64, u64), u64),
+    ring: &str,
 ) -> i32 {
     files.save_checkpoint(
         &Checkpoint {
@@ -191,9 +197,8 @@ fn finish_known(
         return EXIT_USAGE;
     }
     note(format!(
-        "best verified rank {} over {} (known before any search)",
+        "best verified rank {} over {ring} (known before any search)",
         scheme.rank(),
-        scheme.field.name()
     ));
     EXIT_OK
 }
@@ -245,6 +250,37 @@ pub fn run(a: SearchArgs) -> i32 {
                 "--symmetry",
                 format!("unknown symmetry `{s}` (expected cyclic or none)"),
             );
+        }
+    };
+    let integral = match a.ring.as_deref().map(str::to_ascii_lowercase).as_deref() {
+        None | Some("q") => false,
+        Some("z") => true,
+        Some(r) => {
+            return usage_error("--ring", format!("unknown ring `{r}` (expected Z or Q)"));
+        }
+    };
+    if integral
+        && (t.field() != bilin::scalar::FieldSpec::Rational
+            || t.entries().any(|(_, _, _, c)| !c.is_integer()))
+    {
+        return usage_error(
+            "--ring",
+            format!(
+                "a scheme over Z needs a tensor over Q with integer entries; this one is over {}{}",
+                t.field().name(),
+                if t.field() == bilin::scalar::FieldSpec::Rational {
+                    " with fractions"
+                } else {
+                    ""
+                }
+            ),
+        );
+    }
+    let ring_name = |s: &bilin::scheme::Scheme| {
+        if integral {
+            "Z".to_string()
+        } else {
+            s.field.name()
         }
     };
     let defaults = Params::default();
@@ -315,6 +351,7 @@ pub fn run(a: SearchArgs) -> i32 {
         walk_prime: a.prime.unwrap_or(2),
         symmetry,
         walk_start,
+        integral,
         walk_budget: a.walk_moves.unwrap_or(defaults.walk_budget),
         pool: PoolParams {
             size: a.pool.unwrap_or(defaults.pool.size),
@@ -398,12 +435,19 @@ pub fn run(a: SearchArgs) -> i32 {
         Err(e) => return usage_error("--method", e.to_string()),
         Ok(Plan::Known { scheme, reason }) => {
             note(format!("answered at once: {reason}"));
-            return finish_known(&files, &scheme, &t, (seed, shard, first_run));
+            return finish_known(
+                &files,
+                &scheme,
+                &t,
+                (seed, shard, first_run),
+                &ring_name(&scheme),
+            );
         }
         Ok(Plan::Refuse { reason, known, .. }) => {
             eprintln!("error: refused: {reason}; no scheme of that rank exists");
             // the best known scheme is still the result, so that nothing is lost
-            if finish_known(&files, &known, &t, (seed, shard, first_run)) != EXIT_OK {
+            let ring = ring_name(&known);
+            if finish_known(&files, &known, &t, (seed, shard, first_run), &ring) != EXIT_OK {
                 return EXIT_USAGE;
             }
             return EXIT_FALSE;
@@ -449,7 +493,7 @@ pub fn run(a: SearchArgs) -> i32 {
             note(format!(
                 "best verified rank {} over {} ({:.2} s, {} moves{})",
                 s.rank(),
-                s.field.name(),
+                ring_name(s),
                 outcome.elapsed.as_secs_f64(),
                 outcome.moves,
                 if stop.load(Ordering::SeqCst) {

@@ -12,11 +12,12 @@
 //! [`crate::ranks`] and the verified upper bounds of [`super::upper`], with any scheme the
 //! caller already holds.
 
-use super::{Lower, RankInterval, UpperParams, rank_interval};
+use super::{Lower, RankInterval, Upper, UpperParams, rank_interval};
 use crate::error::Result;
 use crate::ranks::{BoundsParams, lower_bounds};
 use crate::scheme::Scheme;
-use crate::search::{Method, Params, RunPlan, plan_runs};
+use crate::search::hensel::is_integral;
+use crate::search::{Method, Params, RunPlan, known_start, plan_runs};
 use crate::tensor::Tensor;
 
 /// What a search should do.
@@ -52,8 +53,38 @@ pub fn known_interval(t: &Tensor, given: &[(String, Scheme)], seed: u64) -> Rank
 /// The plan for a search of `t` (over its own field) with `params` (target rank, method;
 /// [`Method::Auto`] chooses from the tensor) given what is known, `interval`.
 /// Errors: the engines do not fit the tensor (see [`plan_runs`]).
+/// With `params.integral` (over Z) only schemes with integer coefficients count: the
+/// lowest such upper bound, or the scheme built from the stored integer schemes of a
+/// matrix format ([`known_start`]) when lower (the standard scheme when none is known).
 pub fn plan_search(t: &Tensor, params: &Params, interval: &RankInterval) -> Result<Plan> {
-    let upper = &interval.upper;
+    let integral_best;
+    let upper = if params.integral {
+        let built = known_start(t, None, true).map(|s| Upper {
+            value: s.rank(),
+            name: "built".into(),
+            detail: "a scheme built from the stored integer schemes, verified exactly".into(),
+            scheme: s,
+        });
+        integral_best = interval
+            .uppers
+            .iter()
+            .filter(|u| is_integral(&u.scheme))
+            .chain(built.iter())
+            .min_by_key(|u| u.value)
+            .cloned()
+            .unwrap_or_else(|| {
+                let s = Scheme::standard(t);
+                Upper {
+                    value: s.rank(),
+                    name: "standard".into(),
+                    detail: "one term per nonzero entry".into(),
+                    scheme: s,
+                }
+            });
+        &integral_best
+    } else {
+        &interval.upper
+    };
     if let Some(r) = params.target_rank {
         if r >= upper.value {
             return Ok(Plan::Known {

@@ -21,6 +21,7 @@
 //! [`crate::scheme::verify`]; only a verified scheme is returned.
 
 use super::bits::{BitScheme, words};
+use super::sign_lift::{SignLiftParams, lift_signs};
 use crate::scalar::{FieldSpec, Q, rational_reconstruct};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
@@ -39,6 +40,8 @@ pub struct HenselParams {
     /// Give up (return `None`) once this is reached, polled between pivots of the
     /// elimination, digits of the lift and candidates.
     pub halt: super::halt::Halt,
+    /// p = 2 and an integer tensor: the sign lift tried first ([`super::sign_lift`]).
+    pub signs: SignLiftParams,
 }
 
 impl Default for HenselParams {
@@ -47,6 +50,7 @@ impl Default for HenselParams {
             max_bits: 63,
             max_work: 4_000_000_000,
             halt: super::halt::Halt::default(),
+            signs: SignLiftParams::default(),
         }
     }
 }
@@ -117,10 +121,13 @@ fn symmetric(v: u64, n: u64) -> i64 {
 }
 
 /// The linear system `J d = e (mod p)`, eliminated once.
-enum Kernel {
-    /// GF(2): rows of the transform P (m bits each) with P J in reduced echelon form.
+pub(super) enum Kernel {
+    /// GF(2): rows of the transform P (m bits each) with P J in reduced echelon form;
+    /// `rows` holds the nonzero rows of P J (n bits each, row r with its pivot
+    /// `pivots[r]`).
     Bits {
         trans: Vec<Vec<u64>>,
+        rows: Vec<Vec<u64>>,
         pivots: Vec<usize>,
     },
     /// GF(p): the recorded row operations of a Gauss-Jordan elimination of J; `pivots`
@@ -132,7 +139,7 @@ enum Kernel {
     },
 }
 
-enum RowOp {
+pub(super) enum RowOp {
     /// e[r] *= s
     Scale(usize, u64),
     /// e[i] -= f e[r] for each (i, f)
@@ -141,7 +148,12 @@ enum RowOp {
 
 /// The Jacobian entries of the Brent equations at x0 (entries mod p), row by row:
 /// `rows[(i d1 + j) d2 + k]` lists `(unknown, value)`.
-fn jacobian(x0: &[u64], dims: [usize; 3], rank: usize, p: u64) -> Vec<Vec<(usize, u64)>> {
+pub(super) fn jacobian(
+    x0: &[u64],
+    dims: [usize; 3],
+    rank: usize,
+    p: u64,
+) -> Vec<Vec<(usize, u64)>> {
     let d = dims;
     let len = d[0] + d[1] + d[2];
     let mut rows = vec![Vec::new(); d[0] * d[1] * d[2]];
@@ -238,7 +250,14 @@ impl Kernel {
         Some(Kernel::Prime { p, ops, pivots })
     }
 
-    fn bits(jac: Vec<Vec<(usize, u64)>>, n: usize, halt: &super::halt::Halt) -> Option<Kernel> {
+    /// The GF(2) elimination of `jac` (n unknowns; entries taken mod 2), pivots in column
+    /// order; `None` once `halt` is reached. Cost: O(m n min(m, n) / 64) word operations
+    /// for m equations.
+    pub(super) fn bits(
+        jac: Vec<Vec<(usize, u64)>>,
+        n: usize,
+        halt: &super::halt::Halt,
+    ) -> Option<Kernel> {
         let m = jac.len();
         let (wn, wm) = (words(n), words(m));
         let mut rows: Vec<Vec<u64>> = jac
@@ -287,13 +306,43 @@ impl Kernel {
             pivots.push(c);
             r += 1;
         }
-        Some(Kernel::Bits { trans, pivots })
+        rows.truncate(r);
+        Some(Kernel::Bits {
+            trans,
+            rows,
+            pivots,
+        })
+    }
+
+    /// GF(2): a basis of the solutions of `J d = 0` (n bits each), one vector per free
+    /// unknown f (1 at f and at the pivots of the rows holding f); empty over GF(p).
+    pub(super) fn null_basis_bits(&self, n: usize) -> Vec<Vec<u64>> {
+        let Kernel::Bits { rows, pivots, .. } = self else {
+            return Vec::new();
+        };
+        let mut is_pivot = vec![false; n];
+        for &c in pivots {
+            is_pivot[c] = true;
+        }
+        (0..n)
+            .filter(|&f| !is_pivot[f])
+            .map(|f| {
+                let mut v = vec![0u64; words(n)];
+                v[f / 64] |= 1 << (f % 64);
+                for (row, &c) in rows.iter().zip(pivots) {
+                    if row[f / 64] >> (f % 64) & 1 == 1 {
+                        v[c / 64] |= 1 << (c % 64);
+                    }
+                }
+                v
+            })
+            .collect()
     }
 
     /// Solve `J d = e (mod p)` (e in `0..p`); `None` if inconsistent.
-    fn solve(&self, e: &[u64], n: usize) -> Option<Vec<u64>> {
+    pub(super) fn solve(&self, e: &[u64], n: usize) -> Option<Vec<u64>> {
         match self {
-            Kernel::Bits { trans, pivots } => {
+            Kernel::Bits { trans, pivots, .. } => {
                 let mut eb = vec![0u64; words(e.len())];
                 for (i, &v) in e.iter().enumerate() {
                     if v & 1 == 1 {
@@ -437,7 +486,8 @@ impl Brent {
 }
 
 /// Lift a scheme over GF(p) (entries in `0..p`) of the tensor reduced mod p to a scheme
-/// over Q of the same rank. Returns a scheme verified exactly against `t` (a tensor over Q
+/// over Q of the same rank. From GF(2) the sign lift ([`lift_signs`]: coefficients in
+/// {-1, 0, 1}) is tried first, the p-adic lift below after it. Returns a scheme verified exactly against `t` (a tensor over Q
 /// whose denominators are prime to p), or `None` when a linear step is inconsistent, the
 /// system is beyond `params.max_work`, or no candidate verifies.
 /// Cost: one elimination of the `d0 d1 d2 x r (d0 + d1 + d2)` Jacobian mod p (bit-packed
@@ -448,6 +498,12 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
     };
     if t.field() != FieldSpec::Rational || s.dims != t.dims() || p >= 1 << 31 {
         return None;
+    }
+    // from GF(2), a scheme with coefficients in {-1, 0, 1} first
+    if p == 2
+        && let Some(z) = lift_signs(s, t, &params.signs)
+    {
+        return Some(z);
     }
     let ring = Ring::new(p, params.max_bits);
     let d = s.dims;

@@ -34,6 +34,7 @@ pub mod lm;
 pub mod numeric;
 pub mod pool;
 pub mod recover;
+pub mod sign_lift;
 pub mod store;
 mod walks;
 
@@ -156,6 +157,9 @@ pub struct Params {
     /// formats only): the search returns it at once when it meets the target, and the
     /// walks start from it otherwise.
     pub known_start: bool,
+    /// Over Z: only schemes whose coefficients are all integers count (a tensor over Q
+    /// with integer entries); a scheme with fractions is neither a result nor a start.
+    pub integral: bool,
 }
 
 impl Default for Params {
@@ -179,6 +183,7 @@ impl Default for Params {
             numeric: NumericParams::default(),
             hensel: hensel::HenselParams::default(),
             known_start: true,
+            integral: false,
         }
     }
 }
@@ -218,6 +223,8 @@ pub fn run_seed(seed: u64, run: u64) -> u64 {
 }
 
 pub(crate) struct Shared {
+    /// Only schemes with integer coefficients are accepted.
+    integral: bool,
     best: Mutex<Option<Scheme>>,
     best_rank: AtomicUsize,
     found: Arc<AtomicBool>,
@@ -229,7 +236,11 @@ pub(crate) struct Shared {
 }
 
 impl Shared {
-    fn offer(&self, s: Scheme, target: usize) {
+    /// Offer a verified scheme; false when it does not count (fractions over Z).
+    fn offer(&self, s: Scheme, target: usize) -> bool {
+        if self.integral && !hensel::is_integral(&s) {
+            return false;
+        }
         let r = s.rank();
         let mut b = self.best.lock().expect("lock");
         if b.as_ref().is_none_or(|x| r < x.rank()) {
@@ -239,6 +250,7 @@ impl Shared {
         if r <= target {
             self.found.store(true, Ordering::SeqCst);
         }
+        true
     }
 }
 
@@ -282,12 +294,21 @@ pub fn search_scheme(
     }
     // without a start: the best built scheme as the best so far, and the best one whose
     // coefficients reduce modulo the walk prime as the walks' start
+    let integer_entries = || goal.entries().all(|(_, _, _, c)| c.is_integer());
+    if params.integral && (goal.field() != FieldSpec::Rational || !integer_entries()) {
+        return Err(Error::Invalid(
+            "a scheme over Z needs a tensor over Q with integer entries".into(),
+        ));
+    }
     let known = start.is_none() && params.known_start;
-    let walk_start = known.then(|| known_start(&goal, Some(params))).flatten();
+    let walk_start = known
+        .then(|| known_start(&goal, Some(params), params.integral))
+        .flatten();
     let start = match start {
-        None if known => known_start(&goal, None),
+        None if known => known_start(&goal, None, params.integral),
         s => s,
-    };
+    }
+    .filter(|s| !params.integral || hensel::is_integral(s));
     let starts = match params.walk_start {
         WalkStart::Best => [start.as_ref(), walk_start.as_ref()],
         WalkStart::Standard => [None, None],
@@ -313,6 +334,7 @@ pub fn search_scheme(
         RunKind::Numeric(_) => None,
     });
     let shared = Shared {
+        integral: params.integral,
         best_rank: AtomicUsize::new(start.as_ref().map_or(usize::MAX, Scheme::rank)),
         found: Arc::new(AtomicBool::new(
             start.as_ref().is_some_and(|s| s.rank() <= target),
@@ -430,9 +452,10 @@ pub fn search_scheme(
 /// catalog's stored schemes ([`crate::catalog::schemes::matmul_bases`],
 /// [`crate::scheme::build`]), if it is below the schoolbook rank; else `None`. With
 /// `walk: Some(params)` only stored schemes whose coefficients reduce modulo the walk prime
-/// take part (a start for the walks). Verified exactly. Cost: a dynamic programme over the
-/// sub-formats and one verification (milliseconds for sides up to 16).
-pub fn known_start(goal: &Tensor, walk: Option<&Params>) -> Option<Scheme> {
+/// take part (a start for the walks); with `integral` only stored schemes with integer
+/// coefficients. Verified exactly. Cost: a dynamic programme over the sub-formats and one
+/// verification (milliseconds for sides up to 16).
+pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Option<Scheme> {
     let d = goal.dims();
     if d.iter().any(|&x| x > bits::MAX_DIM) {
         return None;
@@ -445,6 +468,7 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>) -> Option<Scheme> {
     let bases: Vec<_> = crate::catalog::schemes::matmul_bases(goal.field())
         .into_iter()
         .filter(|b| walk_field.is_none_or(|wf| b.scheme.with_field(wf).is_ok()))
+        .filter(|b| !integral || hensel::is_integral(&b.scheme))
         .collect();
     let built = crate::scheme::build::build_matmul(f, goal.field(), &bases).ok()?;
     (built.scheme.rank() < f[0] * f[1] * f[2]).then_some(built.scheme)

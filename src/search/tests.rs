@@ -341,3 +341,28 @@ fn default_walks_go_down_from_the_standard_scheme() {
     assert!(s.rank() <= 49 && o.moves > 0);
     assert!(verify(&s, &t.with_field(FieldSpec::Prime(2)).unwrap()).is_ok());
 }
+
+/// Over Z: <2,2,3> at rank 11 (Hopcroft and Kerr 1971) and <3,3,3> at rank 23 (Laderman
+/// 1976, "A noncommutative algorithm for multiplying 3 x 3 matrices using 23
+/// multiplications") with integer coefficients, walks from the schoolbook scheme; a
+/// tensor with fractions has no scheme over Z and is refused.
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn integer_schemes_from_the_schoolbook_scheme() {
+    for (t, r) in [(matmul(2, 2, 3), 11), (matmul(3, 3, 3), 23)] {
+        for seed in 1..3 {
+            let mut p = params(Method::Flip, r, seed);
+            p.integral = true;
+            let o = run(&t, &p);
+            let s = o.best.expect("found");
+            assert!(o.reached && s.rank() == r);
+            assert!(hensel::is_integral(&s) && verify(&s, &t).is_ok());
+        }
+    }
+    let mut t = matmul(2, 2, 2);
+    t.set(0, 0, 0, q(1, 2));
+    let mut p = params(Method::Flip, 7, 1);
+    p.integral = true;
+    let stop = Arc::new(AtomicBool::new(false));
+    assert!(search_scheme(&t, &p, &stop, None, &|_| {}).is_err());
+}

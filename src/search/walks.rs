@@ -74,10 +74,7 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                             return false;
                         }
                         let s = b.to_scheme();
-                        let ok = verify(&s, self.goal).is_ok();
-                        if ok {
-                            shared.offer(s, target);
-                        }
+                        let ok = verify(&s, self.goal).is_ok() && shared.offer(s, target);
                         return ok && r <= target;
                     }
                     if !(improves || use_pool && lower) {
@@ -104,10 +101,7 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                         self.pool.lock().expect("lock").offer(b.clone(), r, pick);
                     }
                     match s {
-                        Some(s) => {
-                            shared.offer(s, target);
-                            r <= target
-                        }
+                        Some(s) => shared.offer(s, target) && r <= target,
                         None => false,
                     }
                 }
