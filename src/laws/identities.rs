@@ -25,6 +25,25 @@ pub enum Component {
     MalcevId,
 }
 
+impl Component {
+    /// Every component.
+    pub const ALL: [Component; 13] = [
+        Component::Assoc,
+        Component::Comm,
+        Component::Anti,
+        Component::Jacobi,
+        Component::LeftAlt,
+        Component::RightAlt,
+        Component::Flex,
+        Component::Power3,
+        Component::Power4,
+        Component::JordanId,
+        Component::CommutatorJacobi,
+        Component::AnticommutatorJordan,
+        Component::MalcevId,
+    ];
+}
+
 /// Which product an identity is written in.
 #[derive(Clone, Copy, PartialEq, Eq)]
 pub enum Product {
