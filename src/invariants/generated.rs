@@ -35,7 +35,7 @@ use crate::linalg::modular::rref_mod;
 use crate::linalg::nullspace::{
     SolveParams, Space, SparseQ, check_solutions, hadamard_bits, primes_prefix,
 };
-use crate::scalar::{Q, Reconstructor, crt_combine};
+use crate::scalar::{Q, Reconstructor, crt_combine, residue};
 use crate::tensor::{IntegralTensor, ModTable};
 use num_bigint::BigInt;
 use num_traits::{One, Zero};
@@ -591,7 +591,10 @@ fn lift(
     let mut best: Option<Vec<usize>> = None;
     let mut residues: Vec<BigInt> = Vec::new();
     let mut modulus = BigInt::one();
-    let mut previous_probe: Option<Vec<Q>> = None;
+    // a few entries reconstructed ahead of the whole candidate: (positions, values)
+    let mut probe: Option<(Vec<usize>, Vec<Q>)> = None;
+    let mut combined = 0usize;
+    let mut next_attempt = 1usize;
     let mut previous_basis: Option<Vec<SparseQ>> = None;
     // past the Hadamard bound of the full system the candidate cannot stabilise
     let cap = hadamard_bits(nn, crate::linalg::system::RowSource::term_bits(plain), nn) + 64;
@@ -599,8 +602,8 @@ fn lift(
         if modulus.bits() > cap {
             break;
         }
-        let probe = if best.is_none() { probe_seed } else { None };
-        let c = match candidate_mod(it, words, kind, p, order, fed, probe) {
+        let probe_pairs = if best.is_none() { probe_seed } else { None };
+        let c = match candidate_mod(it, words, kind, p, order, fed, probe_pairs) {
             None => continue,
             Some(Found::Broken(pairs)) => return Ok(Lifted::Broken(pairs)),
             Some(Found::Candidate(c)) => c,
@@ -613,32 +616,50 @@ fn lift(
             best = Some(c.pivots.clone());
             residues = c.rows.iter().map(|&x| BigInt::from(x)).collect();
             modulus = BigInt::from(p);
-            previous_probe = None;
+            probe = None;
+            combined = 1;
+            next_attempt = 1;
         } else if best.as_ref() == Some(&c.pivots) {
             crt_combine(&mut residues, &modulus, &c.rows, p);
             modulus *= p;
+            combined += 1;
         } else {
             continue;
         }
         let pivots = best.as_ref().expect("set");
         let rec = Reconstructor::new(&modulus);
-        // a few probe entries first: the whole reconstruction only once they are stable
-        let probe: Option<Vec<Q>> = residues
-            .iter()
-            .filter(|x| !x.is_zero())
-            .take(8)
-            .map(|x| {
-                if exact_field {
-                    Some(Q::from_integer(x.clone()))
-                } else {
-                    rec.reconstruct(x)
+        // A few probe entries first, the whole reconstruction only once they are stable:
+        // a probe reconstructed at modulus M that also agrees modulo the next prime p is
+        // the reconstruction at M p (uniqueness below sqrt(M p / 2)), checked in O(1) per
+        // entry. While the probe fails, attempts follow a geometric schedule in the number
+        // of primes (at most 1/8 more primes than needed), not one Euclid per prime.
+        let mut probe_stable = exact_field;
+        if !exact_field {
+            if let Some((at, qs)) = &probe {
+                probe_stable = at.iter().zip(qs).all(|(&i, q)| {
+                    let d = residue(q.denom(), p);
+                    d != 0
+                        && (d as u128 * c.rows[i] as u128 % p as u128) as u64
+                            == residue(q.numer(), p)
+                });
+                if !probe_stable {
+                    probe = None;
+                    next_attempt = combined;
                 }
-            })
-            .collect();
-        let probe_stable = probe.is_some() && probe == previous_probe;
-        previous_probe = probe;
-        if !probe_stable && !exact_field {
-            continue;
+            }
+            if probe.is_none() && combined >= next_attempt {
+                next_attempt = (combined + 1).max(combined * 9 / 8);
+                let at: Vec<usize> = (0..residues.len())
+                    .filter(|&i| !residues[i].is_zero())
+                    .take(8)
+                    .collect();
+                let qs: Option<Vec<Q>> =
+                    at.iter().map(|&i| rec.reconstruct(&residues[i])).collect();
+                probe = qs.map(|qs| (at, qs));
+            }
+            if !probe_stable {
+                continue;
+            }
         }
         let basis: Option<Vec<SparseQ>> = (0..pivots.len())
             .map(|r| {
@@ -653,8 +674,12 @@ fn lift(
                 Some(cols.iter().map(|&c| c as u32).zip(qs).collect())
             })
             .collect();
-        let stable = exact_field || basis.is_some();
-        if stable && let Some(basis) = &basis {
+        if basis.is_none() {
+            // the probe was lucky, other entries need more primes
+            probe = None;
+            next_attempt = (combined + 1).max(combined * 9 / 8);
+        }
+        if let Some(basis) = &basis {
             if check_solutions(plain, basis)? {
                 return Ok(Lifted::Space(Space {
                     unknowns: nn,

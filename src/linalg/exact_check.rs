@@ -86,9 +86,13 @@ pub(super) fn exact_check(
         };
         let count = ints.len();
         let mut by_coordinate = vec![0u32; m * count];
-        for (f, v) in ints.iter().enumerate() {
-            for (c, x) in v {
-                by_coordinate[*c as usize * count + f] = residue(x, p) as u32;
+        let reduced: Vec<Vec<u32>> = ints
+            .par_iter()
+            .map(|v| v.iter().map(|(_, x)| residue(x, p) as u32).collect())
+            .collect();
+        for (f, (v, r)) in ints.iter().zip(&reduced).enumerate() {
+            for ((c, _), &x) in v.iter().zip(r) {
+                by_coordinate[*c as usize * count + f] = x;
             }
         }
         let xs = Residues {

@@ -243,7 +243,7 @@ pub fn common_denominator<'a>(xs: impl IntoIterator<Item = &'a Q>) -> BigInt {
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
 /// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
 /// size `log m` per entry.
-pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
+pub fn crt_combine<T: Copy + Into<u64> + Sync>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
     let m_mod_p = residue(m, p);
     let minv = BigInt::from(m_mod_p)
         .extended_gcd(&BigInt::from(p))
@@ -251,24 +251,47 @@ pub fn crt_combine<T: Copy + Into<u64>>(res: &mut [BigInt], m: &BigInt, img: &[T
         .mod_floor(&BigInt::from(p))
         .to_u64()
         .expect("below p") as u128;
-    for (a, &b) in res.iter_mut().zip(img) {
+    let step = |a: &mut BigInt, b: u64| {
         let a_mod_p = residue(a, p);
-        let t = ((b.into() % p + p - a_mod_p) % p) as u128 * minv % p as u128;
+        let t = ((b % p + p - a_mod_p) % p) as u128 * minv % p as u128;
         if t != 0 {
-            *a += m * BigInt::from(t as u64);
+            *a += m * t as u64;
         }
+    };
+    // large combinations on every core: each entry is independent
+    if res.len() * m.bits() as usize >= 1 << 20 {
+        use rayon::prelude::*;
+        res.par_chunks_mut(64)
+            .zip(img.par_chunks(64))
+            .for_each(|(rs, is)| rs.iter_mut().zip(is).for_each(|(a, &b)| step(a, b.into())));
+    } else {
+        res.iter_mut()
+            .zip(img)
+            .for_each(|(a, &b)| step(a, b.into()));
     }
 }
 
-/// `x mod p` in `0..p` for a word-size modulus `p > 0`: one 128-bit remainder per 64-bit
-/// limb of |x|, no allocation. Cost: O(bits of x / 64).
+/// `x mod p` in `0..p` for a word-size modulus `p > 0`, no allocation. Cost: O(bits of
+/// x / 64): two multiplications per 64-bit limb of |x| when `p < 2^32`, one 128-bit
+/// remainder per limb otherwise.
 pub fn residue(x: &BigInt, p: u64) -> u64 {
     let mut r: u64 = 0;
+    if p == 1 {
+        return 0;
+    }
     if p < 1 << 32 {
-        // two 64-bit divisions per limb instead of one 128-bit one
+        // two Barrett reductions of 64-bit words per limb (no division): with
+        // `inv = floor(2^64 / p)` the quotient estimate `(w inv) >> 64` is short by at
+        // most one
+        let inv = ((1u128 << 64) / p as u128) as u64;
+        let reduce = |w: u64| {
+            let q = ((w as u128 * inv as u128) >> 64) as u64;
+            let r = w.wrapping_sub(q.wrapping_mul(p));
+            if r >= p { r - p } else { r }
+        };
         for d in x.magnitude().iter_u64_digits().rev() {
-            r = ((r << 32) | (d >> 32)) % p;
-            r = ((r << 32) | (d & 0xffff_ffff)) % p;
+            r = reduce((r << 32) | (d >> 32));
+            r = reduce((r << 32) | (d & 0xffff_ffff));
         }
     } else {
         for d in x.magnitude().iter_u64_digits().rev() {
@@ -323,11 +346,37 @@ mod crt_tests {
     #[test]
     fn residue_and_crt_agree_with_bigint_arithmetic() {
         // common practice: x mod p from BigInt division; CRT recovers x below prod(p)
-        let x: BigInt = (BigInt::from(3u8) << 300u32) - BigInt::from(12345u32);
-        for &p in &[2u64, 7, (1 << 28) - 57, (1 << 61) - 1] {
-            let want = x.mod_floor(&BigInt::from(p)).to_u64().unwrap();
-            assert_eq!(residue(&x, p), want);
-            assert_eq!(residue(&-x.clone(), p), (p - want) % p);
+        let mut xs: Vec<BigInt> = vec![(BigInt::from(3u8) << 300u32) - BigInt::from(12345u32)];
+        // all-ones limbs and values just below 2^64 k stress the reduction's correction
+        xs.push((BigInt::one() << 640u32) - BigInt::one());
+        xs.push(BigInt::from(u64::MAX));
+        let mut state = 0x9e37_79b9_7f4a_7c15u64;
+        for len in 1..12u32 {
+            let mut y = BigInt::zero();
+            for _ in 0..len {
+                state ^= state << 13;
+                state ^= state >> 7;
+                state ^= state << 17;
+                y = (y << 64u32) + BigInt::from(state);
+            }
+            xs.push(y);
+        }
+        let moduli = [
+            1u64,
+            2,
+            3,
+            7,
+            (1 << 28) - 57,
+            (1 << 32) - 5,
+            (1 << 32) + 15,
+            (1 << 61) - 1,
+        ];
+        for x in &xs {
+            for &p in &moduli {
+                let want = x.mod_floor(&BigInt::from(p)).to_u64().unwrap();
+                assert_eq!(residue(x, p), want, "{x} mod {p}");
+                assert_eq!(residue(&-x.clone(), p), (p - want) % p);
+            }
         }
         let primes = [268435399u64, 268435367, 268435361, 268435331];
         let y = BigInt::from(98765432123456789u64) * BigInt::from(1234567u32);
