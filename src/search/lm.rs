@@ -16,7 +16,11 @@
 //! assembled from the Gram matrices `K_a = F_a^T F_a` without forming J: the block of axes
 //! (a, a) is `I (x) (K_b * K_c)` and the block of axes (a, b) has entries
 //! `F_a[i, x'] F_b[j, x] K_c[x, x']` (c the third axis). During rounding the frozen
-//! entries are left out of the system.
+//! entries are left out of the system, and a re-fit after a freeze is cut short: on a
+//! plateau (the error not down by a tenth over five steps: near an exact fit the steps
+//! converge fast) and after a budget of steps that shrinks with the cube of the free
+//! unknowns (ten steps at least), so that a freeze that breaks a large fit costs a few
+//! steps rather than a hundred.
 
 use super::numeric::{Dense, Factors};
 use nalgebra::{DMatrix, DVector};
@@ -38,8 +42,17 @@ pub struct LmParams {
     pub bound: f64,
     /// Relative error below which the fit counts as converged.
     pub tol: f64,
-    /// Steps after each freeze of the rounding.
+    /// Most steps after each freeze of the rounding, for fits of up to `round_free` free
+    /// unknowns; a larger fit gets as many as the same arithmetic allows (a step costs
+    /// the cube of the free unknowns), and at least `round_min_iters`.
     pub round_iters: usize,
+    pub round_free: usize,
+    pub round_min_iters: usize,
+    /// A re-fit after a freeze gives up when after `round_stall_steps` steps its error is
+    /// above `round_stall_ratio` times the error before them (a plateau: the freeze left
+    /// no exact fit nearby; near one the steps converge fast).
+    pub round_stall_steps: usize,
+    pub round_stall_ratio: f64,
     /// The fit stalls when after this many steps its error is above `stall_ratio` times
     /// the error before them; the ridge's floor is then lowered tenfold.
     pub stall_steps: usize,
@@ -59,6 +72,10 @@ impl Default for LmParams {
             bound: 40.0,
             tol: 1e-11,
             round_iters: 100,
+            round_free: 160,
+            round_min_iters: 10,
+            round_stall_steps: 5,
+            round_stall_ratio: 0.9,
             stall_steps: 50,
             stall_ratio: 0.97,
             release: 1e-3,
@@ -282,14 +299,26 @@ fn lower_floor(floor: f64) -> f64 {
 }
 
 /// Re-fit the free entries after a freeze; true when the error returns below `tol`.
-/// `stop` is polled before every step.
+/// Gives up on a plateau (see [`LmParams::round_stall_steps`]) or when its budget of
+/// steps is spent (see [`LmParams::round_iters`]). `stop` is polled before every step.
 pub fn relax(t: &Dense, s: &mut Factors, p: &LmParams, tol: f64, stop: &dyn Fn() -> bool) -> bool {
     let lay = Layout::new(t, s.rank());
     let free = free_unknowns(s, &lay);
     let mut mu = p.mu0;
-    for _ in 0..p.round_iters {
-        if s.error(t) < tol {
+    let mut mark = f64::INFINITY;
+    // a budget of arithmetic per re-fit: a step costs the cube of the free unknowns
+    let size = (p.round_free as f64 / free.len().max(1) as f64).min(1.0);
+    let iters = ((p.round_iters as f64 * size.powi(3)) as usize).max(p.round_min_iters);
+    for it in 0..iters {
+        let e = s.error(t);
+        if e < tol {
             return true;
+        }
+        if it % p.round_stall_steps.max(1) == 0 {
+            if it > 0 && e > p.round_stall_ratio * mark {
+                return false;
+            }
+            mark = e;
         }
         if free.is_empty() || stop() || !step(t, s, &lay, &free, (0.0, &mut mu), stop) {
             break;

@@ -8,19 +8,30 @@
 //! unique and rational (data built from integer factors), its directions are rational and
 //! their common denominators give the exact factors at once.
 //!
-//! Rounding (otherwise): each term is scaled so that the first significant entry of its left and right
-//! factors is 1 (the scaling freedom of a term). Then, repeatedly, free entries of the left
-//! and right factors are frozen at rationals and the free entries are re-fitted: first
-//! every entry within round-off of a simple rational (all at once), else one entry moved to
-//! the *simplest* rational within a radius of it (the rational of least denominator in an
-//! interval, by continued fractions, at radii from 1e-6 to `radius`; no fixed list of
-//! denominators): the first free entry of its factor first (the later entries are often
-//! functions of the earlier ones, such as the powers of an evaluation point), then the
-//! least denominator, then the smallest move. A freeze after which the fit does not return
-//! to round-off level is undone and banned; when every candidate is banned, the bans are
-//! lifted once if a freeze has succeeded since (the fit has moved). When every
-//! left and right entry is frozen, the result factors are solved for exactly over Q (the
-//! Brent equations are linear in them) and the scheme is verified exactly.
+//! Rounding (otherwise): the sparsification and rounding of a fit's factors to simple
+//! values (Tichavsky, Phan and Cichocki 2017, "Numerical CP decomposition of some difficult
+//! tensors"), carried out in batches. Each term is scaled so that one entry of its left and
+//! right factors is 1 (the scaling freedom of a term): its largest entry first (the better
+//! conditioned re-fits), then its first significant entry (evaluation-style factors
+//! `(1, a, a^2, ...)` keep their shape). Then, repeatedly, free entries of the left and right
+//! factors are frozen at rationals and the free entries are re-fitted: first every entry
+//! within round-off of a simple rational (all at once: they are determined by the entries
+//! frozen before), else a *batch* of entries, each moved to the *simplest* rational within
+//! a radius of it (the rational of least denominator in an interval, by continued
+//! fractions, at radii from 1e-6 to `radius`; no fixed list of denominators), taken in the
+//! order: the first free entry of its factor first (the later entries are often functions
+//! of the earlier ones, such as the powers of an evaluation point), then the least
+//! denominator, then the smallest move. The batch starts at a fraction of the free entries
+//! (`batch`); a batch after which the fit does not return to round-off level is undone and
+//! halved (bisection, down to one freeze), an accepted one doubles the next. A single freeze
+//! that breaks the fit is banned; when every candidate is banned, the bans are lifted once
+//! if a freeze has succeeded since (the fit has moved); `max_stuck` refused freezes in a row
+//! end the rounding (a dead end: the freezes so far leave no rational point within reach),
+//! and the same fit is rounded again with its rows taken in another random order
+//! (`reorders` times), which costs far less than a new fit. Each re-fit stops early on a
+//! plateau and within a budget of arithmetic ([`super::lm::relax`]). When every left and
+//! right entry is frozen, the result factors are solved for exactly over Q (the Brent
+//! equations are linear in them) and the scheme is verified exactly.
 //!
 //! Invariant: [`numeric_run`] returns only schemes verified exactly against the tensor.
 
@@ -30,7 +41,8 @@ use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use nalgebra::DMatrix;
 use num_traits::Zero;
-use rand::Rng;
+use rand::seq::SliceRandom;
+use rand::{Rng, SeedableRng};
 use rand_chacha::ChaCha8Rng;
 
 /// The numerical fit.
@@ -57,10 +69,23 @@ pub struct RoundParams {
     pub tol: f64,
     /// Rejected freezes that end the rounding.
     pub max_rejects: usize,
+    /// Rejected freezes in a row that end the rounding (a dead end: the entries frozen so
+    /// far leave no rational point within reach).
+    pub max_stuck: usize,
+    /// Freezes tried together at first, as a fraction of the free entries (at least one):
+    /// the batch is halved after a refused batch (bisection down to a single freeze) and
+    /// doubled after an accepted one.
+    pub batch: f64,
     /// Normalisation: the first entry of a left or right factor at least this fraction of
     /// its largest becomes 1 (small: evaluation-style factors `(1, a, a^2, ...)` keep their
     /// shape; large: better conditioned refits).
     pub lead: f64,
+    /// Order of the rows within each factor when the freezes are chosen (`None`: the
+    /// natural order; a seed: a random order, for another rounding of the same fit).
+    pub order_seed: Option<u64>,
+    /// Roundings of one fit in random row orders after the two in the natural order (a
+    /// rounding that ends in a dead end costs far less than a new fit).
+    pub reorders: usize,
 }
 
 impl Default for RoundParams {
@@ -72,7 +97,11 @@ impl Default for RoundParams {
             radius: 0.75,
             tol: 1e-9,
             max_rejects: 200,
+            max_stuck: 16,
+            batch: 0.125,
             lead: 1e-3,
+            order_seed: None,
+            reorders: 6,
         }
     }
 }
@@ -260,7 +289,9 @@ type Candidate = ((i64, usize, f64), usize, usize, (i64, i64));
 const RADII: [f64; 6] = [1e-6, 1e-4, 1e-2, 0.1, 0.3, 0.75];
 
 /// The rounding phase: freeze left and right entries at rationals, re-fitting the free
-/// entries with `relax` (true when the fit returns below the tolerance).
+/// entries with `relax` (true when the fit returns below the tolerance). Each re-fit
+/// settles a batch of freezes (see the module notes); `stop` is polled before each.
+/// Cost: one `relax` per batch tried; at most `max_rejects` refused single freezes.
 pub fn round_factors(
     t: &Dense,
     mut s: Factors,
@@ -273,25 +304,35 @@ pub fn round_factors(
         return None;
     }
     let r = s.rank();
+    let rows = |n: usize| -> Vec<usize> {
+        let mut v: Vec<usize> = (0..n).collect();
+        if let Some(seed) = p.order_seed {
+            v.shuffle(&mut ChaCha8Rng::seed_from_u64(seed ^ n as u64));
+        }
+        v
+    };
+    let rows = [rows(t.dims[0]), rows(t.dims[1])];
     let mut banned: Vec<(usize, usize, (i64, i64))> = Vec::new();
-    let mut rejects = 0;
+    let (mut rejects, mut stuck) = (0, 0);
     // a freeze succeeded since the bans were last lifted
     let mut moved = false;
+    // freezes tried together next (set from `p.batch` at the first choice)
+    let mut size = usize::MAX;
     loop {
         if stop() {
             return None;
         }
         let mut cands: Vec<Candidate> = Vec::new();
         let mut tight = Vec::new();
-        let mut any_free = false;
+        let mut free = 0usize;
         for a in 0..2 {
             // free entries met so far in each column (term): earlier rows go first
             let mut above = vec![0usize; r];
-            for (e, fz) in s.frozen[a].iter().enumerate() {
-                if fz.is_some() {
+            for e in rows[a].iter().flat_map(|&i| (0..r).map(move |x| i * r + x)) {
+                if s.frozen[a][e].is_some() {
                     continue;
                 }
-                any_free = true;
+                free += 1;
                 let order = above[e % r];
                 above[e % r] += 1;
                 let x = s.f[a][(e / r, e % r)];
@@ -317,28 +358,43 @@ pub fn round_factors(
                 }
             }
         }
-        if !any_free {
+        if free == 0 {
             return Some(s);
         }
-        let batch: Vec<(usize, usize, (i64, i64))> = if !tight.is_empty() {
+        let chosen = tight.is_empty();
+        let batch: Vec<(usize, usize, (i64, i64))> = if !chosen {
             tight
         } else {
-            let best = cands.iter().min_by(|x, y| {
+            // the first free entry of its factor first (the later entries are often
+            // functions of the earlier ones), then the least denominator, then the
+            // smallest move; one freeze per entry
+            cands.sort_by(|x, y| {
                 (x.0.0, x.0.1)
                     .cmp(&(y.0.0, y.0.1))
                     .then(x.0.2.total_cmp(&y.0.2))
             });
-            match best {
-                Some(b) => vec![(b.1, b.2, b.3)],
+            let mut taken: Vec<(usize, usize)> = Vec::new();
+            cands.retain(|c| {
+                let new = !taken.contains(&(c.1, c.2));
+                taken.push((c.1, c.2));
+                new
+            });
+            if cands.is_empty() {
                 // every candidate refused: after a successful freeze the fit has moved,
                 // so the refused ones get one more chance
-                None if moved => {
-                    moved = false;
-                    banned.clear();
-                    continue;
+                if !moved {
+                    return None;
                 }
-                None => return None,
+                moved = false;
+                banned.clear();
+                continue;
             }
+            let first = ((free as f64 * p.batch).ceil() as usize).max(1);
+            cands
+                .iter()
+                .take(size.min(first))
+                .map(|c| (c.1, c.2, c.3))
+                .collect()
         };
         let saved = s.clone();
         for &(a, e, pq) in &batch {
@@ -347,17 +403,23 @@ pub fn round_factors(
         }
         if relax(t, &mut s) {
             moved = true;
+            stuck = 0;
+            if chosen {
+                size = batch.len().saturating_mul(2);
+            }
             continue;
         }
         s = saved;
-        if batch.len() == 1 {
-            banned.push(batch[0]);
-        } else {
-            // a batch that breaks the fit: freeze its entries one at a time instead
-            banned.extend(batch.iter().take(1).copied());
+        if chosen && batch.len() > 1 {
+            // bisection: the better half of the batch next
+            size = batch.len() / 2;
+            continue;
         }
+        // a single freeze (or a batch of determined entries) that breaks the fit
+        banned.push(batch[0]);
         rejects += 1;
-        if rejects > p.max_rejects {
+        stuck += 1;
+        if rejects > p.max_rejects || stuck > p.max_stuck {
             return None;
         }
     }
@@ -472,21 +534,72 @@ pub fn numeric_run(
         Fit::Als => &relax_als,
         Fit::Lm => &relax_lm,
     };
-    // evaluation-style normalisation first (first entry 1), then the better conditioned
-    // one (largest entry 1) on the same fit
-    [p.round.lead, 0.99].iter().find_map(|&lead| {
+    // the better conditioned normalisation first (largest entry 1), then the
+    // evaluation-style one (first entry 1), then the first in other row orders
+    let seeds: Vec<u64> = (0..p.round.reorders).map(|_| rng.r#gen()).collect();
+    let tries = [(0.99, None), (p.round.lead, None)]
+        .into_iter()
+        .chain(seeds.into_iter().map(|k| (0.99, Some(k))));
+    for (lead, order_seed) in tries {
+        if stop() {
+            return None;
+        }
         let rp = RoundParams {
             lead,
+            order_seed,
             ..p.round.clone()
         };
-        let rounded = round_factors(&dense, fitted.clone(), &rp, relax, stop)?;
-        exact_scheme(t, &rounded)
-    })
+        let found = round_factors(&dense, fitted.clone(), &rp, relax, stop)
+            .and_then(|rounded| exact_scheme(t, &rounded));
+        if found.is_some() {
+            return found;
+        }
+    }
+    None
 }
 
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::search::tests::matmul;
+    use std::cell::Cell;
+
+    /// Batched rounding turns a converged fit of <2,2,2> at rank 7 (Strassen 1969,
+    /// "Gaussian elimination is not optimal") and of <2,2,3> at rank 11 (Hopcroft and
+    /// Kerr 1971, "On minimizing the number of multiplications necessary for matrix
+    /// multiplication") into an exact scheme, re-fitting fewer times than it freezes.
+    #[test]
+    fn batched_rounding_of_matrix_products() {
+        for (n, m, k, r) in [(2, 2, 2, 7), (2, 2, 3, 11)] {
+            let t = matmul(n, m, k);
+            let dense = Dense::new(&t);
+            let p = NumericParams::default();
+            let stop = || false;
+            let fitted = (0..20)
+                .find_map(|seed| {
+                    let mut rng = ChaCha8Rng::seed_from_u64(seed);
+                    super::super::lm::converge(&dense, r, &p.lm, &mut rng, &stop)
+                })
+                .expect("a converged fit");
+            let relaxes = Cell::new(0);
+            let relax = |d: &Dense, s: &mut Factors| {
+                relaxes.set(relaxes.get() + 1);
+                super::super::lm::relax(d, s, &p.lm, p.round.tol, &stop)
+            };
+            let rp = RoundParams {
+                lead: 0.99,
+                batch: 0.25,
+                ..RoundParams::default()
+            };
+            let rounded = round_factors(&dense, fitted, &rp, &relax, &stop).expect("rounded");
+            let s = exact_scheme(&t, &rounded).expect("an exact scheme");
+            assert_eq!(s.rank(), r);
+            assert!(verify(&s, &t).is_ok());
+            // the left and right entries frozen after the normalisation (2r of them)
+            let chosen = (n * m + m * k) * r - 2 * r;
+            assert!(relaxes.get() < chosen, "{} re-fits", relaxes.get());
+        }
+    }
 
     #[test]
     fn simplest_rationals() {
