@@ -23,6 +23,7 @@ use super::forms::{FormInvariants, form_invariants};
 use crate::error::Result;
 use crate::linalg::nullspace::{SolveParams, solve_nullspace};
 use crate::linalg::system::IntegerRows;
+use crate::scalar::common_denominator;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::{IntegralTensor, Tensor};
 use num_bigint::BigInt;
@@ -209,7 +210,7 @@ fn hankel_trace_form(m: &[Q]) -> Vec<Vec<BigInt>> {
         }
         s.push(-acc);
     }
-    let den = s.iter().fold(BigInt::one(), |a, x| a.lcm(x.denom()));
+    let den = common_denominator(s.iter());
     let den2 = &den * &den;
     (0..d)
         .map(|i| {
