@@ -37,7 +37,6 @@
 //! the engines' limits is left out (comparisons use the keys present on both sides).
 
 use crate::invariants::central::upper_central_dims;
-use crate::invariants::components::{ComponentParams, centre_components};
 use crate::invariants::forms::{
     FormInvariants, form_invariants, map_trace_form, same_square_class, square_class_text,
     trace_form,
@@ -49,6 +48,7 @@ use crate::invariants::spans::{
 use crate::invariants::{ElementSpace, SolveParams, centroid, derivations, element_space};
 use crate::laws::{self, Law};
 use crate::scalar::{FieldSpec, Q};
+use crate::structure::centre::{ComponentParams, centre_components};
 use crate::tensor::{IntegralTensor, Kind, Tensor, flattening_ranks, rank_over, slices};
 use num_traits::Zero;
 
