@@ -26,7 +26,7 @@
 //!   discriminant is the class of e);
 //! - `centre.fields`, `centre.trace.signature`, `centre.trace.discriminant`: for a unital
 //!   algebra over Q with a semisimple centre, the degrees of the centre's component fields
-//!   and the trace form of the centre ([`crate::invariants::components`]).
+//!   and the trace form of the centre ([`crate::structure::centre`]).
 //!
 //! More keys can be appended without changing the comparison rules.
 //!
