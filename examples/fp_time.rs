@@ -53,7 +53,7 @@ fn main() {
         let _ = bilin::invariants::central::upper_central_dims(&it, &sp);
     });
     tm("components", &mut || {
-        let _ = bilin::invariants::components::centre_components(&u, &it, &Default::default());
+        let _ = bilin::structure::centre::centre_components(&u, &it, &Default::default());
     });
     tm("trace forms", &mut || {
         let _ = bilin::invariants::forms::form_invariants(

@@ -26,7 +26,7 @@
 //!   discriminant is the class of e);
 //! - `centre.fields`, `centre.trace.signature`, `centre.trace.discriminant`: for a unital
 //!   algebra over Q with a semisimple centre, the degrees of the centre's component fields
-//!   and the trace form of the centre ([`crate::invariants::components`]).
+//!   and the trace form of the centre ([`crate::structure::centre`]).
 //!
 //! More keys can be appended without changing the comparison rules.
 //!
@@ -37,7 +37,6 @@
 //! the engines' limits is left out (comparisons use the keys present on both sides).
 
 use crate::invariants::central::upper_central_dims;
-use crate::invariants::components::{ComponentParams, centre_components};
 use crate::invariants::forms::{
     FormInvariants, form_invariants, map_trace_form, same_square_class, square_class_text,
     trace_form,
@@ -49,6 +48,7 @@ use crate::invariants::spans::{
 use crate::invariants::{ElementSpace, SolveParams, centroid, derivations, element_space};
 use crate::laws::{self, Law};
 use crate::scalar::{FieldSpec, Q};
+use crate::structure::centre::{ComponentParams, centre_components};
 use crate::tensor::{IntegralTensor, Kind, Tensor, flattening_ranks, rank_over, slices};
 use num_traits::Zero;
 

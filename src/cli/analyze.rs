@@ -3,7 +3,7 @@
 //! `bilin.analyze/2`). With `--expect`, exit code 1 when a claimed law verdict is false, and
 //! `all N claims hold` on standard error when every one is true.
 
-use super::common::{generators_help, load_with, report_error};
+use super::common::{generators_help, report_error};
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
 use bilin::invariants::structure::Property;
 use bilin::laws::Law;
@@ -16,17 +16,11 @@ use bilin::report::{
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
 pub struct Args {
-    /// A file (table format or JSON), a generator spec such as `octonions` or
-    /// `matmul:2,2,2`, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// Print the report as JSON (schema `bilin.analyze/2`, see docs/report-json.md).
     #[arg(long)]
     pub json: bool,
-    /// Read the input over this field (`Q` or `GF(p)`).
-    #[arg(long)]
-    pub field: Option<String>,
-    #[command(flatten)]
-    pub read: super::common::ReadArgs,
     /// Only these laws and properties, comma-separated, in any case (e.g.
     /// `associative,jordan`, `malcev,nilpotent`), or `none`; default: all of them for an
     /// algebra, none for a bilinear map (a square map is read as an algebra when asked).
@@ -65,7 +59,7 @@ pub struct Args {
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };
@@ -146,8 +140,9 @@ pub fn run(args: Args) -> i32 {
         use std::io::Write;
         let _ = std::io::stdout().flush();
     };
-    let r =
-        super::common::with_progress(|p| analyze_streaming(&t, &args.input, &params, p, &mut emit));
+    let r = super::common::with_progress(|p| {
+        analyze_streaming(&t, &args.source.input, &params, p, &mut emit)
+    });
     let r = match r {
         Ok(r) => r,
         Err(e) => return report_error(&e),
@@ -158,7 +153,7 @@ pub fn run(args: Args) -> i32 {
         print!("{}", render_notes(&r));
     }
     if let Some(path) = &args.svg
-        && let Err(code) = super::draw::write_tensor_picture(&t, &args.input, path)
+        && let Err(code) = super::draw::write_tensor_picture(&t, &args.source.input, path)
     {
         return code;
     }

@@ -3,7 +3,7 @@
 //! `lower <= R <= upper` with a verified scheme for the upper side, and the certificates of
 //! exhaustive proofs over GF(2).
 
-use super::scheme_io::{fail, load_tensor};
+use super::scheme_io::fail;
 use super::{EXIT_FALSE, EXIT_OK};
 use bilin::error::{Error, Position};
 use bilin::ranks::exhaustive::ExhaustiveParams;
@@ -13,14 +13,11 @@ use bilin::tensor::Tensor;
 
 #[derive(clap::Args)]
 pub struct Args {
-    /// The tensor: a file, a generator spec such as matmul:3,3,3, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// Print JSON.
     #[arg(long)]
     pub json: bool,
-    /// Read the input over this field (Q or GF(p)).
-    #[arg(long)]
-    pub field: Option<String>,
     /// Seed of the random slice combinations.
     #[arg(long, default_value_t = 1)]
     pub seed: u64,
@@ -123,9 +120,9 @@ fn check_file(t: &Tensor, path: &str) -> i32 {
 }
 
 pub fn run(a: &Args) -> i32 {
-    let t = match load_tensor(&a.input, a.field.as_deref()) {
+    let t = match a.source.load() {
         Ok(t) => t,
-        Err(e) => return fail(&e),
+        Err(code) => return code,
     };
     if let Some(path) = &a.check_proof {
         return check_file(&t, path);
@@ -186,7 +183,7 @@ pub fn run(a: &Args) -> i32 {
     if a.json {
         let v = serde_json::json!({
             "interval": iv.to_json(),
-            "input": a.input,
+            "input": a.source.input,
             "field": t.field().name(),
             "dims": t.dims(),
             "best": b.best(),
@@ -200,7 +197,7 @@ pub fn run(a: &Args) -> i32 {
     let d = t.dims();
     println!(
         "lower bounds for the rank of {} ({}x{}x{}, over {}):",
-        a.input,
+        a.source.input,
         d[0],
         d[1],
         d[2],

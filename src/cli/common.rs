@@ -61,6 +61,26 @@ impl ReadArgs {
     }
 }
 
+/// The input of a command and how to read it.
+#[derive(clap::Args, Debug, Default)]
+pub struct SourceArgs {
+    /// A file (table format, JSON, .npy, .csv), a generator spec such as `octonions` or
+    /// `matmul:2,2,2`, or a catalog name.
+    pub input: String,
+    /// Read the input over this field (`Q` or `GF(p)`).
+    #[arg(long)]
+    pub field: Option<String>,
+    #[command(flatten)]
+    pub read: ReadArgs,
+}
+
+impl SourceArgs {
+    /// The tensor, or the exit code of a reported error.
+    pub fn load(&self) -> Result<Tensor, i32> {
+        load_with(&self.input, self.field.as_deref(), &self.read)
+    }
+}
+
 /// Load an input (file, generator spec or catalog name), optionally over another field
 /// given as text (`Q`, `GF(7)`). Errors are printed; the `Err` holds the exit code (2).
 pub fn load(spec: &str, field: Option<&str>) -> Result<Tensor, i32> {

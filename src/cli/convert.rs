@@ -4,7 +4,7 @@
 //! one axis (one matrix of numbers per basis vector of that axis; default the result).
 
 use super::EXIT_OK;
-use super::common::{ReadArgs, generators_help, load_with, usage_error};
+use super::common::{generators_help, usage_error};
 use bilin::input::{write_grid, write_json, write_slices, write_table};
 use bilin::tensor::{Kind, Tensor};
 
@@ -33,9 +33,8 @@ pub enum Axis {
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
 pub struct Args {
-    /// A file (table format, JSON, .npy, .csv), a generator spec such as `quaternions` or
-    /// `matmul:2,2,2`, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// The output form.
     #[arg(long, value_enum, default_value = "table")]
     pub to: Form,
@@ -43,16 +42,11 @@ pub struct Args {
     /// algebra given this option is written as a map, one slice per basis vector.
     #[arg(long, value_enum)]
     pub axis: Option<Axis>,
-    /// Read the input over this field (`Q` or `GF(p)`).
-    #[arg(long)]
-    pub field: Option<String>,
-    #[command(flatten)]
-    pub read: ReadArgs,
 }
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };

@@ -2,15 +2,15 @@
 //! scheme: exact straight-line code by default, floating point on request, recursive block
 //! code for matrix formats with `--blocks`.
 
-use super::scheme_io::{fail, load_scheme, load_tensor, matmul_format};
+use super::scheme_io::{fail, load_scheme, matmul_format};
 use super::{EXIT_FALSE, EXIT_OK};
 use bilin::error::Error;
 use bilin::scheme::emit::{Arith, BlockParams, EmitParams, Lang, emit};
 
 #[derive(clap::Args)]
 pub struct Args {
-    /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// The scheme file (text or JSON form), or the name of a scheme stored with the catalog
     /// (`matmul222.strassen`; see `bilin catalog show`).
     pub scheme: String,
@@ -20,9 +20,6 @@ pub struct Args {
     /// Name of the emitted function.
     #[arg(long, default_value = "bilin_mul")]
     pub function: String,
-    /// Read the input over this field (Q or GF(p)).
-    #[arg(long)]
-    pub field: Option<String>,
     /// Arithmetic: `exact` (integers over Q, residues over GF(p)) or `float` (doubles,
     /// coefficients rounded once).
     #[arg(long, default_value = "exact")]
@@ -67,10 +64,10 @@ fn params(a: &Args) -> Result<EmitParams, Error> {
         ),
     };
     let blocks = if a.blocks {
-        let format = matmul_format(&a.input, a.format.as_deref()).ok_or_else(|| {
+        let format = matmul_format(&a.source.input, a.format.as_deref()).ok_or_else(|| {
             Error::Invalid(format!(
                 "--blocks needs the matrix format: give --format n,m,p (input `{}` is not matmul:n,m,p)",
-                a.input
+                a.source.input
             ))
         })?;
         if a.cutoff == 0 {
@@ -85,7 +82,7 @@ fn params(a: &Args) -> Result<EmitParams, Error> {
     };
     Ok(EmitParams {
         function: a.function.clone(),
-        title: a.input.clone(),
+        title: a.source.input.clone(),
         arith,
         bound,
         blocks,
@@ -101,9 +98,9 @@ pub fn run(a: &Args) -> i32 {
         Ok(p) => p,
         Err(e) => return fail(&e),
     };
-    let t = match load_tensor(&a.input, a.field.as_deref()) {
+    let t = match a.source.load() {
         Ok(t) => t,
-        Err(e) => return fail(&e),
+        Err(code) => return code,
     };
     let s = match load_scheme(&a.scheme, &t) {
         Ok(s) => s,
@@ -112,7 +109,7 @@ pub fn run(a: &Args) -> i32 {
     if bilin::scheme::verify(&s, &t).is_err() {
         eprintln!(
             "error: the scheme does not verify for {}; run `bilin verify` for details",
-            a.input
+            a.source.input
         );
         return EXIT_FALSE;
     }

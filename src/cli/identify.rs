@@ -9,13 +9,8 @@ use clap::Args;
 
 #[derive(Args)]
 pub struct IdentifyArgs {
-    /// A table file, a JSON file, a generator spec or a catalog name.
-    input: String,
-    /// Read the input over this field (`Q`, `GF(p)`).
-    #[arg(long)]
-    field: Option<String>,
     #[command(flatten)]
-    read: super::common::ReadArgs,
+    pub source: super::common::SourceArgs,
     /// Do not search for explicit isomorphisms.
     #[arg(long)]
     no_iso: bool,
@@ -32,7 +27,7 @@ pub struct IdentifyArgs {
 
 /// Run `bilin identify`; returns the exit code.
 pub fn run(args: IdentifyArgs) -> i32 {
-    let t = match super::common::load_with(&args.input, args.field.as_deref(), &args.read) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };
@@ -50,11 +45,11 @@ pub fn run(args: IdentifyArgs) -> i32 {
         }
     };
     if args.json {
-        let r = identify_report(&args.input, &t, &id, args.bound);
+        let r = identify_report(&args.source.input, &t, &id, args.bound);
         println!("{}", render_identify_json(&r));
         return EXIT_OK;
     }
-    println!("fingerprint of {}:", args.input);
+    println!("fingerprint of {}:", args.source.input);
     for (k, v) in &id.fingerprint.entries {
         println!("  {k:<20} {v}");
     }

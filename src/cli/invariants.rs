@@ -4,15 +4,14 @@
 //! derivation triples, adjoint pairs, radicals), every basis proven exactly.
 
 use super::EXIT_OK;
-use super::common::{generators_help, load_with, report_error};
+use super::common::{generators_help, report_error};
 use bilin::report::invariants::{InvariantParams, Part, invariants_report, render_text};
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
 pub struct Args {
-    /// A file (table format or JSON), a generator spec such as `octonions` or `matrix:3`,
-    /// or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// Print the report as JSON (schema `bilin.invariants/1`).
     #[arg(long)]
     pub json: bool,
@@ -21,11 +20,6 @@ pub struct Args {
     /// derivation-triples, adjoint-pairs, radicals.
     #[arg(long)]
     pub only: Option<String>,
-    /// Read the input over this field (`Q` or `GF(p)`).
-    #[arg(long)]
-    pub field: Option<String>,
-    #[command(flatten)]
-    pub read: super::common::ReadArgs,
     /// Report dimensions and properties only, without bases.
     #[arg(long)]
     pub no_bases: bool,
@@ -37,7 +31,7 @@ pub struct Args {
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };

@@ -5,7 +5,7 @@
 //! algebra, the radicals, Levi factor and Cartan subalgebra of a Lie algebra.
 
 use super::EXIT_OK;
-use super::common::{generators_help, load, report_error, write_output};
+use super::common::{generators_help, report_error, write_output};
 use bilin::picture::{BlockLayout, TensorPictureParams, blocks_svg};
 use bilin::report::structure::{basis_file, render_text, split_report};
 use bilin::structure::{Decomposition, Part, StructureParams};
@@ -13,9 +13,8 @@ use bilin::structure::{Decomposition, Part, StructureParams};
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
 pub struct Args {
-    /// A file (table format or JSON), a generator spec such as `symmetric:3` or
-    /// `matmul:2,2,2`, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// Print the report as JSON (schema `bilin.split/1`, see docs/split.md).
     #[arg(long)]
     pub json: bool,
@@ -24,9 +23,6 @@ pub struct Args {
     /// subalgebra of a Lie algebra over Q). Default: all that apply.
     #[arg(long)]
     pub only: Option<String>,
-    /// Read the input over this field (`Q` or `GF(p)`).
-    #[arg(long)]
-    pub field: Option<String>,
     /// Seed of the random elements used to split fields and find Cartan subalgebras
     /// (the results are exact whatever the seed).
     #[arg(long, default_value_t = 1)]
@@ -45,7 +41,7 @@ pub struct Args {
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load(&args.input, args.field.as_deref()) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };
@@ -84,7 +80,7 @@ pub fn run(args: Args) -> i32 {
         }
         if let Some(path) = &args.svg {
             let params = TensorPictureParams {
-                title: Some(format!("{} in blocks", args.input)),
+                title: Some(format!("{} in blocks", args.source.input)),
                 ..TensorPictureParams::default()
             };
             let svg = match blocks_svg(&d.tensor, &picture_layout(d), &params) {

@@ -3,15 +3,15 @@
 //! or a seeded random invertible integer matrix per axis) and print the result.
 
 use super::EXIT_USAGE;
-use super::common::{generators_help, load_with, report_error};
+use super::common::{generators_help, report_error};
 use super::convert::{Form, print_as};
 use bilin::input::{apply_basis_change, parse_basis_file, random_basis_change, read_text_file};
 
 #[derive(clap::Args, Debug)]
 #[command(after_help = generators_help())]
 pub struct Args {
-    /// A file (table format or JSON), a generator spec or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// A change-of-basis file: columns of each matrix are the new basis vectors in old
     /// coordinates.
     #[arg(
@@ -28,16 +28,11 @@ pub struct Args {
     /// The output form.
     #[arg(long, value_enum, default_value = "table")]
     pub to: Form,
-    /// Read the input over this field (`Q` or `GF(p)`).
-    #[arg(long)]
-    pub field: Option<String>,
-    #[command(flatten)]
-    pub read: super::common::ReadArgs,
 }
 
 /// Run the subcommand; returns the exit code.
 pub fn run(args: Args) -> i32 {
-    let t = match load_with(&args.input, args.field.as_deref(), &args.read) {
+    let t = match args.source.load() {
         Ok(t) => t,
         Err(code) => return code,
     };

@@ -1,7 +1,7 @@
 //! `bilin verify INPUT SCHEME_FILE [--json]`: exact verification of a scheme; on failure
 //! every wrong coefficient (JSON) and the scheme line most likely at fault.
 
-use super::scheme_io::{fail, load_tensor, read_scheme_file};
+use super::scheme_io::{fail, read_scheme_file};
 use super::{EXIT_FALSE, EXIT_OK};
 use bilin::scalar::q_to_string;
 use bilin::scheme::diagnose::{Fault, Site, locate_fault};
@@ -12,14 +12,11 @@ use serde_json::json;
 
 #[derive(clap::Args)]
 pub struct Args {
-    /// The tensor: a file, a generator spec such as matmul:2,2,2, or a catalog name.
-    pub input: String,
+    #[command(flatten)]
+    pub source: super::common::SourceArgs,
     /// The scheme file (text or JSON form, see docs/schemes.md), or the name of a scheme
     /// stored with the catalog (`matmul222.strassen`; see `bilin catalog show`).
     pub scheme: String,
-    /// Read the input over this field (Q or GF(p)).
-    #[arg(long)]
-    pub field: Option<String>,
     /// Also write a picture of the scheme (U, V, W side by side, SVG) to this file.
     #[arg(long, value_name = "FILE")]
     pub svg: Option<String>,
@@ -98,9 +95,9 @@ fn wrong_json(w: &Wrong, t: &Tensor) -> serde_json::Value {
 }
 
 pub fn run(a: &Args) -> i32 {
-    let t = match load_tensor(&a.input, a.field.as_deref()) {
+    let t = match a.source.load() {
         Ok(t) => t,
-        Err(e) => return fail(&e),
+        Err(code) => return code,
     };
     let (s, lines, text) = match read_scheme_file(&a.scheme, &t) {
         Ok(x) => x,
@@ -120,7 +117,7 @@ pub fn run(a: &Args) -> i32 {
     if a.json {
         let v = json!({
             "schema": "bilin.verify/1",
-            "input": a.input,
+            "input": a.source.input,
             "scheme": a.scheme,
             "field": t.field().name(),
             "dims": d,
@@ -142,7 +139,7 @@ pub fn run(a: &Args) -> i32 {
             println!(
                 "verified: rank {} scheme for {} ({}x{}x{}, over {})",
                 s.rank(),
-                a.input,
+                a.source.input,
                 d[0],
                 d[1],
                 d[2],

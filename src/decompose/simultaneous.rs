@@ -197,7 +197,7 @@ fn oriented(t: &Tensor, axis: usize, i: usize, in_order: bool) -> Matrix<Q> {
 /// `v = s * w` with w a primitive integer vector (coprime entries, first nonzero one
 /// positive) and s rational; the zero vector gives (v, 1).
 pub(super) fn primitive(v: &[Q]) -> (Vec<Q>, Q) {
-    let lcm = v.iter().fold(BigInt::from(1), |l, x| l.lcm(x.denom()));
+    let lcm = common_denominator(v.iter());
     let ints: Vec<BigInt> = v.iter().map(|x| (x * &lcm).to_integer()).collect();
     let mut g = ints.iter().fold(BigInt::from(0), |g, x| g.gcd(x));
     if g == BigInt::from(0) {

@@ -11,6 +11,7 @@
 use crate::error::Result;
 use crate::linalg::nullspace::{SolveParams, Space, solve_nullspace};
 use crate::linalg::system::{IntegerRows, RowBuf, RowSource};
+use crate::scalar::common_denominator;
 use crate::tensor::IntegralTensor;
 use num_bigint::BigInt;
 use num_integer::Integer;
@@ -96,7 +97,7 @@ fn dual_annihilator(space: &Space, n: usize, params: &SolveParams) -> Result<Vec
 
 /// A rational vector times the lcm of its denominators.
 pub fn integer_vector(v: &[crate::scalar::Q]) -> Vec<BigInt> {
-    let d = v.iter().fold(BigInt::one(), |d, x| d.lcm(x.denom()));
+    let d = common_denominator(v.iter());
     v.iter().map(|x| x.numer() * (&d / x.denom())).collect()
 }
 

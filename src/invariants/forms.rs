@@ -15,6 +15,7 @@
 //! diagonalisation.
 
 use crate::linalg::nullspace::cached_primes;
+use crate::scalar::common_denominator;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
 use crate::scalar::{crt_combine, residue};
 use crate::tensor::IntegralTensor;
@@ -278,7 +279,7 @@ pub fn map_trace_form(
     let maps: Vec<Vec<(usize, usize, BigInt)>> = (0..d)
         .map(|a| {
             let v = &space.basis[a];
-            let den = v.iter().fold(BigInt::one(), |s, (_, x)| s.lcm(x.denom()));
+            let den = common_denominator(v.iter().map(|(_, x)| x));
             v.iter()
                 .map(|(c, x)| {
                     let c = *c as usize;

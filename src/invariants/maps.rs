@@ -17,9 +17,10 @@ use super::generated::{Kind, solve_by_generators};
 use crate::error::Result;
 use crate::linalg::Matrix;
 use crate::linalg::nullspace::{SolveParams, Space, largest_component, solve_nullspace};
-use crate::scalar::Q;
+use crate::scalar::{Q, common_denominator};
 use crate::tensor::IntegralTensor;
 use crate::tensor::Tensor;
+use num_bigint::BigInt;
 use num_traits::{One, Zero};
 
 /// The centroid and its properties.
@@ -173,14 +174,12 @@ pub fn adjoint_of_unital(k: &IntegralTensor, middle: &Space) -> Space {
     let n = k.dims[0];
     let basis = (0..middle.dim())
         .map(|b| {
-            let w = middle.dense(b);
-            let mut v = vec![Q::zero(); 2 * n * n];
             // f = R_w first, then g = L_w
-            for (p, wp) in w.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                add_multiplication(k, p, wp, false, &mut v, 0);
-                add_multiplication(k, p, wp, true, &mut v, n * n);
-            }
-            map_vector(k, v)
+            let terms: Vec<Term> = middle.basis[b]
+                .iter()
+                .flat_map(|(p, wp)| [(*p as usize, wp, false, 0), (*p as usize, wp, true, n * n)])
+                .collect();
+            multiplication_sum(k, &terms, 2 * n * n)
         })
         .collect();
     Space {
@@ -239,13 +238,12 @@ pub fn centroid_of_unital(k: &IntegralTensor, centre: &Space) -> Space {
     let n = k.dims[0];
     let basis = (0..centre.dim())
         .map(|b| {
-            let z = centre.dense(b);
-            let mut v = vec![Q::zero(); n * n];
             // L_z = sum_p z_p L_{e_p}
-            for (p, zp) in z.iter().enumerate().filter(|(_, x)| !x.is_zero()) {
-                add_multiplication(k, p, zp, true, &mut v, 0);
-            }
-            map_vector(k, v)
+            let terms: Vec<Term> = centre.basis[b]
+                .iter()
+                .map(|(p, zp)| (*p as usize, zp, true, 0))
+                .collect();
+            multiplication_sum(k, &terms, n * n)
         })
         .collect();
     Space {
@@ -254,61 +252,66 @@ pub fn centroid_of_unital(k: &IntegralTensor, centre: &Space) -> Space {
     }
 }
 
-/// Add `coef L_{e_p}` (`left`) or `coef R_{e_p}` to the map stored at `offset` in `v`, in
-/// the integer-scaled constants: `L_{e_p}(e_i) = e_p e_i`, `R_{e_p}(e_i) = e_i e_p`, entry
-/// `[l][i]`. Cost: O(nnz of the row or column of p).
-fn add_multiplication(
-    k: &IntegralTensor,
-    p: usize,
-    coef: &Q,
-    left: bool,
-    v: &mut [Q],
-    offset: usize,
-) {
+/// A term `coef L_{e_p}` (`left`) or `coef R_{e_p}` of a map stored at `offset`:
+/// `(p, coef, left, offset)`.
+type Term<'a> = (usize, &'a Q, bool, usize);
+
+/// The sum of the terms as a sparse vector of `len` coordinates in the original constants
+/// (over GF(q) the representatives): `L_{e_p}(e_i) = e_p e_i`, `R_{e_p}(e_i) = e_i e_p`,
+/// entry `[l][i]` at `offset + l n + i`. The coefficients are put over their common
+/// denominator d and the products accumulated in integers with the integer-scaled
+/// constants (scale L), so each nonzero entry costs one fraction `a / (d L)`, not one
+/// rational addition per term.
+/// Cost: O(nnz of the rows or columns of the p) integer multiply-adds.
+fn multiplication_sum(k: &IntegralTensor, terms: &[Term], len: usize) -> Vec<(u32, Q)> {
     let n = k.dims[0];
-    for i in 0..n {
-        let row = if left {
-            k.product(p, i)
-        } else {
-            k.product(i, p)
-        };
-        for (l, c) in row {
-            v[offset + *l as usize * n + i] += Q::from_integer(c.clone()) * coef;
+    let den = common_denominator(terms.iter().map(|t| t.1));
+    let mut acc = vec![BigInt::zero(); len];
+    for &(p, coef, left, offset) in terms {
+        let c = coef.numer() * (&den / coef.denom());
+        for i in 0..n {
+            let row = if left {
+                k.product(p, i)
+            } else {
+                k.product(i, p)
+            };
+            for (l, x) in row {
+                acc[offset + *l as usize * n + i] += &c * x;
+            }
         }
     }
+    let scale = den * &k.scale;
+    let field = k
+        .modulus()
+        .map(|m| crate::scalar::PrimeField::new(m).expect("prime"));
+    acc.into_iter()
+        .enumerate()
+        .filter(|(_, a)| !a.is_zero())
+        .map(|(i, a)| {
+            let x = Q::new(a, scale.clone());
+            let x = match &field {
+                Some(f) => {
+                    use crate::scalar::Field;
+                    f.to_rational(&f.from_rational(&x).expect("residue"))
+                }
+                None => x,
+            };
+            (i as u32, x)
+        })
+        .filter(|(_, x)| !x.is_zero())
+        .collect()
 }
 
-/// `ad_{e_p}` as a sparse map vector in the original constants (scaled back by 1/L; over
-/// GF(q) the representatives): `x e_i - e_i x` (associative) or `x e_i` (Lie).
+/// `ad_{e_p}` as a sparse map vector in the original constants (over GF(q) the
+/// representatives): `x e_i - e_i x` (associative) or `x e_i` (Lie).
 fn ad_vector(k: &IntegralTensor, p: usize, lie: bool) -> Vec<(u32, Q)> {
     let n = k.dims[0];
-    let mut v = vec![Q::zero(); n * n];
-    add_multiplication(k, p, &Q::one(), true, &mut v, 0);
+    let (one, minus) = (Q::one(), -Q::one());
+    let mut terms: Vec<Term> = vec![(p, &one, true, 0)];
     if !lie {
-        add_multiplication(k, p, &-Q::one(), false, &mut v, 0);
+        terms.push((p, &minus, false, 0));
     }
-    map_vector(k, v)
-}
-
-/// A map vector computed from the integer-scaled constants, as a sparse vector in the
-/// original constants (scaled back by 1/L; over GF(q) the representatives).
-fn map_vector(k: &IntegralTensor, mut v: Vec<Q>) -> Vec<(u32, Q)> {
-    let scale = Q::one() / Q::from_integer(k.scale.clone());
-    for x in v.iter_mut().filter(|x| !x.is_zero()) {
-        *x *= &scale;
-    }
-    if let Some(m) = k.modulus() {
-        let f = crate::scalar::PrimeField::new(m).expect("prime");
-        use crate::scalar::Field;
-        for x in v.iter_mut() {
-            *x = f.to_rational(&f.from_rational(x).expect("residue"));
-        }
-    }
-    v.into_iter()
-        .enumerate()
-        .filter(|(_, x)| !x.is_zero())
-        .map(|(i, x)| (i as u32, x))
-        .collect()
+    multiplication_sum(k, &terms, n * n)
 }
 
 /// The `n x n` matrix of a map stored at `offset` in a vector.

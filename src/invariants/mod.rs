@@ -13,14 +13,12 @@
 //!   ([`radical_modp`]), semisimple quotient ([`quotient`]);
 //! - [`lie`]: Lie-algebra series, Killing form, Cartan's criterion;
 //! - [`central`]: the upper central series;
-//! - [`components`]: the simple components of a semisimple centre (field degrees);
 //! - [`bilinear`]: centroid / derivation triples, adjoint pairs and radicals of a map;
 //! - [`structure`]: solvable, nilpotent (with class) and semisimple, with witnesses.
 
 pub mod all;
 pub mod bilinear;
 pub mod central;
-pub mod components;
 pub mod elements;
 pub mod equations;
 pub mod forms;

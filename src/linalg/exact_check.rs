@@ -7,10 +7,8 @@ use super::nullspace::SparseQ;
 use super::primes::{MAX_KERNEL_PRIMES, primes_prefix};
 use super::system::{RowBuf, RowSource};
 use crate::error::{Error, Result};
-use crate::scalar::residue;
+use crate::scalar::{common_denominator, residue};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::One;
 use rayon::prelude::*;
 
 /// The candidate vectors modulo p, by coordinate: row `c` (of `count` words) holds the
@@ -57,9 +55,7 @@ pub(super) fn exact_check(
     let ints: Vec<Vec<(u32, BigInt)>> = basis
         .iter()
         .map(|v| {
-            let l = v
-                .iter()
-                .fold(BigInt::one(), |acc, (_, x)| acc.lcm(x.denom()));
+            let l = common_denominator(v.iter().map(|(_, x)| x));
             v.iter()
                 .map(|(c, x)| (*c, x.numer() * (&l / x.denom())))
                 .collect()

@@ -13,7 +13,6 @@ use super::{Matrix, echelon};
 use crate::scalar::residue;
 use crate::scalar::{Q, Rationals, common_denominator, crt_combine};
 use num_bigint::BigInt;
-use num_integer::Integer;
 use num_traits::{One, Zero};
 
 pub use super::kernels::KERNEL_PRIME_BITS;
@@ -209,7 +208,7 @@ pub fn inverse_q(m: &Matrix<Q>) -> Option<Matrix<Q>> {
             continue;
         }
         // exact check: A X = I
-        let den = x.iter().fold(BigInt::one(), |acc, q| acc.lcm(q.denom()));
+        let den = common_denominator(x.iter());
         let xi: Vec<BigInt> = x.iter().map(|q| q.numer() * (&den / q.denom())).collect();
         let ok = (0..n).all(|i| {
             (0..n).all(|j| {

@@ -16,10 +16,9 @@ use super::matrix::Matrix;
 use super::nullspace::{SolveParams, solve_nullspace};
 use super::system::IntegerRows;
 use crate::error::Result;
+use crate::scalar::common_denominator;
 use crate::scalar::{Field, FieldSpec, Q};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::One;
 
 /// A subspace of `F^ambient` with a basis in reduced form (see the module documentation).
 #[derive(Clone, Debug, PartialEq)]
@@ -108,7 +107,7 @@ pub fn field_spec<F: Field>(f: &F) -> FieldSpec {
 /// same equation), over GF(q) the representatives.
 fn integer_row<F: Field>(f: &F, row: &[F::Elem]) -> Vec<BigInt> {
     let q: Vec<Q> = row.iter().map(|x| f.to_rational(x)).collect();
-    let l = q.iter().fold(BigInt::one(), |l, x| l.lcm(x.denom()));
+    let l = common_denominator(q.iter());
     q.iter().map(|x| x.numer() * (&l / x.denom())).collect()
 }
 

@@ -105,30 +105,46 @@ impl RowBuf {
 
     /// Close the current block: its `rows` rows (keys `0..rows`) are appended, each with its
     /// terms merged by column.
+    /// Cost: O(terms) to group the terms by row (a counting sort), then a sort of each
+    /// row's few terms by column.
     pub fn end_block(&mut self, rows: usize) {
         let p = self.p;
-        self.terms.sort_unstable_by_key(|t| (t.0, t.1));
-        let mut idx = 0;
-        for r in 0..rows as u32 {
-            let start = idx;
-            while idx < self.terms.len() && self.terms[idx].0 == r {
-                let col = self.terms[idx].1;
+        debug_assert!(
+            self.terms.iter().all(|t| (t.0 as usize) < rows),
+            "row keys below the block's row count"
+        );
+        // counting sort by row: start[r] .. start[r + 1] will hold row r's terms
+        let mut start = vec![0usize; rows + 1];
+        for t in &self.terms {
+            start[t.0 as usize + 1] += 1;
+        }
+        for r in 0..rows {
+            start[r + 1] += start[r];
+        }
+        let mut next = start.clone();
+        let mut grouped: Vec<(u32, u64)> = vec![(0, 0); self.terms.len()];
+        for t in &self.terms {
+            let at = &mut next[t.0 as usize];
+            grouped[*at] = (t.1, t.2);
+            *at += 1;
+        }
+        for r in 0..rows {
+            let row = &mut grouped[start[r]..start[r + 1]];
+            row.sort_unstable_by_key(|t| t.0);
+            let mut idx = 0;
+            while idx < row.len() {
+                let col = row[idx].0;
                 let mut acc = 0u64;
-                while idx < self.terms.len() && self.terms[idx].0 == r && self.terms[idx].1 == col {
-                    acc = (acc + self.terms[idx].2) % p;
+                while idx < row.len() && row[idx].0 == col {
+                    acc = (acc + row[idx].1) % p;
                     idx += 1;
                 }
                 self.cols.push(col);
                 self.vals.push(acc as u32);
             }
-            self.max_terms = self.max_terms.max(idx - start);
+            self.max_terms = self.max_terms.max(row.len());
             self.ptr.push(self.cols.len());
         }
-        debug_assert_eq!(
-            idx,
-            self.terms.len(),
-            "row keys below the block's row count"
-        );
         self.terms.clear();
     }
 }

@@ -3,9 +3,10 @@
 //! Mignotte bound on the coefficients of a factor.
 
 use crate::scalar::Q;
+use crate::scalar::common_denominator;
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, Zero};
+use num_traits::{Signed, Zero};
 
 /// An integer polynomial, constant term first, no zero leading coefficient.
 pub type ZPoly = Vec<BigInt>;
@@ -24,7 +25,7 @@ pub fn content(a: &[BigInt]) -> BigInt {
 /// The primitive integer polynomial proportional to a nonzero rational polynomial, with a
 /// positive leading coefficient.
 pub fn primitive(a: &[Q]) -> ZPoly {
-    let l = a.iter().fold(BigInt::one(), |l, c| l.lcm(c.denom()));
+    let l = common_denominator(a.iter());
     let mut v: ZPoly = a.iter().map(|c| c.numer() * (&l / c.denom())).collect();
     trim(&mut v);
     let mut g = content(&v);

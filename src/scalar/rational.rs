@@ -241,8 +241,8 @@ pub fn common_denominator<'a>(xs: impl IntoIterator<Item = &'a Q>) -> BigInt {
 
 /// Chinese remaindering, in place: given `res[i] = x_i mod m` (in `0..m`) and
 /// `img[i] = x_i mod p` for a prime p coprime to m, sets `res[i] = x_i mod m p` (in
-/// `0..m p`). Cost: one modular inverse, then one small division and one multiply-add of
-/// size `log m` per entry.
+/// `0..m p`). Cost: one modular inverse, then one residue ([`residue`]) and one
+/// multiply-add of size `log m` per entry; large combinations run on every core.
 pub fn crt_combine<T: Copy + Into<u64> + Sync>(res: &mut [BigInt], m: &BigInt, img: &[T], p: u64) {
     let m_mod_p = residue(m, p);
     let minv = BigInt::from(m_mod_p)

@@ -15,6 +15,7 @@
 use super::construct::{matmul_cyclic, matmul_transpose};
 use super::{Scheme, reduce_into, verify};
 use crate::linalg::{Matrix, nullspace};
+use crate::scalar::common_denominator;
 use crate::scalar::{Q, Rationals};
 use crate::tensor::Tensor;
 use num_bigint::BigInt;
@@ -81,7 +82,7 @@ pub fn diagonal_symmetries(t: &Tensor) -> Vec<[Vec<BigInt>; 3]> {
     let ker = nullspace(&Rationals, &Matrix::from_rows(rows, cols));
     ker.into_iter()
         .map(|v| {
-            let den = v.iter().fold(BigInt::one(), |l, x| l.lcm(x.denom()));
+            let den = common_denominator(v.iter());
             let ints: Vec<BigInt> = v
                 .iter()
                 .map(|x| (x * Q::from_integer(den.clone())).to_integer())

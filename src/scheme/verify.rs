@@ -2,6 +2,7 @@
 //! mismatch with a count ([`verify`]) or every wrong coefficient ([`wrong_coefficients`]).
 
 use super::Scheme;
+use crate::scalar::common_denominator;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::Tensor;
 use num_bigint::BigInt;
@@ -91,7 +92,7 @@ pub fn scheme_tensor(s: &Scheme, field: FieldSpec) -> Vec<Q> {
 
 /// `x = X / D` with X an integer vector and D the least common denominator of `x`.
 fn integer_over(x: &[Q]) -> (Vec<BigInt>, BigInt) {
-    let den = x.iter().fold(BigInt::one(), |l, c| l.lcm(c.denom()));
+    let den = common_denominator(x.iter());
     let num = x.iter().map(|c| c.numer() * (&den / c.denom())).collect();
     (num, den)
 }

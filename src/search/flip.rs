@@ -44,6 +44,12 @@ impl FastRng {
             ((x + 2) % 3, (x + 1) % 3)
         }
     }
+    /// Two distinct indices in `0..n` (n >= 2), uniform among ordered pairs.
+    pub fn distinct_pair(&mut self, n: usize) -> (usize, usize) {
+        let s = self.below(n);
+        let t = self.below(n - 1);
+        (s, if t >= s { t + 1 } else { t })
+    }
     #[inline(always)]
     pub fn next_u64(&mut self) -> u64 {
         self.0 = self.0.wrapping_add(0x9E37_79B9_7F4A_7C15);
@@ -347,11 +353,7 @@ impl<const W: usize> Walker<W> {
                 k -= 1;
             }
         }
-        let (y, z) = if self.rng.next_u64() & 1 == 0 {
-            ((x + 1) % 3, (x + 2) % 3)
-        } else {
-            ((x + 2) % 3, (x + 1) % 3)
-        };
+        let (y, z) = self.rng.other_axes(x);
         let ty = self.f[y][t];
         xor_into(&mut self.f[y][s], &ty);
         let sz = self.f[z][s];
@@ -369,20 +371,12 @@ impl<const W: usize> Walker<W> {
         if r < 2 {
             return false;
         }
-        let s = self.rng.below(r);
-        let mut t = self.rng.below(r - 1);
-        if t >= s {
-            t += 1;
-        }
+        let (s, t) = self.rng.distinct_pair(r);
         let x = self.rng.below(3);
         if self.f[x][s] == self.f[x][t] {
             return false;
         }
-        let (y, z) = if self.rng.next_u64() & 1 == 0 {
-            ((x + 1) % 3, (x + 2) % 3)
-        } else {
-            ((x + 2) % 3, (x + 1) % 3)
-        };
+        let (y, z) = self.rng.other_axes(x);
         // (a,b,c) + (a',b',c') = (a+a',b,c) + (a',b+b',c) + (a',b',c+c')
         let mut new = [[0u64; W]; 3];
         new[x] = self.f[x][t];

@@ -303,11 +303,7 @@ impl PWalker {
         if r < 2 {
             return false;
         }
-        let s = self.rng.below(r);
-        let mut t = self.rng.below(r - 1);
-        if t >= s {
-            t += 1;
-        }
+        let (s, t) = self.rng.distinct_pair(r);
         let x = self.rng.below(3);
         if self.key[x][s] == self.key[x][t] {
             return false;

@@ -10,6 +10,7 @@
 use crate::error::{Error, Result};
 use crate::linalg::nullspace::SolveParams;
 use crate::linalg::subspace::{Subspace, field_spec, kernel, span};
+use crate::scalar::common_denominator;
 use crate::scalar::{Field, Q};
 use crate::tensor::{Table, Tensor};
 use num_bigint::BigInt;
@@ -65,7 +66,7 @@ impl IntegerTable {
     /// A vector of rationals as integers over a common denominator.
     fn integer_vector<F: Field>(f: &F, x: &[F::Elem]) -> (Vec<BigInt>, BigInt) {
         let q: Vec<Q> = x.iter().map(|c| f.to_rational(c)).collect();
-        let den = q.iter().fold(BigInt::one(), |acc, c| acc.lcm(c.denom()));
+        let den = common_denominator(q.iter());
         let ints = q.iter().map(|c| c.numer() * (&den / c.denom())).collect();
         (ints, den)
     }

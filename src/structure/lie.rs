@@ -36,11 +36,12 @@ use crate::invariants::spans::{derived_series, lower_central_series};
 use crate::linalg::nullspace::{SolveParams, solve_nullspace};
 use crate::linalg::subspace::{Subspace, kernel, reduce};
 use crate::linalg::system::{RowBuf, RowSource};
+use crate::scalar::common_denominator;
 use crate::scalar::{FieldSpec, Q, Rationals};
 use crate::tensor::{IntegralTensor, Tensor};
 use num_bigint::BigInt;
 use num_integer::Integer;
-use num_traits::{One, Signed, ToPrimitive, Zero};
+use num_traits::{Signed, ToPrimitive, Zero};
 use rand::{Rng, SeedableRng};
 
 /// The structure of a Lie algebra over Q.
@@ -206,7 +207,7 @@ fn integer_basis(s: &Subspace<Q>) -> Vec<Vec<BigInt>> {
     s.basis
         .iter()
         .map(|v| {
-            let l = v.iter().fold(BigInt::one(), |l, x| l.lcm(x.denom()));
+            let l = common_denominator(v.iter());
             v.iter().map(|x| x.numer() * (&l / x.denom())).collect()
         })
         .collect()

@@ -11,6 +11,8 @@
 //! - [`lie`]: solvable radical, nilradical, Levi factor and Cartan subalgebra over Q;
 //! - [`fields`]: commutative semisimple algebras split into fields, and the decision
 //!   whether an algebra is a field (used for "is the centroid a field?");
+//! - [`centre`]: the field degrees and trace form of a semisimple centre over Q (catalog
+//!   fingerprints);
 //! - [`algebra`]: element arithmetic in algebras given by structure constants;
 //! - [`quaternion`]: quaternion algebras over Q by Hilbert symbols.
 //!
@@ -18,6 +20,7 @@
 
 pub mod algebra;
 pub mod blocks;
+pub mod centre;
 pub mod fields;
 pub mod lie;
 pub mod quaternion;

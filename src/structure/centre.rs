@@ -3,10 +3,8 @@
 //! centre as an algebra of its own.
 //!
 //! Method: for a seeded random element z of the centre Z (a proven basis from
-//! [`element_space`]), the powers `1, z, z^2, ..., z^d` (d = dim Z) are computed exactly
-//! (as primitive integer vectors times rational factors) and their first linear relation is
-//! found by [`solve_nullspace`]. When that relation has
-//! degree d (z generates Z; otherwise another z is drawn), Z is isomorphic to `Q[t]/(m)`,
+//! [`element_space`]), the minimal polynomial of z is the first linear relation of its
+//! powers `1, z, z^2, ...` (exact, [`Alg::min_poly`]). When it has degree d = dim Z (z generates Z; otherwise another z is drawn), Z is isomorphic to `Q[t]/(m)`,
 //! m the minimal polynomial of z. Z is semisimple exactly when m is squarefree, and then
 //! its simple components are the fields `Q[t]/(g)` for the irreducible factors g of m
 //! ([`crate::poly::rational::factor_rational`]), so the sorted degrees of the factors are an invariant.
@@ -15,19 +13,19 @@
 //! `(r1 + r2, r2)` (r1 real, r2 pairs of complex embeddings of the components) and the
 //! discriminant of Z up to squares.
 //!
-//! Cost: d exact products in A and one nullspace of an n x (d + 1) integer matrix per try,
+//! Cost: at most 2d exact products in A and a few nullspaces of n x (k + 1) matrices per try,
 //! then the factorization of a degree-d integer polynomial.
 
-use super::elements::{ElementSpace, element_space};
-use super::forms::{FormInvariants, form_invariants};
+use super::algebra::Alg;
 use crate::error::Result;
-use crate::linalg::nullspace::{SolveParams, solve_nullspace};
-use crate::linalg::system::IntegerRows;
-use crate::scalar::{FieldSpec, Q};
+use crate::invariants::elements::{ElementSpace, element_space};
+use crate::invariants::forms::{FormInvariants, form_invariants};
+use crate::linalg::nullspace::SolveParams;
+use crate::scalar::common_denominator;
+use crate::scalar::{FieldSpec, Q, Rationals};
 use crate::tensor::{IntegralTensor, Tensor};
 use num_bigint::BigInt;
-use num_integer::Integer;
-use num_traits::{One, Zero};
+use num_traits::Zero;
 
 /// The components of a semisimple centre.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -82,6 +80,7 @@ pub fn centre_components(
     }
     let basis = z_space.dense_basis();
     let n = t.dim();
+    let alg = Alg::from_tensor(&Rationals, t);
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed ^ 0xc0de);
     for _ in 0..params.tries.max(1) {
         let z: Vec<Q> = (0..n)
@@ -91,9 +90,11 @@ pub fn centre_components(
                 })
             })
             .collect();
-        let Some(m) = minimal_polynomial(it, &one, &z, d, &params.solve)? else {
+        // z generates Z exactly when its minimal polynomial has degree d = dim Z
+        let m = alg.min_poly(&z, &one, d, &params.solve)?;
+        if m.len() != d + 1 {
             continue;
-        };
+        }
         let factors = crate::poly::rational::factor_rational(&m)?.factors;
         if factors.iter().any(|(_, mult)| *mult > 1) {
             return Ok(None);
@@ -104,88 +105,6 @@ pub fn centre_components(
         return Ok(Some(CentreComponents { degrees, trace }));
     }
     Ok(None)
-}
-
-/// The coefficients (constant term first, monic) of the minimal polynomial of z when it
-/// has degree `d`, else `None`. The powers are kept as primitive integer vectors `w_k`
-/// with rational factors `c_k`, `w_k = c_k z^k`, computed with the integer-scaled constants
-/// (no big rational arithmetic), and the relation of the `w_k` is rescaled by the `c_k`.
-fn minimal_polynomial(
-    it: &IntegralTensor,
-    one: &[Q],
-    z: &[Q],
-    d: usize,
-    params: &SolveParams,
-) -> Result<Option<Vec<Q>>> {
-    use crate::invariants::central::integer_vector;
-    let n = it.dims[0];
-    let zi = integer_vector(z);
-    // z = zs * zi with zs rational; the integer product is x *' y = D (x y)
-    let zs = z
-        .iter()
-        .zip(&zi)
-        .find(|(_, b)| !b.is_zero())
-        .map(|(a, b)| a / Q::from_integer(b.clone()))
-        .unwrap_or_else(Q::one);
-    let d_scale = Q::from_integer(it.scale.clone());
-    // w_k = c_k z^k with w_k a primitive integer vector and c_k rational
-    let first = integer_vector(one);
-    let c0 = first
-        .iter()
-        .zip(one)
-        .find(|(b, _)| !b.is_zero())
-        .map(|(b, a)| Q::from_integer(b.clone()) / a)
-        .unwrap_or_else(Q::one);
-    let mut powers = vec![first];
-    let mut scales = vec![c0];
-    for _ in 0..d {
-        let prev = powers.last().expect("a power");
-        let mut next = vec![BigInt::zero(); n];
-        for (i, a) in zi.iter().enumerate() {
-            if a.is_zero() {
-                continue;
-            }
-            for (j, b) in prev.iter().enumerate() {
-                if b.is_zero() {
-                    continue;
-                }
-                let f = a * b;
-                for (k, c) in it.product(i, j) {
-                    next[*k as usize] += &f * c;
-                }
-            }
-        }
-        // next = D zi w_{k-1} = (D / zs) c_{k-1} z^k; divide out the content g
-        let g = next.iter().fold(BigInt::zero(), |g, x| g.gcd(x));
-        if g.is_zero() {
-            return Ok(None);
-        }
-        for x in next.iter_mut() {
-            *x /= &g;
-        }
-        let c = scales.last().expect("a scale") * &d_scale / &zs / Q::from_integer(g);
-        powers.push(next);
-        scales.push(c);
-    }
-    let rows: Vec<Vec<BigInt>> = (0..n)
-        .map(|i| powers.iter().map(|c| c[i].clone()).collect())
-        .collect();
-    let null = solve_nullspace(&IntegerRows::new(d + 1, rows), params)?;
-    if null.dim() != 1 {
-        return Ok(None);
-    }
-    // sum b_k w_k = 0 means sum (b_k c_k) z^k = 0
-    let rel: Vec<Q> = null
-        .dense(0)
-        .iter()
-        .zip(&scales)
-        .map(|(b, c)| b * c)
-        .collect();
-    let lead = rel[d].clone();
-    if lead.is_zero() {
-        return Ok(None);
-    }
-    Ok(Some(rel.iter().map(|c| c / &lead).collect()))
 }
 
 /// The Gram matrix (scaled to integers by a square) of the trace form of `Q[t]/(m)` in the
@@ -209,7 +128,7 @@ fn hankel_trace_form(m: &[Q]) -> Vec<Vec<BigInt>> {
         }
         s.push(-acc);
     }
-    let den = s.iter().fold(BigInt::one(), |a, x| a.lcm(x.denom()));
+    let den = common_denominator(s.iter());
     let den2 = &den * &den;
     (0..d)
         .map(|i| {
