@@ -325,10 +325,10 @@ pub fn round_factors(
         let mut cands: Vec<Candidate> = Vec::new();
         let mut tight = Vec::new();
         let mut free = 0usize;
-        for a in 0..2 {
+        for (a, order_a) in rows.iter().enumerate() {
             // free entries met so far in each column (term): earlier rows go first
             let mut above = vec![0usize; r];
-            for e in rows[a].iter().flat_map(|&i| (0..r).map(move |x| i * r + x)) {
+            for e in order_a.iter().flat_map(|&i| (0..r).map(move |x| i * r + x)) {
                 if s.frozen[a][e].is_some() {
                     continue;
                 }
