@@ -246,6 +246,15 @@ pub fn invariants_report(
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
 ) -> Result<InvariantsReport> {
+    Ok(invariants_with_report(t, params, progress)?.0)
+}
+
+/// The report with the computed invariants themselves (for callers that reuse them).
+pub fn invariants_with_report(
+    t: &Tensor,
+    params: &InvariantParams,
+    progress: &mut dyn FnMut(&str),
+) -> Result<(InvariantsReport, Invariants)> {
     let inv = all::compute_invariants(
         t,
         &all::Params {
@@ -255,7 +264,7 @@ pub fn invariants_report(
         },
         progress,
     )?;
-    Ok(render_report(t, &inv, params.omit_bases))
+    Ok((render_report(t, &inv, params.omit_bases), inv))
 }
 
 /// The report of computed invariants (bases written in the basis names).

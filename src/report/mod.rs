@@ -278,14 +278,17 @@ pub fn analyze_streaming(
         emit(Piece::Section(&sec));
         report.extra.push(sec);
     }
+    let mut centroid = None;
     if let Some(ip) = &params.invariants {
-        let sec = sections::invariants_section(t, source, ip, progress)?;
+        let (sec, c) = sections::invariants_section(t, source, ip, progress)?;
         emit(Piece::Section(&sec));
         report.extra.push(sec);
+        centroid = c;
     }
     if !report.properties.is_empty() || params.structure.is_some() {
         let structure = params.structure.clone().map(|sp| StructureParams {
             known_laws: known_laws.clone(),
+            known_centroid: centroid.clone(),
             ..sp
         });
         let sec = sections::structure_section(t, &report.properties, structure.as_ref(), progress)?;

@@ -5,23 +5,26 @@
 //! as JSON.
 
 use super::Section;
-use super::invariants::{InvariantParams, invariants_report};
+use super::invariants::{InvariantParams, invariants_with_report};
 use super::invariants_text;
 use crate::error::Result;
 use crate::invariants::structure::PropertyResult;
+use crate::linalg::nullspace::Space;
 use crate::ranks::{Bounds, Measure, Status};
 use crate::structure::StructureParams;
 use crate::tensor::Tensor;
 
 /// The invariants of `t` (all parts that apply to its kind unless `params.only` says
-/// otherwise) as a report section. Cost: that of [`invariants_report`].
+/// otherwise) as a report section, with the centroid's proven basis when it was
+/// computed (for the structure section). Cost: that of
+/// [`super::invariants::invariants_report`].
 pub fn invariants_section(
     t: &Tensor,
     source: &str,
     params: &InvariantParams,
     progress: &mut dyn FnMut(&str),
-) -> Result<Section> {
-    let r = invariants_report(t, params, progress)?;
+) -> Result<(Section, Option<Space>)> {
+    let (r, inv) = invariants_with_report(t, params, progress)?;
     let text = invariants_text::render_text(&r, &t.names()[0]);
     let mut lines: Vec<String> = text.lines().map(str::to_string).collect();
     if !r.skipped.is_empty() {
@@ -42,12 +45,13 @@ pub fn invariants_section(
             names.join(",")
         ));
     }
-    Ok(Section {
+    let section = Section {
         id: "invariants".into(),
         title: "Invariants".into(),
         lines,
         data: serde_json::to_value(&r).unwrap_or_default(),
-    })
+    };
+    Ok((section, inv.centroid.map(|c| c.space)))
 }
 
 /// Text lines of a set of lower bounds, each with what it bounds, over which field,

@@ -28,7 +28,7 @@ pub mod wedderburn;
 
 use crate::error::{Error, Result};
 use crate::laws::{self, Law};
-use crate::linalg::nullspace::SolveParams;
+use crate::linalg::nullspace::{SolveParams, Space};
 use crate::tensor::{Kind, Tensor};
 use std::time::Instant;
 
@@ -112,6 +112,9 @@ pub struct StructureParams {
     /// invariant under a change of basis): used for the associativity and Lie tests and for
     /// a block that is the whole algebra instead of deciding them again.
     pub known_laws: Vec<(Law, bool)>,
+    /// The centroid of the whole algebra already computed by the caller (a proven basis of
+    /// maps), reused by the block decomposition.
+    pub known_centroid: Option<Space>,
 }
 
 impl Default for StructureParams {
@@ -122,6 +125,7 @@ impl Default for StructureParams {
             seed: 1,
             certify_blocks: true,
             known_laws: Vec::new(),
+            known_centroid: None,
         }
     }
 }
@@ -178,6 +182,10 @@ pub fn compute_structure(
                     solve: params.solve.clone(),
                     seed: params.seed,
                     certify: params.certify_blocks,
+                    known_centroid: params
+                        .known_centroid
+                        .clone()
+                        .map(|c| std::sync::Arc::new((t.clone(), c))),
                 };
                 let d = decompose(t, &bp)?;
                 out.block_laws = block_laws(t, &d, &params.known_laws)?;

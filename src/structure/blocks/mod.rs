@@ -63,6 +63,20 @@ pub struct BlockParams {
     pub seed: u64,
     /// Recompute every block's centroid and show it local (indecomposable).
     pub certify: bool,
+    /// The centroid of an algebra already computed by the caller, as a proven basis of
+    /// maps (`[l][i]` at `l n + i`): used wherever that very algebra (same table) needs
+    /// its centroid, instead of solving for it again.
+    pub known_centroid: Option<std::sync::Arc<(Tensor, Space)>>,
+}
+
+impl BlockParams {
+    /// The known centroid of `t`, if the caller gave one for this very table.
+    fn known_centroid_of(&self, t: &Tensor) -> Option<Space> {
+        self.known_centroid
+            .as_ref()
+            .filter(|k| k.0 == *t)
+            .map(|k| k.1.clone())
+    }
 }
 
 impl Default for BlockParams {
@@ -71,6 +85,7 @@ impl Default for BlockParams {
             solve: SolveParams::default(),
             seed: 1,
             certify: true,
+            known_centroid: None,
         }
     }
 }
@@ -326,4 +341,34 @@ fn new_names<F: Field>(
             })
             .collect()
     })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::generators::generate;
+
+    #[test]
+    fn a_known_centroid_gives_the_same_blocks() {
+        // the group algebra Q[C_6] splits into the fields Q, Q, Q(zeta_3), Q(zeta_6)
+        // (Perlis and Walker 1950; common practice); octonions form one block
+        for spec in ["cyclic:6", "octonions", "matrix:2"] {
+            let t = generate(spec).unwrap();
+            let it = IntegralTensor::from_tensor(&t);
+            let sp = SolveParams::default();
+            let c = centroid(&t, &it, &sp, None).unwrap().space;
+            let plain = decompose(&t, &BlockParams::default()).unwrap();
+            let known = BlockParams {
+                known_centroid: Some(std::sync::Arc::new((t.clone(), c))),
+                ..Default::default()
+            };
+            let with = decompose(&t, &known).unwrap();
+            assert_eq!(format!("{with:?}"), format!("{plain:?}"), "{spec}");
+        }
+        let t = generate("cyclic:6").unwrap();
+        assert_eq!(
+            decompose(&t, &BlockParams::default()).unwrap().blocks.len(),
+            4
+        );
+    }
 }

@@ -100,8 +100,11 @@ pub(super) fn split_algebra<F: Field>(
             return Ok(out);
         }
     }
-    let c = centroid(sub, &it, sp, None)?;
-    let csub = reduce(f, n * n, from_space(f, &c.space));
+    let c = match params.known_centroid_of(sub) {
+        Some(space) => space,
+        None => centroid(sub, &it, sp, None)?.space,
+    };
+    let csub = reduce(f, n * n, from_space(f, &c));
     let images = centroid_blocks(f, &csub, &[n], params)?;
     Ok(images
         .into_iter()
@@ -338,7 +341,11 @@ pub(super) fn certify<F: Field>(f: &F, t: &Tensor, params: &BlockParams) -> Resu
     let it = IntegralTensor::from_tensor(t);
     let d = t.dims();
     let (space, sizes) = if t.kind() == Kind::Algebra {
-        (centroid(t, &it, sp, None)?.space, vec![d[0]])
+        let space = match params.known_centroid_of(t) {
+            Some(space) => space,
+            None => centroid(t, &it, sp, None)?.space,
+        };
+        (space, vec![d[0]])
     } else {
         (
             map_invariant(&it, MapInvariant::CentroidTriples, sp)?,
