@@ -55,12 +55,7 @@ pub fn trace_form(it: &IntegralTensor, left: bool) -> Vec<Vec<BigInt>> {
                 .map(|i| {
                     let mut v = Vec::new();
                     for b in 0..n {
-                        let row = if left {
-                            it.product(i, b)
-                        } else {
-                            it.product(b, i)
-                        };
-                        for (a, x) in row {
+                        for (a, x) in it.product_by(i, b, left) {
                             let x = residue(x, p);
                             if x != 0 {
                                 v.push((*a as usize, b, x));

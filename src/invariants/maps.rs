@@ -270,12 +270,7 @@ fn multiplication_sum(k: &IntegralTensor, terms: &[Term], len: usize) -> Vec<(u3
     for &(p, coef, left, offset) in terms {
         let c = coef.numer() * (&den / coef.denom());
         for i in 0..n {
-            let row = if left {
-                k.product(p, i)
-            } else {
-                k.product(i, p)
-            };
-            for (l, x) in row {
+            for (l, x) in k.product_by(p, i, left) {
                 acc[offset + *l as usize * n + i] += &c * x;
             }
         }

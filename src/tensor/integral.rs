@@ -168,6 +168,16 @@ impl IntegralTensor {
         &self.products[i * self.dims[1] + j]
     }
 
+    /// `x * i` (`left`: the column `i` of `L_x`) or `i * x` (the column `i` of `R_x`), as
+    /// `(k, c')`.
+    pub fn product_by(&self, x: usize, i: usize, left: bool) -> &[(u32, BigInt)] {
+        if left {
+            self.product(x, i)
+        } else {
+            self.product(i, x)
+        }
+    }
+
     /// `log2` of the row norm L (0 for the zero tensor), rounded up.
     pub fn row_norm_bits(&self) -> u64 {
         self.row_norm.bits()
