@@ -236,10 +236,7 @@ pub fn compute_invariants(
     let mut radical_once: Option<Option<Radical>> = None;
     // the left, middle and right nuclei, once: asked for themselves, and by the centre
     let mut nuclei_once: Option<[Space; 3]> = None;
-    let modulus = match t.field() {
-        crate::scalar::FieldSpec::Prime(q) => Some(q),
-        crate::scalar::FieldSpec::Rational => None,
-    };
+    let modulus = it.modulus();
     for part in parts {
         let start = Instant::now();
         let m = part.unknowns(t.dims());

@@ -79,10 +79,7 @@ pub fn element_space(
         Centre => &[CommutativeCentre, LeftNucleus, MiddleNucleus, RightNucleus],
         _ => return solve_nullspace(&System::new(k, &which.equations()), params),
     };
-    let modulus = match k.field {
-        crate::scalar::FieldSpec::Prime(q) => Some(q),
-        crate::scalar::FieldSpec::Rational => None,
-    };
+    let modulus = k.modulus();
     let mut out = element_space(k, parts[0], params)?;
     for &p in &parts[1..] {
         if out.dim() == 0 {

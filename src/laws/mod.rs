@@ -224,6 +224,14 @@ impl LawReport {
     pub fn holds(&self, law: Law) -> Option<bool> {
         self.get(law).and_then(|r| r.holds)
     }
+
+    /// The decided laws with their verdicts, in the order asked (undecided ones left out).
+    pub fn verdicts(&self) -> Vec<(Law, bool)> {
+        self.results
+            .iter()
+            .filter_map(|r| r.holds.map(|v| (r.law, v)))
+            .collect()
+    }
 }
 
 /// `xy - yx` (sign -1) or `xy + yx` (sign +1) as a table.
@@ -483,7 +491,8 @@ fn assemble<F: Field>(
         }
         let proven = |x: &Component| verdict(&cache, *x) == Some(true);
         let sets = implied_by(c, p);
-        if !sets.iter().any(|set| set.iter().all(proven)) {
+        let implying = sets.iter().find(|set| set.iter().all(proven));
+        if implying.is_none() {
             // a set none of whose members failed, with one not decided yet
             let alive = |x: &Component| {
                 requested.contains(x) && !stack.contains(x) && verdict(&cache, *x) != Some(false)
@@ -500,7 +509,7 @@ fn assemble<F: Field>(
         stack.pop();
         let d = def(c);
         let mut notes = Vec::new();
-        let res = if let Some(set) = sets.iter().find(|s| s.iter().all(proven)) {
+        let res = if let Some(set) = implying {
             let why: Vec<&str> = set.iter().map(|x| component_name(*x)).collect();
             let proof = if why.len() == 1 {
                 "proven"

@@ -125,17 +125,8 @@ impl Space {
     /// The linear equations cutting out this space: a proven basis of `{w : w . b = 0 for
     /// every basis vector b}` (over GF(q) when `modulus` is `Some(q)`).
     fn equations(&self, modulus: Option<u64>) -> Result<Space> {
-        let rows: Vec<Vec<BigInt>> = self
-            .basis
-            .iter()
-            .map(|v| {
-                let scale = common_denominator(v.iter().map(|(_, x)| x));
-                let mut row = vec![BigInt::zero(); self.unknowns];
-                for (c, x) in v {
-                    row[*c as usize] = x.numer() * (&scale / x.denom());
-                }
-                row
-            })
+        let rows: Vec<Vec<BigInt>> = (0..self.dim())
+            .map(|i| integer_row(&self.dense(i)))
             .collect();
         solve_integer_rows(self.unknowns, rows, modulus)
     }
@@ -159,13 +150,21 @@ impl Space {
         }
         let mut rows = Vec::new();
         for s in [self, other] {
-            rows.extend(s.equations(modulus)?.dense_basis().iter().map(|w| {
-                let scale = common_denominator(w.iter());
-                w.iter().map(|x| x.numer() * (&scale / x.denom())).collect()
-            }));
+            rows.extend(
+                s.equations(modulus)?
+                    .dense_basis()
+                    .iter()
+                    .map(|w| integer_row(w)),
+            );
         }
         solve_integer_rows(n, rows, modulus)
     }
+}
+
+/// A rational row as integers: scaled by the lcm of its denominators (the same equation).
+pub fn integer_row(row: &[Q]) -> Vec<BigInt> {
+    let l = common_denominator(row.iter());
+    row.iter().map(|x| x.numer() * (&l / x.denom())).collect()
 }
 
 /// The proven nullspace of integer rows (read modulo q when `modulus` is `Some(q)`).

@@ -16,7 +16,6 @@ use super::matrix::Matrix;
 use super::nullspace::{SolveParams, solve_nullspace};
 use super::system::IntegerRows;
 use crate::error::Result;
-use crate::scalar::common_denominator;
 use crate::scalar::{Field, FieldSpec, Q};
 use num_bigint::BigInt;
 
@@ -107,8 +106,7 @@ pub fn field_spec<F: Field>(f: &F) -> FieldSpec {
 /// same equation), over GF(q) the representatives.
 fn integer_row<F: Field>(f: &F, row: &[F::Elem]) -> Vec<BigInt> {
     let q: Vec<Q> = row.iter().map(|x| f.to_rational(x)).collect();
-    let l = common_denominator(q.iter());
-    q.iter().map(|x| x.numer() * (&l / x.denom())).collect()
+    super::nullspace::integer_row(&q)
 }
 
 /// The pivots of a basis in reduced form, or `None` if it is not in that form.

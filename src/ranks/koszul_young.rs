@@ -472,15 +472,17 @@ pub fn check_certificate(t: &Tensor, choice: &Choice, minor: &Minor) -> Result<(
             .mod_floor(&pb)
             .to_u64()
             .expect("reduced");
-        let weights: Vec<(usize, u64)> = match &choice.projection {
-            None => vec![(a, 1)],
-            Some(pr) => (0..choice.sub)
-                .map(|i| (i, pr[i][a].rem_euclid(p as i64) as u64))
-                .collect(),
-        };
-        for (i, w) in weights {
+        let mut add = |i: usize, w: u64| {
             let cell = &mut projected[(i * db + j) * dc + k];
             *cell = ((*cell as u128 + w as u128 * value as u128) % p as u128) as u64;
+        };
+        match &choice.projection {
+            None => add(a, 1),
+            Some(pr) => {
+                for (i, row) in pr.iter().enumerate().take(choice.sub) {
+                    add(i, row[a].rem_euclid(p as i64) as u64);
+                }
+            }
         }
     }
     let coef = |i: usize, j: usize, k: usize| projected[(i * db + j) * dc + k];

@@ -196,11 +196,7 @@ pub fn analyze_streaming(
         progress("laws");
         let lr = laws::check_laws(&alg, &params.laws)?;
         if !is_map {
-            known_laws = lr
-                .results
-                .iter()
-                .filter_map(|r| r.holds.map(|v| (r.law, v)))
-                .collect();
+            known_laws = lr.verdicts();
         }
         if !params.properties.is_empty() {
             progress("solvable, nilpotent, semisimple");

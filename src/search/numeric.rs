@@ -373,12 +373,11 @@ pub fn round_factors(
                     .cmp(&(y.0.0, y.0.1))
                     .then(x.0.2.total_cmp(&y.0.2))
             });
-            let mut taken: Vec<(usize, usize)> = Vec::new();
-            cands.retain(|c| {
-                let new = !taken.contains(&(c.1, c.2));
-                taken.push((c.1, c.2));
-                new
-            });
+            let mut taken = [
+                vec![false; s.frozen[0].len()],
+                vec![false; s.frozen[1].len()],
+            ];
+            cands.retain(|c| !std::mem::replace(&mut taken[c.1][c.2], true));
             if cands.is_empty() {
                 // every candidate refused: after a successful freeze the fit has moved,
                 // so the refused ones get one more chance
@@ -505,8 +504,8 @@ impl Default for NumericParams {
 }
 
 /// One numerical run from a random start (seeded by `rng`): fit at rank `r`, read the
-/// fit as an exact decomposition or round it, solve the result factors exactly, verify. Returns a scheme of rank at most `r` verified
-/// exactly over Q, or `None`. `stop` is polled between iterations.
+/// fit as an exact decomposition or round it, solve the result factors exactly, verify.
+/// Returns a scheme of rank at most `r` verified exactly over Q, or `None`. `stop` is polled between iterations.
 /// Cost: per iteration O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) (ALS) or
 /// O((r (d0 + d1 + d2))^3) (Levenberg-Marquardt); each error check O(d0 d1 d2 r).
 pub fn numeric_run(

@@ -134,7 +134,7 @@ fn strassen_rank_seven_by_als() {
 
 /// <2,2,2> rank 7 by Levenberg-Marquardt and rounding to an exact scheme (Strassen 1969):
 /// the decompositions of rank 7 form a family, so the rounding freezes entries at simple
-/// rationals one at a time before the exact solve and check.
+/// rationals (in batches) before the exact solve and check.
 #[test]
 #[cfg_attr(debug_assertions, ignore)]
 fn strassen_rank_seven_by_lm() {

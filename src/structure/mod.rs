@@ -250,12 +250,7 @@ fn decide_laws(t: &Tensor, wanted: &[Law], known: &[(Law, bool)]) -> Result<Vec<
             stop_first: true,
             ..Default::default()
         };
-        let lr = laws::check_laws(t, &lp)?;
-        out.extend(
-            lr.results
-                .iter()
-                .filter_map(|r| r.holds.map(|v| (r.law, v))),
-        );
+        out.extend(laws::check_laws(t, &lp)?.verdicts());
     }
     Ok(out)
 }
