@@ -3,7 +3,7 @@
 //! too long for statistical repetition.
 //!
 //! Run: `cargo bench --bench search -- [CASE...]` with CASE among strassen, small, m333,
-//! als, gf4, poly, throughput, records (default: all but m333 and records). `SEEDS=n` sets
+//! als, gf4, poly, throughput, records, walks (default: all but m333, records and walks). `SEEDS=n` sets
 //! the seeds per case.
 //!
 //! `records` prints the record table of docs/benchmarks.md: per matrix format <n,m,p> with
@@ -16,7 +16,7 @@
 
 use bilin::scalar::{FieldSpec, Q, q};
 use bilin::scheme::verify;
-use bilin::search::flip::{BitScheme, Walker};
+use bilin::search::flip::{BitScheme, FlipParams, WalkEvent, WalkState, Walker, walk_state};
 use bilin::search::{Method, Params, search_scheme};
 use bilin::tensor::{Kind, Tensor};
 use num_traits::One;
@@ -257,6 +257,91 @@ fn records() {
     }
 }
 
+/// The walker with the reductions of every move only (no dependent products at plateaus).
+struct PairsOnly(Walker<1>);
+
+impl WalkState for PairsOnly {
+    type Snap = BitScheme;
+    fn flip(&mut self) -> bool {
+        self.0.flip()
+    }
+    fn plus(&mut self) -> bool {
+        self.0.plus()
+    }
+    fn rank(&self) -> usize {
+        self.0.rank()
+    }
+    fn snap(&self) -> BitScheme {
+        self.0.scheme()
+    }
+    fn restore(&mut self, s: &BitScheme) {
+        self.0.load(s)
+    }
+}
+
+/// Single walks over GF(2) from the schoolbook scheme of `WALK` (e.g. `4,4,4`, axes up to
+/// 64), `WALK_SECS` seconds each (default 30), seeds 1..=SEEDS, `PLATEAU` and `MAX_EXCESS`
+/// as in `bilin search`, `REDUCE=pairs` to leave out the reductions by dependent products:
+/// the lowest rank of each walk and when it was reached (`WALK_TRACE=1`: every new lowest
+/// rank).
+fn walks(seeds: u64) {
+    let env = |k: &str| std::env::var(k).ok();
+    let fmt = env("WALK").unwrap_or_else(|| "4,4,4".into());
+    let d: Vec<usize> = fmt.split(',').filter_map(|x| x.parse().ok()).collect();
+    let secs: f64 = env("WALK_SECS")
+        .and_then(|s| s.parse().ok())
+        .unwrap_or(30.0);
+    let mut params = FlipParams::default();
+    if let Some(v) = env("PLATEAU").and_then(|s| s.parse().ok()) {
+        params.plateau = v;
+    }
+    if let Some(v) = env("MAX_EXCESS").and_then(|s| s.parse().ok()) {
+        params.max_excess = v;
+    }
+    let pairs_only = env("REDUCE").as_deref() == Some("pairs");
+    let trace = env("WALK_TRACE").is_some();
+    let t = matmul(d[0], d[1], d[2]);
+    let start = BitScheme::standard(&t).expect("a format with axes up to 64");
+    let mut lows = Vec::new();
+    for seed in 1..=seeds {
+        let t0 = Instant::now();
+        let (mut low, mut at, mut moves, mut at_moves) = (start.rank(), 0.0, 0u64, 0u64);
+        let mut event = |e: WalkEvent<BitScheme>| match e {
+            WalkEvent::Candidate(b) => {
+                (low, at, at_moves) = (b.rank(), t0.elapsed().as_secs_f64(), moves);
+                if trace {
+                    println!("  rank {low} after {moves:.2e} moves");
+                }
+                false
+            }
+            WalkEvent::Moves(m) => {
+                moves += m;
+                t0.elapsed().as_secs_f64() > secs
+            }
+        };
+        if pairs_only {
+            let mut w = PairsOnly(Walker::<1>::new(&start, seed));
+            walk_state(&mut w, 0, &params, u64::MAX, &mut event);
+        } else {
+            let mut w = Walker::<1>::new(&start, seed);
+            walk_state(&mut w, 0, &params, u64::MAX, &mut event);
+        }
+        println!(
+            "walk <{fmt}> seed {seed}: lowest rank {low} at {at:.1} s ({at_moves:.2e} moves), {moves:.2e} moves in all"
+        );
+        lows.push(low as f64);
+    }
+    println!(
+        "walk <{fmt}> {}: median lowest rank {} over {seeds} seeds, {secs} s each",
+        if pairs_only {
+            "pairs only"
+        } else {
+            "with dependent products"
+        },
+        median(lows)
+    );
+}
+
 fn main() {
     let args: Vec<String> = std::env::args()
         .skip(1)
@@ -264,7 +349,7 @@ fn main() {
         .collect();
     let want = |c: &str| {
         if args.is_empty() {
-            c != "m333" && c != "records"
+            c != "m333" && c != "records" && c != "walks"
         } else {
             args.iter().any(|a| a == c)
         }
@@ -273,6 +358,9 @@ fn main() {
         .ok()
         .and_then(|s| s.parse().ok())
         .unwrap_or(10);
+    if want("walks") {
+        walks(seeds);
+    }
     if want("strassen") {
         case(
             "<2,2,2> flip GF(2) + lift to Q",

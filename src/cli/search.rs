@@ -52,10 +52,12 @@ pub struct SearchArgs {
     /// starts from the standard scheme).
     #[arg(long, value_name = "N")]
     pub pool: Option<usize>,
-    /// A walk ends after this many moves in a row without a new lowest rank.
+    /// A walk ends after this many moves in a row without a new lowest rank (or twice as
+    /// many as it took to reach that rank, if more; default 100000000).
     #[arg(long, value_name = "MOVES")]
     pub walk_moves: Option<u64>,
-    /// Moves without a lower rank before a plus transition.
+    /// Moves without a lower rank before a plus transition (given, or --max-excess given:
+    /// every walk uses these; otherwise each walk draws one of three settings).
     #[arg(long, value_name = "MOVES")]
     pub plateau: Option<u64>,
     /// Plus transitions raise a walk's rank to at most its lowest rank plus this (default
@@ -361,6 +363,12 @@ pub fn run(a: SearchArgs) -> i32 {
             plateau: a.plateau.unwrap_or(defaults.flip.plateau),
             max_excess: a.max_excess.unwrap_or(defaults.flip.max_excess),
             ..defaults.flip.clone()
+        },
+        // a plateau handling given on the command line is used by every walk
+        flip_mix: if a.plateau.is_some() || a.max_excess.is_some() {
+            Vec::new()
+        } else {
+            defaults.flip_mix.clone()
         },
         ..defaults
     };

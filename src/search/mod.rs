@@ -24,6 +24,7 @@
 pub mod als;
 pub mod bits;
 pub mod cyclic;
+pub mod dependent;
 mod engines;
 pub mod flip;
 pub mod flip_p;
@@ -140,7 +141,8 @@ pub struct Params {
     pub shard: (u64, u64),
     /// Execute only runs numbered at least this (to resume: the checkpoint's `next_run`).
     pub first_run: u64,
-    /// A walk (one run) ends after this many moves in a row without a new lowest rank.
+    /// A walk (one run) ends after this many moves in a row without a new lowest rank, or
+    /// as many as it took to reach that rank if more.
     pub walk_budget: u64,
     /// The prime of the walks of a search over Q (2: bit-packed GF(2); an odd prime below
     /// 65536: walks over GF(p), lifted p-adically, for schemes with even denominators).
@@ -150,7 +152,14 @@ pub struct Params {
     /// Where the walks start.
     pub walk_start: WalkStart,
     pub pool: PoolParams,
+    /// Plateau handling of the walks when `flip_mix` is empty.
     pub flip: FlipParams,
+    /// Plateau handlings drawn at random, one per walk (empty: every walk uses `flip`).
+    /// No one setting suits every format: near the standard scheme of a large format the
+    /// first reductions come from short walks returned often to their start (plateau 3 000,
+    /// one plus transition), deep descents need long plateaus (200 000), and <4,4,4>
+    /// prefers plus transitions that never return (docs/benchmarks.md).
+    pub flip_mix: Vec<FlipParams>,
     pub numeric: NumericParams,
     pub hensel: hensel::HenselParams,
     /// Without a start scheme, start from the best scheme [`known_start`] builds (matrix
@@ -174,12 +183,13 @@ impl Default for Params {
             field: None,
             shard: (0, 1),
             first_run: 0,
-            walk_budget: 4_000_000,
+            walk_budget: 100_000_000,
             walk_prime: 2,
             symmetry: Symmetry::None,
             walk_start: WalkStart::Standard,
             pool: PoolParams::default(),
             flip: FlipParams::default(),
+            flip_mix: FlipParams::mix(),
             numeric: NumericParams::default(),
             hensel: hensel::HenselParams::default(),
             known_start: true,

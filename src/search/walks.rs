@@ -107,7 +107,11 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                 }
             }
         };
-        walk_state(&mut w, target, &p.flip, p.walk_budget, &mut ev);
+        let flip = match p.flip_mix.len() {
+            0 => &p.flip,
+            n => &p.flip_mix[rng.below(n)],
+        };
+        walk_state(&mut w, target, flip, p.walk_budget, &mut ev);
         if use_pool {
             let end = (!halted()).then(|| (w.snap(), w.rank()));
             self.pool.lock().expect("lock").finish(end, rng.next_u64());
