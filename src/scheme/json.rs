@@ -136,7 +136,7 @@ pub fn from_node(
             at,
             &key("field"),
             format!(
-                "a scheme over {} cannot be read for a tensor over {}",
+                "a scheme over {} cannot be read for a tensor over {} (read the tensor over {0}: --field '{0}')",
                 declared.name(),
                 field.name()
             ),

@@ -329,7 +329,7 @@ pub fn parse_text_located(
                         return Err(err(
                             lx.toks[0].1,
                             format!(
-                                "a scheme over {} cannot be read for a tensor over {}",
+                                "a scheme over {} cannot be read for a tensor over {} (read the tensor over {0}: --field '{0}')",
                                 declared.name(),
                                 t.field().name()
                             ),
