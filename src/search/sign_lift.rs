@@ -299,14 +299,18 @@ fn search_signs(
 mod tests {
     use super::*;
 
-    /// Every stored scheme with coefficients in {-1, 0, 1} (Strassen 1969 for <2,2,2>, and
-    /// the schemes bilin found), reduced mod 2, lifts back by signs; the scheme it gives
+    /// Every stored scheme over Q with coefficients in {-1, 0, 1} (Strassen 1969 for
+    /// <2,2,2>, and the schemes bilin found), reduced mod 2, lifts back by signs; the scheme it gives
     /// has coefficients in {-1, 0, 1} and verifies.
     #[test]
     fn unit_schemes_reduced_mod_2_lift_by_signs() {
         let unit = |x: &Q| x.is_zero() || x.numer().magnitude() == x.denom().magnitude();
         let mut lifted_some = 0;
         for st in crate::catalog::STORED_SCHEMES {
+            // a scheme stored over GF(p) was kept there because it did not lift
+            if st.field().is_some_and(|f| f != FieldSpec::Rational) {
+                continue;
+            }
             let s = st.read().unwrap();
             if !s.u.iter().chain(&s.v).chain(&s.w).flatten().all(unit) {
                 continue;
