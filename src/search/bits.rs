@@ -29,6 +29,14 @@ pub fn unit_mask(n_words: usize, i: usize) -> Vec<u64> {
     m
 }
 
+/// `a += b` over GF(2), word by word (masks of equal length).
+#[inline]
+pub fn xor_words(a: &mut [u64], b: &[u64]) {
+    for (x, y) in a.iter_mut().zip(b) {
+        *x ^= y;
+    }
+}
+
 /// Bit i of a mask.
 #[inline]
 pub fn bit(m: &[u64], i: usize) -> bool {

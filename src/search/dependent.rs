@@ -13,7 +13,7 @@
 //! Invariant: the sum of the scheme is unchanged; afterwards the products on every pair
 //! of axes are linearly independent (no further reduction of this kind applies).
 
-use super::bits::{bits_of, words};
+use super::bits::{bits_of, words, xor_words};
 use super::flip::{Walker, xor_into};
 
 /// The rank-one product `v (x) w` of two masks as a mask of `dy * dz` bits, bit
@@ -31,7 +31,8 @@ fn kron(v: &[u64], w: &[u64], dz: usize, out: &mut [u64]) {
 /// A set of rows of `rows` (each `len` words) summing to zero, as the indices of its
 /// members (the last one is the row found dependent on the others), if any.
 /// Cost: O(r^2 (len + r / 64)) word operations for r rows (an incremental GF(2)
-/// elimination that carries the combinations).
+/// elimination that carries the combinations). Each kept row is reduced by the rows kept
+/// before it, so it is zero at their pivots and one pass in order reduces a new row.
 fn dependent_rows(rows: &[u64], len: usize) -> Option<Vec<usize>> {
     let r = rows.len() / len.max(1);
     let cw = words(r);
@@ -43,8 +44,8 @@ fn dependent_rows(rows: &[u64], len: usize) -> Option<Vec<usize>> {
         comb[t / 64] |= 1 << (t % 64);
         for (pivot, b, bc) in &basis {
             if v[pivot / 64] >> (pivot % 64) & 1 == 1 {
-                xor_into_slice(&mut v, b);
-                xor_into_slice(&mut comb, bc);
+                xor_words(&mut v, b);
+                xor_words(&mut comb, bc);
             }
         }
         match v.iter().position(|&x| x != 0) {
@@ -55,24 +56,11 @@ fn dependent_rows(rows: &[u64], len: usize) -> Option<Vec<usize>> {
             }
             Some(wd) => {
                 let pivot = wd * 64 + v[wd].trailing_zeros() as usize;
-                // keep the basis reduced at the new pivot so one pass per row suffices
-                for (_, b, bc) in basis.iter_mut() {
-                    if b[pivot / 64] >> (pivot % 64) & 1 == 1 {
-                        xor_into_slice(b, &v);
-                        xor_into_slice(bc, &comb);
-                    }
-                }
                 basis.push((pivot, v, comb));
             }
         }
     }
     None
-}
-
-fn xor_into_slice(a: &mut [u64], b: &[u64]) {
-    for (x, y) in a.iter_mut().zip(b) {
-        *x ^= y;
-    }
 }
 
 impl<const W: usize> Walker<W> {

@@ -474,8 +474,7 @@ pub fn walk(
 /// Walk until `max(budget, 2N)` attempted moves in a row bring no new lowest rank, N the
 /// moves it took to reach that rank (a walk that keeps going down is not cut short: from a
 /// high start it descends to where it stalls, instead of handing a half-way scheme back to
-/// a pool that restarts from higher up). `event` sees
-/// each new lowest rank and, at or
+/// a pool that restarts from higher up). `event` sees each new lowest rank and, at or
 /// below `target`, a candidate every `retry_every` moves; the walk ends when it returns
 /// true for a candidate (returned) or for a `Moves` report (stop). After `plateau` moves
 /// without a new lowest rank the walk makes a plus transition, or returns to its best
@@ -498,7 +497,7 @@ pub fn walk_state<Wk: WalkState>(
     let mut unreported = 0u64;
     let mut moves = 0u64;
     let mut best_at = 0u64;
-    // a walk that needed N moves to reach its lowest rank gets at least N more: descents
+    // a walk that needed N moves to reach its lowest rank gets at least 2N more: descents
     // slow down as the rank falls (on <3,4,5> over GF(2) the gaps between new lowest ranks
     // grow past 1e8 moves), so a fixed budget would cut the deep walks short
     while moves - best_at < budget.max(2 * best_at) {

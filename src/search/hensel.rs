@@ -20,7 +20,7 @@
 //! schemes). A candidate is screened mod M and then **verified exactly over Q** with
 //! [`crate::scheme::verify`]; only a verified scheme is returned.
 
-use super::bits::{BitScheme, words};
+use super::bits::{BitScheme, words, xor_words};
 use super::sign_lift::{SignLiftParams, lift_signs};
 use crate::scalar::{FieldSpec, Q, rational_reconstruct};
 use crate::scheme::{Scheme, verify};
@@ -295,12 +295,8 @@ impl Kernel {
             let (pj, pt) = (rows[r].clone(), trans[r].clone());
             for i in 0..m {
                 if i != r && rows[i][w] & b != 0 {
-                    for (x, y) in rows[i].iter_mut().zip(&pj) {
-                        *x ^= y;
-                    }
-                    for (x, y) in trans[i].iter_mut().zip(&pt) {
-                        *x ^= y;
-                    }
+                    xor_words(&mut rows[i], &pj);
+                    xor_words(&mut trans[i], &pt);
                 }
             }
             pivots.push(c);

@@ -142,7 +142,7 @@ pub struct Params {
     /// Execute only runs numbered at least this (to resume: the checkpoint's `next_run`).
     pub first_run: u64,
     /// A walk (one run) ends after this many moves in a row without a new lowest rank, or
-    /// as many as it took to reach that rank if more.
+    /// twice as many as it took to reach that rank if more.
     pub walk_budget: u64,
     /// The prime of the walks of a search over Q (2: bit-packed GF(2); an odd prime below
     /// 65536: walks over GF(p), lifted p-adically, for schemes with even denominators).

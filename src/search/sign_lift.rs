@@ -300,8 +300,8 @@ mod tests {
     use super::*;
 
     /// Every stored scheme over Q with coefficients in {-1, 0, 1} (Strassen 1969 for
-    /// <2,2,2>, and the schemes bilin found), reduced mod 2, lifts back by signs; the scheme it gives
-    /// has coefficients in {-1, 0, 1} and verifies.
+    /// <2,2,2>, and the schemes bilin found), reduced mod 2, lifts back by signs; the
+    /// scheme it gives has coefficients in {-1, 0, 1} and verifies.
     #[test]
     fn unit_schemes_reduced_mod_2_lift_by_signs() {
         let unit = |x: &Q| x.is_zero() || x.numer().magnitude() == x.denom().magnitude();
