@@ -270,6 +270,20 @@ impl<const W: usize> CyclicWalker<W> {
                 continue;
             }
             let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
+            // branch-free pass first (vectorises): slot i itself is the only slot sharing
+            // two factors with it in the common case
+            let (f0, f1, f2) = (&self.f[0], &self.f[1], &self.f[2]);
+            let hits = f0
+                .iter()
+                .zip(f1)
+                .zip(f2)
+                .map(|((x, y), z)| {
+                    ((*x == a) as u32 + (*y == b) as u32 + (*z == c) as u32 >= 2) as u32
+                })
+                .sum::<u32>();
+            if hits < 2 {
+                continue;
+            }
             let partner = (0..self.slots()).find_map(|u| {
                 if u / 3 == o {
                     return None;
@@ -309,11 +323,10 @@ impl<const W: usize> CyclicWalker<W> {
         let key = self.f[x][s];
         let os = s / 3;
         let col = &self.f[x];
-        let cnt = col
-            .iter()
-            .enumerate()
-            .filter(|&(i, v)| *v == key && i / 3 != os)
-            .count();
+        // slots with this factor, less those of the orbit of s (a branch-free count)
+        let all = col.iter().map(|v| (*v == key) as usize).sum::<usize>();
+        let own = (0..3).filter(|k| col[3 * os + k] == key).count();
+        let cnt = all - own;
         if cnt == 0 {
             return false;
         }

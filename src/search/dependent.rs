@@ -14,7 +14,7 @@
 //! of axes are linearly independent (no further reduction of this kind applies).
 
 use super::bits::{bits_of, words, xor_words};
-use super::flip::{Walker, xor_into};
+use super::flip::Walker;
 
 /// The rank-one product `v (x) w` of two masks as a mask of `dy * dz` bits, bit
 /// `i * dz + j` for bits i of v and j of w. Cost: O(|v| |w|) bit sets.
@@ -98,7 +98,7 @@ impl<const W: usize> Walker<W> {
     fn absorb(&mut self, x: usize, k: usize, into: &[usize]) {
         let uk = *self.factor_mask(x, k);
         for &t in into {
-            xor_into(self.factor_mask_mut(x, t), &uk);
+            self.add_to_factor(x, t, &uk);
         }
         self.remove_and_settle(k, into);
     }

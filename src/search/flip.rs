@@ -6,7 +6,11 @@
 //! ([`Walker<W>`], W = 1, 2 or 4: axes up to 64, 128 or 256 basis vectors; see
 //! [`super::bits`]). The three axes are separate contiguous arrays; for the ranks of
 //! interest (up to a few hundred terms) a linear scan of one array finds every term
-//! sharing a factor faster than a hash index can be kept up to date.
+//! sharing a factor faster than a hash index can be kept up to date. Beside each factor
+//! the walker keeps its *partner count*, the number of other terms with the same factor on
+//! that axis, updated by one scan of the axis whenever a factor changes: a flip attempt on
+//! a term without a partner (most attempts at low rank) is then rejected in O(1), and a
+//! term with fewer than two axes with partners cannot share two factors with another.
 //!
 //! Moves (each preserves `sum_t u_t (x) v_t (x) w_t`):
 //! - flip: two terms sharing the factor on axis x, `(a, b, c) + (a, b', c')` becomes
@@ -20,8 +24,8 @@
 //! [`walk_state`] drives any [`WalkState`] (this walker, the GF(p) walker of
 //! [`super::flip_p`], the symmetric walker of [`super::cyclic`]) with plateau handling.
 //!
-//! Invariant: after every public method returns, no term has a zero factor and no two
-//! terms share two factors.
+//! Invariant: after every public method returns, no term has a zero factor, no two terms
+//! share two factors, and every partner count is exact.
 
 pub use super::bits::{BitScheme, bits_of, tensor_bits};
 use super::bits::{check_dims, words};
@@ -124,6 +128,8 @@ macro_rules! with_words {
 pub struct Walker<const W: usize> {
     dims: [usize; 3],
     f: [Vec<Mask<W>>; 3],
+    /// `partners[a][t]`: the number of terms u != t with `f[a][u] == f[a][t]`.
+    partners: [Vec<u32>; 3],
     rng: FastRng,
     work: Vec<usize>,
 }
@@ -139,6 +145,7 @@ impl<const W: usize> Walker<W> {
         let mut w = Walker {
             dims: start.dims,
             f: [Vec::new(), Vec::new(), Vec::new()],
+            partners: [Vec::new(), Vec::new(), Vec::new()],
             rng: FastRng::new(seed),
             work: Vec::new(),
         };
@@ -150,6 +157,11 @@ impl<const W: usize> Walker<W> {
     pub fn load(&mut self, s: &BitScheme) {
         for a in 0..3 {
             self.f[a] = s.terms.iter().map(|t| widen(&t[a])).collect();
+            let col = &self.f[a];
+            self.partners[a] = col
+                .iter()
+                .map(|v| col.iter().filter(|u| *u == v).count() as u32 - 1)
+                .collect();
         }
         self.work.clear();
         self.work.extend(0..self.f[0].len());
@@ -170,8 +182,43 @@ impl<const W: usize> Walker<W> {
         &self.f[a][t]
     }
 
-    pub(crate) fn factor_mask_mut(&mut self, a: usize, t: usize) -> &mut Mask<W> {
-        &mut self.f[a][t]
+    /// Add `m` to the factor of term t on axis a (no reduction is applied).
+    pub(crate) fn add_to_factor(&mut self, a: usize, t: usize, m: &Mask<W>) {
+        let mut v = self.f[a][t];
+        xor_into(&mut v, m);
+        self.set_factor(a, t, v);
+    }
+
+    /// Set the factor of term t on axis a to `v`, keeping the partner counts exact.
+    /// Cost: one scan of the axis.
+    #[inline]
+    fn set_factor(&mut self, a: usize, t: usize, v: Mask<W>) {
+        let old = self.f[a][t];
+        if old == v {
+            return;
+        }
+        let mut n = 0u32;
+        for (u, c) in self.f[a].iter().zip(self.partners[a].iter_mut()) {
+            let gain = (*u == v) as u32;
+            n += gain;
+            *c = c.wrapping_add(gain).wrapping_sub((*u == old) as u32);
+        }
+        self.f[a][t] = v;
+        self.partners[a][t] = n;
+    }
+
+    /// Append a term, keeping the partner counts exact. Cost: one scan of each axis.
+    fn push_term(&mut self, term: [Mask<W>; 3]) {
+        for (a, v) in term.into_iter().enumerate() {
+            let mut n = 0u32;
+            for (u, c) in self.f[a].iter().zip(self.partners[a].iter_mut()) {
+                let gain = (*u == v) as u32;
+                n += gain;
+                *c += gain;
+            }
+            self.f[a].push(v);
+            self.partners[a].push(n);
+        }
     }
 
     /// Drop term k, then apply the plain reductions to the terms `touched` (indices before
@@ -204,7 +251,12 @@ impl<const W: usize> Walker<W> {
     fn remove(&mut self, i: usize) {
         let last = self.rank() - 1;
         for a in 0..3 {
+            let v = self.f[a][i];
+            for (u, c) in self.f[a].iter().zip(self.partners[a].iter_mut()) {
+                *c = c.wrapping_sub((*u == v) as u32);
+            }
             self.f[a].swap_remove(i);
+            self.partners[a].swap_remove(i);
         }
         for w in self.work.iter_mut() {
             if *w == i {
@@ -223,6 +275,10 @@ impl<const W: usize> Walker<W> {
             }
             if (0..3).any(|a| is_zero(&self.f[a][i])) {
                 self.remove(i);
+                continue;
+            }
+            // a term sharing two factors with another has partners on two axes
+            if (0..3).filter(|&a| self.partners[a][i] > 0).count() < 2 {
                 continue;
             }
             let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
@@ -261,7 +317,7 @@ impl<const W: usize> Walker<W> {
                 }
                 Some(m) => {
                     let fi = self.f[m][i];
-                    xor_into(&mut self.f[m][u], &fi);
+                    self.add_to_factor(m, u, &fi);
                     let last = self.rank() - 1;
                     self.remove(i);
                     let u2 = if u == last { i } else { u };
@@ -273,7 +329,7 @@ impl<const W: usize> Walker<W> {
 
     /// Attempt one random flip: pick a term and an axis, and a random partner sharing that
     /// factor. Returns false when the chosen term has no partner on that axis.
-    /// Cost: O(r W) word comparisons.
+    /// Cost: O(1) when it has none, else O(r W) word comparisons.
     #[inline]
     pub fn flip(&mut self) -> bool {
         let r = self.rank();
@@ -282,12 +338,12 @@ impl<const W: usize> Walker<W> {
         }
         let s = self.rng.below(r);
         let x = self.rng.below(3);
-        let key = self.f[x][s];
-        let col = &self.f[x];
-        let cnt = col.iter().filter(|&v| *v == key).count() - 1;
+        let cnt = self.partners[x][s] as usize;
         if cnt == 0 {
             return false;
         }
+        let key = self.f[x][s];
+        let col = &self.f[x];
         let mut k = self.rng.below(cnt);
         let mut t = usize::MAX;
         for (i, v) in col.iter().enumerate() {
@@ -301,9 +357,9 @@ impl<const W: usize> Walker<W> {
         }
         let (y, z) = self.rng.other_axes(x);
         let ty = self.f[y][t];
-        xor_into(&mut self.f[y][s], &ty);
+        self.add_to_factor(y, s, &ty);
         let sz = self.f[z][s];
-        xor_into(&mut self.f[z][t], &sz);
+        self.add_to_factor(z, t, &sz);
         self.work.push(s);
         self.work.push(t);
         self.settle();
@@ -330,12 +386,10 @@ impl<const W: usize> Walker<W> {
         xor_into(&mut new[y], &self.f[y][t]);
         new[z] = self.f[z][s];
         let at = self.f[x][t];
-        xor_into(&mut self.f[x][s], &at);
+        self.add_to_factor(x, s, &at);
         let cs = self.f[z][s];
-        xor_into(&mut self.f[z][t], &cs);
-        for (a, v) in new.iter().enumerate() {
-            self.f[a].push(*v);
-        }
+        self.add_to_factor(z, t, &cs);
+        self.push_term(new);
         self.work.extend([s, t, r]);
         self.settle();
         true
@@ -567,9 +621,26 @@ mod tests {
             }
             if step % 1000 == 0 {
                 assert_eq!(w.scheme().evaluate(), want);
+                assert_partners_exact(&w);
             }
         }
         assert_eq!(w.scheme().evaluate(), want);
+        assert_partners_exact(&w);
+        // the reductions by dependent products keep the counts too
+        w.reduce_products();
+        assert_partners_exact(&w);
+    }
+
+    /// Every partner count equals a recount from scratch.
+    fn assert_partners_exact<const W: usize>(w: &Walker<W>) {
+        for a in 0..3 {
+            for t in 0..w.rank() {
+                let n = (0..w.rank())
+                    .filter(|&u| u != t && w.f[a][u] == w.f[a][t])
+                    .count();
+                assert_eq!(w.partners[a][t] as usize, n, "axis {a}, term {t}");
+            }
+        }
     }
 
     #[test]
