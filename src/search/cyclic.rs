@@ -19,7 +19,9 @@
 //! has a zero factor, and `rank` is the rank of the expanded scheme.
 
 use super::bits::{BitScheme, bit, words};
-use super::flip::{FastRng, Mask, Snapshot, WalkState, is_zero, widen, xor_into};
+use super::flip::{
+    FastRng, Mask, Snapshot, WalkState, count_sharing_two, is_zero, widen, xor_into,
+};
 use crate::error::{Error, Result};
 
 /// A cyclic-invariant scheme over GF(2): orbit representatives of <n,n,n>.
@@ -270,18 +272,8 @@ impl<const W: usize> CyclicWalker<W> {
                 continue;
             }
             let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
-            // branch-free pass first (vectorises): slot i itself is the only slot sharing
-            // two factors with it in the common case
-            let (f0, f1, f2) = (&self.f[0], &self.f[1], &self.f[2]);
-            let hits = f0
-                .iter()
-                .zip(f1)
-                .zip(f2)
-                .map(|((x, y), z)| {
-                    ((*x == a) as u32 + (*y == b) as u32 + (*z == c) as u32 >= 2) as u32
-                })
-                .sum::<u32>();
-            if hits < 2 {
+            // slot i itself is the only slot sharing two factors with it in the common case
+            if count_sharing_two(&self.f, &[a, b, c]) < 2 {
                 continue;
             }
             let partner = (0..self.slots()).find_map(|u| {

@@ -91,6 +91,20 @@ pub(crate) fn widen<const W: usize>(m: &[u64]) -> Mask<W> {
     out
 }
 
+/// The number of terms of `f` (factors by axis) that share at least two factors with
+/// `term` (`term` itself included when it is one of them). A branch-free pass that
+/// vectorises: the reductions run it first, since most terms share two factors with none.
+/// Cost: O(r W).
+#[inline]
+pub(crate) fn count_sharing_two<const W: usize>(f: &[Vec<Mask<W>>; 3], term: &[Mask<W>; 3]) -> u32 {
+    let [a, b, c] = term;
+    f[0].iter()
+        .zip(&f[1])
+        .zip(&f[2])
+        .map(|((x, y), z)| ((x == a) as u32 + (y == b) as u32 + (z == c) as u32 >= 2) as u32)
+        .sum()
+}
+
 /// The words of a walker for a shape: 1, 2 or 4 (the widest axis decides).
 pub fn walker_words(dims: [usize; 3]) -> Result<usize> {
     check_dims(dims)?;
@@ -282,17 +296,7 @@ impl<const W: usize> Walker<W> {
                 continue;
             }
             let (a, b, c) = (self.f[0][i], self.f[1][i], self.f[2][i]);
-            // branch-free pass first (vectorises): does any other term share two factors?
-            let (f0, f1, f2) = (&self.f[0], &self.f[1], &self.f[2]);
-            let hits = f0
-                .iter()
-                .zip(f1)
-                .zip(f2)
-                .map(|((x, y), z)| {
-                    ((*x == a) as u32 + (*y == b) as u32 + (*z == c) as u32 >= 2) as u32
-                })
-                .sum::<u32>();
-            if hits < 2 {
+            if count_sharing_two(&self.f, &[a, b, c]) < 2 {
                 continue; // only term i itself
             }
             let mut partner = None;
