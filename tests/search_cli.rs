@@ -152,3 +152,49 @@ fn search_over_the_integers() {
         assert!(err.contains("--ring"), "{err}");
     }
 }
+
+/// A scheme over GF(2) given to a search over Q is where the walks start, its lift tried
+/// first: Karatsuba's three products (Karatsuba and Ofman 1962) found over GF(2) in the text
+/// form lift back to Q at once; walks over GF(3) cannot start from it (exit 2).
+#[test]
+fn search_over_q_starts_from_a_scheme_over_gf2() {
+    let dir = std::env::temp_dir().join(format!("bilin-search-walk-from-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let gf2 = dir.join("k2.txt");
+    let gf2_s = gf2.to_str().unwrap();
+    let (code, _, err) = bilin(&[
+        "search",
+        "poly:2,2",
+        "--field",
+        "GF(2)",
+        "--rank",
+        "3",
+        "--threads",
+        "1",
+        "--out",
+        gf2_s,
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(std::fs::read_to_string(&gf2).unwrap().contains("GF(2)"));
+    let (code, stdout, err) = bilin(&[
+        "search",
+        "poly:2,2",
+        "--resume",
+        gf2_s,
+        "--rank",
+        "3",
+        "--threads",
+        "1",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        err.contains("holds over GF(2), not over Q: the walks start from it"),
+        "{err}"
+    );
+    assert!(stdout.contains("\"rank\":3"), "{stdout}");
+    let (code, _, err) = bilin(&[
+        "search", "poly:2,2", "--resume", gf2_s, "--rank", "3", "--prime", "3",
+    ]);
+    assert_eq!(code, 2, "{err}");
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -11,13 +11,17 @@
 
 use super::common::{note, report_error, usage_error};
 use super::outputs::OutputFiles;
+use super::scheme_io::read_scheme_file;
 use super::{EXIT_FALSE, EXIT_OK, EXIT_USAGE};
+use bilin::error::Error;
 use bilin::input::read_text_file;
 use bilin::interval::plan::{Plan, known_interval, method_name, plan_search};
+use bilin::scalar::FieldSpec;
 use bilin::search::flip::FlipParams;
 use bilin::search::json::{Checkpoint, Saved, parse_saved};
 use bilin::search::pool::PoolParams;
 use bilin::search::{Method, Params, Progress, Symmetry, WalkStart, search_scheme};
+use bilin::tensor::Tensor;
 use clap::Args;
 use std::io::IsTerminal;
 use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
@@ -88,7 +92,9 @@ pub struct SearchArgs {
     /// default: standard output (JSON). An existing better result in the file is kept.
     #[arg(long)]
     pub out: Option<String>,
-    /// Resume from a checkpoint (its seed, shard and progress) or start from a scheme file.
+    /// Resume from a checkpoint (its seed, shard and progress) or start from a scheme (a
+    /// file in the JSON or text form, or a stored scheme's name); a scheme over GF(p) of a
+    /// tensor over Q is where the walks start (over GF(p)), its lift tried first.
     #[arg(long)]
     pub resume: Option<String>,
     /// Checkpoint file (default: OUT.checkpoint.json when --out is a file).
@@ -203,6 +209,29 @@ fn finish_known(
         scheme.rank(),
     ));
     EXIT_OK
+}
+
+/// The file given to --resume: a checkpoint or a scheme in the JSON form; else a scheme in
+/// the text form or the name of a stored scheme, read against the tensor or, when that
+/// fails, against the tensor reduced modulo the walk prime (a scheme to walk from).
+fn read_resumed(path: &str, t: &Tensor, prime: u64) -> Result<Saved, Error> {
+    let exists = std::path::Path::new(path).exists();
+    if exists {
+        let text = read_text_file(path)?;
+        if text.trim_start().starts_with('{') {
+            return parse_saved(&text, path);
+        }
+    }
+    match read_scheme_file(path, t) {
+        Ok((s, ..)) => Ok(Saved::Scheme(s)),
+        Err(e) if t.field() == FieldSpec::Rational => t
+            .with_field(FieldSpec::Prime(prime))
+            .ok()
+            .and_then(|tp| read_scheme_file(path, &tp).ok())
+            .map(|(s, ..)| Saved::Scheme(s))
+            .ok_or(e),
+        Err(e) => Err(e),
+    }
 }
 
 /// Seed, shard and first run: from the checkpoint when resuming one (a conflicting
@@ -321,7 +350,7 @@ pub fn run(a: SearchArgs) -> i32 {
     }
     let resumed = match &a.resume {
         None => None,
-        Some(path) => match read_text_file(path).and_then(|s| parse_saved(&s, path)) {
+        Some(path) => match read_resumed(path, &t, a.prime.unwrap_or(2)) {
             Ok(c) => Some(c),
             Err(e) => return report_error(&e),
         },
@@ -330,6 +359,37 @@ pub fn run(a: SearchArgs) -> i32 {
         Ok(x) => x,
         Err(e) => return usage_error("--resume", e),
     };
+    // a scheme over another field (GF(p) for a tensor over Q): the walks start from it
+    let walk_from = resumed
+        .as_ref()
+        .and_then(Saved::best)
+        .filter(|s| s.field != t.field())
+        .cloned();
+    let walk_prime = match (walk_from.as_ref().map(|s| s.field), a.prime) {
+        (Some(FieldSpec::Prime(p)), Some(q)) if p != q => {
+            return usage_error(
+                "--prime",
+                format!(
+                    "the resumed scheme is over GF({p}): walks over GF({q}) cannot start from it"
+                ),
+            );
+        }
+        (Some(FieldSpec::Prime(p)), _) => p,
+        (_, q) => q.unwrap_or(2),
+    };
+    if let Some(w) = &walk_from {
+        note(format!(
+            "the resumed scheme (rank {}) holds over {}, not over {}: the walks start from it{}",
+            w.rank(),
+            w.field.name(),
+            t.field().name(),
+            if t.field() == FieldSpec::Rational {
+                ", and its lift to Q is tried first"
+            } else {
+                ""
+            }
+        ));
+    }
     let files = match OutputFiles::open(
         a.out.as_deref(),
         a.checkpoint.as_deref(),
@@ -350,9 +410,10 @@ pub fn run(a: SearchArgs) -> i32 {
         field: None,
         shard,
         first_run,
-        walk_prime: a.prime.unwrap_or(2),
+        walk_prime,
         symmetry,
         walk_start,
+        walk_from,
         integral,
         walk_budget: a.walk_moves.unwrap_or(defaults.walk_budget),
         pool: PoolParams {
@@ -435,6 +496,7 @@ pub fn run(a: SearchArgs) -> i32 {
     // what is known first: the resumed scheme counts among the verified upper bounds
     let given: Vec<(String, bilin::scheme::Scheme)> = resumed
         .and_then(Saved::into_best)
+        .filter(|s| s.field == t.field())
         .map(|s| ("the resumed scheme".to_string(), s))
         .into_iter()
         .collect();

@@ -151,6 +151,11 @@ pub struct Params {
     pub symmetry: Symmetry,
     /// Where the walks start.
     pub walk_start: WalkStart,
+    /// A scheme of the tensor reduced modulo the walk prime (over GF(p), e.g. the result of
+    /// an earlier search with `field: GF(p)`) from which the walks start whatever
+    /// `walk_start` says, when it is below the standard rank; a search over Q first tries
+    /// its lift. It must verify against the tensor over GF(p).
+    pub walk_from: Option<Scheme>,
     pub pool: PoolParams,
     /// Plateau handling of the walks when `flip_mix` is empty.
     pub flip: FlipParams,
@@ -187,6 +192,7 @@ impl Default for Params {
             walk_prime: 2,
             symmetry: Symmetry::None,
             walk_start: WalkStart::Standard,
+            walk_from: None,
             pool: PoolParams::default(),
             flip: FlipParams::default(),
             flip_mix: FlipParams::mix(),
@@ -319,9 +325,13 @@ pub fn search_scheme(
         s => s,
     }
     .filter(|s| !params.integral || hensel::is_integral(s));
+    let walk_from = match &params.walk_from {
+        None => None,
+        Some(s) => Some(check_walk_from(s, &goal, params.walk_prime)?),
+    };
     let starts = match params.walk_start {
-        WalkStart::Best => [start.as_ref(), walk_start.as_ref()],
-        WalkStart::Standard => [None, None],
+        WalkStart::Best => [walk_from.as_ref(), start.as_ref(), walk_start.as_ref()],
+        WalkStart::Standard => [walk_from.as_ref(), None, None],
     };
     let target = params.target_rank.unwrap_or(0);
     // rank 0: only the zero tensor, decided at once
@@ -368,6 +378,19 @@ pub fn search_scheme(
         },
         ..params.clone()
     };
+    // the given walk start is a result itself over its field, and over Q when it lifts
+    if let Some(w) = &walk_from
+        && w.rank() < shared.best_rank.load(Ordering::SeqCst)
+    {
+        let result = if goal.field() == w.field {
+            Some(w.clone())
+        } else {
+            hensel::lift_scheme(w, &goal, &params.hensel)
+        };
+        if let Some(r) = result {
+            shared.offer(r, target);
+        }
+    }
     let t0 = Instant::now();
     let halted = || halt.reached();
     let numeric_run = |fit: Fit, seed: u64, turn: u64| {
@@ -482,6 +505,26 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
         .collect();
     let built = crate::scheme::build::build_matmul(f, goal.field(), &bases).ok()?;
     (built.scheme.rank() < f[0] * f[1] * f[2]).then_some(built.scheme)
+}
+
+/// The walk start `s` over the walk field (GF(`walk_prime`) for a goal over Q, else the
+/// goal's field), checked exactly against the goal over that field.
+/// Cost: one verification, O(r d0 d1 d2) at most.
+fn check_walk_from(s: &Scheme, goal: &Tensor, walk_prime: u64) -> Result<Scheme> {
+    let wf = match goal.field() {
+        FieldSpec::Rational => FieldSpec::Prime(walk_prime),
+        f => f,
+    };
+    let bad = |why: String| Error::Invalid(format!("the walk start: {why}"));
+    let s = s.with_field(wf).map_err(|e| bad(e.to_string()))?;
+    let g = goal.with_field(wf).map_err(bad)?;
+    verify(&s, &g).map_err(|m| {
+        bad(format!(
+            "it does not verify over {wf}: {} coefficients differ, the first at {:?}",
+            m.count, m.index
+        ))
+    })?;
+    Ok(s)
 }
 
 fn walk_plan<'a, S: Snapshot>(goal: &'a Tensor, start: S, params: &'a Params) -> WalkPlan<'a, S> {

@@ -366,3 +366,47 @@ fn integer_schemes_from_the_schoolbook_scheme() {
     let stop = Arc::new(AtomicBool::new(false));
     assert!(search_scheme(&t, &p, &stop, None, &|_| {}).is_err());
 }
+
+/// A scheme over GF(2) handed to a search over Q as the walk start: Strassen's rank-7
+/// scheme of <2,2,2> (Strassen 1969, "Gaussian elimination is not optimal") reduced mod 2
+/// lifts back at once; Laderman's rank-23 scheme of <3,3,3> (Laderman 1976) reduced mod 2
+/// is the result of a search over GF(2) that starts there, and the walks never go above
+/// it; a walk start that does not verify mod 2 is refused.
+#[test]
+fn walks_start_from_a_given_scheme_over_gf2() {
+    let gf2 = FieldSpec::Prime(2);
+    let t = matmul(2, 2, 2);
+    let strassen = known_start(&t, None, false).expect("stored");
+    let mut p = params(Method::Flip, 7, 1);
+    p.known_start = false;
+    p.walk_from = Some(strassen.with_field(gf2).unwrap());
+    let o = run(&t, &p);
+    let s = o.best.expect("lifted");
+    assert!(o.reached && s.rank() == 7 && o.moves == 0);
+    assert_eq!(s.field, FieldSpec::Rational);
+    assert!(verify(&s, &t).is_ok());
+
+    let t = matmul(3, 3, 3);
+    let laderman = known_start(&t, None, false).expect("stored");
+    assert_eq!(laderman.rank(), 23);
+    let mut p = params(Method::Flip, 19, 1);
+    p.known_start = false;
+    p.field = Some(gf2);
+    p.walk_from = Some(laderman.with_field(gf2).unwrap());
+    p.time_limit = Some(Duration::from_millis(300));
+    let o = run(&t, &p);
+    let s = o.best.expect("the start");
+    assert!(s.rank() <= 23 && s.field == gf2);
+    assert!(verify(&s, &t.with_field(gf2).unwrap()).is_ok());
+    assert!(o.walk_rank.is_none_or(|r| r <= 23));
+
+    let mut broken = strassen.with_field(gf2).unwrap();
+    broken.u.pop();
+    broken.v.pop();
+    broken.w.pop();
+    let mut p = params(Method::Flip, 6, 1);
+    p.walk_from = Some(broken);
+    let stop = Arc::new(AtomicBool::new(false));
+    let e = search_scheme(&matmul(2, 2, 2), &p, &stop, None, &|_| {}).unwrap_err();
+    assert!(e.to_string().contains("walk start"), "{e}");
+}
