@@ -32,7 +32,7 @@ use super::sandwich::{apply_move, elementary_moves};
 use super::symmetry::{apply_diagonal, diagonal_symmetries, discrete_forms};
 use super::terms::rescale_term;
 pub use super::terms::{count_nonunit, rescale, simplify};
-use super::{Scheme, red, verify};
+use super::{Scheme, verify};
 use crate::error::Error;
 use crate::scalar::{FieldSpec, Q};
 use crate::tensor::Tensor;
@@ -99,7 +99,10 @@ fn scalings(s: &Scheme) -> Vec<Q> {
     let f = s.field;
     let mut out: Vec<Q> = Vec::new();
     let add = |out: &mut Vec<Q>, x: Q| {
-        let x = red(f, x);
+        // 1/2 has no value over GF(2): such a scaling is no candidate
+        let Ok(x) = super::reduce_into(f, &x) else {
+            return;
+        };
         if !x.is_zero() && !x.is_one() && !out.contains(&x) {
             out.push(x);
         }
@@ -368,12 +371,14 @@ mod tests {
         let p = polish(&s, &t, &params).unwrap();
         assert_eq!(p.scheme.rank(), 8);
         assert_eq!(count_nonunit(&p.scheme), 0);
-        // GF(p) too
-        let t7 = t.with_field(FieldSpec::Prime(7)).unwrap();
-        let s7 = s.with_field(FieldSpec::Prime(7)).unwrap();
-        let p7 = polish(&s7, &t7, &params).unwrap();
-        assert_eq!(p7.scheme.rank(), 8);
-        assert_eq!(count_nonunit(&p7.scheme), 0);
+        // GF(p) too, and GF(2) and GF(3), where 1/2 or 1/3 has no value
+        for p in [7, 2, 3] {
+            let tp = t.with_field(FieldSpec::Prime(p)).unwrap();
+            let sp = s.with_field(FieldSpec::Prime(p)).unwrap();
+            let pp = polish(&sp, &tp, &params).unwrap();
+            assert_eq!(pp.scheme.rank(), 8);
+            assert_eq!(count_nonunit(&pp.scheme), 0);
+        }
     }
 
     #[test]
