@@ -129,6 +129,8 @@ pub(super) enum Kernel {
         trans: Vec<Vec<u64>>,
         rows: Vec<Vec<u64>>,
         pivots: Vec<usize>,
+        /// The unknown of each column of the elimination (`None`: column c is unknown c).
+        unknowns: Option<Vec<usize>>,
     },
     /// GF(p): the recorded row operations of a Gauss-Jordan elimination of J; `pivots`
     /// pairs a pivot row (an equation) with its column (an unknown).
@@ -185,8 +187,8 @@ pub(super) fn jacobian(
 }
 
 impl Kernel {
-    /// Eliminate `jac` (n unknowns); over GF(p) the pivot columns are taken in the order
-    /// `order` (every unknown once).
+    /// Eliminate `jac` (n unknowns), the pivot columns taken in the order `order` (every
+    /// unknown once; over GF(2) the columns are renumbered by it).
     fn new(
         jac: Vec<Vec<(usize, u64)>>,
         n: usize,
@@ -196,7 +198,21 @@ impl Kernel {
     ) -> Option<Kernel> {
         let m = jac.len();
         if p == 2 {
-            return Self::bits(jac, n, &params.halt);
+            // the elimination takes its pivots in column order: columns renumbered by
+            // `order`, and the unknown of each column remembered for the solutions
+            let mut column = vec![0usize; n];
+            for (c, &u) in order.iter().enumerate() {
+                column[u] = c;
+            }
+            let jac = jac
+                .into_iter()
+                .map(|r| r.into_iter().map(|(u, v)| (column[u], v)).collect())
+                .collect();
+            let mut k = Self::bits(jac, n, &params.halt)?;
+            if let Kernel::Bits { unknowns, .. } = &mut k {
+                *unknowns = Some(order.to_vec());
+            }
+            return Some(k);
         }
         if (m as u64) * (n as u64) * (m.min(n) as u64) > params.max_work {
             return None;
@@ -307,15 +323,24 @@ impl Kernel {
             trans,
             rows,
             pivots,
+            unknowns: None,
         })
     }
 
-    /// GF(2): a basis of the solutions of `J d = 0` (n bits each), one vector per free
-    /// unknown f (1 at f and at the pivots of the rows holding f); empty over GF(p).
+    /// GF(2): a basis of the solutions of `J d = 0` (n bits each, indexed by unknown), one
+    /// vector per free column f (1 at f and at the pivots of the rows holding f); empty
+    /// over GF(p).
     pub(super) fn null_basis_bits(&self, n: usize) -> Vec<Vec<u64>> {
-        let Kernel::Bits { rows, pivots, .. } = self else {
+        let Kernel::Bits {
+            rows,
+            pivots,
+            unknowns,
+            ..
+        } = self
+        else {
             return Vec::new();
         };
+        let unknown = |c: usize| unknowns.as_ref().map_or(c, |o| o[c]);
         let mut is_pivot = vec![false; n];
         for &c in pivots {
             is_pivot[c] = true;
@@ -324,10 +349,14 @@ impl Kernel {
             .filter(|&f| !is_pivot[f])
             .map(|f| {
                 let mut v = vec![0u64; words(n)];
-                v[f / 64] |= 1 << (f % 64);
+                let mut set = |c: usize| {
+                    let u = unknown(c);
+                    v[u / 64] |= 1 << (u % 64);
+                };
+                set(f);
                 for (row, &c) in rows.iter().zip(pivots) {
                     if row[f / 64] >> (f % 64) & 1 == 1 {
-                        v[c / 64] |= 1 << (c % 64);
+                        set(c);
                     }
                 }
                 v
@@ -338,7 +367,12 @@ impl Kernel {
     /// Solve `J d = e (mod p)` (e in `0..p`); `None` if inconsistent.
     pub(super) fn solve(&self, e: &[u64], n: usize) -> Option<Vec<u64>> {
         match self {
-            Kernel::Bits { trans, pivots, .. } => {
+            Kernel::Bits {
+                trans,
+                pivots,
+                unknowns,
+                ..
+            } => {
                 let mut eb = vec![0u64; words(e.len())];
                 for (i, &v) in e.iter().enumerate() {
                     if v & 1 == 1 {
@@ -357,7 +391,8 @@ impl Kernel {
                 }
                 let mut d = vec![0u64; n];
                 for (r, &c) in pivots.iter().enumerate() {
-                    d[c] = parity(&trans[r]) as u64;
+                    let u = unknowns.as_ref().map_or(c, |o| o[c]);
+                    d[u] = parity(&trans[r]) as u64;
                 }
                 Some(d)
             }
@@ -637,6 +672,27 @@ mod tests {
         let lifted = lift_bits(&b, &t, &HenselParams::default()).expect("lift");
         assert_eq!(lifted.rank(), 7);
         assert!(verify(&lifted, &t).is_ok());
+    }
+
+    /// The rank-77 scheme of <4,5,5> over GF(2) in the catalog (found by bilin's walks)
+    /// has no lift with coefficients in {-1, 0, 1} (the sign system is inconsistent) but
+    /// lifts 2-adically; with the pivots taken on the result factors first its point is
+    /// rational (before, with the pivots in column order over GF(2), no candidate
+    /// verified). The lifted scheme reduces mod 2 to the stored one.
+    #[test]
+    #[cfg_attr(debug_assertions, ignore)]
+    fn stored_gf2_scheme_of_455_lifts_to_q() {
+        let t = crate::input::load_input("matmul:4,5,5", None).unwrap();
+        let stored = crate::catalog::find_stored("matmul455.gf2").expect("stored");
+        let gf2 = FieldSpec::Prime(2);
+        let s = crate::scheme::parse_scheme(stored.text, stored.file, &t.with_field(gf2).unwrap())
+            .unwrap();
+        assert_eq!(s.rank(), 77);
+        assert!(crate::search::sign_lift::lift_signs(&s, &t, &Default::default()).is_none());
+        let lifted = lift_scheme(&s, &t, &HenselParams::default()).expect("lift");
+        assert_eq!(lifted.field, FieldSpec::Rational);
+        assert!(verify(&lifted, &t).is_ok());
+        assert_eq!(lifted.with_field(gf2).unwrap(), s);
     }
 
     /// Scale every term of a scheme by `(a, b, 1/(a b))`: still a scheme of the tensor,

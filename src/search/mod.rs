@@ -378,6 +378,7 @@ pub fn search_scheme(
         },
         ..params.clone()
     };
+    let t0 = Instant::now();
     // the given walk start is a result itself over its field, and over Q when it lifts
     if let Some(w) = &walk_from
         && w.rank() < shared.best_rank.load(Ordering::SeqCst)
@@ -391,7 +392,6 @@ pub fn search_scheme(
             shared.offer(r, target);
         }
     }
-    let t0 = Instant::now();
     let halted = || halt.reached();
     let numeric_run = |fit: Fit, seed: u64, turn: u64| {
         let mut rng = ChaCha8Rng::seed_from_u64(seed);
