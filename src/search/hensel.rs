@@ -42,6 +42,9 @@ pub struct HenselParams {
     pub halt: super::halt::Halt,
     /// p = 2 and an integer tensor: the sign lift tried first ([`super::sign_lift`]).
     pub signs: SignLiftParams,
+    /// Only a scheme with integer coefficients is a result: a candidate with fractions is
+    /// passed over, and the lift goes on with the next order of pivots.
+    pub integral: bool,
 }
 
 impl Default for HenselParams {
@@ -51,6 +54,7 @@ impl Default for HenselParams {
             max_work: 4_000_000_000,
             halt: super::halt::Halt::default(),
             signs: SignLiftParams::default(),
+            integral: false,
         }
     }
 }
@@ -430,6 +434,8 @@ struct Brent {
     dims: [usize; 3],
     rank: usize,
     ring: Ring,
+    /// Only candidates with integer coefficients are accepted.
+    integral: bool,
     /// The tensor mod M, dense (i, j, k) order.
     target: Vec<u64>,
 }
@@ -492,7 +498,7 @@ impl Brent {
             return None;
         }
         let cand = self.to_scheme(vals);
-        verify(&cand, t).is_ok().then_some(cand)
+        ((!self.integral || is_integral(&cand)) && verify(&cand, t).is_ok()).then_some(cand)
     }
 
     /// Left and right factors reconstructed mod `n`, result factors solved exactly.
@@ -513,6 +519,7 @@ impl Brent {
             vs.push(rec(&b[d[0]..d[0] + d[1]])?);
         }
         super::numeric::scheme_from_left_right(t, us, vs)
+            .filter(|s| !self.integral || is_integral(s))
     }
 }
 
@@ -549,6 +556,7 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
         dims: d,
         rank,
         ring,
+        integral: params.integral,
         target,
     };
     // start values: symmetric representatives of the GF(p) entries
@@ -568,24 +576,55 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
             }
         }
     }
-    // pivots on the result factors first: the Brent equations are linear in them, so the
-    // left and right factors keep their small start values wherever the system allows, and
-    // the lifted point stays rational (a point lifted through the left factors is in
-    // general an algebraic p-adic number with no rational reconstruction); when no
-    // candidate of that lift verifies, the pivots in column order (per term: left, right,
-    // result), which lifts some schemes the first order does not (docs/benchmarks.md)
-    let results_first: Vec<usize> = [d[0] + d[1]..len, d[0]..d[0] + d[1], 0..d[0]]
-        .into_iter()
-        .flat_map(|axis| (0..rank).flat_map(move |tt| axis.clone().map(move |e| tt * len + e)))
-        .collect();
-    let columns: Vec<usize> = (0..n).collect();
-    for order in [results_first, columns] {
+    // the order of the pivots decides where the lift goes (the free unknowns stay at zero).
+    // Axis by axis, the factors pivoted last keep their small start values wherever the
+    // system allows, and the Brent equations are linear in each axis, so the point tends
+    // to stay rational (a point lifted through every axis at once is in general an
+    // algebraic p-adic number with no rational reconstruction). No one order lifts every
+    // scheme: the right factors, then the results, then the left lift the most; the other
+    // axis orders and the column order (per term: left, right, result) follow when no
+    // candidate verifies (docs/benchmarks.md, "Lifts from GF(2)")
+    let axes = [0..d[0], d[0]..d[0] + d[1], d[0] + d[1]..len];
+    let axis_major = |a: [usize; 3]| -> Vec<usize> {
+        a.iter()
+            .flat_map(|&k| {
+                let r = axes[k].clone();
+                (0..rank).flat_map(move |tt| r.clone().map(move |e| tt * len + e))
+            })
+            .collect()
+    };
+    let orders = [
+        [1, 2, 0],
+        [2, 1, 0],
+        [1, 0, 2],
+        [2, 0, 1],
+        [0, 2, 1],
+        [0, 1, 2],
+    ]
+    .into_iter()
+    .map(axis_major)
+    .chain(std::iter::once((0..n).collect::<Vec<usize>>()));
+    for order in orders {
         let kernel = Kernel::new(jacobian(&x0, d, rank, p), n, &order, p, params)?;
-        if let Some(s) = lift_digits(&brent, &kernel, x.clone(), t, params) {
-            return Some(s);
+        match lift_digits(&brent, &kernel, x.clone(), t, params) {
+            Digits::Lifted(s) => return Some(s),
+            Digits::NoCandidate => {}
+            // the first digit's system does not depend on the order: no lift at all
+            Digits::NoLift => return None,
         }
     }
     None
+}
+
+/// How the digits of one lift ended.
+enum Digits {
+    /// A candidate verified.
+    Lifted(Scheme),
+    /// Every digit solved, or a later digit inconsistent, and no candidate verified.
+    NoCandidate,
+    /// The first digit's system `J d = e (mod p)` is inconsistent (or the lift was halted):
+    /// the scheme has no lift, whatever the order of the pivots.
+    NoLift,
 }
 
 /// The digits of a lift: from `x`, a solution of the Brent system mod p, Newton steps
@@ -598,12 +637,12 @@ fn lift_digits(
     mut x: Vec<u64>,
     t: &Tensor,
     params: &HenselParams,
-) -> Option<Scheme> {
+) -> Digits {
     let (ring, p, n) = (brent.ring, brent.ring.p, x.len());
     let mut prec = 1u32; // x is a solution mod p^prec
     loop {
         if params.halt.reached() {
-            return None;
+            return Digits::NoLift;
         }
         let res = brent.residual(&x);
         let exact = res.iter().all(|&v| v == 0);
@@ -615,7 +654,7 @@ fn lift_digits(
                 .map(|&v| Q::from_integer(BigInt::from(symmetric(v, modulus))))
                 .collect();
             if let Some(s) = brent.accept(vals, t) {
-                return Some(s);
+                return Digits::Lifted(s);
             }
         }
         let last = exact || prec >= ring.digits;
@@ -624,15 +663,24 @@ fn lift_digits(
             && let Some(vals) = brent.reconstruct(&x, modulus)
             && let Some(s) = brent.accept(vals, t)
         {
-            return Some(s);
+            return Digits::Lifted(s);
         }
         if last {
             // candidate 3: left and right factors reconstructed, result factors solved
-            return brent.accept_solving_results(&x, modulus, t);
+            return match brent.accept_solving_results(&x, modulus, t) {
+                Some(s) => Digits::Lifted(s),
+                None => Digits::NoCandidate,
+            };
         }
         let pk = ring.pow(prec);
         let e: Vec<u64> = res.iter().map(|&v| (v / pk) % p).collect();
-        let dx = kernel.solve(&e, n)?;
+        let Some(dx) = kernel.solve(&e, n) else {
+            return if prec == 1 {
+                Digits::NoLift
+            } else {
+                Digits::NoCandidate
+            };
+        };
         for (xi, di) in x.iter_mut().zip(dx) {
             if di != 0 {
                 *xi = (*xi + ring.mul(di, pk)) % ring.m;
@@ -699,9 +747,9 @@ mod tests {
 
     /// The rank-77 scheme of <4,5,5> over GF(2) in the catalog (found by bilin's walks)
     /// has no lift with coefficients in {-1, 0, 1} (the sign system is inconsistent) but
-    /// lifts 2-adically; with the pivots taken on the result factors first its point is
-    /// rational (before, with the pivots in column order over GF(2), no candidate
-    /// verified). The lifted scheme reduces mod 2 to the stored one.
+    /// lifts 2-adically; with the pivots taken axis by axis its point is rational (with
+    /// the pivots in column order alone, as over GF(2) before, no candidate verified). The
+    /// lifted scheme reduces mod 2 to the stored one.
     #[test]
     #[cfg_attr(debug_assertions, ignore)]
     fn stored_gf2_scheme_of_455_lifts_to_q() {
@@ -716,6 +764,37 @@ mod tests {
         assert_eq!(lifted.field, FieldSpec::Rational);
         assert!(verify(&lifted, &t).is_ok());
         assert_eq!(lifted.with_field(gf2).unwrap(), s);
+    }
+
+    /// Over Z: the stored integer schemes of <2,2,3>, <3,3,3>, <3,3,4> and <3,4,4> (ranks
+    /// 11, 23, 29, 38: Hopcroft and Kerr 1971, Laderman 1976, Smirnov 2013), reduced mod 2,
+    /// lift back to schemes with integer coefficients when only those count.
+    #[test]
+    #[cfg_attr(debug_assertions, ignore)]
+    fn stored_integer_schemes_lift_back_to_integers() {
+        let gf2 = FieldSpec::Prime(2);
+        let params = HenselParams {
+            integral: true,
+            ..HenselParams::default()
+        };
+        for (spec, name, rank) in [
+            ("matmul:2,2,3", "matmul223.found", 11),
+            ("matmul:3,3,3", "matmul333.found", 23),
+            ("matmul:3,3,4", "matmul334.found", 29),
+            ("matmul:3,4,4", "matmul344.found", 38),
+        ] {
+            let t = crate::input::load_input(spec, None).unwrap();
+            let stored = crate::catalog::find_stored(name).expect("stored");
+            let s = crate::scheme::parse_scheme(stored.text, stored.file, &t).unwrap();
+            assert!(is_integral(&s) && s.rank() == rank, "{name}");
+            let reduced = s.with_field(gf2).unwrap();
+            let lifted = lift_scheme(&reduced, &t, &params).expect(name);
+            assert!(
+                is_integral(&lifted) && verify(&lifted, &t).is_ok(),
+                "{name}"
+            );
+            assert_eq!(lifted.with_field(gf2).unwrap(), reduced, "{name}");
+        }
     }
 
     /// Scale every term of a scheme by `(a, b, 1/(a b))`: still a scheme of the tensor,

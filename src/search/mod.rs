@@ -374,6 +374,7 @@ pub fn search_scheme(
     let params = &Params {
         hensel: hensel::HenselParams {
             halt: halt.clone(),
+            integral: params.integral || params.hensel.integral,
             ..params.hensel.clone()
         },
         ..params.clone()
