@@ -54,6 +54,7 @@ pub const STORED_SCHEMES: &[StoredScheme] = &[
     stored!("matmul334", "found"),
     stored!("matmul335", "found"),
     stored!("matmul344", "found"),
+    stored!("matmul345", "found"),
     stored!("matmul345", "gf2"),
     stored!("matmul445", "found"),
     stored!("matmul455", "found"),
