@@ -30,6 +30,7 @@ pub mod flip;
 pub mod flip_p;
 pub mod halt;
 pub mod hensel;
+pub(crate) mod hensel_step;
 pub mod json;
 pub mod lm;
 pub mod numeric;

@@ -27,7 +27,7 @@
 //! {-1, 0, 1}, the zeros exactly those of the GF(2) scheme.
 
 use super::flip::FastRng;
-use super::hensel::{Kernel, jacobian};
+use super::hensel_step::{Kernel, jacobian};
 use crate::scalar::{FieldSpec, Q};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
