@@ -438,8 +438,8 @@ mod tests {
     /// The rank-77 scheme of <4,5,5> over GF(2) in the catalog (found by bilin's walks)
     /// has no lift with coefficients in {-1, 0, 1} (the sign system is inconsistent) but
     /// lifts 2-adically; with the pivots taken axis by axis its point is rational (with
-    /// the pivots in column order alone, as over GF(2) before, no candidate verified). The
-    /// lifted scheme reduces mod 2 to the stored one.
+    /// the pivots in column order alone, as over GF(2) before, no candidate verified); over
+    /// Z it lifts to integers. The lifted schemes reduce mod 2 to the stored one.
     #[test]
     #[cfg_attr(debug_assertions, ignore)]
     fn stored_gf2_scheme_of_455_lifts_to_q() {
@@ -453,6 +453,14 @@ mod tests {
         let lifted = lift_scheme(&s, &t, &HenselParams::default()).expect("lift");
         assert_eq!(lifted.field, FieldSpec::Rational);
         assert!(verify(&lifted, &t).is_ok());
+        assert_eq!(lifted.with_field(gf2).unwrap(), s);
+        // over Z: an integer scheme, in another of the pivot orders
+        let z = HenselParams {
+            integral: true,
+            ..HenselParams::default()
+        };
+        let lifted = lift_scheme(&s, &t, &z).expect("lift to Z");
+        assert!(is_integral(&lifted) && verify(&lifted, &t).is_ok());
         assert_eq!(lifted.with_field(gf2).unwrap(), s);
     }
 
