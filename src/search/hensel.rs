@@ -287,15 +287,9 @@ pub fn lift_scheme(s: &Scheme, t: &Tensor, params: &HenselParams) -> Option<Sche
     .into_iter()
     .map(axis_major)
     .chain(std::iter::once((0..n).collect::<Vec<usize>>()));
+    let jac = jacobian(&x0, d, rank, p);
     for order in orders {
-        let kernel = Kernel::new(
-            jacobian(&x0, d, rank, p),
-            n,
-            &order,
-            p,
-            params.max_work,
-            &params.halt,
-        )?;
+        let kernel = Kernel::new(jac.clone(), n, &order, p, params.max_work, &params.halt)?;
         match lift_digits(&brent, &kernel, x.clone(), t, params) {
             Digits::Lifted(s) => return Some(s),
             Digits::NoCandidate => {}

@@ -103,21 +103,7 @@ impl Kernel {
     ) -> Option<Kernel> {
         let m = jac.len();
         if p == 2 {
-            // the elimination takes its pivots in column order: columns renumbered by
-            // `order`, and the unknown of each column remembered for the solutions
-            let mut column = vec![0usize; n];
-            for (c, &u) in order.iter().enumerate() {
-                column[u] = c;
-            }
-            let jac = jac
-                .into_iter()
-                .map(|r| r.into_iter().map(|(u, v)| (column[u], v)).collect())
-                .collect();
-            let mut k = Self::bits(jac, n, halt)?;
-            if let Kernel::Bits { unknowns, .. } = &mut k {
-                *unknowns = Some(order.to_vec());
-            }
-            return Some(k);
+            return Self::bits(jac, n, Some(order), halt);
         }
         if (m as u64) * (n as u64) * (m.min(n) as u64) > max_work {
             return None;
@@ -171,18 +157,33 @@ impl Kernel {
         Some(Kernel::Prime { p, ops, pivots })
     }
 
-    /// The GF(2) elimination of `jac` (n unknowns; entries taken mod 2), pivots in column
-    /// order; `None` once `halt` is reached. Cost: O(m n min(m, n) / 64) word operations
+    /// The GF(2) elimination of `jac` (n unknowns; entries taken mod 2), pivots in the
+    /// order `order` (every unknown once; `None`: unknown order); `None` once `halt` is
+    /// reached. Cost: O(m n min(m, n) / 64) word operations
     /// for m equations.
-    pub(crate) fn bits(jac: Vec<Vec<(usize, u64)>>, n: usize, halt: &Halt) -> Option<Kernel> {
+    pub(crate) fn bits(
+        jac: Vec<Vec<(usize, u64)>>,
+        n: usize,
+        order: Option<&[usize]>,
+        halt: &Halt,
+    ) -> Option<Kernel> {
         let m = jac.len();
         let (wn, wm) = (words(n), words(m));
+        // the elimination takes its pivots in column order: with `order`, unknown
+        // `order[c]` sits in column c, and the solutions map columns back to unknowns
+        let mut column: Vec<usize> = (0..n).collect();
+        if let Some(o) = order {
+            for (c, &u) in o.iter().enumerate() {
+                column[u] = c;
+            }
+        }
         let mut rows: Vec<Vec<u64>> = jac
             .into_iter()
             .map(|r| {
                 let mut b = vec![0u64; wn];
-                for (c, v) in r {
+                for (u, v) in r {
                     if v & 1 == 1 {
+                        let c = column[u];
                         b[c / 64] ^= 1 << (c % 64);
                     }
                 }
@@ -224,7 +225,7 @@ impl Kernel {
             trans,
             rows,
             pivots,
-            unknowns: None,
+            unknowns: order.map(<[usize]>::to_vec),
         })
     }
 

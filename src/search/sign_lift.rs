@@ -148,7 +148,7 @@ pub fn lift_signs(s: &Scheme, t: &Tensor, params: &SignLiftParams) -> Option<Sch
                 .collect()
         })
         .collect();
-    let kernel = Kernel::bits(jac, n, &super::halt::Halt::default())?;
+    let kernel = Kernel::bits(jac, n, None, &super::halt::Halt::default())?;
     let rhs: Vec<u64> = need.iter().map(|&x| (x & 1) as u64).collect();
     let particular = kernel.solve(&rhs, n)?;
     // cells whose count the parity leaves open
