@@ -446,7 +446,16 @@ fn main() {
     }
     if want("poly") {
         // Toom 1963; Cook 1966: rank m + n - 1 by evaluation and interpolation
-        for (m, n) in [(3, 4), (4, 4), (5, 5)] {
+        for (m, n) in [
+            (3, 4),
+            (4, 4),
+            (5, 5),
+            (6, 6),
+            (6, 7),
+            (7, 7),
+            (7, 8),
+            (8, 8),
+        ] {
             let name = format!("poly {m}x{n} Levenberg-Marquardt");
             case(&name, &poly(m, n), Method::Lm, m + n - 1, seeds, 2, 60.0);
         }

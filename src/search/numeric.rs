@@ -15,13 +15,18 @@
 //! conditioned re-fits), then its first significant entry (evaluation-style factors
 //! `(1, a, a^2, ...)` keep their shape). Then, repeatedly, free entries of the left and right
 //! factors are frozen at rationals and the free entries are re-fitted: first every entry
-//! within round-off of a simple rational (all at once: they are determined by the entries
-//! frozen before), else a *batch* of entries, each moved to the *simplest* rational within
-//! a radius of it (the rational of least denominator in an interval, by continued
-//! fractions, at radii from 1e-6 to `radius`; no fixed list of denominators), taken in the
-//! order: the first free entry of its factor first (the later entries are often functions
-//! of the earlier ones, such as the powers of an evaluation point), then the least
-//! denominator, then the smallest move. The batch starts at a fraction of the free entries
+//! within round-off of a simple rational, or of a simple multiple of a frozen entry of
+//! its factor (all at once: they are determined by the entries frozen before, such as the
+//! powers (-3/4)^k of a frozen evaluation point); when there is none, the fit is polished
+//! to the limit of f64 and entries within 1e-12 of a rational of denominator up to 30 000
+//! are taken too; else a *batch* of entries, each moved to a rational within a radius
+//! of it (at radii from 1e-6 to `radius`, the rational of least denominator, by continued
+//! fractions; no fixed list of denominators), taken in the order: the entries next to
+//! their factor's normalised 1 first (the others are often functions of them, such as the
+//! powers of an evaluation point), then the least cost `q^2 (1 + move / 0.05)` (a near
+//! point of small denominator over a far integer, which sends several evaluation points
+//! to one value, and over a nearer value of large denominator, whose powers run out of
+//! reach), then the smallest move. The batch starts at a fraction of the free entries
 //! (`batch`); a batch after which the fit does not return to round-off level is undone and
 //! halved (bisection, down to one freeze), an accepted one doubles the next. A single freeze
 //! that breaks the fit is banned; when every candidate is banned, the bans are lifted once
@@ -29,7 +34,9 @@
 //! end the rounding (a dead end: the freezes so far leave no rational point within reach),
 //! and the same fit is rounded again with its rows taken in another random order
 //! (`reorders` times), which costs far less than a new fit. Each re-fit stops early on a
-//! plateau and within a budget of arithmetic ([`super::lm::relax`]). When every left and
+//! plateau and within a budget of arithmetic ([`super::lm::relax`]); a fit of
+//! Levenberg-Marquardt is rounded with cautious re-fits and then with Gauss-Newton ones
+//! ([`super::lm::fast_refits`]), which a fit inside a family of schemes needs. When every left and
 //! right entry is frozen, the result factors are solved for exactly over Q (the Brent
 //! equations are linear in them) and the scheme is verified exactly.
 //!
@@ -63,6 +70,16 @@ pub struct RoundParams {
     /// are frozen there at once (they are determined by the entries frozen before).
     pub tight_denominator: i64,
     pub tight_radius: f64,
+    /// When no entry is that close, the fit is polished (re-fitted towards `polish_tol`,
+    /// where f64 leaves its entries accurate to about 1e-13) and entries within
+    /// `deep_radius` (relative) of a rational with a denominator up to `deep_denominator`
+    /// are frozen there at once: the powers of an evaluation point such as
+    /// (-3/4)^5 = -243/1024. The chance that an entry falls that close to such a rational
+    /// is about `deep_radius` times the number of them in a unit interval (0.3 q^2):
+    /// 3e-4 at the defaults.
+    pub deep_denominator: i64,
+    pub deep_radius: f64,
+    pub polish_tol: f64,
     /// Largest move of one freeze (absolute).
     pub radius: f64,
     /// Relative error accepted after a freeze (the exact check decides at the end).
@@ -93,6 +110,9 @@ impl Default for RoundParams {
         RoundParams {
             max_denominator: 64,
             tight_denominator: 1000,
+            deep_denominator: 30_000,
+            deep_radius: 1e-12,
+            polish_tol: 1e-14,
             tight_radius: 1e-8,
             radius: 0.75,
             tol: 1e-9,
@@ -150,6 +170,9 @@ impl Dense {
         }
     }
 }
+
+/// A re-fit of the free entries towards a relative error (true when reached).
+pub type Relax<'a> = dyn Fn(&Dense, &mut Factors, f64) -> bool + 'a;
 
 /// A frozen entry: the rational `p/q`.
 pub type Frozen = Option<(i64, i64)>;
@@ -281,9 +304,47 @@ pub fn simplest_rational(lo: f64, hi: f64, max_den: i64) -> Option<(i64, i64)> {
     (q <= max_den as i128 && p.abs() <= i64::MAX as i128).then_some((p as i64, q as i64))
 }
 
-/// A freeze candidate: ((free entries above it in its factor, denominator, distance),
-/// axis, entry, p/q).
-type Candidate = ((i64, usize, f64), usize, usize, (i64, i64));
+/// The rational an entry `x` of a fit is taken to equal at once: within
+/// `radius / q` (relative) of `p/q` with `q <= max_den` (a chance match is rare: about
+/// `2 radius max_den` for a random entry).
+fn tight_rational(x: f64, radius: f64, max_den: i64) -> Option<(i64, i64)> {
+    let tr = radius * x.abs().max(1.0);
+    simplest_rational(x - tr, x + tr, max_den)
+        .filter(|&(n, d)| (x - n as f64 / d as f64).abs() <= tr / d as f64)
+}
+
+/// `(a/b) (c/d)` in lowest terms, `None` past 64 bits.
+fn rational_product((a, b): (i64, i64), (c, d): (i64, i64)) -> Option<(i64, i64)> {
+    let (n, m) = (a as i128 * c as i128, b as i128 * d as i128);
+    let g = num_integer::gcd(n, m).max(1);
+    let (n, m) = (n / g * m.signum(), m.abs() / g);
+    Some((i64::try_from(n).ok()?, i64::try_from(m).ok()?))
+}
+
+/// The rational of a polished entry `x`: within `radius` (relative) of `p/q`,
+/// `q <= max_den`.
+fn deep_rational(x: f64, radius: f64, max_den: i64) -> Option<(i64, i64)> {
+    let dr = radius * x.abs().max(1.0);
+    simplest_rational(x - dr, x + dr, max_den)
+}
+
+/// A freeze candidate: ((free entries above it in its factor, cost, distance), axis,
+/// entry, p/q).
+type Candidate = ((i64, f64, f64), usize, usize, (i64, i64));
+
+/// The distance at which a move costs as much again as its denominator.
+const MOVE_SCALE: f64 = 0.05;
+
+/// The cost of freezing an entry at `p/q`, `dist` away from its fitted value:
+/// `q^2 (1 + dist / MOVE_SCALE)`. On a fit near an exact scheme of simple values it orders
+/// by denominator; on a fit inside a family of schemes (the evaluation points of a
+/// polynomial product) it prefers a near value of small denominator to a far integer,
+/// which would send several points to the same value, and to a nearer value of larger
+/// denominator, whose powers (the other entries of an evaluation factor) need
+/// denominators beyond reach: 1/2 over 5/8 for 0.627.
+fn freeze_cost(q: i64, dist: f64) -> f64 {
+    (q as f64).powi(2) * (1.0 + dist / MOVE_SCALE)
+}
 
 /// The radii at which the simplest nearby rational of an entry is taken.
 const RADII: [f64; 6] = [1e-6, 1e-4, 1e-2, 0.1, 0.3, 0.75];
@@ -296,11 +357,11 @@ pub fn round_factors(
     t: &Dense,
     mut s: Factors,
     p: &RoundParams,
-    relax: &dyn Fn(&Dense, &mut Factors) -> bool,
+    relax: &Relax,
     stop: &dyn Fn() -> bool,
 ) -> Option<Factors> {
     s.normalise(p.lead);
-    if !relax(t, &mut s) {
+    if !relax(t, &mut s, p.tol) {
         return None;
     }
     let r = s.rank();
@@ -312,12 +373,24 @@ pub fn round_factors(
         v
     };
     let rows = [rows(t.dims[0]), rows(t.dims[1])];
+    // the position (in the row order) of each term's normalised entry, per axis
+    let pivots: [Vec<Option<usize>>; 2] = std::array::from_fn(|a| {
+        (0..r)
+            .map(|x| {
+                rows[a]
+                    .iter()
+                    .position(|&i| s.frozen[a][i * r + x] == Some((1, 1)))
+            })
+            .collect()
+    });
     let mut banned: Vec<(usize, usize, (i64, i64))> = Vec::new();
     let (mut rejects, mut stuck) = (0, 0);
     // a freeze succeeded since the bans were last lifted
     let mut moved = false;
     // freezes tried together next (set from `p.batch` at the first choice)
     let mut size = usize::MAX;
+    // the fit has been polished since the last accepted freeze
+    let mut polished = false;
     loop {
         if stop() {
             return None;
@@ -326,20 +399,51 @@ pub fn round_factors(
         let mut tight = Vec::new();
         let mut free = 0usize;
         for (a, order_a) in rows.iter().enumerate() {
-            // free entries met so far in each column (term): earlier rows go first
-            let mut above = vec![0usize; r];
-            for e in order_a.iter().flat_map(|&i| (0..r).map(move |x| i * r + x)) {
+            // the positions of the free entries of each term, in the row order
+            let mut free_at = vec![Vec::new(); r];
+            for (pos, &i) in order_a.iter().enumerate() {
+                for (x, at) in free_at.iter_mut().enumerate() {
+                    if s.frozen[a][i * r + x].is_none() {
+                        at.push(pos);
+                    }
+                }
+            }
+            for (pos, e) in order_a
+                .iter()
+                .enumerate()
+                .flat_map(|(pos, &i)| (0..r).map(move |x| (pos, i * r + x)))
+            {
                 if s.frozen[a][e].is_some() {
                     continue;
                 }
                 free += 1;
-                let order = above[e % r];
-                above[e % r] += 1;
+                // free entries between it and its term's normalised entry (before it
+                // when none): the entries next to the 1 go first, as the point of an
+                // evaluation-style factor (..., 1/a, 1, a, a^2, ...) is
+                let order = match pivots[a][e % r] {
+                    Some(pp) => free_at[e % r]
+                        .iter()
+                        .filter(|&&q| pp.min(pos) < q && q < pp.max(pos))
+                        .count(),
+                    None => free_at[e % r].iter().filter(|&&q| q < pos).count(),
+                };
                 let x = s.f[a][(e / r, e % r)];
-                // within tight_radius / q of p/q (relative): a chance match is rare
-                let tr = p.tight_radius * x.abs().max(1.0);
-                if let Some(pq) = simplest_rational(x - tr, x + tr, p.tight_denominator)
-                    .filter(|&(n, d)| (x - n as f64 / d as f64).abs() <= tr / d as f64)
+                // (a tight freeze that broke the fit, such as a small power of an
+                // evaluation point read as 0, is banned and the entry chosen as the others)
+                // else a simple multiple of a frozen entry of the same factor: the
+                // powers of an evaluation point, (-3/4)^6 = -3/4 (-3/4)^5
+                let of_frozen = || {
+                    (0..s.f[a].nrows()).find_map(|i| {
+                        let (n, d) = s.frozen[a][i * r + e % r].filter(|f| f.0 != 0)?;
+                        let ratio = x * d as f64 / n as f64;
+                        let (rn, rd) = tight_rational(ratio, p.tight_radius, p.tight_denominator)?;
+                        rational_product((rn, rd), (n, d))
+                            .filter(|&pq| !banned.contains(&(a, e, pq)))
+                    })
+                };
+                if let Some(pq) = tight_rational(x, p.tight_radius, p.tight_denominator)
+                    .filter(|&pq| !banned.contains(&(a, e, pq)))
+                    .or_else(of_frozen)
                 {
                     tight.push((a, e, pq));
                     continue;
@@ -354,23 +458,46 @@ pub fn round_factors(
                     }
                     seen.push(pq);
                     let dist = (x - pq.0 as f64 / pq.1 as f64).abs();
-                    cands.push(((order as i64, pq.1 as usize, dist), a, e, pq));
+                    cands.push(((order as i64, freeze_cost(pq.1, dist), dist), a, e, pq));
                 }
             }
         }
         if free == 0 {
             return Some(s);
         }
+        if tight.is_empty() && !polished {
+            // the entries determined by the frozen ones, to more digits
+            polished = true;
+            let mut fine = s.clone();
+            relax(t, &mut fine, p.polish_tol);
+            if fine.error(t) <= s.error(t) {
+                s = fine;
+            }
+            for (a, frozen) in s.frozen.iter().enumerate().take(2) {
+                for (e, _) in frozen.iter().enumerate().filter(|(_, f)| f.is_none()) {
+                    let x = s.f[a][(e / r, e % r)];
+                    if let Some(pq) = deep_rational(x, p.deep_radius, p.deep_denominator)
+                        .filter(|&pq| !banned.contains(&(a, e, pq)))
+                    {
+                        tight.push((a, e, pq));
+                    }
+                }
+            }
+            if tight.is_empty() {
+                // choose from the polished fit
+                continue;
+            }
+        }
         let chosen = tight.is_empty();
         let batch: Vec<(usize, usize, (i64, i64))> = if !chosen {
             tight
         } else {
-            // the first free entry of its factor first (the later entries are often
-            // functions of the earlier ones), then the least denominator, then the
-            // smallest move; one freeze per entry
+            // the entries next to their factor's 1 first (the others are often
+            // functions of them), then the least cost, then the smallest move; one
+            // freeze per entry
             cands.sort_by(|x, y| {
-                (x.0.0, x.0.1)
-                    .cmp(&(y.0.0, y.0.1))
+                (x.0.0.cmp(&y.0.0))
+                    .then(x.0.1.total_cmp(&y.0.1))
                     .then(x.0.2.total_cmp(&y.0.2))
             });
             let mut taken = [
@@ -400,8 +527,9 @@ pub fn round_factors(
             s.frozen[a][e] = Some(pq);
             s.f[a][(e / r, e % r)] = pq.0 as f64 / pq.1 as f64;
         }
-        if relax(t, &mut s) {
+        if relax(t, &mut s, p.tol) {
             moved = true;
+            polished = false;
             stuck = 0;
             if chosen {
                 size = batch.len().saturating_mul(2);
@@ -527,19 +655,30 @@ pub fn numeric_run(
     if let Some(s) = super::recover::read_exact_scheme(t, &fitted) {
         return Some(s);
     }
-    let relax_als = |t: &Dense, s: &mut Factors| super::als::relax(t, s, &p.als, p.round.tol, stop);
-    let relax_lm = |t: &Dense, s: &mut Factors| super::lm::relax(t, s, &p.lm, p.round.tol, stop);
-    let relax: &dyn Fn(&Dense, &mut Factors) -> bool = match p.fit {
-        Fit::Als => &relax_als,
-        Fit::Lm => &relax_lm,
+    let relax_als =
+        |t: &Dense, s: &mut Factors, tol: f64| super::als::relax(t, s, &p.als, tol, stop);
+    let relax_lm = |t: &Dense, s: &mut Factors, tol: f64| super::lm::relax(t, s, &p.lm, tol, stop);
+    let fast = super::lm::fast_refits(&p.lm);
+    let relax_fast =
+        |t: &Dense, s: &mut Factors, tol: f64| super::lm::relax(t, s, &fast, tol, stop);
+    let relaxes: [&Relax; 2] = match p.fit {
+        Fit::Als => [&relax_als, &relax_als],
+        Fit::Lm => [&relax_lm, &relax_fast],
     };
-    // the better conditioned normalisation first (largest entry 1), then the
-    // evaluation-style one (first entry 1), then the first in other row orders
+    // the better conditioned normalisation first (largest entry 1), with cautious re-fits
+    // (near an isolated scheme) and then with Gauss-Newton re-fits (inside a family of
+    // schemes, such as the evaluation points of a polynomial product); then the
+    // evaluation-style one (first entry 1); then other row orders, both re-fits in turn
     let seeds: Vec<u64> = (0..p.round.reorders).map(|_| rng.r#gen()).collect();
-    let tries = [(0.99, None), (p.round.lead, None)]
+    let tries = [(0.99, None, 0), (0.99, None, 1), (p.round.lead, None, 0)]
         .into_iter()
-        .chain(seeds.into_iter().map(|k| (0.99, Some(k))));
-    for (lead, order_seed) in tries {
+        .chain(
+            seeds
+                .into_iter()
+                .enumerate()
+                .map(|(i, k)| (0.99, Some(k), i % 2)),
+        );
+    for (lead, order_seed, refit) in tries {
         if stop() {
             return None;
         }
@@ -548,7 +687,7 @@ pub fn numeric_run(
             order_seed,
             ..p.round.clone()
         };
-        let found = round_factors(&dense, fitted.clone(), &rp, relax, stop)
+        let found = round_factors(&dense, fitted.clone(), &rp, relaxes[refit], stop)
             .and_then(|rounded| exact_scheme(t, &rounded));
         if found.is_some() {
             return found;
@@ -581,9 +720,9 @@ mod tests {
                 })
                 .expect("a converged fit");
             let relaxes = Cell::new(0);
-            let relax = |d: &Dense, s: &mut Factors| {
+            let relax = |d: &Dense, s: &mut Factors, tol: f64| {
                 relaxes.set(relaxes.get() + 1);
-                super::super::lm::relax(d, s, &p.lm, p.round.tol, &stop)
+                super::super::lm::relax(d, s, &p.lm, tol, &stop)
             };
             let rp = RoundParams {
                 lead: 0.99,

@@ -274,6 +274,31 @@ fn toom_three_by_four_rank_six_by_odd_prime_walk_and_by_lm() {
     assert!(verify(&s, &t).is_ok());
 }
 
+/// Toom-Cook up to 8 coefficients: polynomials with m and n coefficients multiply with
+/// m + n - 1 multiplications, by evaluation at m + n - 1 distinct points of the projective
+/// line over Q (Toom 1963; Cook 1966). The fits form a family (any points will do), so
+/// the rounding must pick distinct points of small height and then recognise their
+/// powers, such as (-3/4)^6, as determined: poly:6,7 at 12 and poly:8,8 at 15 come out of
+/// a few fixed seeds of Levenberg-Marquardt with rounding (our runs: 4 of 6 seeds each).
+#[test]
+#[cfg_attr(debug_assertions, ignore)]
+fn toom_up_to_eight_coefficients_by_lm_rounding() {
+    for (m, n) in [(6, 7), (8, 8)] {
+        let t = poly(m, n);
+        let r = m + n - 1;
+        let p = numeric::NumericParams::default();
+        let s = (0..6u64)
+            .find_map(|seed| {
+                let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+                numeric::numeric_run(&t, r, &p, &mut rng, &|| false)
+            })
+            .unwrap_or_else(|| panic!("poly:{m},{n} at rank {r} from seeds 0 to 5"));
+        assert_eq!((s.rank(), s.field), (r, FieldSpec::Rational));
+        assert!(verify(&s, &t).is_ok());
+        assert!(!hensel::is_integral(&s), "rank {r} needs fractions");
+    }
+}
+
 /// A factor space above 64 coordinates: poly:66,2 has 66 left coordinates, so the walk runs
 /// on two-word masks; it lowers the rank below the schoolbook 132 (Karatsuba on pairs of
 /// coefficients gives 99; Karatsuba and Ofman 1962) and the result verifies over GF(2).
