@@ -304,28 +304,29 @@ pub fn simplest_rational(lo: f64, hi: f64, max_den: i64) -> Option<(i64, i64)> {
     (q <= max_den as i128 && p.abs() <= i64::MAX as i128).then_some((p as i64, q as i64))
 }
 
+/// The rational of least denominator (up to `max_den`) within `radius` (relative) of `x`.
+fn rational_within(x: f64, radius: f64, max_den: i64) -> Option<(i64, i64)> {
+    let r = radius * x.abs().max(1.0);
+    simplest_rational(x - r, x + r, max_den)
+}
+
 /// The rational an entry `x` of a fit is taken to equal at once: within
 /// `radius / q` (relative) of `p/q` with `q <= max_den` (a chance match is rare: about
 /// `2 radius max_den` for a random entry).
 fn tight_rational(x: f64, radius: f64, max_den: i64) -> Option<(i64, i64)> {
-    let tr = radius * x.abs().max(1.0);
-    simplest_rational(x - tr, x + tr, max_den)
-        .filter(|&(n, d)| (x - n as f64 / d as f64).abs() <= tr / d as f64)
+    let r = radius * x.abs().max(1.0);
+    rational_within(x, radius, max_den)
+        .filter(|&(n, d)| (x - n as f64 / d as f64).abs() <= r / d as f64)
 }
 
 /// `(a/b) (c/d)` in lowest terms, `None` past 64 bits.
 fn rational_product((a, b): (i64, i64), (c, d): (i64, i64)) -> Option<(i64, i64)> {
-    let (n, m) = (a as i128 * c as i128, b as i128 * d as i128);
-    let g = num_integer::gcd(n, m).max(1);
-    let (n, m) = (n / g * m.signum(), m.abs() / g);
-    Some((i64::try_from(n).ok()?, i64::try_from(m).ok()?))
-}
-
-/// The rational of a polished entry `x`: within `radius` (relative) of `p/q`,
-/// `q <= max_den`.
-fn deep_rational(x: f64, radius: f64, max_den: i64) -> Option<(i64, i64)> {
-    let dr = radius * x.abs().max(1.0);
-    simplest_rational(x - dr, x + dr, max_den)
+    let x = num_rational::Ratio::<i128>::new(a.into(), b.into())
+        * num_rational::Ratio::<i128>::new(c.into(), d.into());
+    Some((
+        i64::try_from(*x.numer()).ok()?,
+        i64::try_from(*x.denom()).ok()?,
+    ))
 }
 
 /// A freeze candidate: ((free entries above it in its factor, cost, distance), axis,
@@ -476,7 +477,7 @@ pub fn round_factors(
             for (a, frozen) in s.frozen.iter().enumerate().take(2) {
                 for (e, _) in frozen.iter().enumerate().filter(|(_, f)| f.is_none()) {
                     let x = s.f[a][(e / r, e % r)];
-                    if let Some(pq) = deep_rational(x, p.deep_radius, p.deep_denominator)
+                    if let Some(pq) = rational_within(x, p.deep_radius, p.deep_denominator)
                         .filter(|&pq| !banned.contains(&(a, e, pq)))
                     {
                         tight.push((a, e, pq));
@@ -496,7 +497,8 @@ pub fn round_factors(
             // functions of them), then the least cost, then the smallest move; one
             // freeze per entry
             cands.sort_by(|x, y| {
-                (x.0.0.cmp(&y.0.0))
+                x.0.0
+                    .cmp(&y.0.0)
                     .then(x.0.1.total_cmp(&y.0.1))
                     .then(x.0.2.total_cmp(&y.0.2))
             });

@@ -279,7 +279,7 @@ fn toom_three_by_four_rank_six_by_odd_prime_walk_and_by_lm() {
 /// line over Q (Toom 1963; Cook 1966). The fits form a family (any points will do), so
 /// the rounding must pick distinct points of small height and then recognise their
 /// powers, such as (-3/4)^6, as determined: poly:6,7 at 12 and poly:8,8 at 15 come out of
-/// a few fixed seeds of Levenberg-Marquardt with rounding (our runs: 4 of 6 seeds each).
+/// the first of seeds 0 to 5 of Levenberg-Marquardt with rounding.
 #[test]
 #[cfg_attr(debug_assertions, ignore)]
 fn toom_up_to_eight_coefficients_by_lm_rounding() {
