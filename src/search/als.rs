@@ -208,7 +208,7 @@ mod tests {
         };
         let found = (0..40).find_map(|seed| {
             let mut rng = ChaCha8Rng::seed_from_u64(seed);
-            numeric_run(&t, 3, &p, &mut rng, &stop)
+            numeric_run(&t, 3, &p, &mut rng, &stop).scheme()
         });
         let s = found.expect("a rank-3 scheme");
         assert_eq!(s.rank(), 3);

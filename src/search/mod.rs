@@ -10,13 +10,16 @@
 //!   rational reconstruction, exact solve of the result factors, exact check), over Q.
 //!
 //! [`plan_runs`] chooses the engines of a search ([`Method::Auto`]: walks and
-//! Levenberg-Marquardt runs in turn over Q, walks over GF(p)). The driver [`search_scheme`]
-//! splits the work into *runs* numbered 0, 1, 2, ...; run n uses the engine `n mod k` of
-//! the plan and its own RNG seeded from `(seed, n)`. A shard `K/N` executes only the runs
-//! `n = K (mod N)`, so N independent jobs cover the same runs as one job. Workers share the
+//! Levenberg-Marquardt runs over Q sharing the time, walks over GF(p)). The driver
+//! [`search_scheme`] splits the work into *runs* numbered 0, 1, 2, ...; run n uses the
+//! engine `n mod k` of the plan and its own RNG seeded from `(seed, n)`. A shard `K/N`
+//! executes only the runs `n = K (mod N)`, so N independent jobs cover the same runs as one
+//! job. With one engine the runs go out in order; with several, by time share
+//! ([`schedule`]: the engines' weights follow whether the fits converge). Workers share the
 //! best verified scheme and the pool; the search ends when the target rank is reached, the
-//! time limit passes, the run limit is used up, or the stop flag is set. With one thread a
-//! search is a deterministic function of its parameters.
+//! time limit passes, the run limit is used up, or the stop flag is set. Each run is a
+//! deterministic function of its number and the seed; with one thread and one engine, so
+//! is the whole search.
 //!
 //! Invariant: every scheme this module returns has passed `verify` against the tensor (over
 //! Q, or over GF(p) when the search field is GF(p)).
@@ -36,6 +39,7 @@ pub mod lm;
 pub mod numeric;
 pub mod pool;
 pub mod recover;
+mod schedule;
 pub mod sign_lift;
 pub mod store;
 mod walks;
@@ -247,9 +251,11 @@ pub(crate) struct Shared {
     found: Arc<AtomicBool>,
     moves: AtomicU64,
     walk_rank: AtomicUsize,
-    /// runs handed out (sequence numbers within the shard) and finished flags
-    next_seq: AtomicU64,
-    done: Mutex<Vec<u64>>,
+    /// the hand-out of runs to the workers
+    turns: schedule::Turns,
+    /// numerical runs ended, and how many of their fits converged at the rank asked
+    fits: AtomicU64,
+    fits_converged: AtomicU64,
 }
 
 impl Shared {
@@ -363,8 +369,9 @@ pub fn search_scheme(
         best: Mutex::new(start.clone()),
         moves: AtomicU64::new(0),
         walk_rank: AtomicUsize::new(usize::MAX),
-        next_seq: AtomicU64::new(0),
-        done: Mutex::new(Vec::new()),
+        turns: schedule::Turns::new(plan.kinds.len()),
+        fits: AtomicU64::new(0),
+        fits_converged: AtomicU64::new(0),
     };
     // every long step polls the same halt: the time limit (counted from the call), the
     // stop flag and the target met by another worker
@@ -395,7 +402,7 @@ pub fn search_scheme(
         }
     }
     let halted = || halt.reached();
-    let numeric_run = |fit: Fit, seed: u64, turn: u64| {
+    let numeric_run = |fit: Fit, seed: u64, turn: u64, cut: &dyn Fn() -> bool| {
         let mut rng = ChaCha8Rng::seed_from_u64(seed);
         let mut np = NumericParams {
             fit,
@@ -415,21 +422,45 @@ pub fn search_scheme(
                 b => b.saturating_sub(1),
             },
         };
-        if let Some(s) = numeric::numeric_run(&goal, aim, &np, &mut rng, &halted) {
+        let outcome = numeric::numeric_run(&goal, aim, &np, &mut rng, cut);
+        if cut() {
+            // a fit cut short is no evidence either way
+        } else if outcome.fitted() {
+            shared.fits_converged.fetch_add(1, Ordering::SeqCst);
+            shared.fits.fetch_add(1, Ordering::SeqCst);
+        } else {
+            shared.fits.fetch_add(1, Ordering::SeqCst);
+        }
+        if let Some(s) = outcome.scheme() {
             shared.offer(s, target);
         }
     };
-    let drive = |walk_run: &(dyn Fn(u64) + Sync)| {
-        let run = |run_no: u64, seed: u64| match plan.kinds
+    let numeric_kinds: Vec<bool> = plan
+        .kinds
+        .iter()
+        .map(|k| matches!(k, RunKind::Numeric(_)))
+        .collect();
+    let weights = || {
+        schedule::kind_weights(
+            &numeric_kinds,
+            shared.fits.load(Ordering::SeqCst),
+            shared.fits_converged.load(Ordering::SeqCst),
+        )
+    };
+    let drive = |walk_run: &(dyn Fn(u64, &dyn Fn() -> bool) + Sync)| {
+        let run = |run_no: u64, seed: u64, cut: &dyn Fn() -> bool| match plan.kinds
             [(run_no % plan.kinds.len() as u64) as usize]
         {
-            RunKind::Walk(_) => walk_run(seed),
-            RunKind::Numeric(fit) => numeric_run(fit, seed, run_no / plan.kinds.len() as u64),
+            RunKind::Walk(_) => walk_run(seed, cut),
+            RunKind::Numeric(fit) => {
+                // a fit ends by its own iteration bound: only the halt cuts it
+                numeric_run(fit, seed, run_no / plan.kinds.len() as u64, &halted)
+            }
         };
-        drive_runs(params, &shared, t0, &halted, &run, progress)
+        schedule::drive_runs(params, &shared, t0, &halted, &run, &weights, progress)
     };
     let snap = match walk {
-        None => drive(&|_| {}),
+        None => drive(&|_, _| {}),
         Some(Walk::Bits { words }) => {
             let std = BitScheme::standard(&goal)?;
             let s0 = starts
@@ -440,7 +471,7 @@ pub fn search_scheme(
                 .filter(|b| b.rank() < std.rank())
                 .unwrap_or(std);
             let wp = walk_plan(&goal, s0, params);
-            crate::with_words!(words, W => drive(&|seed| wp.run(&|s: &BitScheme, sd| Walker::<W>::new(s, sd), seed, &shared, &halted)))
+            crate::with_words!(words, W => drive(&|seed, cut| wp.run(&|s: &BitScheme, sd| Walker::<W>::new(s, sd), seed, &shared, cut)))
         }
         Some(Walk::Cyclic { n: side, words }) => {
             let std = CyclicScheme::standard(side)?;
@@ -453,7 +484,7 @@ pub fn search_scheme(
                 .filter(|c| c.rank() < std.rank())
                 .unwrap_or(std);
             let wp = walk_plan(&goal, s0, params);
-            crate::with_words!(words, W => drive(&|seed| wp.run(&|s: &CyclicScheme, sd| CyclicWalker::<W>::new(s, sd), seed, &shared, &halted)))
+            crate::with_words!(words, W => drive(&|seed, cut| wp.run(&|s: &CyclicScheme, sd| CyclicWalker::<W>::new(s, sd), seed, &shared, cut)))
         }
         Some(Walk::Prime { p }) => {
             let gp = goal
@@ -468,7 +499,7 @@ pub fn search_scheme(
                 .filter(|b| b.rank() < std.rank())
                 .unwrap_or(std);
             let wp = walk_plan(&goal, s0, params);
-            drive(&|seed| wp.run(&PWalker::new, seed, &shared, &halted))
+            drive(&|seed, cut| wp.run(&PWalker::new, seed, &shared, cut))
         }
     };
     let reached = snap.best.as_ref().is_some_and(|s| s.rank() <= target);
@@ -536,82 +567,6 @@ fn walk_plan<'a, S: Snapshot>(goal: &'a Tensor, start: S, params: &'a Params) ->
         pool: Mutex::new(Pool::new(start.clone(), rank, params.pool.clone())),
         start,
         params,
-    }
-}
-
-/// Run the runs of this shard on the worker threads until halted or the run limit is
-/// used up; report progress from the calling thread. Returns the final snapshot.
-fn drive_runs(
-    params: &Params,
-    shared: &Shared,
-    t0: Instant,
-    halted: &(dyn Fn() -> bool + Sync),
-    run: &(dyn Fn(u64, u64) + Sync),
-    progress: &(dyn Fn(&Progress) + Sync),
-) -> Progress {
-    let (k, n) = params.shard;
-    let threads = if params.threads == 0 {
-        std::thread::available_parallelism().map_or(1, |x| x.get())
-    } else {
-        params.threads
-    };
-    // run numbers of this shard: base, base + N, base + 2N, ... with base = K (mod N)
-    let base = params.first_run + (k + n - params.first_run % n) % n;
-    let run_of = |seq: u64| base + seq * n;
-    let workers_left = AtomicUsize::new(threads);
-    std::thread::scope(|sc| {
-        for _ in 0..threads {
-            sc.spawn(|| {
-                loop {
-                    if halted() {
-                        break;
-                    }
-                    let seq = shared.next_seq.fetch_add(1, Ordering::SeqCst);
-                    if params.restarts.is_some_and(|m| seq >= m) {
-                        break;
-                    }
-                    let run_no = run_of(seq);
-                    run(run_no, run_seed(params.seed, run_no));
-                    if !halted() {
-                        shared.done.lock().expect("lock").push(seq);
-                    }
-                }
-                workers_left.fetch_sub(1, Ordering::SeqCst);
-            });
-        }
-        let mut last = Instant::now();
-        while workers_left.load(Ordering::SeqCst) > 0 {
-            std::thread::sleep(Duration::from_millis(2));
-            if last.elapsed() >= Duration::from_millis(500) {
-                last = Instant::now();
-                progress(&snapshot(shared, t0, &run_of));
-            }
-        }
-    });
-    let snap = snapshot(shared, t0, &run_of);
-    progress(&snap);
-    snap
-}
-
-fn snapshot(shared: &Shared, t0: Instant, run_of: &dyn Fn(u64) -> u64) -> Progress {
-    // the first sequence number not finished: every earlier run is complete
-    let mut done = shared.done.lock().expect("lock").clone();
-    done.sort_unstable();
-    let mut first_open = 0;
-    for d in done {
-        if d == first_open {
-            first_open += 1;
-        } else if d > first_open {
-            break;
-        }
-    }
-    let wr = shared.walk_rank.load(Ordering::SeqCst);
-    Progress {
-        best: shared.best.lock().expect("lock").clone(),
-        moves: shared.moves.load(Ordering::Relaxed),
-        walk_rank: (wr != usize::MAX).then_some(wr),
-        next_run: run_of(first_open),
-        elapsed: t0.elapsed(),
     }
 }
 

@@ -633,9 +633,37 @@ impl Default for NumericParams {
     }
 }
 
+/// What one numerical run came to.
+#[derive(Clone, Debug, PartialEq)]
+pub enum NumericOutcome {
+    /// The fit did not converge at the rank asked (or the run was stopped first).
+    NoFit,
+    /// The fit converged, but no rounding of it verified.
+    Unrounded,
+    /// A scheme verified exactly over Q.
+    Found(Scheme),
+}
+
+impl NumericOutcome {
+    /// The verified scheme, if the run found one.
+    pub fn scheme(self) -> Option<Scheme> {
+        match self {
+            NumericOutcome::Found(s) => Some(s),
+            _ => None,
+        }
+    }
+
+    /// True when the fit converged (whether or not it rounded): evidence that the rank
+    /// asked is reachable over the reals, which the search uses to share its time.
+    pub fn fitted(&self) -> bool {
+        !matches!(self, NumericOutcome::NoFit)
+    }
+}
+
 /// One numerical run from a random start (seeded by `rng`): fit at rank `r`, read the
 /// fit as an exact decomposition or round it, solve the result factors exactly, verify.
-/// Returns a scheme of rank at most `r` verified exactly over Q, or `None`. `stop` is polled between iterations.
+/// Returns a scheme of rank at most `r` verified exactly over Q, or whether the fit
+/// converged without rounding. `stop` is polled between iterations.
 /// Cost: per iteration O(nnz(T) r + (d0 + d1 + d2) r^2 + r^3) (ALS) or
 /// O((r (d0 + d1 + d2))^3) (Levenberg-Marquardt); each error check O(d0 d1 d2 r).
 pub fn numeric_run(
@@ -644,18 +672,21 @@ pub fn numeric_run(
     p: &NumericParams,
     rng: &mut ChaCha8Rng,
     stop: &dyn Fn() -> bool,
-) -> Option<Scheme> {
+) -> NumericOutcome {
     if t.field() != FieldSpec::Rational || r == 0 {
-        return None;
+        return NumericOutcome::NoFit;
     }
     let dense = Dense::new(t);
     let fitted = match p.fit {
-        Fit::Als => super::als::converge(&dense, r, &p.als, rng, stop)?,
-        Fit::Lm => super::lm::converge(&dense, r, &p.lm, rng, stop)?,
+        Fit::Als => super::als::converge(&dense, r, &p.als, rng, stop),
+        Fit::Lm => super::lm::converge(&dense, r, &p.lm, rng, stop),
+    };
+    let Some(fitted) = fitted else {
+        return NumericOutcome::NoFit;
     };
     // a unique decomposition made of rational directions is read off the fit at once
     if let Some(s) = super::recover::read_exact_scheme(t, &fitted) {
-        return Some(s);
+        return NumericOutcome::Found(s);
     }
     let relax_als =
         |t: &Dense, s: &mut Factors, tol: f64| super::als::relax(t, s, &p.als, tol, stop);
@@ -682,7 +713,7 @@ pub fn numeric_run(
         );
     for (lead, order_seed, refit) in tries {
         if stop() {
-            return None;
+            return NumericOutcome::Unrounded;
         }
         let rp = RoundParams {
             lead,
@@ -691,11 +722,11 @@ pub fn numeric_run(
         };
         let found = round_factors(&dense, fitted.clone(), &rp, relaxes[refit], stop)
             .and_then(|rounded| exact_scheme(t, &rounded));
-        if found.is_some() {
-            return found;
+        if let Some(s) = found {
+            return NumericOutcome::Found(s);
         }
     }
-    None
+    NumericOutcome::Unrounded
 }
 
 #[cfg(test)]

@@ -290,7 +290,7 @@ fn toom_up_to_eight_coefficients_by_lm_rounding() {
         let s = (0..6u64)
             .find_map(|seed| {
                 let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
-                numeric::numeric_run(&t, r, &p, &mut rng, &|| false)
+                numeric::numeric_run(&t, r, &p, &mut rng, &|| false).scheme()
             })
             .unwrap_or_else(|| panic!("poly:{m},{n} at rank {r} from seeds 0 to 5"));
         assert_eq!((s.rank(), s.field), (r, FieldSpec::Rational));
