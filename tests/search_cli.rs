@@ -198,3 +198,81 @@ fn search_over_q_starts_from_a_scheme_over_gf2() {
     assert_eq!(code, 2, "{err}");
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// A product in a dense basis of the user's own: <3,3,3> after unimodular changes of
+/// basis (integer matrices of determinant 1, written below as L L^T with L unit lower
+/// triangular). Its walks over GF(2) reach Laderman's rank 23 (Laderman 1976, "A
+/// noncommutative algorithm for multiplying 3 x 3 matrices using 23 multiplications"),
+/// which does not lift to Q in such a basis: the search over Q keeps that scheme over
+/// GF(2) next to its result, verified, and `verify --field GF(2)` accepts it.
+#[test]
+fn search_over_q_keeps_the_walks_scheme_over_gf2() {
+    let dir = std::env::temp_dir().join(format!("bilin-search-gf2-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    // L with ones on the diagonal and a fixed pattern below it; the matrix is L L^T
+    let unimodular = |shift: i64| {
+        let l = |i: usize, j: usize| -> i64 {
+            match i.cmp(&j) {
+                std::cmp::Ordering::Equal => 1,
+                std::cmp::Ordering::Greater => ((i as i64 * 3 + j as i64 * 5 + shift) % 5) - 2,
+                std::cmp::Ordering::Less => 0,
+            }
+        };
+        let mut text = String::new();
+        for i in 0..9 {
+            let row: Vec<String> = (0..9)
+                .map(|j| (0..9).map(|k| l(i, k) * l(j, k)).sum::<i64>().to_string())
+                .collect();
+            text += &format!("{}\n", row.join(" "));
+        }
+        text
+    };
+    let basis = dir.join("basis.txt");
+    std::fs::write(
+        &basis,
+        format!(
+            "matrix left\n{}end\nmatrix right\n{}end\nmatrix result\n{}end\n",
+            unimodular(0),
+            unimodular(1),
+            unimodular(2)
+        ),
+    )
+    .unwrap();
+    let (code, table, err) = bilin(&[
+        "transform",
+        "matmul:3,3,3",
+        "--basis",
+        basis.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let table_path = dir.join("m333.txt");
+    std::fs::write(&table_path, table).unwrap();
+    let out = dir.join("run.json");
+    let (code, _, err) = bilin(&[
+        "search",
+        table_path.to_str().unwrap(),
+        "--rank",
+        "23",
+        "--seed",
+        "1",
+        "--threads",
+        "1",
+        "--time",
+        "8",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 1, "not reached over Q: {err}");
+    assert!(err.contains("over GF(2), which did not lift to Q"), "{err}");
+    let gf2 = dir.join("run.gf2.json");
+    let (code, stdout, err) = bilin(&[
+        "verify",
+        table_path.to_str().unwrap(),
+        gf2.to_str().unwrap(),
+        "--field",
+        "GF(2)",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(stdout.contains("verified: rank 2"), "{stdout}");
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -167,6 +167,46 @@ impl OutputFiles {
         emit_result(self.out.as_ref(), s, t, self.overwrite)
     }
 
+    /// At the end of a search over Q: keep the walks' scheme over GF(p) that did not lift
+    /// (`w`, below the best over Q) in `OUT` with `.gfP` before its extension, next to
+    /// the result (a better scheme there is kept; a failed write prints it on standard
+    /// output). Without `--out` the note says how to keep it. Returns false when it could
+    /// not go where it was asked.
+    pub fn save_walk_scheme(&self, w: &Scheme, t: &Tensor) -> bool {
+        let bilin::scalar::FieldSpec::Prime(p) = w.field else {
+            return true;
+        };
+        let Some(out) = self.out.as_ref().filter(|o| o.is_file()) else {
+            note(format!(
+                "the walks reached rank {} over GF({p}), which did not lift to Q; pass --out FILE \
+                 to keep that scheme (as FILE with .gf{p} before its extension)",
+                w.rank()
+            ));
+            return true;
+        };
+        let path = walk_scheme_path(&out.path, p);
+        let Ok(goal) = t.with_field(w.field) else {
+            return true;
+        };
+        let target = match bilin::output::Target::resolve(&path) {
+            Ok(target) => target,
+            Err(e) => {
+                report_error(&e);
+                print_result(w);
+                return false;
+            }
+        };
+        let ok = emit_result(Some(&target), w, &goal, self.overwrite);
+        if ok {
+            note(format!(
+                "the walks reached rank {} over GF({p}), which did not lift to Q: that scheme \
+                 is in {path} (verified over GF({p}))",
+                w.rank()
+            ));
+        }
+        ok
+    }
+
     /// At the end: write the checkpoint (failures are warnings).
     pub fn save_checkpoint(&self, c: &Checkpoint, t: &Tensor) {
         let Some(ck) = &self.checkpoint else {
@@ -230,5 +270,29 @@ fn print_result(s: &Scheme) {
             bilin::error::describe_io(&e)
         );
         eprint!("{text}");
+    }
+}
+
+/// `OUT` with `.gfP` before its extension (`run.json` -> `run.gf2.json`; `run` ->
+/// `run.gf2`).
+fn walk_scheme_path(out: &str, p: u64) -> String {
+    let name_start = out.rfind('/').map_or(0, |i| i + 1);
+    match out[name_start..].rfind('.') {
+        Some(dot) if dot > 0 => {
+            let at = name_start + dot;
+            format!("{}.gf{p}{}", &out[..at], &out[at..])
+        }
+        _ => format!("{out}.gf{p}"),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    #[test]
+    fn walk_scheme_paths() {
+        assert_eq!(super::walk_scheme_path("run.json", 2), "run.gf2.json");
+        assert_eq!(super::walk_scheme_path("a.b/run", 5), "a.b/run.gf5");
+        assert_eq!(super::walk_scheme_path("dir/.hidden", 2), "dir/.hidden.gf2");
+        assert_eq!(super::walk_scheme_path("x/run.txt", 11), "x/run.gf11.txt");
     }
 }

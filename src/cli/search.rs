@@ -575,6 +575,11 @@ pub fn run(a: SearchArgs) -> i32 {
         }
         None => note("no verified scheme found"),
     }
+    if let Some(w) = &outcome.walk_best
+        && !files.save_walk_scheme(w, &t)
+    {
+        code = EXIT_USAGE;
+    }
     note(closing_interval(&interval, outcome.best.as_ref()));
     code
 }

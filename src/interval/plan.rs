@@ -5,8 +5,8 @@
 //! is answered or refused without a walk); below a proven lower bound over the field
 //! searched the target is refused with the bound; otherwise the engines come from
 //! [`crate::search::plan_runs`] (with [`Method::Auto`]: a prime whose reduction keeps the
-//! flattening ranks, then lifting, in turn with Levenberg-Marquardt runs) and the search
-//! starts from the known scheme. Every choice carries its reason in words.
+//! flattening ranks, then lifting, sharing the time with Levenberg-Marquardt runs) and
+//! the search starts from the known scheme. Every choice carries its reason in words.
 //!
 //! [`known_interval`] is the one place a search learns what is known: the lower bounds of
 //! [`crate::ranks`] and the verified upper bounds of [`super::upper`], with any scheme the

@@ -1,9 +1,10 @@
 //! The engines of a search, chosen once for every caller ([`plan_runs`]): which walk
 //! (over GF(2) in bit masks, cyclic-invariant, or over GF(p)) and whether numerical runs
-//! take turns with it. [`Method::Auto`] chooses from the tensor: over Q, walks over the
-//! first small prime whose reduction keeps the three flattening ranks (then p-adic lifting
-//! and the exact check), in turn with Levenberg-Marquardt runs (the rank over GF(p) may
-//! exceed the rank over Q); the numerical route alone when no small prime keeps them.
+//! share the time with it. [`Method::Auto`] chooses from the tensor: over Q, walks over
+//! the first small prime whose reduction keeps the three flattening ranks (then p-adic
+//! lifting and the exact check), sharing the time with Levenberg-Marquardt runs (the rank
+//! over GF(p) may exceed the rank over Q); the numerical route alone when no small prime
+//! keeps them.
 //! Every plan carries its reason in words.
 //!
 //! Invariant: a plan never holds a walk whose prime divides a denominator of the tensor,
@@ -206,7 +207,7 @@ pub fn plan_runs(goal: &Tensor, params: &Params, start_rank: Option<usize>) -> R
                             kinds.push(RunKind::Numeric(fit));
                         }
                         reason += &format!(
-                            ", in turn with runs of {fit_name} (the rank over GF(p) may \
+                            ", sharing the time with runs of {fit_name} (the rank over GF(p) may \
                              exceed the rank over Q{})",
                             if above {
                                 "; the fits first: at a rank above every dimension a \

@@ -41,6 +41,7 @@ pub mod pool;
 pub mod recover;
 mod schedule;
 pub mod sign_lift;
+pub mod slice_start;
 pub mod store;
 mod walks;
 
@@ -72,7 +73,7 @@ pub enum Method {
     Als,
     /// The numerical route with Levenberg-Marquardt (tensors over Q).
     Lm,
-    /// Over Q: walks and Levenberg-Marquardt runs in turn (walks only where the tensor
+    /// Over Q: walks and Levenberg-Marquardt runs sharing the time (walks only where the tensor
     /// reduces mod the walk prime); over GF(p): walks.
     Auto,
 }
@@ -232,6 +233,10 @@ pub struct Outcome {
     pub reached: bool,
     pub moves: u64,
     pub walk_rank: Option<usize>,
+    /// For a search over Q: the walks' lowest-rank scheme over their field GF(p) when it
+    /// lies below `best` (it did not lift to Q), verified exactly against the tensor
+    /// reduced mod p: a result over GF(p) that must not be lost.
+    pub walk_best: Option<Scheme>,
     pub next_run: u64,
     pub elapsed: Duration,
 }
@@ -251,6 +256,8 @@ pub(crate) struct Shared {
     found: Arc<AtomicBool>,
     moves: AtomicU64,
     walk_rank: AtomicUsize,
+    /// the scheme over the walk field at `walk_rank`
+    walk_best: Mutex<Option<Scheme>>,
     /// the hand-out of runs to the workers
     turns: schedule::Turns,
     /// numerical runs ended, and how many of their fits converged at the rank asked
@@ -351,6 +358,7 @@ pub fn search_scheme(
             best,
             moves: 0,
             walk_rank: None,
+            walk_best: None,
             next_run: params.first_run,
             elapsed: Duration::ZERO,
         });
@@ -369,6 +377,7 @@ pub fn search_scheme(
         best: Mutex::new(start.clone()),
         moves: AtomicU64::new(0),
         walk_rank: AtomicUsize::new(usize::MAX),
+        walk_best: Mutex::new(None),
         turns: schedule::Turns::new(plan.kinds.len()),
         fits: AtomicU64::new(0),
         fits_converged: AtomicU64::new(0),
@@ -459,10 +468,36 @@ pub fn search_scheme(
         };
         schedule::drive_runs(params, &shared, t0, &halted, &run, &weights, progress)
     };
+    // a walk start below the best verified rank (a slice scheme in a basis of low slice
+    // rank) is a result itself, lifted when the search is over Q
+    let take_start = |s0: Scheme| {
+        let s0_rank = s0.rank();
+        if s0_rank >= shared.best_rank.load(Ordering::SeqCst) {
+            return;
+        }
+        let s0_kept = s0.clone();
+        let result = if goal.field() == s0.field {
+            verify(&s0, &goal).is_ok().then_some(s0)
+        } else {
+            hensel::lift_scheme(&s0, &goal, &params.hensel)
+        };
+        match result {
+            Some(r) => {
+                shared.offer(r, target);
+            }
+            None => {
+                // not lifted: kept as the walks' scheme over their field
+                shared.walk_rank.fetch_min(s0_rank, Ordering::SeqCst);
+                *shared.walk_best.lock().expect("lock") = Some(s0_kept);
+            }
+        }
+    };
     let snap = match walk {
         None => drive(&|_, _| {}),
         Some(Walk::Bits { words }) => {
-            let std = BitScheme::standard(&goal)?;
+            let std = lower_start(BitScheme::standard(&goal)?, &goal, 2, |s| {
+                BitScheme::from_scheme(s).ok()
+            });
             let s0 = starts
                 .iter()
                 .flatten()
@@ -470,6 +505,7 @@ pub fn search_scheme(
                 .min_by_key(|b| b.rank())
                 .filter(|b| b.rank() < std.rank())
                 .unwrap_or(std);
+            take_start(s0.to_scheme(FieldSpec::Prime(2)));
             let wp = walk_plan(&goal, s0, params);
             crate::with_words!(words, W => drive(&|seed, cut| wp.run(&|s: &BitScheme, sd| Walker::<W>::new(s, sd), seed, &shared, cut)))
         }
@@ -490,7 +526,9 @@ pub fn search_scheme(
             let gp = goal
                 .with_field(FieldSpec::Prime(p))
                 .map_err(Error::Invalid)?;
-            let std = PScheme::standard(&gp)?;
+            let std = lower_start(PScheme::standard(&gp)?, &goal, p, |s| {
+                PScheme::from_scheme(s, p).ok()
+            });
             let s0 = starts
                 .iter()
                 .flatten()
@@ -498,19 +536,49 @@ pub fn search_scheme(
                 .min_by_key(|b| b.rank())
                 .filter(|b| b.rank() < std.rank())
                 .unwrap_or(std);
+            take_start(s0.to_scheme());
             let wp = walk_plan(&goal, s0, params);
             drive(&|seed, cut| wp.run(&PWalker::new, seed, &shared, cut))
         }
     };
     let reached = snap.best.as_ref().is_some_and(|s| s.rank() <= target);
+    let best_rank = snap.best.as_ref().map_or(usize::MAX, Scheme::rank);
+    let walk_best = shared
+        .walk_best
+        .lock()
+        .expect("lock")
+        .take()
+        .filter(|w| goal.field() != w.field && w.rank() < best_rank)
+        .filter(|w| {
+            goal.with_field(w.field)
+                .is_ok_and(|g| verify(w, &g).is_ok())
+        });
     Ok(Outcome {
         best: snap.best,
         reached,
         moves: snap.moves,
         walk_rank: snap.walk_rank,
+        walk_best,
         next_run: snap.next_run,
         elapsed: snap.elapsed,
     })
+}
+
+/// The standard scheme `std` of the walks over GF(`p`), or the slice scheme in a basis of
+/// low slice rank ([`slice_start`]) when that is lower: a table in a basis of the user's
+/// own is dense, and its standard scheme (one term per nonzero coefficient) far above the
+/// rank. Cost: that of [`slice_start::slice_start`] (about a second at most).
+fn lower_start<S: Snapshot>(
+    std: S,
+    goal: &Tensor,
+    p: u64,
+    convert: impl Fn(&Scheme) -> Option<S>,
+) -> S {
+    let params = slice_start::SliceStartParams::default();
+    slice_start::slice_start(goal, p, std.rank(), &params)
+        .and_then(|s| convert(&s))
+        .filter(|s| s.rank() < std.rank())
+        .unwrap_or(std)
 }
 
 /// The start a search takes without one: when `goal` is the matrix multiplication tensor
