@@ -15,7 +15,10 @@
 //! Invariant: the returned scheme is over GF(p) and verified exactly against the tensor
 //! reduced mod p.
 
-use crate::scalar::FieldSpec;
+use crate::linalg::dense_echelon::DenseEchelon;
+use crate::linalg::modular::rref_mod;
+use crate::linalg::{Matrix, inverse};
+use crate::scalar::{FieldSpec, PrimeField};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use num_bigint::BigInt;
@@ -41,160 +44,54 @@ impl Default for SliceStartParams {
     }
 }
 
-/// Rank of a `rows x cols` matrix over GF(p) (row-major, entries below p), destroyed.
-/// Cost: O(rows cols min(rows, cols)).
-fn rank_mod_p(m: &mut [u64], rows: usize, cols: usize, p: u64) -> usize {
-    let mut rank = 0;
-    for c in 0..cols {
-        if rank == rows {
-            break;
-        }
-        let Some(piv) = (rank..rows).find(|&r| m[r * cols + c] != 0) else {
-            continue;
-        };
-        if piv != rank {
-            for k in 0..cols {
-                m.swap(piv * cols + k, rank * cols + k);
-            }
-        }
-        let inv = inverse_mod(m[rank * cols + c], p);
-        for r in rank + 1..rows {
-            let f = m[r * cols + c];
-            if f == 0 {
-                continue;
-            }
-            let f = f * inv % p;
-            for k in c..cols {
-                let x = m[rank * cols + k];
-                if x != 0 {
-                    m[r * cols + k] = (m[r * cols + k] + (p - f) * x) % p;
-                }
-            }
-        }
-        rank += 1;
-    }
-    rank
-}
-
-fn inverse_mod(a: u64, p: u64) -> u64 {
-    // Fermat: a^(p-2) mod p
-    let (mut base, mut e, mut acc) = (a % p, p - 2, 1u64);
-    while e > 0 {
-        if e & 1 == 1 {
-            acc = acc * base % p;
-        }
-        base = base * base % p;
-        e >>= 1;
-    }
-    acc
-}
-
-/// Reduce `v` against the echelon rows `basis` (each with its pivot); true when `v` is
-/// independent of them, and then it joins them. Cost: O(len(basis) d).
-fn insert_independent(basis: &mut Vec<(usize, Vec<u64>)>, v: &[u64], p: u64) -> bool {
-    let mut w = v.to_vec();
-    for (piv, row) in basis.iter() {
-        let f = w[*piv];
-        if f != 0 {
-            for (x, y) in w.iter_mut().zip(row) {
-                *x = (*x + (p - f) * y) % p;
-            }
-        }
-    }
-    let Some(piv) = w.iter().position(|&x| x != 0) else {
-        return false;
-    };
-    let inv = inverse_mod(w[piv], p);
-    for x in &mut w {
-        *x = *x * inv % p;
-    }
-    // keep the rows fully reduced at their pivots
-    for (_, row) in basis.iter_mut() {
-        let f = row[piv];
-        if f != 0 {
-            for (x, y) in row.iter_mut().zip(&w) {
-                *x = (*x + (p - f) * y) % p;
-            }
-        }
-    }
-    basis.push((piv, w));
-    true
-}
-
-/// Inverse of the d x d matrix `g` over GF(p) (rows), or `None` if singular.
-fn invert_mod(g: &[Vec<u64>], p: u64) -> Option<Vec<Vec<u64>>> {
-    let d = g.len();
-    let mut a: Vec<Vec<u64>> = g
-        .iter()
-        .enumerate()
-        .map(|(i, row)| {
-            let mut r = row.clone();
-            r.extend((0..d).map(|j| u64::from(i == j)));
-            r
-        })
-        .collect();
-    for c in 0..d {
-        let piv = (c..d).find(|&r| a[r][c] != 0)?;
-        a.swap(piv, c);
-        let inv = inverse_mod(a[c][c], p);
-        for x in &mut a[c] {
-            *x = *x * inv % p;
-        }
-        for r in 0..d {
-            let f = a[r][c];
-            if r != c && f != 0 {
-                let pivot_row = a[c].clone();
-                for (x, y) in a[r].iter_mut().zip(&pivot_row) {
-                    *x = (*x + (p - f) * y) % p;
-                }
-            }
-        }
-    }
-    Some(a.into_iter().map(|r| r[d..].to_vec()).collect())
+/// Rank over GF(p) of the `rows x cols` row-major residue matrix `m` (a scratch copy is
+/// reduced). Cost: O(rows cols min(rows, cols)).
+fn rank_mod_p(m: &[u64], scratch: &mut Vec<u64>, rows: usize, cols: usize, p: u64) -> usize {
+    scratch.clear();
+    scratch.extend_from_slice(m);
+    rref_mod(scratch, rows, cols, p, false).len()
 }
 
 /// Rank factorisation over GF(p) of the `rows x cols` matrix `m`: pairs (column, row)
-/// whose outer products sum to `m`. Cost: O(rows cols min(rows, cols)).
+/// whose outer products sum to `m` (the pivot columns of `m` times the nonzero rows of its
+/// reduced row echelon form). Cost: O(rows cols min(rows, cols)).
 fn rank_one_terms(m: &[u64], rows: usize, cols: usize, p: u64) -> Vec<(Vec<u64>, Vec<u64>)> {
-    // reduced row echelon form R of m; m = m[:, pivots] R
     let mut r = m.to_vec();
-    let mut pivots = Vec::new();
-    let mut rank = 0;
-    for c in 0..cols {
-        let Some(piv) = (rank..rows).find(|&i| r[i * cols + c] != 0) else {
-            continue;
-        };
-        for k in 0..cols {
-            r.swap(piv * cols + k, rank * cols + k);
-        }
-        let inv = inverse_mod(r[rank * cols + c], p);
-        for k in 0..cols {
-            r[rank * cols + k] = r[rank * cols + k] * inv % p;
-        }
-        for i in 0..rows {
-            let f = r[i * cols + c];
-            if i != rank && f != 0 {
-                for k in 0..cols {
-                    let y = r[rank * cols + k];
-                    r[i * cols + k] = (r[i * cols + k] + (p - f) * y) % p;
-                }
-            }
-        }
-        pivots.push(c);
-        rank += 1;
-        if rank == rows {
-            break;
-        }
-    }
+    let pivots = rref_mod(&mut r, rows, cols, p, true);
     pivots
         .iter()
         .enumerate()
         .map(|(s, &c)| {
             let col = (0..rows).map(|i| m[i * cols + c]).collect();
-            let row = r[s * cols..(s + 1) * cols].to_vec();
-            (col, row)
+            (col, r[s * cols..(s + 1) * cols].to_vec())
         })
         .collect()
+}
+
+/// An independent set over GF(p), grown one vector at a time: the vectors as found, and
+/// their reduced echelon form for the independence test.
+struct Independent {
+    form: DenseEchelon,
+    found: Vec<Vec<u64>>,
+}
+
+impl Independent {
+    fn new(p: u64, d: usize) -> Self {
+        Independent {
+            form: DenseEchelon::new(p, d),
+            found: Vec::new(),
+        }
+    }
+
+    /// Add `v` when it is independent of the set; true if added. Cost: O(len d).
+    fn insert(&mut self, v: &[u64]) -> bool {
+        let mut row: Vec<u32> = v.iter().map(|&x| x as u32).collect();
+        let added = self.form.add_rows(&mut row) == 1;
+        if added {
+            self.found.push(v.to_vec());
+        }
+        added
+    }
 }
 
 /// The slice scheme along `axis` of the dense tensor `t` (dims `d`, entries mod p) in a
@@ -214,22 +111,19 @@ fn slice_scheme_along(
     let steps = (params.work_per_axis / step_cost.max(1)).max(1);
     let space = (p as f64).powi(da as i32);
     let exhaustive = space <= steps as f64 + 1.0;
-    // per rank level, an independent set of the combinations seen at that rank (in
-    // echelon form for the test, and as found)
-    type Level = (Vec<(usize, Vec<u64>)>, Vec<Vec<u64>>);
-    let mut levels: Vec<Level> = vec![(Vec::new(), Vec::new()); db.min(dc) + 1];
+    // per rank level, an independent set of the combinations seen at that rank
+    let mut levels: Vec<Independent> = (0..=db.min(dc)).map(|_| Independent::new(p, da)).collect();
     let mut g = vec![0u64; da];
     let mut n = vec![0u64; size];
-    let mut scratch = vec![0u64; size];
+    let mut scratch = Vec::with_capacity(size);
     let mut rng = ChaCha8Rng::seed_from_u64(params.seed ^ axis as u64);
-    let mut consider = |g: &[u64], n: &[u64], levels: &mut Vec<Level>| {
+    let mut consider = |g: &[u64], n: &[u64], levels: &mut Vec<Independent>| {
         if g.iter().all(|&x| x == 0) {
             return;
         }
-        scratch.copy_from_slice(n);
-        let (echelon, found) = &mut levels[rank_mod_p(&mut scratch, db, dc, p)];
-        if found.len() < da && insert_independent(echelon, g, p) {
-            found.push(g.to_vec());
+        let level = &mut levels[rank_mod_p(n, &mut scratch, db, dc, p)];
+        if level.found.len() < da {
+            level.insert(g);
         }
     };
     // the unit vectors first: the given basis is always available
@@ -268,16 +162,17 @@ fn slice_scheme_along(
         }
     }
     // a minimum-weight basis, greedily through the levels
-    let mut chosen: Vec<(usize, Vec<u64>)> = Vec::new();
-    let mut rows: Vec<Vec<u64>> = Vec::new();
-    for (_, found) in &levels {
-        for v in found {
-            if rows.len() < da && insert_independent(&mut chosen, v, p) {
-                rows.push(v.clone());
+    let mut chosen = Independent::new(p, da);
+    for level in &levels {
+        for v in &level.found {
+            if chosen.found.len() < da {
+                chosen.insert(v);
             }
         }
     }
-    let h = invert_mod(&rows, p)?;
+    let rows = chosen.found;
+    let f = PrimeField::new(p)?;
+    let h = inverse(&f, &Matrix::from_rows(rows.clone(), da))?;
     let mut terms = Vec::new();
     for (l, gl) in rows.iter().enumerate() {
         let mut nl = vec![0u64; size];
@@ -288,7 +183,7 @@ fn slice_scheme_along(
                 }
             }
         }
-        let hl: Vec<u64> = (0..da).map(|i| h[i][l]).collect();
+        let hl: Vec<u64> = (0..da).map(|i| h[(i, l)]).collect();
         for (col, row) in rank_one_terms(&nl, db, dc, p) {
             terms.push([hl.clone(), col, row]);
         }
@@ -322,7 +217,7 @@ fn given_slice_rank(t: &[u64], d: [usize; 3], axis: usize, p: u64) -> usize {
     let (rows, cols) = (d[(axis + 1) % 3], d[(axis + 2) % 3]);
     slices_along(t, d, axis)
         .into_iter()
-        .map(|mut m| rank_mod_p(&mut m, rows, cols, p))
+        .map(|m| rank_mod_p(&m, &mut Vec::new(), rows, cols, p))
         .sum()
 }
 
