@@ -90,6 +90,8 @@ pub struct SearchArgs {
     pub restarts: Option<u64>,
     /// Write the best scheme here (the text form for a `.txt` name, JSON otherwise);
     /// default: standard output (JSON). An existing better result in the file is kept.
+    /// Over Q, a lower scheme the walks reached over GF(P) that did not lift goes beside
+    /// it, with `.gfP` before the extension.
     #[arg(long)]
     pub out: Option<String>,
     /// Resume from a checkpoint (its seed, shard and progress) or start from a scheme (a
