@@ -336,3 +336,61 @@ mod tests {
         }
     }
 }
+
+#[cfg(test)]
+mod invariance {
+    use super::*;
+    use crate::scalar::Field;
+    use crate::scalar::Q;
+    use crate::tensor::{Kind, change_basis, random_invertible};
+    use proptest::prelude::*;
+    use rand::Rng;
+
+    /// A random tensor of the given dims over Q with entries in -2..=2 (seeded).
+    fn random_tensor(d: [usize; 3], seed: u64) -> Tensor {
+        let mut rng = ChaCha8Rng::seed_from_u64(seed);
+        let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, d, None);
+        for i in 0..d[0] {
+            for j in 0..d[1] {
+                for k in 0..d[2] {
+                    // sparse, so that low-rank slices exist to be found
+                    if rng.gen_range(0..3) == 0 {
+                        t.set(i, j, k, Q::from_integer(rng.gen_range(-2i64..=2).into()));
+                    }
+                }
+            }
+        }
+        t
+    }
+
+    proptest! {
+        #![proptest_config(ProptestConfig { cases: 24, ..ProptestConfig::default() })]
+
+        /// With the whole slice space enumerated, the greedy basis is a minimum-weight
+        /// basis of the matroid (common practice), so the rank of the slice scheme depends
+        /// on the tensor only, not on its basis: unchanged by a change of basis with large
+        /// entries on every axis (drawn until invertible mod 3).
+        #[test]
+        fn slice_start_rank_is_basis_free(
+            d0 in 1usize..4, d1 in 1usize..4, d2 in 1usize..4, seed in 0u64..1 << 32,
+        ) {
+            let t = random_tensor([d0, d1, d2], seed);
+            let m = |axis: usize, n: usize| random_invertible(n, 1_000_000, seed ^ (axis as u64 + 1) * 7919);
+            let u = change_basis(&t, &m(0, d0), &m(1, d1), &m(2, d2)).unwrap();
+            let p = 3;
+            prop_assume!(u.with_field(FieldSpec::Prime(p)).is_ok());
+            let red_t = t.with_field(FieldSpec::Prime(p)).unwrap();
+            let red_u = u.with_field(FieldSpec::Prime(p)).unwrap();
+            // the reductions are equivalent only when the basis change is invertible mod 3
+            let f = PrimeField::new(p).unwrap();
+            let dets_ok = [d0, d1, d2].iter().enumerate().all(|(a, &n)| {
+                let reduced = m(a, n).map(|x| f.from_rational(x).unwrap());
+                crate::linalg::rank(&f, &reduced) == n
+            });
+            prop_assume!(dets_ok);
+            let params = SliceStartParams::default();
+            let rank = |x: &Tensor| slice_start(x, p, usize::MAX, &params).map(|s| s.rank());
+            prop_assert_eq!(rank(&red_t), rank(&red_u));
+        }
+    }
+}
