@@ -375,7 +375,7 @@ mod invariance {
             d0 in 1usize..4, d1 in 1usize..4, d2 in 1usize..4, seed in 0u64..1 << 32,
         ) {
             let t = random_tensor([d0, d1, d2], seed);
-            let m = |axis: usize, n: usize| random_invertible(n, 1_000_000, seed ^ (axis as u64 + 1) * 7919);
+            let m = |axis: usize, n: usize| random_invertible(n, 1_000_000, seed ^ ((axis as u64 + 1) * 7919));
             let u = change_basis(&t, &m(0, d0), &m(1, d1), &m(2, d2)).unwrap();
             let p = 3;
             prop_assume!(u.with_field(FieldSpec::Prime(p)).is_ok());
