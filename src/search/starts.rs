@@ -1,0 +1,78 @@
+//! Where a search starts: the best scheme built from the catalog's stored schemes for a
+//! matrix format ([`known_start`]), a walk start given by the user checked over the walk
+//! field, and the walks' own start, the standard scheme or, for a dense table, the slice
+//! scheme in a basis of low slice rank ([`super::slice_start`]).
+//!
+//! Invariant: every scheme returned is verified exactly against the goal (over the search
+//! field, or reduced mod the walk prime).
+
+use super::flip::Snapshot;
+use super::{Params, bits, hensel, slice_start};
+use crate::error::{Error, Result};
+use crate::scalar::FieldSpec;
+use crate::scheme::{Scheme, verify};
+use crate::tensor::Tensor;
+
+/// The standard scheme `std` of the walks over GF(`p`), or the slice scheme in a basis of
+/// low slice rank ([`slice_start`](super::slice_start)) when that is lower: a table in a basis of the user's
+/// own is dense, and its standard scheme (one term per nonzero coefficient) far above the
+/// rank. Cost: that of [`slice_start::slice_start`] (about a second at most).
+pub(crate) fn lower_start<S: Snapshot>(
+    std: S,
+    goal: &Tensor,
+    p: u64,
+    convert: impl Fn(&Scheme) -> Option<S>,
+) -> S {
+    let params = slice_start::SliceStartParams::default();
+    slice_start::slice_start(goal, p, std.rank(), &params)
+        .and_then(|s| convert(&s))
+        .filter(|s| s.rank() < std.rank())
+        .unwrap_or(std)
+}
+
+/// The start a search takes without one: when `goal` is the matrix multiplication tensor
+/// <n,m,p> in the generator's basis, the best scheme over the search field built from the
+/// catalog's stored schemes ([`crate::catalog::schemes::matmul_bases`],
+/// [`crate::scheme::build`]), if it is below the schoolbook rank; else `None`. With
+/// `walk: Some(params)` only stored schemes whose coefficients reduce modulo the walk prime
+/// take part (a start for the walks); with `integral` only stored schemes with integer
+/// coefficients. Verified exactly. Cost: a dynamic programme over the sub-formats and one
+/// verification (milliseconds for sides up to 16).
+pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Option<Scheme> {
+    let d = goal.dims();
+    if d.iter().any(|&x| x > bits::MAX_DIM) {
+        return None;
+    }
+    let f = crate::scheme::build::matmul_format_of(goal)?;
+    let walk_field = walk.map(|params| match goal.field() {
+        FieldSpec::Rational => FieldSpec::Prime(params.walk_prime),
+        p => p,
+    });
+    let bases: Vec<_> = crate::catalog::schemes::matmul_bases(goal.field())
+        .into_iter()
+        .filter(|b| walk_field.is_none_or(|wf| b.scheme.with_field(wf).is_ok()))
+        .filter(|b| !integral || hensel::is_integral(&b.scheme))
+        .collect();
+    let built = crate::scheme::build::build_matmul(f, goal.field(), &bases).ok()?;
+    (built.scheme.rank() < f[0] * f[1] * f[2]).then_some(built.scheme)
+}
+
+/// The walk start `s` over the walk field (GF(`walk_prime`) for a goal over Q, else the
+/// goal's field), checked exactly against the goal over that field.
+/// Cost: one verification, O(r d0 d1 d2) at most.
+pub(crate) fn check_walk_from(s: &Scheme, goal: &Tensor, walk_prime: u64) -> Result<Scheme> {
+    let wf = match goal.field() {
+        FieldSpec::Rational => FieldSpec::Prime(walk_prime),
+        f => f,
+    };
+    let bad = |why: String| Error::Invalid(format!("the walk start: {why}"));
+    let s = s.with_field(wf).map_err(|e| bad(e.to_string()))?;
+    let g = goal.with_field(wf).map_err(bad)?;
+    verify(&s, &g).map_err(|m| {
+        bad(format!(
+            "it does not verify over {wf}: {} coefficients differ, the first at {:?}",
+            m.count, m.index
+        ))
+    })?;
+    Ok(s)
+}
