@@ -56,6 +56,7 @@ pub const STORED_SCHEMES: &[StoredScheme] = &[
     stored!("matmul344", "found"),
     stored!("matmul345", "found"),
     stored!("matmul345", "gf2"),
+    stored!("matmul355", "found"),
     stored!("matmul445", "found"),
     stored!("matmul455", "found"),
     stored!("matmul455", "gf2"),
