@@ -269,6 +269,17 @@ pub(crate) struct Shared {
 }
 
 impl Shared {
+    /// A walk reached rank `r` over its field: the lowest such rank, and (made by
+    /// `scheme` only when it is a new lowest) its scheme, kept for the outcome.
+    fn note_walk_scheme(&self, r: usize, scheme: impl FnOnce() -> Scheme) {
+        if self.walk_rank.fetch_min(r, Ordering::SeqCst) > r {
+            let mut wb = self.walk_best.lock().expect("lock");
+            if wb.as_ref().is_none_or(|w| w.rank() > r) {
+                *wb = Some(scheme());
+            }
+        }
+    }
+
     /// Offer a verified scheme; false when it does not count (fractions over Z).
     fn offer(&self, s: Scheme, target: usize) -> bool {
         if self.integral && !hensel::is_integral(&s) {
@@ -414,7 +425,8 @@ pub fn search_scheme(
         }
     }
     let halted = || halt.reached();
-    let numeric_run = |fit: Fit, seed: u64, turn: u64, cut: &dyn Fn() -> bool| {
+    // a fit ends by its own iteration bound: only the halt cuts it
+    let numeric_run = |fit: Fit, seed: u64, turn: u64| {
         let mut rng = ChaCha8Rng::seed_from_u64(seed);
         let mut np = NumericParams {
             fit,
@@ -434,14 +446,13 @@ pub fn search_scheme(
                 b => b.saturating_sub(1),
             },
         };
-        let outcome = numeric::numeric_run(&goal, aim, &np, &mut rng, cut);
-        if cut() {
-            // a fit cut short is no evidence either way
-        } else if outcome.fitted() {
-            shared.fits_converged.fetch_add(1, Ordering::SeqCst);
+        let outcome = numeric::numeric_run(&goal, aim, &np, &mut rng, &halted);
+        // a fit cut short is no evidence either way
+        if !halted() {
             shared.fits.fetch_add(1, Ordering::SeqCst);
-        } else {
-            shared.fits.fetch_add(1, Ordering::SeqCst);
+            if outcome.fitted() {
+                shared.fits_converged.fetch_add(1, Ordering::SeqCst);
+            }
         }
         if let Some(s) = outcome.scheme() {
             shared.offer(s, target);
@@ -464,35 +475,28 @@ pub fn search_scheme(
             [(run_no % plan.kinds.len() as u64) as usize]
         {
             RunKind::Walk(_) => walk_run(seed, cut),
-            RunKind::Numeric(fit) => {
-                // a fit ends by its own iteration bound: only the halt cuts it
-                numeric_run(fit, seed, run_no / plan.kinds.len() as u64, &halted)
-            }
+            RunKind::Numeric(fit) => numeric_run(fit, seed, run_no / plan.kinds.len() as u64),
         };
         schedule::drive_runs(params, &shared, t0, &halted, &run, &weights, progress)
     };
     // a walk start below the best verified rank (a slice scheme in a basis of low slice
     // rank) is a result itself, lifted when the search is over Q
     let take_start = |s0: Scheme| {
-        let s0_rank = s0.rank();
-        if s0_rank >= shared.best_rank.load(Ordering::SeqCst) {
+        if s0.rank() >= shared.best_rank.load(Ordering::SeqCst) {
             return;
         }
-        let s0_kept = s0.clone();
-        let result = if goal.field() == s0.field {
-            verify(&s0, &goal).is_ok().then_some(s0)
-        } else {
-            hensel::lift_scheme(&s0, &goal, &params.hensel)
-        };
-        match result {
+        if goal.field() == s0.field {
+            if verify(&s0, &goal).is_ok() {
+                shared.offer(s0, target);
+            }
+            return;
+        }
+        match hensel::lift_scheme(&s0, &goal, &params.hensel) {
             Some(r) => {
                 shared.offer(r, target);
             }
-            None => {
-                // not lifted: kept as the walks' scheme over their field
-                shared.walk_rank.fetch_min(s0_rank, Ordering::SeqCst);
-                *shared.walk_best.lock().expect("lock") = Some(s0_kept);
-            }
+            // not lifted: kept as the walks' scheme over their field
+            None => shared.note_walk_scheme(s0.rank(), || s0),
         }
     };
     let snap = match walk {

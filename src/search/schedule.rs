@@ -70,6 +70,20 @@ struct TurnState {
     running: Vec<Vec<Instant>>,
 }
 
+impl TurnState {
+    /// The weighted time of `kind` at `now`: its finished runs plus its running ones,
+    /// over its weight.
+    fn charge(&self, kind: usize, weights: &[f64], now: Instant) -> f64 {
+        let busy: Duration = self.running[kind].iter().map(|t| now - *t).sum();
+        (self.spent[kind] + busy).as_secs_f64() / weight(weights, kind)
+    }
+}
+
+/// The weight of `kind` (1 when not given; never zero).
+fn weight(weights: &[f64], kind: usize) -> f64 {
+    weights.get(kind).copied().unwrap_or(1.0).max(1e-9)
+}
+
 impl Turns {
     /// A hand-out over `kinds` kinds of run (at least one).
     pub fn new(kinds: usize) -> Turns {
@@ -108,9 +122,7 @@ impl Turns {
             if limit.is_some_and(|m| seq >= m) {
                 continue;
             }
-            let busy: Duration = st.running[kind].iter().map(|t| now - *t).sum();
-            let w = weights.get(kind).copied().unwrap_or(1.0).max(1e-9);
-            let charge = (st.spent[kind] + busy).as_secs_f64() / w;
+            let charge = st.charge(kind, weights, now);
             if pick.is_none_or(|(c, s, _)| charge < c || (charge == c && seq < s)) {
                 pick = Some((charge, seq, kind));
             }
@@ -127,15 +139,14 @@ impl Turns {
     /// weights are equal); the search cuts only runs with no bound of their own (walks end
     /// when they stall, fits after a bounded number of steps). Cost: O(k) under the lock.
     fn over_share(&self, kind: usize, weights: &[f64]) -> bool {
-        let w = |j: usize| weights.get(j).copied().unwrap_or(1.0).max(1e-9);
         let st = self.state.lock().expect("lock");
         let now = Instant::now();
-        let charge = |j: usize| {
-            let busy: Duration = st.running[j].iter().map(|t| now - *t).sum();
-            (st.spent[j] + busy).as_secs_f64() / w(j)
-        };
-        let mine = charge(kind);
-        (0..st.cursor.len()).any(|j| j != kind && w(j) > w(kind) && mine > 2.0 * charge(j) + 1.0)
+        let mine = st.charge(kind, weights, now);
+        (0..st.cursor.len()).any(|j| {
+            j != kind
+                && weight(weights, j) > weight(weights, kind)
+                && mine > 2.0 * st.charge(j, weights, now) + 1.0
+        })
     }
 
     /// Record the end of a run claimed at `started`; `finished` when it ran to its end

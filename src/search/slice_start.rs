@@ -18,7 +18,7 @@
 use crate::linalg::dense_echelon::DenseEchelon;
 use crate::linalg::modular::rref_mod;
 use crate::linalg::{Matrix, inverse};
-use crate::scalar::{FieldSpec, PrimeField};
+use crate::scalar::{Field, FieldSpec, PrimeField};
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
 use num_bigint::BigInt;
@@ -94,18 +94,17 @@ impl Independent {
     }
 }
 
-/// The slice scheme along `axis` of the dense tensor `t` (dims `d`, entries mod p) in a
-/// basis of that axis of low total slice rank: `(rank, terms)` with terms in the axis
-/// order (axis, next, next).
+/// The slice scheme along `axis` (dims `d` of the tensor, `slices` its slices along that
+/// axis, entries mod p) in a basis of that axis of low total slice rank: its terms in the
+/// axis order (axis, next, next), or `None` when no basis is found.
 fn slice_scheme_along(
-    t: &[u64],
+    slices: &[Vec<u64>],
     d: [usize; 3],
     axis: usize,
     p: u64,
     params: &SliceStartParams,
 ) -> Option<Vec<[Vec<u64>; 3]>> {
     let (da, db, dc) = (d[axis], d[(axis + 1) % 3], d[(axis + 2) % 3]);
-    let slices = slices_along(t, d, axis);
     let size = db * dc;
     let step_cost = (size * (1 + db.min(dc))) as u64;
     let steps = (params.work_per_axis / step_cost.max(1)).max(1);
@@ -211,13 +210,14 @@ fn slices_along(t: &[u64], d: [usize; 3], axis: usize) -> Vec<Vec<u64>> {
         .collect()
 }
 
-/// The sum of the ranks over GF(p) of the slices of `t` along `axis` in the given basis.
-/// Cost: O(d0 d1 d2 min(d1, d2)).
-fn given_slice_rank(t: &[u64], d: [usize; 3], axis: usize, p: u64) -> usize {
+/// The sum of the ranks over GF(p) of `slices` (the slices along `axis` in the given
+/// basis). Cost: O(d0 d1 d2 min(d1, d2)).
+fn given_slice_rank(slices: &[Vec<u64>], d: [usize; 3], axis: usize, p: u64) -> usize {
     let (rows, cols) = (d[(axis + 1) % 3], d[(axis + 2) % 3]);
-    slices_along(t, d, axis)
-        .into_iter()
-        .map(|m| rank_mod_p(&m, &mut Vec::new(), rows, cols, p))
+    let mut scratch = Vec::new();
+    slices
+        .iter()
+        .map(|m| rank_mod_p(m, &mut scratch, rows, cols, p))
         .sum()
 }
 
@@ -240,20 +240,16 @@ pub fn slice_start(
         goal.with_field(field).ok()?
     };
     let d = red.dims();
+    let f = PrimeField::new(p)?;
     let mut dense = vec![0u64; d[0] * d[1] * d[2]];
     for (i, j, k, x) in red.entries() {
-        let v = x.numer().clone() % BigInt::from(p);
-        let v = if v < BigInt::from(0) {
-            v + BigInt::from(p)
-        } else {
-            v
-        };
-        dense[(i * d[1] + j) * d[2] + k] = u64::try_from(v).ok()?;
+        dense[(i * d[1] + j) * d[2] + k] = f.from_rational(x)?;
     }
+    let slices: [Vec<Vec<u64>>; 3] = std::array::from_fn(|axis| slices_along(&dense, d, axis));
     // a table already sparse (a generator's basis) has its standard scheme at or below
     // the slice scheme in the given basis: nothing to look for
     let plain = (0..3)
-        .map(|axis| given_slice_rank(&dense, d, axis, p))
+        .map(|axis| given_slice_rank(&slices[axis], d, axis, p))
         .min()
         .unwrap_or(usize::MAX);
     if plain >= below {
@@ -261,7 +257,7 @@ pub fn slice_start(
     }
     let mut best: Option<(usize, Vec<[Vec<u64>; 3]>)> = None;
     for axis in 0..3 {
-        let Some(terms) = slice_scheme_along(&dense, d, axis, p, params) else {
+        let Some(terms) = slice_scheme_along(&slices[axis], d, axis, p, params) else {
             continue;
         };
         if best.as_ref().is_none_or(|(a, _)| terms.len() < *a) {
@@ -340,7 +336,6 @@ mod tests {
 #[cfg(test)]
 mod invariance {
     use super::*;
-    use crate::scalar::Field;
     use crate::scalar::Q;
     use crate::tensor::{Kind, change_basis, random_invertible};
     use proptest::prelude::*;

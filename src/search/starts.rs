@@ -24,9 +24,9 @@ pub(crate) fn lower_start<S: Snapshot>(
     convert: impl Fn(&Scheme) -> Option<S>,
 ) -> S {
     let params = slice_start::SliceStartParams::default();
+    // below the standard rank by construction (the conversion only drops zero terms)
     slice_start::slice_start(goal, p, std.rank(), &params)
         .and_then(|s| convert(&s))
-        .filter(|s| s.rank() < std.rank())
         .unwrap_or(std)
 }
 

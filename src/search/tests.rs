@@ -446,7 +446,7 @@ fn walks_start_from_a_given_scheme_over_gf2() {
 fn laderman_rank_over_gf2_in_a_dense_basis() {
     use num_traits::Zero;
     let t = matmul(3, 3, 3);
-    // L U with unit triangular factors: determinant 1, so integral and invertible mod 2
+    // L L^T with L unit lower triangular: determinant 1, so integral and invertible mod 2
     let unimodular = |seed: u64| {
         let r = crate::tensor::random_invertible(9, 3, seed);
         let mut data = vec![Q::zero(); 81];

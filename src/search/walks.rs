@@ -62,12 +62,7 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                 }
                 WalkEvent::Candidate(b) => {
                     let r = b.rank();
-                    if shared.walk_rank.fetch_min(r, Ordering::SeqCst) > r {
-                        let mut wb = shared.walk_best.lock().expect("lock");
-                        if wb.as_ref().is_none_or(|w| w.rank() > r) {
-                            *wb = Some(b.to_scheme());
-                        }
-                    }
+                    shared.note_walk_scheme(r, || b.to_scheme());
                     let lower = r < level;
                     let improves = r < shared.best_rank.load(Ordering::SeqCst) || r <= target;
                     if !lift {
