@@ -1,7 +1,9 @@
 //! Lower bounds: exhaustive proofs over GF(2) (search and the separate check of its
 //! certificate) and the Koszul-Young / Strassen border-rank bounds, on generator tables
 //! and on the same tensors in a random basis (dense, large entries over Q; a random basis
-//! over GF(2)). Reference in the same run: the flattening bound of the same tensor.
+//! over GF(2)), and the Alder-Strassen bound with the interpolation scheme that meets it
+//! for cyclic group algebras (generator basis and a random basis of the algebra).
+//! Reference in the same run: the flattening bound of the same tensor.
 //! Targets: <2,2,2> and GF(2^k), k <= 4, proven over GF(2) in seconds; <3,3,3> reaches 15.
 use bilin::catalog::find_entry;
 use bilin::input::load_input;
@@ -82,6 +84,29 @@ fn bench(c: &mut Criterion) {
         g.bench_function(format!("reference: flattening {name}"), |b| {
             b.iter(|| flattening::bound(t))
         });
+    }
+    // commutative algebras: the Alder-Strassen bound (t exact by factoring over Q) and
+    // the interpolation scheme of rank 2n - t that meets it, in the generator's basis and
+    // in a random basis of the algebra with entries up to 10^6
+    let mp = bilin::decompose::monogenic::MonogenicParams::default();
+    for n in [8usize, 16] {
+        let c = bilin::generators::cyclic_group_algebra(n).expect("generator");
+        let p = random_invertible(n, 1_000_000, 5);
+        let dense = bilin::tensor::change_basis_algebra(&c, &p).expect("invertible");
+        for (name, t) in [
+            (format!("C{n}"), &c),
+            (format!("C{n} random basis"), &dense),
+        ] {
+            g.bench_function(format!("Alder-Strassen {name}"), |b| {
+                b.iter(|| bilin::ranks::alder_strassen::alder_strassen(t, &bp))
+            });
+            g.bench_function(format!("interpolation scheme {name}"), |b| {
+                b.iter(|| bilin::decompose::monogenic::monogenic_scheme(t, &mp))
+            });
+            g.bench_function(format!("reference: flattening {name}"), |b| {
+                b.iter(|| flattening::bound(t))
+            });
+        }
     }
     g.finish();
 }

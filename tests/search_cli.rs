@@ -276,3 +276,38 @@ fn search_over_q_keeps_the_walks_scheme_over_gf2() {
     assert!(stdout.contains("verified: rank 2"), "{stdout}");
     std::fs::remove_dir_all(&dir).ok();
 }
+
+/// A cyclic convolution written in a basis of the user's own: `search` answers at once at
+/// 2n - t (Winograd 1977, Math. Systems Theory 10, from memory: x^5 - 1 has two
+/// irreducible factors over Q, so 8 for length 5), `bounds` closes the interval on it, and
+/// the scheme written by `search` verifies against the table.
+#[test]
+fn a_convolution_in_the_users_basis_is_answered_at_its_rank() {
+    let dir = common::tmpdir("convolution-basis");
+    let (code, table, err) = bilin(&["transform", "C5", "--random", "7"]);
+    assert_eq!(code, 0, "{err}");
+    let table_path = dir.join("c5.txt");
+    std::fs::write(&table_path, table).unwrap();
+    let t = table_path.to_str().unwrap();
+    let out = dir.join("c5.json");
+    let (code, _, err) = bilin(&[
+        "search",
+        t,
+        "--rank",
+        "8",
+        "--time",
+        "30",
+        "--out",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("best verified rank 8 over Q"), "{err}");
+    let (code, stdout, err) = bilin(&["verify", t, out.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(stdout.contains("verified: rank 8"), "{stdout}");
+    let (code, stdout, err) = bilin(&["bounds", t]);
+    assert_eq!(code, 0, "{err}");
+    assert!(stdout.contains("R = 8 over Q"), "{stdout}");
+    assert!(stdout.contains("interpolation"), "{stdout}");
+    std::fs::remove_dir_all(&dir).ok();
+}

@@ -6,13 +6,16 @@
 //! - [`pencil`]: slices grouped (most often in pairs, matrix pencils), each group split
 //!   by evaluation at rational points (over Q; fewer terms than the slice ranks for
 //!   general data);
-//! - [`eigen`]: rational eigenvalues, found numerically and confirmed exactly.
+//! - [`eigen`]: rational eigenvalues, found numerically and confirmed exactly;
+//! - [`monogenic`]: a commutative algebra with one generator, by the Chinese remainder
+//!   theorem and interpolation (rank 2n - t, the exact rank).
 //!
 //! Invariant: every scheme returned here has passed the exact verification against the
 //! tensor over its field.
 
 pub mod eigen;
 pub mod kruskal;
+pub mod monogenic;
 pub mod pencil;
 pub mod planted;
 pub mod simultaneous;

@@ -1,12 +1,13 @@
 //! Upper bounds for the tensor rank, each carried by a scheme verified exactly against the
 //! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
 //! `R(T) <= r`. Sources: the slice decomposition, simultaneous diagonalisation and, when
-//! the latter does not apply, the pencil bound (slices paired as pencils, over Q)
-//! ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
+//! the latter does not apply, the pencil bound (slices paired as pencils, over Q), the
+//! interpolation scheme of a commutative algebra with one generator ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
 //! verified against this tensor, whatever its name), and schemes the caller supplies (a
 //! `--scheme` file, a search result).
 
 use crate::catalog::schemes::STORED_SCHEMES;
+use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::decompose::{
     PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
 };
@@ -18,8 +19,8 @@ use serde::Serialize;
 #[derive(Clone, Debug, Serialize)]
 pub struct Upper {
     pub value: usize,
-    /// Short name: `slices`, `simultaneous diagonalisation`, `pencils`, `catalog`,
-    /// `built`, `given scheme`.
+    /// Short name: `slices`, `simultaneous diagonalisation`, `pencils`, `interpolation`,
+    /// `catalog`, `built`, `given scheme`.
     pub name: String,
     /// Where the scheme comes from and what it shows.
     pub detail: String,
@@ -77,6 +78,29 @@ pub fn upper_bounds(
             },
             Ok(_) => {}
         }
+    }
+    // a commutative algebra with one generator: 2n - t by the Chinese remainder theorem
+    // and interpolation, in the table's own basis
+    if let Some(m) = monogenic_scheme(t, &MonogenicParams::default()) {
+        out.push(Upper {
+            value: m.scheme.rank(),
+            name: "interpolation".into(),
+            detail: format!(
+                "a generator with minimal polynomial {} ({} distinct irreducible {}): \
+                 products of residues by interpolation, joined by the Chinese remainder \
+                 theorem (Winograd 1977, Some bilinear forms whose multiplicative \
+                 complexity depends on the field of constants, Math. Systems Theory 10, \
+                 from memory), verified exactly",
+                crate::poly::to_text(&m.minimal_polynomial, "x"),
+                m.factors.len(),
+                if m.factors.len() == 1 {
+                    "factor"
+                } else {
+                    "factors"
+                }
+            ),
+            scheme: m.scheme,
+        });
     }
     if !params.no_catalog {
         // a matrix multiplication tensor: the best scheme built from the stored ones

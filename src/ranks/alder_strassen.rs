@@ -9,10 +9,11 @@
 //! components of S = A/rad A correspond to those of its centre Z(S), a
 //! commutative semisimple algebra. Over GF(p), t = dim of the fixed space of the Frobenius
 //! z -> z^p on Z(S) (exact). Over Q, with a primitive element z of Z(S) whose minimal
-//! polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q <= the
-//! number of factors of f mod p for any prime p where f stays squarefree of full degree
-//! (Gauss's lemma; counted by Berlekamp's matrix). Otherwise t <= dim Z(S). The bound
-//! used on t is stated in the result.
+//! polynomial f has degree dim Z(S), t = number of irreducible factors of f over Q,
+//! factored exactly ([`crate::poly::factor`]); when that factorisation is over its work
+//! limit, t <= the number of factors of f mod p for any prime p where f stays squarefree
+//! of full degree (Gauss's lemma; counted by Berlekamp's matrix). Otherwise
+//! t <= dim Z(S). The bound used on t is stated in the result.
 //!
 //! A bilinear map that is not an algebra is handled through its unital isotopes
 //! ([`super::isotope`]): the rank does not change under a change of the three bases.
@@ -223,11 +224,17 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
         ));
     }
     // characteristic 0: a primitive element of the centre and its minimal polynomial
+    // candidates: the centre's basis vectors (small minimal polynomials, cheap to factor:
+    // x^n - 1 for a cyclic group algebra), then random combinations, small ones first
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
-    for _ in 0..8 {
+    for attempt in 0..dz + 8 {
         let mut z = vec![f.zero(); ds];
-        for b in &centre {
-            let c = f.from_i64(rng.gen_range(-50..=50));
+        for (k, b) in centre.iter().enumerate() {
+            let c = f.from_i64(match attempt {
+                a if a < dz => i64::from(a == k),
+                a if a < dz + 4 => rng.gen_range(-3..=3),
+                _ => rng.gen_range(-50..=50),
+            });
             for (zi, bi) in z.iter_mut().zip(b) {
                 f.add_mul_assign(zi, &c, bi);
             }
@@ -244,6 +251,17 @@ fn count_components<F: Field>(f: &F, t: &Tensor, seed: u64) -> Result<(usize, St
             continue;
         }
         let coeffs: Vec<Q> = ker[0].iter().map(|x| f.to_rational(x)).collect();
+        // exact: the irreducible factors over Q (Zassenhaus); the count modulo primes
+        // bounds it when the factorisation is over its work limit
+        if let Ok(fs) = crate::poly::factor(crate::scalar::FieldSpec::Rational, &coeffs) {
+            let r = fs.factors.len();
+            return Ok((
+                r,
+                format!(
+                    "{head}, t = {r} (irreducible factors over Q of the minimal polynomial of a primitive element of the centre, exact)"
+                ),
+            ));
+        }
         if let Some((r, prime)) = min_factor_count(&coeffs) {
             return Ok((
                 r,

@@ -1,5 +1,6 @@
 //! Where a search starts: the best scheme built from the catalog's stored schemes for a
-//! matrix format ([`known_start`]), a walk start given by the user checked over the walk
+//! matrix format, or the interpolation scheme of a commutative algebra with one generator
+//! ([`known_start`]), a walk start given by the user checked over the walk
 //! field, and the walks' own start, the standard scheme or, for a dense table, the slice
 //! scheme in a basis of low slice rank ([`super::slice_start`]).
 //!
@@ -8,6 +9,7 @@
 
 use super::flip::Snapshot;
 use super::{Params, bits, hensel, slice_start};
+use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
 use crate::scheme::{Scheme, verify};
@@ -33,7 +35,9 @@ pub(crate) fn lower_start<S: Snapshot>(
 /// The start a search takes without one: when `goal` is the matrix multiplication tensor
 /// <n,m,p> in the generator's basis, the best scheme over the search field built from the
 /// catalog's stored schemes ([`crate::catalog::schemes::matmul_bases`],
-/// [`crate::scheme::build`]), if it is below the schoolbook rank; else `None`. With
+/// [`crate::scheme::build`]), if it is below the schoolbook rank; for a commutative
+/// algebra with one generator, its interpolation scheme of rank 2n - t, the exact rank
+/// ([`interpolation_start`]); else `None`. With
 /// `walk: Some(params)` only stored schemes whose coefficients reduce modulo the walk prime
 /// take part (a start for the walks); with `integral` only stored schemes with integer
 /// coefficients. Verified exactly. Cost: a dynamic programme over the sub-formats and one
@@ -43,11 +47,13 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
     if d.iter().any(|&x| x > bits::MAX_DIM) {
         return None;
     }
-    let f = crate::scheme::build::matmul_format_of(goal)?;
     let walk_field = walk.map(|params| match goal.field() {
         FieldSpec::Rational => FieldSpec::Prime(params.walk_prime),
         p => p,
     });
+    let Some(f) = crate::scheme::build::matmul_format_of(goal) else {
+        return interpolation_start(goal, walk_field, integral);
+    };
     let bases: Vec<_> = crate::catalog::schemes::matmul_bases(goal.field())
         .into_iter()
         .filter(|b| walk_field.is_none_or(|wf| b.scheme.with_field(wf).is_ok()))
@@ -55,6 +61,29 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
         .collect();
     let built = crate::scheme::build::build_matmul(f, goal.field(), &bases).ok()?;
     (built.scheme.rank() < f[0] * f[1] * f[2]).then_some(built.scheme)
+}
+
+/// The scheme of rank 2n - t of a commutative algebra with one generator
+/// ([`monogenic_scheme`]), in the table's own basis; with `walk_field`, only when it
+/// reduces to a scheme over that field (checked exactly), with `integral` only when its
+/// coefficients are integers. Cost: that of [`monogenic_scheme`].
+fn interpolation_start(
+    goal: &Tensor,
+    walk_field: Option<FieldSpec>,
+    integral: bool,
+) -> Option<Scheme> {
+    let s = monogenic_scheme(goal, &MonogenicParams::default())?.scheme;
+    if integral && !hensel::is_integral(&s) {
+        return None;
+    }
+    match walk_field {
+        None => Some(s),
+        Some(wf) if wf == goal.field() => Some(s),
+        Some(wf) => {
+            let r = s.with_field(wf).ok()?;
+            verify(&r, &goal.with_field(wf).ok()?).is_ok().then_some(r)
+        }
+    }
 }
 
 /// The walk start `s` over the walk field (GF(`walk_prime`) for a goal over Q, else the
