@@ -38,14 +38,15 @@
 //! against the tensor ([`crate::scheme::verify`]); a table that is not commutative and
 //! associative simply fails it.
 
-use crate::laws::find_unit_direct;
+use crate::laws::{find_unit, find_unit_direct};
 use crate::linalg::modular::inverse_q;
-use crate::linalg::{Matrix, inverse, solve};
+use crate::linalg::nullspace::SolveParams;
+use crate::linalg::{Matrix, inverse};
 use crate::poly;
 use crate::ranks::isotope::unital_isotope;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
 use crate::scheme::{Scheme, reduce_into, verify};
-use crate::tensor::{Table, Tensor};
+use crate::tensor::{IntegralTensor, Table, Tensor};
 use num_traits::Zero;
 use rand::{Rng, SeedableRng};
 
@@ -147,8 +148,18 @@ fn of_algebra(t: &Tensor, params: &MonogenicParams) -> Option<Monogenic> {
     }
     let theta = find_generator(t, params)?;
     let m = match t.field() {
-        FieldSpec::Rational => build(&Rationals, t, &theta, |_, m| inverse_q(m)),
-        FieldSpec::Prime(p) => build(&PrimeField::new(p)?, t, &theta, inverse),
+        FieldSpec::Rational => {
+            // the unit by the shared modular solver (exact elimination over Q is slow on
+            // a dense table with large entries)
+            let it = IntegralTensor::from_tensor(t);
+            let one = find_unit(&it, &SolveParams::default()).ok()??;
+            build(&Rationals, t, &theta, one, |_, m| inverse_q(m))
+        }
+        FieldSpec::Prime(p) => {
+            let fp = PrimeField::new(p)?;
+            let one = find_unit_direct(&fp, &t.table(&fp))?;
+            build(&fp, t, &theta, one, inverse)
+        }
     }?;
     verify(&m.scheme, t).is_ok().then_some(m)
 }
@@ -176,24 +187,28 @@ fn find_generator(t: &Tensor, params: &MonogenicParams) -> Option<Vec<i64>> {
     let one = find_unit_direct(&fp, &table)?;
     candidates(t.dims()[0], params).find(|theta| {
         let v: Vec<u64> = theta.iter().map(|&x| fp.from_i64(x)).collect();
-        powers_of(&fp, &table, &one, &v).is_some()
+        generates(&fp, &table, &one, &v)
     })
 }
 
-/// The construction over the field context `f` from the generator `theta`.
+/// The construction over the field context `f` from the generator `theta` and the unit
+/// `one`; `invert` inverts a square matrix over `f`.
 fn build<F: Field>(
     f: &F,
     t: &Tensor,
     theta: &[i64],
+    one: Vec<F::Elem>,
     invert: impl Fn(&F, &Matrix<F::Elem>) -> Option<Matrix<F::Elem>>,
 ) -> Option<Monogenic> {
     let n = t.dims()[0];
     let table: Table<F::Elem> = t.table(f);
-    let one = find_unit_direct(f, &table)?;
     let theta: Vec<F::Elem> = theta.iter().map(|&x| f.from_i64(x)).collect();
-    // the power matrix P (column j = θ^j) and the minimal polynomial of θ
-    let (powers, minpoly) = powers_of(f, &table, &one, &theta)?;
+    // the power matrix P (column j = θ^j), θ^n, and the minimal polynomial of θ:
+    // θ^n = sum c_j θ^j with c = P^-1 θ^n, f = x^n - sum c_j x^j
+    let (left, powers, last) = powers_of(f, &table, &one, &theta);
     let p_inv = invert(f, &powers)?;
+    let mut minpoly: Vec<F::Elem> = p_inv.mul_vec(f, &last).iter().map(|x| f.neg(x)).collect();
+    minpoly.push(f.one());
     let factorisation = poly::factor(t.field(), &poly::to_rationals(f, &minpoly)).ok()?;
     let mut scheme = Scheme::empty(t.field(), [n, n, n]);
     let q = |v: &[F::Elem]| -> Vec<Q> { v.iter().map(|x| f.to_rational(x)).collect() };
@@ -213,13 +228,26 @@ fn build<F: Field>(
                 poly::rem(f, &col, &g)
             })
             .collect();
+        // the idempotent e = E(θ) in the table's basis and θ^m e, m <= 2 deg - 2
+        let mut padded = idem;
+        padded.resize(n, f.zero());
+        let mut shifted = vec![powers.mul_vec(f, &padded)];
+        for _ in 1..2 * deg - 1 {
+            let next = left.mul_vec(f, shifted.last().expect("nonempty"));
+            shifted.push(next);
+        }
         for (form, basis_poly) in interpolation(f, deg)? {
             // the linear form a -> form(a mod g) on the table's basis vectors
             let u: Vec<F::Elem> = residues.iter().map(|r| form.apply(f, r, deg)).collect();
-            let h = poly::rem(f, &poly::mul(f, &basis_poly, &idem), &minpoly);
-            let mut coeffs = h;
-            coeffs.resize(n, f.zero());
-            let w = powers.mul_vec(f, &coeffs);
+            // (basis_poly E)(θ) = sum_m basis_poly[m] θ^m e
+            let mut w = vec![f.zero(); n];
+            for (c, y) in basis_poly.iter().zip(&shifted) {
+                if !f.is_zero(c) {
+                    for (wi, yi) in w.iter_mut().zip(y) {
+                        f.add_mul_assign(wi, c, yi);
+                    }
+                }
+            }
             scheme.push(q(&u), q(&u), q(&w));
         }
     }
@@ -245,40 +273,47 @@ fn candidates(n: usize, params: &MonogenicParams) -> impl Iterator<Item = Vec<i6
     basis.chain(random)
 }
 
-/// The power matrix of θ and its minimal polynomial.
-type Powers<E> = (Matrix<E>, Vec<E>);
-
 /// A linear form and the polynomial its product multiplies.
 type FormAndPoly<E> = (Form<E>, Vec<E>);
 
-/// The power matrix of θ (column j = θ^j, j < n) and the minimal polynomial of θ (monic,
-/// degree n), when `1, θ, ..., θ^(n-1)` are independent; `None` otherwise.
+/// Left multiplication by θ, the power matrix and θ^n.
+type PowerData<E> = (Matrix<E>, Matrix<E>, Vec<E>);
+
+/// The matrix of left multiplication by θ, the power matrix of θ (column j = θ^j, j < n)
+/// and θ^n. Cost: O(n^3) field operations.
 fn powers_of<F: Field>(
     f: &F,
     table: &Table<F::Elem>,
     one: &[F::Elem],
     theta: &[F::Elem],
-) -> Option<Powers<F::Elem>> {
+) -> PowerData<F::Elem> {
     let n = one.len();
-    let mut cols = vec![one.to_vec()];
-    for _ in 1..=n {
-        let next = table.mul(f, theta, cols.last().expect("nonempty"));
-        cols.push(next);
-    }
-    let mut p = Matrix::zeros(f, n, n);
-    for (j, c) in cols.iter().take(n).enumerate() {
-        for (i, x) in c.iter().enumerate() {
-            p[(i, j)] = x.clone();
+    // left multiplication: (θ y)_k = sum_j L[k][j] y_j, L[k][j] = sum_i θ_i c_ijk
+    let mut left = Matrix::zeros(f, n, n);
+    for (i, ti) in theta.iter().enumerate() {
+        if f.is_zero(ti) {
+            continue;
+        }
+        for j in 0..n {
+            for (k, c) in table.product(i, j) {
+                f.add_mul_assign(&mut left[(*k, j)], ti, c);
+            }
         }
     }
-    if crate::linalg::rank(f, &p) < n {
-        return None;
+    let mut p = Matrix::zeros(f, n, n);
+    let mut col = one.to_vec();
+    for j in 0..n {
+        for (i, x) in col.iter().enumerate() {
+            p[(i, j)] = x.clone();
+        }
+        col = left.mul_vec(f, &col);
     }
-    // θ^n = sum c_j θ^j, so the minimal polynomial is x^n - sum c_j x^j
-    let c = solve(f, &p, &cols[n])?;
-    let mut minpoly: Vec<F::Elem> = c.iter().map(|x| f.neg(x)).collect();
-    minpoly.push(f.one());
-    Some((p, minpoly))
+    (left, p, col)
+}
+
+/// True when `1, θ, ..., θ^(n-1)` are independent (θ generates the algebra).
+fn generates<F: Field>(f: &F, table: &Table<F::Elem>, one: &[F::Elem], theta: &[F::Elem]) -> bool {
+    crate::linalg::rank(f, &powers_of(f, table, one, theta).1) == one.len()
 }
 
 /// The idempotent E with `E ≡ 1 mod g` and `E ≡ 0 mod f/g` (g a factor of f coprime to
