@@ -99,12 +99,30 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
     if d[0] != d[1] || d[1] != d[2] || d[0] == 0 || d[0] > params.max_dim {
         return None;
     }
-    let (fp, table) = screening_table(t)?;
-    if find_unit_direct(&fp, &table).is_some() {
-        return of_algebra(t, params);
+    let (fp, tp) = screening(t)?;
+    if find_unit_direct(&fp, &tp.table(&fp)).is_some() {
+        return of_algebra(t, (&fp, &tp), params);
     }
-    let iso = unital_isotope(t).ok()?;
-    let m = of_algebra(&iso.algebra, params)?;
+    // the isotope modulo the screening prime first: commutative, or no scheme (a general
+    // bilinear map is not isotopic to a commutative algebra; the exact isotope over Q
+    // costs an inverse of large entries)
+    let iso_p = unital_isotope(&tp).ok()?;
+    if !is_commutative(&iso_p.algebra) {
+        return None;
+    }
+    let iso = match t.field() {
+        FieldSpec::Rational => unital_isotope(t).ok()?,
+        FieldSpec::Prime(_) => iso_p.clone(),
+    };
+    // the same u0 and v0 give the isotope over Q reduced mod p
+    let screened = if (&iso.u0, &iso.v0) == (&iso_p.u0, &iso_p.v0) {
+        iso_p.algebra
+    } else {
+        iso.algebra
+            .with_field(FieldSpec::Prime(fp.characteristic()))
+            .ok()?
+    };
+    let m = of_algebra(&iso.algebra, (&fp, &screened), params)?;
     let (r, l) = (slice_map(t, &iso.v0, 1), slice_map(t, &iso.u0, 0));
     let field = t.field();
     let through = |x: &[Q], m: &[Vec<Q>]| -> Option<Vec<Q>> {
@@ -140,13 +158,18 @@ fn slice_map(t: &Tensor, y: &[i64], axis: usize) -> Vec<Vec<Q>> {
     m
 }
 
-/// The scheme of a commutative algebra with unit and a generator, verified.
-fn of_algebra(t: &Tensor, params: &MonogenicParams) -> Option<Monogenic> {
-    // commutative, else no generator can give a scheme: O(nnz)
-    if t.entries().any(|(i, j, k, c)| t.get(j, i, k) != *c) {
+/// The scheme of a commutative algebra with unit and a generator, verified; `screen` is
+/// the screening field and the table reduced to it.
+fn of_algebra(
+    t: &Tensor,
+    screen: (&PrimeField, &Tensor),
+    params: &MonogenicParams,
+) -> Option<Monogenic> {
+    // commutative, else no generator can give a scheme
+    if !is_commutative(screen.1) || !is_commutative(t) {
         return None;
     }
-    let theta = find_generator(t, params)?;
+    let theta = find_generator(screen, params)?;
     let m = match t.field() {
         FieldSpec::Rational => {
             // the unit by the shared modular solver (exact elimination over Q is slow on
@@ -164,30 +187,33 @@ fn of_algebra(t: &Tensor, params: &MonogenicParams) -> Option<Monogenic> {
     verify(&m.scheme, t).is_ok().then_some(m)
 }
 
-/// The table over the screening field: itself over GF(p); over Q, modulo the first word
-/// prime that divides no denominator.
-fn screening_table(t: &Tensor) -> Option<(PrimeField, Table<u64>)> {
-    let screen = match t.field() {
-        FieldSpec::Prime(p) => p,
-        FieldSpec::Rational => crate::scalar::word_primes(8)
-            .into_iter()
-            .find(|&p| t.with_field(FieldSpec::Prime(p)).is_ok())?,
-    };
-    let fp = PrimeField::new(screen)?;
-    let table = t.with_field(FieldSpec::Prime(screen)).ok()?.table(&fp);
-    Some((fp, table))
+/// `e_i e_j = e_j e_i` for all basis vectors. Cost: O(nnz).
+fn is_commutative(t: &Tensor) -> bool {
+    t.entries().all(|(i, j, k, c)| t.get(j, i, k) == *c)
+}
+
+/// The screening field and the table reduced to it: the table itself over GF(p); over Q,
+/// modulo the first word prime that divides no denominator.
+fn screening(t: &Tensor) -> Option<(PrimeField, Tensor)> {
+    match t.field() {
+        FieldSpec::Prime(p) => Some((PrimeField::new(p)?, t.clone())),
+        FieldSpec::Rational => crate::scalar::word_primes(8).into_iter().find_map(|p| {
+            let tp = t.with_field(FieldSpec::Prime(p)).ok()?;
+            Some((PrimeField::new(p)?, tp))
+        }),
+    }
 }
 
 /// A generator among the candidates, screened modulo a word prime for a table over Q
 /// (independent powers mod p are independent over Q, and the powers of a dense rational
 /// table grow large), over the table's field otherwise. Cost: per candidate n products
 /// and one n x n rank mod p.
-fn find_generator(t: &Tensor, params: &MonogenicParams) -> Option<Vec<i64>> {
-    let (fp, table) = screening_table(t)?;
-    let one = find_unit_direct(&fp, &table)?;
-    candidates(t.dims()[0], params).find(|theta| {
+fn find_generator((fp, tp): (&PrimeField, &Tensor), params: &MonogenicParams) -> Option<Vec<i64>> {
+    let table = tp.table(fp);
+    let one = find_unit_direct(fp, &table)?;
+    candidates(tp.dims()[0], params).find(|theta| {
         let v: Vec<u64> = theta.iter().map(|&x| fp.from_i64(x)).collect();
-        generates(&fp, &table, &one, &v)
+        generates(fp, &table, &one, &v)
     })
 }
 

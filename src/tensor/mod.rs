@@ -302,19 +302,33 @@ impl Tensor {
     /// denominator prime to p; otherwise the `Err` names the first offending product.
     pub fn with_field(&self, field: FieldSpec) -> Result<Tensor, String> {
         let mut t = Tensor::zero(field, self.kind, self.dims, Some(self.names.clone()));
-        for (i, j, k, v) in self.entries() {
-            if let FieldSpec::Prime(p) = field
-                && PrimeField::new(p).expect("prime").denominator_vanishes(v)
-            {
-                return Err(format!(
-                    "the coefficient {} of {} in {}*{} has a denominator divisible by {p}",
-                    q_to_string(v),
-                    self.names[2][k],
-                    self.names[0][i],
-                    self.names[1][j]
-                ));
+        let fp = match field {
+            FieldSpec::Rational => None,
+            FieldSpec::Prime(p) => Some(PrimeField::new(p).expect("prime")),
+        };
+        for (idx, row) in self.products.iter().enumerate() {
+            let mut out = Vec::with_capacity(row.len());
+            for (k, v) in row {
+                let Some(f) = &fp else {
+                    out.push((*k, v.clone()));
+                    continue;
+                };
+                // None exactly when the denominator vanishes mod p
+                let Some(r) = f.from_rational(v) else {
+                    let p = f.modulus();
+                    return Err(format!(
+                        "the coefficient {} of {} in {}*{} has a denominator divisible by {p}",
+                        q_to_string(v),
+                        self.names[2][*k],
+                        self.names[0][idx / self.dims[1]],
+                        self.names[1][idx % self.dims[1]]
+                    ));
+                };
+                if r != 0 {
+                    out.push((*k, f.to_rational(&r)));
+                }
             }
-            t.set(i, j, k, v.clone());
+            t.products[idx] = out;
         }
         Ok(t)
     }
