@@ -13,9 +13,11 @@
 //! Construction. Let A be the table's algebra with unit 1, of dimension n, and θ an element
 //! whose powers `1, θ, ..., θ^(n-1)` are a basis (θ generates A: `A = F[θ] = F[x]/(f)`, f
 //! the minimal polynomial of θ). Candidates for θ: the basis vectors first (the generator
-//! of a cyclic group algebra is one), then seeded random small integer combinations; a
+//! of a cyclic group algebra is one), then seeded random integer combinations, small
+//! ones first (each screened modulo a word prime); a
 //! commutative semisimple algebra over Q always has a generator (primitive element
-//! theorem), a random combination is one with probability near 1. Factor
+//! theorem): an element whose values in the fields are distinct, which a random
+//! combination from a wide enough range is, with probability near 1. Factor
 //! `f = prod g_i` with `g_i = p_i^(e_i)` powers of distinct irreducibles, `d_i = deg g_i`.
 //! By the Chinese remainder theorem `a b = sum_i E_i (a_i b_i mod g_i) mod f`, with
 //! `a_i = a mod g_i` and `E_i` the idempotent `≡ 1 mod g_i`, `≡ 0 mod g_j` (j ≠ i). The
@@ -66,7 +68,7 @@ impl Default for MonogenicParams {
     fn default() -> Self {
         MonogenicParams {
             seed: 1,
-            random_tries: 6,
+            random_tries: 16,
             max_dim: 64,
         }
     }
@@ -286,7 +288,7 @@ fn build<F: Field>(
 }
 
 /// Candidates for a generator: the basis vectors, then seeded random vectors with entries
-/// in -3..=3.
+/// in -3..=3, then in wider ranges (up to -3000..=3000).
 fn candidates(n: usize, params: &MonogenicParams) -> impl Iterator<Item = Vec<i64>> {
     let basis = (0..n).map(move |i| {
         let mut v = vec![0; n];
@@ -294,8 +296,12 @@ fn candidates(n: usize, params: &MonogenicParams) -> impl Iterator<Item = Vec<i6
         v
     });
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
-    let random = (0..params.random_tries)
-        .map(move |_| (0..n).map(|_| rng.gen_range(-3..=3)).collect::<Vec<i64>>());
+    let random = (0..params.random_tries).map(move |k| {
+        // wider ranges as the tries go on: a product of many fields needs an element
+        // whose values in the fields are distinct (-3..=3, then -30..=30, ...)
+        let b = [3i64, 30, 300, 3000][(4 * k / params.random_tries.max(1)).min(3)];
+        (0..n).map(|_| rng.gen_range(-b..=b)).collect::<Vec<i64>>()
+    });
     basis.chain(random)
 }
 
