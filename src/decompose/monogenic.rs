@@ -45,11 +45,10 @@ use crate::linalg::modular::inverse_q;
 use crate::linalg::nullspace::SolveParams;
 use crate::linalg::{Matrix, inverse};
 use crate::poly;
-use crate::ranks::isotope::unital_isotope;
+use crate::ranks::isotope::{slice_matrix, unital_isotope};
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
 use crate::scheme::{Scheme, reduce_into, verify};
 use crate::tensor::{IntegralTensor, Table, Tensor};
-use num_traits::Zero;
 use rand::{Rng, SeedableRng};
 
 /// Parameters of [`monogenic_scheme`].
@@ -102,8 +101,8 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
         return None;
     }
     let (fp, tp) = screening(t)?;
-    if find_unit_direct(&fp, &tp.table(&fp)).is_some() {
-        return of_algebra(t, (&fp, &tp), params);
+    if let Some(screen) = Screen::of(fp, &tp) {
+        return of_algebra(t, &screen, params);
     }
     // the isotope modulo the screening prime first: commutative, or no scheme (a general
     // bilinear map is not isotopic to a commutative algebra; the exact isotope over Q
@@ -112,25 +111,33 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
     if !is_commutative(&iso_p.algebra) {
         return None;
     }
-    let iso = match t.field() {
-        FieldSpec::Rational => unital_isotope(t).ok()?,
-        FieldSpec::Prime(_) => iso_p.clone(),
+    let (iso, screened) = match t.field() {
+        FieldSpec::Prime(_) => {
+            let screened = iso_p.algebra.clone();
+            (iso_p, screened)
+        }
+        FieldSpec::Rational => {
+            let iso = unital_isotope(t).ok()?;
+            // the same u0 and v0 give the isotope over Q reduced mod p
+            let screened = if (&iso.u0, &iso.v0) == (&iso_p.u0, &iso_p.v0) {
+                iso_p.algebra
+            } else {
+                iso.algebra
+                    .with_field(FieldSpec::Prime(fp.characteristic()))
+                    .ok()?
+            };
+            (iso, screened)
+        }
     };
-    // the same u0 and v0 give the isotope over Q reduced mod p
-    let screened = if (&iso.u0, &iso.v0) == (&iso_p.u0, &iso_p.v0) {
-        iso_p.algebra
-    } else {
-        iso.algebra
-            .with_field(FieldSpec::Prime(fp.characteristic()))
-            .ok()?
-    };
-    let m = of_algebra(&iso.algebra, (&fp, &screened), params)?;
-    let (r, l) = (slice_map(t, &iso.v0, 1), slice_map(t, &iso.u0, 0));
+    let m = of_algebra(&iso.algebra, &Screen::of(fp, &screened)?, params)?;
+    // R = T(., v0) and L = T(u0, .), rows indexed by the result coordinate
+    let r = slice_matrix(&Rationals, t, 1, &iso.v0);
+    let l = slice_matrix(&Rationals, t, 0, &iso.u0);
     let field = t.field();
-    let through = |x: &[Q], m: &[Vec<Q>]| -> Option<Vec<Q>> {
+    let through = |x: &[Q], m: &Matrix<Q>| -> Option<Vec<Q>> {
         (0..d[0])
             .map(|i| {
-                let s: Q = x.iter().zip(m).map(|(a, row)| a * &row[i]).sum();
+                let s: Q = x.iter().enumerate().map(|(k, a)| a * &m[(k, i)]).sum();
                 reduce_into(field, &s).ok()
             })
             .collect()
@@ -146,29 +153,27 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
         .then_some(Monogenic { scheme, ..m })
 }
 
-/// The matrix of `a -> T(a, y)` (`axis` 1: y fixed on the right) or `b -> T(y, b)` (`axis`
-/// 0), rows indexed by the result coordinate: `R[k][i] = sum_j T_ijk y_j`.
-fn slice_map(t: &Tensor, y: &[i64], axis: usize) -> Vec<Vec<Q>> {
-    let n = t.dims()[2];
-    let mut m = vec![vec![Q::zero(); t.dims()[1 - axis]]; n];
-    for (i, j, k, c) in t.entries() {
-        let (fixed, free) = if axis == 1 { (j, i) } else { (i, j) };
-        if y[fixed] != 0 {
-            m[k][free] += c * Q::from_integer(y[fixed].into());
-        }
+/// An algebra reduced to the screening field: its table there and its unit.
+struct Screen {
+    fp: PrimeField,
+    table: Table<u64>,
+    one: Vec<u64>,
+}
+
+impl Screen {
+    /// `tp` (a table over GF(p), the field of `fp`) with its unit; `None` without one.
+    fn of(fp: PrimeField, tp: &Tensor) -> Option<Screen> {
+        let table = tp.table(&fp);
+        let one = find_unit_direct(&fp, &table)?;
+        Some(Screen { fp, table, one })
     }
-    m
 }
 
 /// The scheme of a commutative algebra with unit and a generator, verified; `screen` is
-/// the screening field and the table reduced to it.
-fn of_algebra(
-    t: &Tensor,
-    screen: (&PrimeField, &Tensor),
-    params: &MonogenicParams,
-) -> Option<Monogenic> {
+/// the algebra reduced to the screening field.
+fn of_algebra(t: &Tensor, screen: &Screen, params: &MonogenicParams) -> Option<Monogenic> {
     // commutative, else no generator can give a scheme
-    if !is_commutative(screen.1) || !is_commutative(t) {
+    if !is_commutative(t) {
         return None;
     }
     let theta = find_generator(screen, params)?;
@@ -180,11 +185,8 @@ fn of_algebra(
             let one = find_unit(&it, &SolveParams::default()).ok()??;
             build(&Rationals, t, &theta, one, |_, m| inverse_q(m))
         }
-        FieldSpec::Prime(p) => {
-            let fp = PrimeField::new(p)?;
-            let one = find_unit_direct(&fp, &t.table(&fp))?;
-            build(&fp, t, &theta, one, inverse)
-        }
+        // over GF(p) the screening field is the table's own
+        FieldSpec::Prime(_) => build(&screen.fp, t, &theta, screen.one.clone(), inverse),
     }?;
     verify(&m.scheme, t).is_ok().then_some(m)
 }
@@ -210,12 +212,11 @@ fn screening(t: &Tensor) -> Option<(PrimeField, Tensor)> {
 /// (independent powers mod p are independent over Q, and the powers of a dense rational
 /// table grow large), over the table's field otherwise. Cost: per candidate n products
 /// and one n x n rank mod p.
-fn find_generator((fp, tp): (&PrimeField, &Tensor), params: &MonogenicParams) -> Option<Vec<i64>> {
-    let table = tp.table(fp);
-    let one = find_unit_direct(fp, &table)?;
-    candidates(tp.dims()[0], params).find(|theta| {
+fn find_generator(screen: &Screen, params: &MonogenicParams) -> Option<Vec<i64>> {
+    let Screen { fp, table, one } = screen;
+    candidates(one.len(), params).find(|theta| {
         let v: Vec<u64> = theta.iter().map(|&x| fp.from_i64(x)).collect();
-        generates(fp, &table, &one, &v)
+        generates(fp, table, one, &v)
     })
 }
 

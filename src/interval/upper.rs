@@ -2,7 +2,8 @@
 //! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
 //! `R(T) <= r`. Sources: the slice decomposition, simultaneous diagonalisation and, when
 //! the latter does not apply, the pencil bound (slices paired as pencils, over Q), the
-//! interpolation scheme of a commutative algebra with one generator ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
+//! interpolation scheme of a commutative algebra with one generator
+//! ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
 //! verified against this tensor, whatever its name), and schemes the caller supplies (a
 //! `--scheme` file, a search result).
 

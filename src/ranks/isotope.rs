@@ -63,7 +63,7 @@ fn candidates(n: usize, seed: u64) -> Vec<Vec<i64>> {
 
 /// The slice matrix of `t` along `axis` (0: `T(u, .)`, rows the result, columns the right
 /// factor; 1: `T(., v)`, columns the left factor) contracted with `c`, over `f`.
-fn slice_matrix<F: Field>(f: &F, t: &Tensor, axis: usize, c: &[i64]) -> Matrix<F::Elem> {
+pub(crate) fn slice_matrix<F: Field>(f: &F, t: &Tensor, axis: usize, c: &[i64]) -> Matrix<F::Elem> {
     let n = t.dims()[2];
     let mut m = Matrix::zeros(f, n, n);
     for (i, j, k, v) in t.entries() {
