@@ -245,6 +245,55 @@ fn commutative_algebras_close_at_two_n_minus_t_in_any_basis() {
     }
 }
 
+/// Toom 1963; Cook 1966 (from memory): the product of polynomials of degrees below m and
+/// n has rank m + n - 1 over Q (the flattening onto the result proves the lower bound);
+/// the interval closes there for the products, their transposes (correlations: the
+/// result axis first) and for divided powers (`x^(i) x^(j) = binom(i+j, i) x^(i+j)`).
+#[test]
+fn polynomial_products_close_at_m_plus_n_minus_one() {
+    for (m, n) in [(2, 2), (3, 5), (8, 8), (4, 11), (12, 12)] {
+        let t = bilin::generators::poly_mult(m, n).unwrap();
+        for (which, t) in [
+            ("product", t.clone()),
+            ("correlation", t.permute_axes([2, 0, 1])),
+        ] {
+            let iv = interval(&t);
+            assert_eq!(iv.exact, Some(m + n - 1), "poly:{m},{n} ({which})");
+            assert!(verify(iv.scheme(), &t).is_ok(), "poly:{m},{n} ({which})");
+        }
+    }
+    let (m, n) = (5, 6);
+    let mut t = Tensor::zero(FieldSpec::Rational, Kind::Bilinear, [m, n, m + n - 1], None);
+    let binom = |a: i64, b: i64| (0..b).fold(1i64, |acc, s| acc * (a - s) / (s + 1));
+    for i in 0..m {
+        for j in 0..n {
+            let c = binom((i + j) as i64, i as i64);
+            t.set(i, j, i + j, Q::from_integer(c.into()));
+        }
+    }
+    assert_eq!(interval(&t).exact, Some(m + n - 1), "divided powers");
+}
+
+/// The command line on a product of polynomials: `bounds` closes the interval with the
+/// evaluation scheme, `search` answers at once and writes it, `verify` accepts the file.
+#[test]
+fn command_line_polynomial_product_at_its_rank() {
+    let (code, out, err) = bilin(&["bounds", "poly:6,9"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("R = 14 over Q"), "{out}");
+    assert!(out.contains("upper 14: evaluation"), "{out}");
+    let dir = std::env::temp_dir().join(format!("bilin-toom-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let f = dir.join("poly99.txt");
+    let fs = f.to_str().unwrap();
+    let (code, _, err) = bilin(&["search", "poly:9,9", "--rank", "17", "--out", fs]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("known before any search"), "{err}");
+    let (code, out, err) = bilin(&["verify", "poly:9,9", fs]);
+    assert_eq!(code, 0, "{out}{err}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
 /// The command line: an interval in `bounds`, the known scheme at once in `search`, a
 /// refusal below the lower bound (exit 1, the known scheme still printed), the method
 /// choice printed with its reason.

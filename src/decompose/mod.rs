@@ -8,12 +8,15 @@
 //!   general data);
 //! - [`eigen`]: rational eigenvalues, found numerically and confirmed exactly;
 //! - [`monogenic`]: a commutative algebra with one generator, by the Chinese remainder
-//!   theorem and interpolation (rank 2n - t, the exact rank).
+//!   theorem and interpolation (rank 2n - t, the exact rank);
+//! - [`evaluation`]: a product of polynomials, by evaluation at m + n - 1 points of the
+//!   projective line and interpolation (rank m + n - 1, the exact rank).
 //!
 //! Invariant: every scheme returned here has passed the exact verification against the
 //! tensor over its field.
 
 pub mod eigen;
+pub mod evaluation;
 pub mod kruskal;
 pub mod monogenic;
 pub mod pencil;

@@ -2,12 +2,13 @@
 //! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
 //! `R(T) <= r`. Sources: the slice decomposition, simultaneous diagonalisation and, when
 //! the latter does not apply, the pencil bound (slices paired as pencils, over Q), the
-//! interpolation scheme of a commutative algebra with one generator
-//! ([`crate::decompose`]), the schemes stored with the catalog whose shape matches (each
-//! verified against this tensor, whatever its name), and schemes the caller supplies (a
-//! `--scheme` file, a search result).
+//! interpolation scheme of a commutative algebra with one generator and the evaluation
+//! scheme of a product of polynomials ([`crate::decompose`]), the schemes stored with the
+//! catalog whose shape matches (each verified against this tensor, whatever its name), and
+//! schemes the caller supplies (a `--scheme` file, a search result).
 
 use crate::catalog::schemes::STORED_SCHEMES;
+use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::decompose::{
     PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
@@ -21,7 +22,7 @@ use serde::Serialize;
 pub struct Upper {
     pub value: usize,
     /// Short name: `slices`, `simultaneous diagonalisation`, `pencils`, `interpolation`,
-    /// `catalog`, `built`, `given scheme`.
+    /// `evaluation`, `catalog`, `built`, `given scheme`.
     pub name: String,
     /// Where the scheme comes from and what it shows.
     pub detail: String,
@@ -103,6 +104,23 @@ pub fn upper_bounds(
             scheme: m.scheme,
         });
     }
+    // a product of polynomials: m + n - 1 by evaluation and interpolation
+    if let Some(e) = evaluation_scheme(t, &EvaluationParams::default()) {
+        let (m, n) = e.factors;
+        out.push(Upper {
+            value: e.scheme.rank(),
+            name: "evaluation".into(),
+            detail: format!(
+                "a product of polynomials of degrees below {m} and {n}: evaluation at {} \
+                 and interpolation (Toom 1963, The complexity of a scheme of functional \
+                 elements realizing the multiplication of integers, Soviet Math. Doklady 3; \
+                 Cook 1966, On the minimum computation time of functions, thesis; from \
+                 memory), verified exactly",
+                points_text(&e.points)
+            ),
+            scheme: e.scheme,
+        });
+    }
     if !params.no_catalog {
         // a matrix multiplication tensor: the best scheme built from the stored ones
         // (tensor products, direct sums, symmetries), verified against this tensor
@@ -155,4 +173,19 @@ fn verified_over(s: &Scheme, t: &Tensor) -> Option<Scheme> {
         s.with_field(t.field()).ok()?
     };
     (s.dims == t.dims() && verify(&s, t).is_ok()).then_some(s)
+}
+
+/// The evaluation points as text: `0, infinity, 1, -1, 2, -2, 1/2, -1/2` (past eight
+/// points: the first six, `...`, the last and the count). Cost: O(points).
+fn points_text(points: &[(i64, i64)]) -> String {
+    let one = |&(a, b): &(i64, i64)| match b {
+        0 => "infinity".to_string(),
+        1 => a.to_string(),
+        _ => format!("{a}/{b}"),
+    };
+    let all: Vec<String> = points.iter().map(one).collect();
+    match all.len() {
+        0..=8 => all.join(", "),
+        n => format!("{}, ..., {} ({n} points)", all[..6].join(", "), all[n - 1]),
+    }
 }

@@ -1,6 +1,6 @@
 //! Where a search starts: the best scheme built from the catalog's stored schemes for a
-//! matrix format, or the interpolation scheme of a commutative algebra with one generator
-//! ([`known_start`]), a walk start given by the user checked over the walk
+//! matrix format, the interpolation scheme of a commutative algebra with one generator or
+//! the evaluation scheme of a product of polynomials ([`known_start`]), a walk start given by the user checked over the walk
 //! field, and the walks' own start, the standard scheme or, for a dense table, the slice
 //! scheme in a basis of low slice rank ([`super::slice_start`]).
 //!
@@ -9,6 +9,7 @@
 
 use super::flip::Snapshot;
 use super::{Params, bits, hensel, slice_start};
+use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
@@ -37,7 +38,8 @@ pub(crate) fn lower_start<S: Snapshot>(
 /// catalog's stored schemes ([`crate::catalog::schemes::matmul_bases`],
 /// [`crate::scheme::build`]), if it is below the schoolbook rank; for a commutative
 /// algebra with one generator, its interpolation scheme of rank 2n - t, the exact rank
-/// ([`interpolation_start`]); else `None`. With
+/// ([`monogenic_scheme`]); for a product of polynomials, its evaluation scheme of rank
+/// m + n - 1, the exact rank ([`evaluation_scheme`]); else `None`. With
 /// `walk: Some(params)` only stored schemes whose coefficients reduce modulo the walk prime
 /// take part (a start for the walks); with `integral` only stored schemes with integer
 /// coefficients. Verified exactly. Cost: a dynamic programme over the sub-formats and one
@@ -52,7 +54,12 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
         p => p,
     });
     let Some(f) = crate::scheme::build::matmul_format_of(goal) else {
-        return interpolation_start(goal, walk_field, integral);
+        // at most one of the two applies: an algebra is square, a product of polynomials
+        // (of degrees at least 1) is not
+        let s = monogenic_scheme(goal, &MonogenicParams::default())
+            .map(|m| m.scheme)
+            .or_else(|| evaluation_scheme(goal, &EvaluationParams::default()).map(|e| e.scheme))?;
+        return on_walk_field(s, goal, walk_field, integral);
     };
     let bases: Vec<_> = crate::catalog::schemes::matmul_bases(goal.field())
         .into_iter()
@@ -63,16 +70,15 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
     (built.scheme.rank() < f[0] * f[1] * f[2]).then_some(built.scheme)
 }
 
-/// The scheme of rank 2n - t of a commutative algebra with one generator
-/// ([`monogenic_scheme`]), in the table's own basis; with `walk_field`, only when it
-/// reduces to a scheme over that field (checked exactly), with `integral` only when its
-/// coefficients are integers. Cost: that of [`monogenic_scheme`].
-fn interpolation_start(
+/// A known scheme `s` of `goal` as a start: with `walk_field`, only when it reduces to a
+/// scheme over that field (checked exactly), with `integral` only when its coefficients
+/// are integers. Cost: one reduction and one verification.
+fn on_walk_field(
+    s: Scheme,
     goal: &Tensor,
     walk_field: Option<FieldSpec>,
     integral: bool,
 ) -> Option<Scheme> {
-    let s = monogenic_scheme(goal, &MonogenicParams::default())?.scheme;
     if integral && !hensel::is_integral(&s) {
         return None;
     }
