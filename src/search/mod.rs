@@ -263,9 +263,13 @@ pub(crate) struct Shared {
     walk_best: Mutex<Option<Scheme>>,
     /// the hand-out of runs to the workers
     turns: schedule::Turns,
-    /// numerical runs ended, and how many of their fits converged at the rank asked
+    /// numerical runs ended, how many of their fits converged at the rank asked, and the
+    /// wall time they took together (microseconds)
     fits: AtomicU64,
     fits_converged: AtomicU64,
+    fit_micros: AtomicU64,
+    /// schemes the walks reached at or below the target whose lift did not give a result
+    target_lifts_failed: AtomicU64,
 }
 
 impl Shared {
@@ -395,6 +399,8 @@ pub fn search_scheme(
         turns: schedule::Turns::new(plan.kinds.len()),
         fits: AtomicU64::new(0),
         fits_converged: AtomicU64::new(0),
+        fit_micros: AtomicU64::new(0),
+        target_lifts_failed: AtomicU64::new(0),
     };
     // every long step polls the same halt: the time limit (counted from the call), the
     // stop flag and the target met by another worker
@@ -446,9 +452,12 @@ pub fn search_scheme(
                 b => b.saturating_sub(1),
             },
         };
+        let started = Instant::now();
         let outcome = numeric::numeric_run(&goal, aim, &np, &mut rng, &halted);
         // a fit cut short is no evidence either way
         if !halted() {
+            let micros = u64::try_from(started.elapsed().as_micros()).unwrap_or(u64::MAX);
+            shared.fit_micros.fetch_add(micros, Ordering::SeqCst);
             shared.fits.fetch_add(1, Ordering::SeqCst);
             if outcome.fitted() {
                 shared.fits_converged.fetch_add(1, Ordering::SeqCst);
@@ -463,11 +472,24 @@ pub fn search_scheme(
         .iter()
         .map(|k| matches!(k, RunKind::Numeric(_)))
         .collect();
+    let needed_secs = plan
+        .kinds
+        .iter()
+        .map(|k| match k {
+            RunKind::Numeric(fit) => schedule::evidence_secs(*fit),
+            RunKind::Walk(_) => 0.0,
+        })
+        .fold(0.0, f64::max);
     let weights = || {
         schedule::kind_weights(
             &numeric_kinds,
             shared.fits.load(Ordering::SeqCst),
             shared.fits_converged.load(Ordering::SeqCst),
+            (
+                shared.fit_micros.load(Ordering::SeqCst) as f64 * 1e-6,
+                needed_secs,
+            ),
+            shared.target_lifts_failed.load(Ordering::SeqCst),
         )
     };
     let drive = |walk_run: &(dyn Fn(u64, &dyn Fn() -> bool) + Sync)| {

@@ -26,6 +26,24 @@ use std::time::{Duration, Instant};
 /// searches).
 const FITS_BEFORE_EVIDENCE: u64 = 12;
 
+/// And, for Levenberg-Marquardt fits (small problems, see [`evidence_secs`]), the wall
+/// time those runs must have had together, in seconds: a fit of a small data tensor
+/// takes a few hundredths of a second and may converge in one run of thirty (a planted
+/// 4 x 5 x 6 array of rank 9, measured: 3 of 12 searches of 8 runs found it), so twelve
+/// quick failures are no evidence.
+const FIT_SECS_BEFORE_EVIDENCE: f64 = 5.0;
+
+/// The fit time, in seconds, that failed fits of kind `fit` need before they count as
+/// evidence: [`FIT_SECS_BEFORE_EVIDENCE`] for Levenberg-Marquardt, none for alternating
+/// least squares (large problems, where twelve fits take long already and the walks should
+/// not wait: matrix products over Q below their border rank). Cost: O(1).
+pub fn evidence_secs(fit: super::Fit) -> f64 {
+    match fit {
+        super::Fit::Lm => FIT_SECS_BEFORE_EVIDENCE,
+        super::Fit::Als => 0.0,
+    }
+}
+
 /// The weight of a kind of run whose evidence is against it (fits that never converge at
 /// the rank asked): a thirty-second of the share of the others, not nothing (with an
 /// eighth, searches of <4,4,4> at rank 48 over Q made 0.82 times the walk moves of the
@@ -35,25 +53,50 @@ const WEIGHT_AGAINST: f64 = 1.0 / 32.0;
 /// The weight of numerical runs whose fits converge at the rank asked.
 const WEIGHT_FOR_FITS: f64 = 8.0;
 
+/// Schemes the walks reached at the target whose lifts failed, before the walks' share
+/// falls to [`WEIGHT_AGAINST`] (the numerical runs keep theirs): a data tensor of rank 11
+/// reduced mod 2 has many decompositions of rank 11 that are no reduction of one over Q,
+/// and the walks at the target, lifting in vain, took nearly all the time from the fits
+/// that find it (a planted 6 x 6 x 6 array of rank 11: not within 60 s, against 2 s for
+/// the fits alone, measured).
+const LIFTS_BEFORE_EVIDENCE: u64 = 256;
+
 /// The weights of the kinds `numeric` (true for a numerical kind) from the outcomes of the
-/// numerical runs so far: `fits` tried, `converged` of them converged at the rank asked.
+/// numerical runs so far: `fits` tried, `converged` of them converged at the rank asked,
+/// `fit_secs` the wall time they took together and `needed_secs` the time they need
+/// before failures count ([`evidence_secs`]); `lifts_failed` schemes the walks reached at
+/// the target that did not lift to a result.
 ///
 /// Once a fit has converged, the numerical runs get [`WEIGHT_FOR_FITS`] (the rank is
 /// reached over the reals, and a product such as a polynomial one may need far more terms
 /// over a small field than over Q, so the walks may never get there). When
-/// [`FITS_BEFORE_EVIDENCE`] fits have ended and none converged, they get
+/// [`FITS_BEFORE_EVIDENCE`] fits have ended in `needed_secs` seconds or more and none
+/// converged, they get
 /// [`WEIGHT_AGAINST`] (the real rank at this target is likely above it, as for matrix
-/// products below their border rank, where the walks are the route). Equal weights
-/// before. Cost: O(k).
-pub fn kind_weights(numeric: &[bool], fits: u64, converged: u64) -> Vec<f64> {
-    let w = if converged > 0 {
-        WEIGHT_FOR_FITS
-    } else if fits >= FITS_BEFORE_EVIDENCE {
+/// products below their border rank, where the walks are the route). Likewise the walks,
+/// when [`LIFTS_BEFORE_EVIDENCE`] of their schemes at the target failed to lift and the
+/// plan has numerical runs (both against: equal shares again). Equal weights before.
+/// Cost: O(k).
+pub fn kind_weights(
+    numeric: &[bool],
+    fits: u64,
+    converged: u64,
+    (fit_secs, needed_secs): (f64, f64),
+    lifts_failed: u64,
+) -> Vec<f64> {
+    let walks = if lifts_failed >= LIFTS_BEFORE_EVIDENCE && numeric.contains(&true) {
         WEIGHT_AGAINST
     } else {
         1.0
     };
-    numeric.iter().map(|&n| if n { w } else { 1.0 }).collect()
+    let w = if converged > 0 {
+        WEIGHT_FOR_FITS
+    } else if fits >= FITS_BEFORE_EVIDENCE && fit_secs >= needed_secs {
+        WEIGHT_AGAINST
+    } else {
+        1.0
+    };
+    numeric.iter().map(|&n| if n { w } else { walks }).collect()
 }
 
 /// The state of the hand-out: per kind, the next sequence number to look at, the wall
@@ -328,8 +371,31 @@ mod tests {
     #[test]
     fn weights_follow_the_fits() {
         let kinds = [false, true];
-        assert_eq!(kind_weights(&kinds, 11, 0), vec![1.0, 1.0]);
-        assert_eq!(kind_weights(&kinds, 12, 0), vec![1.0, WEIGHT_AGAINST]);
-        assert_eq!(kind_weights(&kinds, 2, 1), vec![1.0, WEIGHT_FOR_FITS]);
+        let lm = evidence_secs(crate::search::Fit::Lm);
+        assert_eq!(kind_weights(&kinds, 11, 0, (60.0, lm), 0), vec![1.0, 1.0]);
+        assert_eq!(
+            kind_weights(&kinds, 12, 0, (60.0, lm), 0),
+            vec![1.0, WEIGHT_AGAINST]
+        );
+        // twelve quick failures of Levenberg-Marquardt are no evidence yet
+        assert_eq!(kind_weights(&kinds, 40, 0, (2.0, lm), 0), vec![1.0, 1.0]);
+        let als = evidence_secs(crate::search::Fit::Als);
+        assert_eq!(
+            kind_weights(&kinds, 12, 0, (2.0, als), 0),
+            vec![1.0, WEIGHT_AGAINST]
+        );
+        assert_eq!(
+            kind_weights(&kinds, 2, 1, (0.1, lm), 0),
+            vec![1.0, WEIGHT_FOR_FITS]
+        );
+        // walks lifting in vain at the target lose their share to the fits
+        assert_eq!(
+            kind_weights(&kinds, 2, 0, (0.1, lm), LIFTS_BEFORE_EVIDENCE),
+            vec![WEIGHT_AGAINST, 1.0]
+        );
+        assert_eq!(
+            kind_weights(&[false], 0, 0, (0.0, 0.0), LIFTS_BEFORE_EVIDENCE),
+            vec![1.0]
+        );
     }
 }

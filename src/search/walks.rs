@@ -100,10 +100,11 @@ impl<S: Snapshot> WalkPlan<'_, S> {
                         let pick = shared.moves.load(Ordering::Relaxed);
                         self.pool.lock().expect("lock").offer(b.clone(), r, pick);
                     }
-                    match s {
-                        Some(s) => shared.offer(s, target) && r <= target,
-                        None => false,
+                    let met = s.is_some_and(|s| shared.offer(s, target)) && r <= target;
+                    if r <= target && !met {
+                        shared.target_lifts_failed.fetch_add(1, Ordering::SeqCst);
                     }
+                    met
                 }
             }
         };
