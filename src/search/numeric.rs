@@ -207,7 +207,8 @@ pub fn precondition(t: &Dense) -> Option<(Dense, [DMatrix<f64>; 3])> {
         let u = svd.u?;
         let sv = &svd.singular_values;
         let (hi, lo) = (sv.max(), sv.min());
-        if !(lo > hi * 1e-12) {
+        // singular (or NaN): no whitening
+        if lo.partial_cmp(&(hi * 1e-12)) != Some(std::cmp::Ordering::Greater) {
             return None;
         }
         spread = spread.max(hi / lo);
@@ -242,7 +243,7 @@ pub fn precondition(t: &Dense) -> Option<(Dense, [DMatrix<f64>; 3])> {
         data = next;
     }
     let big = data.iter().fold(0.0f64, |m, x| m.max(x.abs()));
-    if !(big > 0.0 && big.is_finite()) {
+    if big == 0.0 || !big.is_finite() {
         return None;
     }
     data.iter_mut().for_each(|x| *x /= big);
