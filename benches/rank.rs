@@ -193,6 +193,23 @@ fn main() {
             )
         }),
     ));
+    // above every dimension in small arrays: the walks reach the rank mod 2 at once and
+    // cannot lift, the fits must find it
+    for (dims, r) in [([4, 5, 6], 9), ([5, 6, 6], 10), ([6, 6, 6], 11)] {
+        cases.push((
+            format!("planted rank {r} in {}x{}x{}", dims[0], dims[1], dims[2]),
+            "rank in < 30 s, or interval".into(),
+            Box::new(move |seed| {
+                search_run(
+                    &planted(dims, r, 10, seed).0,
+                    Some(r),
+                    Method::Auto,
+                    30.0 * scale,
+                    seed,
+                )
+            }),
+        ));
+    }
     cases.push((
         "10x12x7 random counts: interval".into(),
         "at once".into(),
