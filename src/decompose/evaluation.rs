@@ -26,7 +26,7 @@
 
 use crate::linalg::modular::inverse_q;
 use crate::linalg::{Matrix, inverse};
-use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
+use crate::scalar::{Field, FieldSpec, PrimeField, Rationals};
 use crate::scheme::construct::permute_axes;
 use crate::scheme::{Scheme, verify};
 use crate::tensor::Tensor;
@@ -56,36 +56,42 @@ pub struct Evaluation {
     pub points: Vec<(i64, i64)>,
 }
 
+/// The six orders of the three axes (`perm[a]` = the old axis that becomes axis a).
+const AXIS_ORDERS: [[usize; 3]; 6] = [
+    [0, 1, 2],
+    [1, 0, 2],
+    [0, 2, 1],
+    [2, 0, 1],
+    [1, 2, 0],
+    [2, 1, 0],
+];
+
 /// A scheme of rank `m + n - 1` when `t` is a polynomial product (see the module
 /// documentation), else `None` (also when the field has too few points or the product has
 /// more than `max_terms` result coefficients). Cost: O(nnz) per axis order and basis
 /// order (24 of them) to recognise the product; then one exact N x N inverse and one exact
 /// verification, O(N^3) field operations.
 pub fn evaluation_scheme(t: &Tensor, params: &EvaluationParams) -> Option<Evaluation> {
-    const ORDERS: [[usize; 3]; 6] = [
-        [0, 1, 2],
-        [1, 0, 2],
-        [0, 2, 1],
-        [2, 0, 1],
-        [1, 2, 0],
-        [2, 1, 0],
-    ];
     let d = t.dims();
-    for perm in ORDERS {
+    for perm in AXIS_ORDERS {
         let [m, n, c] = perm.map(|a| d[a]);
         if m < 2 || n < 2 || c != m + n - 1 || c > params.max_terms || t.nnz() != m * n {
             continue;
         }
         let p = t.permute_axes(perm);
+        let mut back = [0; 3];
+        for (a, &old) in perm.iter().enumerate() {
+            back[old] = a;
+        }
         // reversing all three bases keeps the pattern: the result's order is fixed
         for rev in [[false, false], [true, false], [false, true], [true, true]] {
-            let Some(s) = with_field(t.field(), |f| product_scheme(f, &p, rev))? else {
-                continue;
+            let s = match t.field() {
+                // the modular inverse: exact elimination over Q is slow on Vandermonde
+                // matrices of large entries
+                FieldSpec::Rational => product_scheme(&Rationals, &p, rev, |_, m| inverse_q(m)),
+                FieldSpec::Prime(q) => product_scheme(&PrimeField::new(q)?, &p, rev, inverse),
             };
-            let mut back = [0; 3];
-            for (a, &old) in perm.iter().enumerate() {
-                back[old] = a;
-            }
+            let Some(s) = s else { continue };
             let scheme = permute_axes(&s.scheme, back).ok()?;
             if verify(&scheme, t).is_ok() {
                 return Some(Evaluation { scheme, ..s });
@@ -95,88 +101,32 @@ pub fn evaluation_scheme(t: &Tensor, params: &EvaluationParams) -> Option<Evalua
     None
 }
 
-/// Run `g` over the field of `spec`, mapping results back to Q.
-fn with_field<T>(spec: FieldSpec, g: impl Fn(&dyn Points) -> Option<T>) -> Option<Option<T>> {
-    match spec {
-        FieldSpec::Rational => Some(g(&Rationals)),
-        FieldSpec::Prime(p) => Some(g(&PrimeField::new(p)?)),
-    }
-}
-
-/// What the construction needs of a field: exact arithmetic and an inverse.
-trait Points {
-    fn field_spec(&self) -> FieldSpec;
-    fn reduce(&self, x: &Q) -> Option<Q>;
-    fn div(&self, a: &Q, b: &Q) -> Option<Q>;
-    fn invert(&self, m: &Matrix<Q>) -> Option<Matrix<Q>>;
-    /// The number of points of the projective line (None: infinitely many).
-    fn line_size(&self) -> Option<u64>;
-}
-
-impl Points for Rationals {
-    fn field_spec(&self) -> FieldSpec {
-        FieldSpec::Rational
-    }
-    fn reduce(&self, x: &Q) -> Option<Q> {
-        Some(x.clone())
-    }
-    fn div(&self, a: &Q, b: &Q) -> Option<Q> {
-        (!num_traits::Zero::is_zero(b)).then(|| a / b)
-    }
-    fn invert(&self, m: &Matrix<Q>) -> Option<Matrix<Q>> {
-        inverse_q(m)
-    }
-    fn line_size(&self) -> Option<u64> {
-        None
-    }
-}
-
-impl Points for PrimeField {
-    fn field_spec(&self) -> FieldSpec {
-        FieldSpec::Prime(self.characteristic())
-    }
-    fn reduce(&self, x: &Q) -> Option<Q> {
-        Some(self.to_rational(&self.from_rational(x)?))
-    }
-    fn div(&self, a: &Q, b: &Q) -> Option<Q> {
-        let b = self.inv(&self.from_rational(b)?)?;
-        Some(self.to_rational(&self.mul(&self.from_rational(a)?, &b)))
-    }
-    fn invert(&self, m: &Matrix<Q>) -> Option<Matrix<Q>> {
-        let mp = Matrix::from_rows(
-            m.to_rows()
-                .iter()
-                .map(|r| r.iter().map(|x| self.from_rational(x)).collect())
-                .collect::<Option<Vec<Vec<u64>>>>()?,
-            m.cols,
-        );
-        Some(inverse(self, &mp)?.map(|x| self.to_rational(x)))
-    }
-    fn line_size(&self) -> Option<u64> {
-        Some(self.characteristic() + 1)
-    }
-}
-
-/// The scheme of `p`, read as `x_i y_j -> z_(i+j)` with the first two bases reversed as
-/// `rev` says, scaled; `None` when `p` is not of that form (checked only by the caller's
-/// exact verification, except for the pattern of nonzero entries).
-fn product_scheme(f: &dyn Points, p: &Tensor, rev: [bool; 2]) -> Option<Evaluation> {
+/// The scheme of `p` over the field `f`, read as `x_i y_j -> z_(i+j)` with the first two
+/// bases reversed as `rev` says, scaled; `None` when `p` is not of that form (checked only
+/// by the caller's exact verification, except for the pattern of nonzero entries).
+/// `invert` is the exact matrix inverse over `f`.
+fn product_scheme<F: Field>(
+    f: &F,
+    p: &Tensor,
+    rev: [bool; 2],
+    invert: impl Fn(&F, &Matrix<F::Elem>) -> Option<Matrix<F::Elem>>,
+) -> Option<Evaluation> {
     let [m, n, c] = p.dims();
     let ri = |i: usize| if rev[0] { m - 1 - i } else { i };
     let rj = |j: usize| if rev[1] { n - 1 - j } else { j };
     // the pattern: one nonzero entry per pair, at k = i + j (in degrees)
-    let mut coef = vec![Q::default(); m * n];
+    let mut coef = vec![f.zero(); m * n];
     for (i, j, k, x) in p.entries() {
         let (di, dj) = (ri(i), rj(j));
         if k != di + dj {
             return None;
         }
-        coef[di * n + dj] = x.clone();
+        coef[di * n + dj] = f.from_rational(x)?;
     }
     let at = |i: usize, j: usize| &coef[i * n + j];
+    let div = |a: &F::Elem, b: &F::Elem| Some(f.mul(a, &f.inv(b)?));
     // scalings with α_0 = β_0 = α_1 = 1; δ_k from the pair (max(1, k - n + 1), ...)
-    let one = Q::from_integer(1.into());
-    let (mut alpha, mut beta, mut delta) = (vec![one.clone(); m], vec![one; n], vec![]);
+    let (mut alpha, mut beta, mut delta) = (vec![f.one(); m], vec![f.one(); n], vec![]);
     for k in 0..c {
         let i = if k == 0 {
             0
@@ -184,39 +134,39 @@ fn product_scheme(f: &dyn Points, p: &Tensor, rev: [bool; 2]) -> Option<Evaluati
             1.max((k + 1).saturating_sub(n))
         };
         let j = k - i;
-        let ab = &alpha[i] * &beta[j];
-        delta.push(f.div(at(i, j), &ab)?);
+        delta.push(div(at(i, j), &f.mul(&alpha[i], &beta[j]))?);
         if k >= 2 && k < m {
-            alpha[k] = f.div(at(k, 0), &delta[k])?;
+            alpha[k] = div(at(k, 0), &delta[k])?;
         }
         if k >= 1 && k < n {
-            beta[k] = f.div(at(0, k), &delta[k])?;
+            beta[k] = div(at(0, k), &delta[k])?;
         }
     }
     let points = projective_points(f, c)?;
-    // E[r][l] = a^l b^(c-1-l); the result factors are the rows of (E^T)^-1
-    let power = |(a, b): (i64, i64), l: usize, deg: usize| -> Q {
-        Q::from_integer(a.into()).pow(l as i32) * Q::from_integer(b.into()).pow((deg - l) as i32)
+    // a^l b^(deg-l) for the point (a, b)
+    let power = |(a, b): (i64, i64), l: usize, deg: usize| -> F::Elem {
+        let (a, b) = (f.from_i64(a), f.from_i64(b));
+        let mut x = f.one();
+        for s in 0..deg {
+            x = f.mul(&x, if s < l { &a } else { &b });
+        }
+        x
     };
-    let mut et = Matrix::filled(c, c, Q::default());
+    // E[r][l] = a^l b^(c-1-l); the result factors are the rows of (E^T)^-1
+    let mut et = Matrix::zeros(f, c, c);
     for (r, &pt) in points.iter().enumerate() {
         for l in 0..c {
-            et[(l, r)] = f.reduce(&power(pt, l, c - 1))?;
+            et[(l, r)] = power(pt, l, c - 1);
         }
     }
-    let w = f.invert(&et)?;
-    let mut scheme = Scheme::empty(f.field_spec(), [m, n, c]);
+    let w = invert(f, &et)?;
+    let mut scheme = Scheme::empty(p.field(), [m, n, c]);
     for (r, &pt) in points.iter().enumerate() {
-        let u = (0..m)
-            .map(|i| f.reduce(&(&alpha[ri(i)] * power(pt, ri(i), m - 1))))
-            .collect::<Option<Vec<Q>>>()?;
-        let v = (0..n)
-            .map(|j| f.reduce(&(&beta[rj(j)] * power(pt, rj(j), n - 1))))
-            .collect::<Option<Vec<Q>>>()?;
-        let z = (0..c)
-            .map(|k| f.reduce(&(&delta[k] * &w[(r, k)])))
-            .collect::<Option<Vec<Q>>>()?;
-        scheme.push(u, v, z);
+        let u = (0..m).map(|i| f.mul(&alpha[ri(i)], &power(pt, ri(i), m - 1)));
+        let v = (0..n).map(|j| f.mul(&beta[rj(j)], &power(pt, rj(j), n - 1)));
+        let z = (0..c).map(|k| f.mul(&delta[k], &w[(r, k)]));
+        let q = |x: F::Elem| f.to_rational(&x);
+        scheme.push(u.map(q).collect(), v.map(q).collect(), z.map(q).collect());
     }
     Some(Evaluation {
         scheme,
@@ -227,16 +177,19 @@ fn product_scheme(f: &dyn Points, p: &Tensor, rev: [bool; 2]) -> Option<Evaluati
 
 /// The first `count` points `(a, b)` of the projective line (`a / b`, `(1, 0)` infinity)
 /// in the order 0, infinity, then by height `max(|a|, b)`: `h/1, -h/1, 1/h, -1/h, ...`,
-/// distinct in the field; `None` when the field has fewer. Cost: O(count^2) at most.
-fn projective_points(f: &dyn Points, count: usize) -> Option<Vec<(i64, i64)>> {
-    if f.line_size().is_some_and(|s| (count as u64) > s) {
+/// distinct in the field (GF(p) has p + 1); `None` when the field has fewer.
+/// Cost: O(count^2) field operations at most.
+fn projective_points<F: Field>(f: &F, count: usize) -> Option<Vec<(i64, i64)>> {
+    let size = (f.characteristic() > 0).then(|| f.characteristic() + 1);
+    if size.is_some_and(|s| (count as u64) > s) {
         return None;
     }
     let mut out: Vec<(i64, i64)> = vec![(0, 1), (1, 0)];
-    let mut seen: Vec<Option<Q>> = vec![Some(Q::default()), None];
+    // the finite points as field elements (infinity is never among them)
+    let mut seen = vec![f.zero()];
     let mut h = 1i64;
     while out.len() < count {
-        if f.line_size().is_some_and(|s| h as u64 > s) {
+        if size.is_some_and(|s| h as u64 > s) {
             return None;
         }
         for b in 1..=h {
@@ -244,11 +197,11 @@ fn projective_points(f: &dyn Points, count: usize) -> Option<Vec<(i64, i64)>> {
                 if num_integer::gcd(a, b) != 1 || out.contains(&(a, b)) {
                     continue;
                 }
-                let x = f.reduce(&Q::new(a.into(), b.into()))?;
-                if seen.contains(&Some(x.clone())) {
+                let x = f.mul(&f.from_i64(a), &f.inv(&f.from_i64(b))?);
+                if seen.contains(&x) {
                     continue;
                 }
-                seen.push(Some(x));
+                seen.push(x);
                 out.push((a, b));
             }
         }
@@ -262,6 +215,7 @@ fn projective_points(f: &dyn Points, count: usize) -> Option<Vec<(i64, i64)>> {
 mod tests {
     use super::*;
     use crate::generators::poly_mult;
+    use crate::scalar::Q;
     use proptest::prelude::*;
 
     fn rank_of(t: &Tensor) -> Option<usize> {
@@ -373,8 +327,7 @@ mod tests {
             for (i, j, k, x) in t.entries() {
                 s.set(i, j, k, x * &scale[0][i] * &scale[1][j] * &scale[2][k]);
             }
-            let orders = [[0, 1, 2], [1, 0, 2], [0, 2, 1], [2, 0, 1], [1, 2, 0], [2, 1, 0]];
-            let s = s.permute_axes(orders[perm]);
+            let s = s.permute_axes(AXIS_ORDERS[perm]);
             let e = evaluation_scheme(&s, &EvaluationParams::default());
             prop_assert_eq!(e.map(|e| e.scheme.rank()), Some(m + n - 1));
         }

@@ -6,8 +6,9 @@
 //!   the cyclic symmetry), restarted from a [`pool`] of schemes at the lowest rank reached,
 //!   with plateau handling by plus transitions; for a tensor over Q each new rank is lifted
 //!   p-adically ([`hensel`], any small prime) to a scheme over Z or Q, verified exactly;
-//! - the numerical route ([`numeric`]: [`als`] or Levenberg-Marquardt [`lm`], rounding by
-//!   rational reconstruction, exact solve of the result factors, exact check), over Q.
+//! - the numerical route ([`numeric`]: [`als`] or Levenberg-Marquardt [`lm`], in whitened
+//!   coordinates when the tensor is ill-conditioned ([`whiten`]), rounding by rational
+//!   reconstruction, exact solve of the result factors, exact check), over Q.
 //!
 //! [`plan_runs`] chooses the engines of a search ([`Method::Auto`]: walks and
 //! Levenberg-Marquardt runs over Q sharing the time, walks over GF(p)). The driver
@@ -45,6 +46,7 @@ pub mod slice_start;
 mod starts;
 pub mod store;
 mod walks;
+pub mod whiten;
 
 pub use engines::{RunKind, RunPlan, Walk, plan_runs};
 pub use starts::known_start;
