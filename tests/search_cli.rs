@@ -199,18 +199,20 @@ fn search_over_q_starts_from_a_scheme_over_gf2() {
     std::fs::remove_dir_all(&dir).ok();
 }
 
-/// A product in a dense basis of the user's own: <3,3,3> after unimodular changes of
+/// A product in a dense basis of the user's own: <2,3,3> after unimodular changes of
 /// basis (integer matrices of determinant 1, written below as L L^T with L unit lower
-/// triangular). Its walks over GF(2) reach Laderman's rank 23 (Laderman 1976, "A
-/// noncommutative algorithm for multiplying 3 x 3 matrices using 23 multiplications"),
-/// which does not lift to Q in such a basis: the search over Q keeps that scheme over
-/// GF(2) next to its result, verified, and `verify --field GF(2)` accepts it.
+/// triangular). Its walks over GF(2) reach the rank 15 of Hopcroft and Kerr (1971, "On
+/// minimizing the number of multiplications necessary for matrix multiplication", SIAM J.
+/// Appl. Math. 20), which does not lift to Q in such a basis within the time given (seed
+/// 1): the search over Q keeps that scheme over GF(2) next to its result, verified, and
+/// `verify --field GF(2)` accepts it. (A square format is no longer a case: <3,3,3> in
+/// such bases is M_3(Q) through a unital isotope, and its rank-23 scheme is known first.)
 #[test]
 fn search_over_q_keeps_the_walks_scheme_over_gf2() {
     let dir = std::env::temp_dir().join(format!("bilin-search-gf2-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     // L with ones on the diagonal and a fixed pattern below it; the matrix is L L^T
-    let unimodular = |shift: i64| {
+    let unimodular = |n: usize, shift: i64| {
         let l = |i: usize, j: usize| -> i64 {
             match i.cmp(&j) {
                 std::cmp::Ordering::Equal => 1,
@@ -219,9 +221,9 @@ fn search_over_q_keeps_the_walks_scheme_over_gf2() {
             }
         };
         let mut text = String::new();
-        for i in 0..9 {
-            let row: Vec<String> = (0..9)
-                .map(|j| (0..9).map(|k| l(i, k) * l(j, k)).sum::<i64>().to_string())
+        for i in 0..n {
+            let row: Vec<String> = (0..n)
+                .map(|j| (0..n).map(|k| l(i, k) * l(j, k)).sum::<i64>().to_string())
                 .collect();
             text += &format!("{}\n", row.join(" "));
         }
@@ -232,33 +234,33 @@ fn search_over_q_keeps_the_walks_scheme_over_gf2() {
         &basis,
         format!(
             "matrix left\n{}end\nmatrix right\n{}end\nmatrix result\n{}end\n",
-            unimodular(0),
-            unimodular(1),
-            unimodular(2)
+            unimodular(6, 0),
+            unimodular(9, 1),
+            unimodular(6, 2)
         ),
     )
     .unwrap();
     let (code, table, err) = bilin(&[
         "transform",
-        "matmul:3,3,3",
+        "matmul:2,3,3",
         "--basis",
         basis.to_str().unwrap(),
     ]);
     assert_eq!(code, 0, "{err}");
-    let table_path = dir.join("m333.txt");
+    let table_path = dir.join("m233.txt");
     std::fs::write(&table_path, table).unwrap();
     let out = dir.join("run.json");
     let (code, _, err) = bilin(&[
         "search",
         table_path.to_str().unwrap(),
         "--rank",
-        "23",
+        "15",
         "--seed",
         "1",
         "--threads",
         "1",
         "--time",
-        "8",
+        "20",
         "--out",
         out.to_str().unwrap(),
     ]);
@@ -273,7 +275,7 @@ fn search_over_q_keeps_the_walks_scheme_over_gf2() {
         "GF(2)",
     ]);
     assert_eq!(code, 0, "{err}");
-    assert!(stdout.contains("verified: rank 2"), "{stdout}");
+    assert!(stdout.contains("verified: rank 15"), "{stdout}");
     std::fs::remove_dir_all(&dir).ok();
 }
 

@@ -21,6 +21,7 @@ pub mod kruskal;
 pub mod monogenic;
 pub mod pencil;
 pub mod planted;
+pub mod semisimple;
 pub mod simultaneous;
 pub mod slices;
 

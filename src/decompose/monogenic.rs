@@ -45,9 +45,9 @@ use crate::linalg::modular::inverse_q;
 use crate::linalg::nullspace::SolveParams;
 use crate::linalg::{Matrix, inverse};
 use crate::poly;
-use crate::ranks::isotope::{slice_matrix, unital_isotope};
+use crate::ranks::isotope::unital_isotope;
 use crate::scalar::{Field, FieldSpec, PrimeField, Q, Rationals};
-use crate::scheme::{Scheme, reduce_into, verify};
+use crate::scheme::{Scheme, verify};
 use crate::tensor::{IntegralTensor, Table, Tensor};
 use rand::{Rng, SeedableRng};
 
@@ -130,24 +130,7 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
         }
     };
     let m = of_algebra(&iso.algebra, &Screen::of(fp, &screened)?, params)?;
-    // R = T(., v0) and L = T(u0, .), rows indexed by the result coordinate
-    let r = slice_matrix(&Rationals, t, 1, &iso.v0);
-    let l = slice_matrix(&Rationals, t, 0, &iso.u0);
-    let field = t.field();
-    let through = |x: &[Q], m: &Matrix<Q>| -> Option<Vec<Q>> {
-        (0..d[0])
-            .map(|i| {
-                let s: Q = x.iter().enumerate().map(|(k, a)| a * &m[(k, i)]).sum();
-                reduce_into(field, &s).ok()
-            })
-            .collect()
-    };
-    let mut scheme = Scheme::empty(field, d);
-    for k in 0..m.scheme.rank() {
-        let u = through(&m.scheme.u[k], &r)?;
-        let v = through(&m.scheme.v[k], &l)?;
-        scheme.push(u, v, m.scheme.w[k].clone());
-    }
+    let scheme = iso.pull_back(t, &m.scheme)?;
     verify(&scheme, t)
         .is_ok()
         .then_some(Monogenic { scheme, ..m })
@@ -198,7 +181,7 @@ fn is_commutative(t: &Tensor) -> bool {
 
 /// The screening field and the table reduced to it: the table itself over GF(p); over Q,
 /// modulo the first word prime that divides no denominator.
-fn screening(t: &Tensor) -> Option<(PrimeField, Tensor)> {
+pub(crate) fn screening(t: &Tensor) -> Option<(PrimeField, Tensor)> {
     match t.field() {
         FieldSpec::Prime(p) => Some((PrimeField::new(p)?, t.clone())),
         FieldSpec::Rational => crate::scalar::word_primes(8).into_iter().find_map(|p| {

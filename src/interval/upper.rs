@@ -2,14 +2,16 @@
 //! tensor: a scheme of rank r is an exact decomposition into r rank-one terms, so
 //! `R(T) <= r`. Sources: the slice decomposition, simultaneous diagonalisation and, when
 //! the latter does not apply, the pencil bound (slices paired as pencils, over Q), the
-//! interpolation scheme of a commutative algebra with one generator and the evaluation
-//! scheme of a product of polynomials ([`crate::decompose`]), the schemes stored with the
+//! interpolation scheme of a commutative algebra with one generator, the sum of the parts'
+//! schemes of a semisimple algebra split into matrix algebras and fields, and the
+//! evaluation scheme of a product of polynomials ([`crate::decompose`]), the schemes stored with the
 //! catalog whose shape matches (each verified against this tensor, whatever its name), and
 //! schemes the caller supplies (a `--scheme` file, a search result).
 
 use crate::catalog::schemes::STORED_SCHEMES;
 use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
+use crate::decompose::semisimple::{PartShape, SemisimpleParams, semisimple_scheme};
 use crate::decompose::{
     PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
 };
@@ -22,7 +24,7 @@ use serde::Serialize;
 pub struct Upper {
     pub value: usize,
     /// Short name: `slices`, `simultaneous diagonalisation`, `pencils`, `interpolation`,
-    /// `evaluation`, `catalog`, `built`, `given scheme`.
+    /// `semisimple`, `evaluation`, `catalog`, `built`, `given scheme`.
     pub name: String,
     /// Where the scheme comes from and what it shows.
     pub detail: String,
@@ -103,6 +105,45 @@ pub fn upper_bounds(
             ),
             scheme: m.scheme,
         });
+    }
+    // a semisimple algebra split into matrix algebras and fields: the sum of the parts'
+    // schemes through explicit matrix units (a commutative one has its interpolation
+    // scheme above, a matrix format its stored scheme below)
+    let monogenic_found = out.iter().any(|u| u.name == "interpolation");
+    if !monogenic_found && crate::scheme::build::matmul_format_of(t).is_none() {
+        let field = t.field();
+        let matrix = |k: usize| {
+            if params.no_catalog {
+                let m = crate::generators::generate(&format!("matrix:{k}")).ok()?;
+                Scheme::standard(&m).with_field(field).ok()
+            } else {
+                crate::catalog::schemes::best_matmul_scheme([k, k, k], field)
+                    .ok()
+                    .map(|b| b.scheme)
+            }
+        };
+        if let Some(s) = semisimple_scheme(t, &SemisimpleParams::default(), &matrix) {
+            out.push(Upper {
+                value: s.scheme.rank(),
+                name: "semisimple".into(),
+                detail: format!(
+                    "a semisimple algebra {} (Wedderburn 1908), split by explicit matrix units: \
+                     the sum of a scheme per part ({}), carried through the isomorphism, \
+                     verified exactly",
+                    s.parts_text(&field.name()),
+                    s.parts
+                        .iter()
+                        .map(|(p, r)| match p {
+                            PartShape::Matrix(k) if *k > 1 => format!("M_{k}: {r}"),
+                            PartShape::Field(d) if *d > 1 => format!("degree {d}: {r}"),
+                            _ => format!("{}: 1", field.name()),
+                        })
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                ),
+                scheme: s.scheme,
+            });
+        }
     }
     // a product of polynomials: m + n - 1 by evaluation and interpolation
     if let Some(e) = evaluation_scheme(t, &EvaluationParams::default()) {

@@ -15,6 +15,7 @@ mod components;
 pub mod dense_echelon;
 pub mod echelon;
 mod exact_check;
+pub mod integer_rows;
 pub mod kernels;
 mod matrix;
 pub mod modular;

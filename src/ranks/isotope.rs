@@ -37,6 +37,37 @@ pub struct Isotope {
     pub v0: Vec<i64>,
 }
 
+impl Isotope {
+    /// A scheme of `t` from a scheme `s` of this isotope: `T(a, b) = (R a) o (L b)` with
+    /// `R = T(., v0)`, `L = T(u0, .)`, so the left forms `α` become `α R`, the right forms
+    /// `β` become `β L`, the results stay; the same rank. `None` when a coefficient has
+    /// no image in t's field. Not verified here (callers verify). Cost: O(r n^2).
+    pub fn pull_back(
+        &self,
+        t: &Tensor,
+        s: &crate::scheme::Scheme,
+    ) -> Option<crate::scheme::Scheme> {
+        let n = t.dims()[0];
+        let field = t.field();
+        let rationals = crate::scalar::Rationals;
+        let r = slice_matrix(&rationals, t, 1, &self.v0);
+        let l = slice_matrix(&rationals, t, 0, &self.u0);
+        let through = |x: &[Q], m: &Matrix<Q>| -> Option<Vec<Q>> {
+            (0..n)
+                .map(|i| {
+                    let s: Q = x.iter().enumerate().map(|(k, a)| a * &m[(k, i)]).sum();
+                    crate::scheme::reduce_into(field, &s).ok()
+                })
+                .collect()
+        };
+        let mut out = crate::scheme::Scheme::empty(field, t.dims());
+        for k in 0..s.rank() {
+            out.push(through(&s.u[k], &r)?, through(&s.v[k], &l)?, s.w[k].clone());
+        }
+        Some(out)
+    }
+}
+
 /// Candidate factors: basis vectors, sums of two, then seeded small random vectors.
 fn candidates(n: usize, seed: u64) -> Vec<Vec<i64>> {
     let mut out = Vec::new();

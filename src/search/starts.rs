@@ -1,6 +1,7 @@
 //! Where a search starts: the best scheme built from the catalog's stored schemes for a
-//! matrix format, the interpolation scheme of a commutative algebra with one generator or
-//! the evaluation scheme of a product of polynomials ([`known_start`]), a walk start given by the user checked over the walk
+//! matrix format, the interpolation scheme of a commutative algebra with one generator, the
+//! sum of the parts' schemes of a semisimple algebra split into matrix algebras and fields,
+//! or the evaluation scheme of a product of polynomials ([`known_start`]), a walk start given by the user checked over the walk
 //! field, and the walks' own start, the standard scheme or, for a dense table, the slice
 //! scheme in a basis of low slice rank ([`super::slice_start`]).
 //!
@@ -11,6 +12,7 @@ use super::flip::Snapshot;
 use super::{Params, bits, hensel, slice_start};
 use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
+use crate::decompose::semisimple::{SemisimpleParams, semisimple_scheme};
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
 use crate::scheme::{Scheme, verify};
@@ -38,8 +40,10 @@ pub(crate) fn lower_start<S: Snapshot>(
 /// catalog's stored schemes ([`crate::catalog::schemes::matmul_bases`],
 /// [`crate::scheme::build`]), if it is below the schoolbook rank; for a commutative
 /// algebra with one generator, its interpolation scheme of rank 2n - t, the exact rank
-/// ([`monogenic_scheme`]); for a product of polynomials, its evaluation scheme of rank
-/// m + n - 1, the exact rank ([`evaluation_scheme`]); else `None`. With
+/// ([`monogenic_scheme`]); for a semisimple algebra split into matrix algebras and fields
+/// (in any basis), the sum of the parts' schemes ([`semisimple_scheme`]); for a product of
+/// polynomials, its evaluation scheme of rank m + n - 1, the exact rank
+/// ([`evaluation_scheme`]); else `None`. With
 /// `walk: Some(params)` only stored schemes whose coefficients reduce modulo the walk prime
 /// take part (a start for the walks); with `integral` only stored schemes with integer
 /// coefficients. Verified exactly. Cost: a dynamic programme over the sub-formats and one
@@ -58,6 +62,15 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
         // (of degrees at least 1) is not
         let s = monogenic_scheme(goal, &MonogenicParams::default())
             .map(|m| m.scheme)
+            .or_else(|| {
+                let field = goal.field();
+                let matrix = |k: usize| {
+                    crate::catalog::schemes::best_matmul_scheme([k, k, k], field)
+                        .ok()
+                        .map(|b| b.scheme)
+                };
+                semisimple_scheme(goal, &SemisimpleParams::default(), &matrix).map(|s| s.scheme)
+            })
             .or_else(|| evaluation_scheme(goal, &EvaluationParams::default()).map(|e| e.scheme))?;
         return on_walk_field(s, goal, walk_field, integral);
     };

@@ -64,8 +64,10 @@ fn factor_min_poly<F: Field>(
     Ok((g, fac))
 }
 
-/// The orthogonal idempotents `h_j(y)` of the factors of g (see the module documentation).
-fn crt_idempotents<F: Field>(
+/// The orthogonal idempotents `h_j(y)` of the factors of g (see the module documentation),
+/// one per distinct irreducible factor `g_j` of multiplicity `a_j`: `h_j = 1 mod g_j^a_j`,
+/// `h_j = 0 mod g / g_j^a_j`. They sum to the unit e of `F[y]`.
+pub(crate) fn crt_idempotents<F: Field>(
     z: &Alg<F>,
     y: &[F::Elem],
     e: &[F::Elem],
@@ -75,8 +77,9 @@ fn crt_idempotents<F: Field>(
     let f = &z.f;
     fac.factors
         .iter()
-        .map(|(gj, _)| {
+        .map(|(gj, a)| {
             let gj = poly::from_rationals(f, gj).expect("a factor in the field");
+            let gj = (1..*a).fold(gj.clone(), |acc, _| poly::mul(f, &acc, &gj));
             let cofactor = poly::divrem(f, g, &gj).0;
             let (_, s, _) = poly::ext_gcd(f, &cofactor, &gj);
             let h = poly::rem(f, &poly::mul(f, &s, &cofactor), g);
