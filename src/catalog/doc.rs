@@ -134,6 +134,12 @@ fn ranges_section(out: &mut String) -> Result<(), Error> {
          -1, where the images must solve a quadratic equation) the report says that no \
          isomorphism was found, which is not a proof either way; the invariants still name \
          the entry.\n\n\
+         For a semisimple associative algebra that splits into matrix algebras over its field \
+         and copies of the field (M_2(Q), the split quaternions, Q[S_3], ...), `bilin identify` \
+         proves the match through matrix units: both algebras are split exactly (a minimal \
+         left ideal gives the isomorphism of each part with M_k), equal parts are matched and \
+         the map is verified exactly. The split is found when the input's basis has small \
+         entries in some matrix basis (up to about 100); see docs/schemes.md, \"semisimple\".\n\n\
          Unital associative algebras of dimension at most 3 over Q are not a classified range \
          here: over Q they include every quadratic and cubic number field, so no finite list \
          exists, and we know of no published list over Q to cite.\n"

@@ -8,9 +8,12 @@
 use super::fingerprint::{Fingerprint, FingerprintParams, compute_fingerprint};
 use super::store::{Entry, all_entries};
 use crate::error::Error;
-use crate::iso::{IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism};
+use crate::iso::{
+    IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism, find_split_isomorphism,
+};
 use crate::linalg::Matrix;
 use crate::scalar::Q;
+use crate::structure::matrix_units::SplitParams;
 use crate::tensor::Tensor;
 use std::collections::HashMap;
 use std::sync::{Mutex, OnceLock};
@@ -99,7 +102,8 @@ fn same_shape(t: &Tensor, u: &Tensor) -> bool {
 /// Look for an explicit isomorphism from `t` to the entry `et` (whose fingerprint is
 /// `efp`): nilpotent Lie algebras over Q by [`find_nilpotent_isomorphism`] (solved along
 /// the lower central series, any coefficients), other algebras by the bounded search of
-/// [`find_isomorphism`]. Every isomorphism found has been verified exactly.
+/// [`find_isomorphism`], then, for semisimple algebras split into matrix algebras over
+/// their field and copies of it, through matrix units ([`find_split_isomorphism`]). Every isomorphism found has been verified exactly.
 pub fn search_isomorphism(
     t: &Tensor,
     et: &Tensor,
@@ -128,6 +132,7 @@ pub fn search_isomorphism(
             find_nilpotent_isomorphism(t, et, &params.lie)
         } else {
             find_isomorphism(t, et, &params.iso)
+                .or_else(|| find_split_isomorphism(t, et, &SplitParams::default()))
         };
         match found {
             Some(m) => IsoOutcome::Found(m),

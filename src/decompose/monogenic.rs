@@ -100,7 +100,7 @@ pub fn monogenic_scheme(t: &Tensor, params: &MonogenicParams) -> Option<Monogeni
     if d[0] != d[1] || d[1] != d[2] || d[0] == 0 || d[0] > params.max_dim {
         return None;
     }
-    let (fp, tp) = screening(t)?;
+    let (fp, tp) = t.screening()?;
     if let Some(screen) = Screen::of(fp, &tp) {
         return of_algebra(t, &screen, params);
     }
@@ -177,18 +177,6 @@ fn of_algebra(t: &Tensor, screen: &Screen, params: &MonogenicParams) -> Option<M
 /// `e_i e_j = e_j e_i` for all basis vectors. Cost: O(nnz).
 fn is_commutative(t: &Tensor) -> bool {
     t.entries().all(|(i, j, k, c)| t.get(j, i, k) == *c)
-}
-
-/// The screening field and the table reduced to it: the table itself over GF(p); over Q,
-/// modulo the first word prime that divides no denominator.
-pub(crate) fn screening(t: &Tensor) -> Option<(PrimeField, Tensor)> {
-    match t.field() {
-        FieldSpec::Prime(p) => Some((PrimeField::new(p)?, t.clone())),
-        FieldSpec::Rational => crate::scalar::word_primes(8).into_iter().find_map(|p| {
-            let tp = t.with_field(FieldSpec::Prime(p)).ok()?;
-            Some((PrimeField::new(p)?, tp))
-        }),
-    }
 }
 
 /// A generator among the candidates, screened modulo a word prime for a table over Q

@@ -20,7 +20,7 @@
 //! Invariant: a scheme is returned only after the exact check against the tensor
 //! ([`crate::scheme::verify`]).
 
-use super::monogenic::{MonogenicParams, monogenic_scheme, screening};
+use super::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::laws::{find_unit, find_unit_direct};
 use crate::linalg::integer_rows::IntegerRows;
 use crate::linalg::subspace::span;
@@ -30,7 +30,6 @@ use crate::scheme::{Scheme, reduce_into, verify};
 use crate::structure::algebra::Alg;
 use crate::structure::matrix_units::{SimplePart, SplitParams, split_semisimple};
 use crate::tensor::{IntegralTensor, Tensor};
-use rand::{Rng, SeedableRng};
 
 /// Parameters of [`semisimple_scheme`].
 #[derive(Clone, Debug)]
@@ -98,9 +97,9 @@ pub fn semisimple_scheme(
         return None;
     }
     // screening modulo a word prime: associative (on seeded random triples), with a unit
-    let (fp, tp) = screening(t)?;
+    let (fp, tp) = t.screening()?;
     let ap = Alg::from_tensor(&fp, &tp);
-    if !looks_associative(&ap, params.split.seed) {
+    if !ap.looks_associative(params.split.seed) {
         // not associative; perhaps a map whose unital isotope is
         return through_isotope(t, params, matrix_scheme);
     }
@@ -111,20 +110,6 @@ pub fn semisimple_scheme(
     verify(&s.scheme, t).is_ok().then_some(s)
 }
 
-/// `(x y) z = x (y z)` for four seeded random triples. Cost: O(n^3) per triple.
-fn looks_associative<F: Field>(a: &Alg<F>, seed: u64) -> bool {
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
-    (0..4).all(|_| {
-        let mut draw = || -> Vec<F::Elem> {
-            (0..a.n)
-                .map(|_| a.f.from_i64(rng.gen_range(-1000..=1000)))
-                .collect()
-        };
-        let (x, y, z) = (draw(), draw(), draw());
-        a.mul(&a.mul(&x, &y), &z) == a.mul(&x, &a.mul(&y, &z))
-    })
-}
-
 /// The scheme of a map without a unit through its unital isotope (the isotope must be an
 /// algebra with a unit, screened associative first).
 fn through_isotope(
@@ -133,8 +118,8 @@ fn through_isotope(
     matrix_scheme: &dyn Fn(usize) -> Option<Scheme>,
 ) -> Option<Semisimple> {
     let iso = unital_isotope(t).ok()?;
-    let (fp, tp) = screening(&iso.algebra)?;
-    if !looks_associative(&Alg::from_tensor(&fp, &tp), params.split.seed) {
+    let (fp, tp) = iso.algebra.screening()?;
+    if !Alg::from_tensor(&fp, &tp).looks_associative(params.split.seed) {
         return None;
     }
     let s = crate::with_field!(t.field(), f => of_algebra(f, &iso.algebra, params, matrix_scheme))?;

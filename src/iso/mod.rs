@@ -5,16 +5,20 @@
 //! - [`nilpotent`]: nilpotent Lie algebras over Q, solved along the lower central series
 //!   (any coefficients);
 //! - [`bounded`]: any small algebra, by a bounded search over images with small integer
-//!   coordinates.
+//!   coordinates;
+//! - [`split`]: semisimple algebras that split into matrix algebras over their field and
+//!   copies of it, any coefficients, through matrix units.
 //!
 //! The catalog's identification calls these; they use only the layers below (scalars,
-//! linear algebra, tensors, laws).
+//! linear algebra, tensors, laws, and the structure theory for the matrix units).
 
 pub mod bounded;
 pub mod nilpotent;
+pub mod split;
 
 pub use bounded::{IsoParams, find_isomorphism};
 pub use nilpotent::{LieIsoParams, find_nilpotent_isomorphism, is_nilpotent_lie};
+pub use split::find_split_isomorphism;
 
 use crate::linalg::{Matrix, solve};
 use crate::scalar::{Field, Q};

@@ -242,6 +242,23 @@ impl<F: Field> Alg<F> {
             .all(|a| (a + 1..self.n).all(|b| self.table.product(a, b) == self.table.product(b, a)))
     }
 
+    /// `(x y) z = x (y z)` for four seeded random triples with entries in -1000..=1000: a
+    /// screen (false proves the algebra is not associative; true is evidence only).
+    /// Cost: 4 products per triple.
+    pub fn looks_associative(&self, seed: u64) -> bool {
+        use rand::{Rng, SeedableRng};
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(seed);
+        (0..4).all(|_| {
+            let mut draw = || -> Vec<F::Elem> {
+                (0..self.n)
+                    .map(|_| self.f.from_i64(rng.gen_range(-1000..=1000)))
+                    .collect()
+            };
+            let (x, y, z) = (draw(), draw(), draw());
+            self.mul(&self.mul(&x, &y), &z) == self.mul(&x, &self.mul(&y, &z))
+        })
+    }
+
     /// `x^e` with `x^0 = one`, by repeated squaring.
     pub fn pow(&self, x: &[F::Elem], mut e: u64, one: &[F::Elem]) -> Vec<F::Elem> {
         let mut r = one.to_vec();

@@ -298,6 +298,20 @@ impl Tensor {
         out.into_iter().map(|v| self.normalise(v)).collect()
     }
 
+    /// The screening field and the table reduced to it: the table itself over GF(p); over
+    /// Q, modulo the first word prime that divides no denominator (a cheap field for
+    /// screens whose failure is a proof: a law that fails mod p fails over Q). Cost: one
+    /// reduction of every entry.
+    pub fn screening(&self) -> Option<(PrimeField, Tensor)> {
+        match self.field() {
+            FieldSpec::Prime(p) => Some((PrimeField::new(p)?, self.clone())),
+            FieldSpec::Rational => crate::scalar::word_primes(8).into_iter().find_map(|p| {
+                let tp = self.with_field(FieldSpec::Prime(p)).ok()?;
+                Some((PrimeField::new(p)?, tp))
+            }),
+        }
+    }
+
     /// The same table over another field. Over GF(p) every coefficient must have a
     /// denominator prime to p; otherwise the `Err` names the first offending product.
     pub fn with_field(&self, field: FieldSpec) -> Result<Tensor, String> {
