@@ -199,83 +199,45 @@ fn search_over_q_starts_from_a_scheme_over_gf2() {
     std::fs::remove_dir_all(&dir).ok();
 }
 
-/// A product in a dense basis of the user's own: <2,3,3> after unimodular changes of
-/// basis (integer matrices of determinant 1, written below as L L^T with L unit lower
-/// triangular). Its walks over GF(2) reach the rank 15 of Hopcroft and Kerr (1971, "On
-/// minimizing the number of multiplications necessary for matrix multiplication", SIAM J.
-/// Appl. Math. 20), which does not lift to Q in such a basis within the time given (seed
-/// 1): the search over Q keeps that scheme over GF(2) next to its result, verified, and
-/// `verify --field GF(2)` accepts it. (A square format is no longer a case: <3,3,3> in
-/// such bases is M_3(Q) through a unital isotope, and its rank-23 scheme is known first.)
+/// A scheme over GF(p) that cannot lift: the quaternions split modulo 3 (M_2(GF(3)), rank
+/// 7, Strassen 1969), while their rank over R, hence over Q, is 8 (de Groote 1978, "On
+/// varieties of optimal algorithms for the computation of bilinear mappings II", Theoret.
+/// Comput. Sci. 7; from memory). A search over Q for rank 7 with walks over GF(3) reaches 7
+/// there, which no lift can bring to Q whatever the time: the search keeps that scheme over
+/// GF(3) next to its result, verified, and `verify --field GF(3)` accepts it.
 #[test]
 fn search_over_q_keeps_the_walks_scheme_over_gf2() {
-    let dir = std::env::temp_dir().join(format!("bilin-search-gf2-{}", std::process::id()));
+    let dir = std::env::temp_dir().join(format!("bilin-search-gfp-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    // L with ones on the diagonal and a fixed pattern below it; the matrix is L L^T
-    let unimodular = |n: usize, shift: i64| {
-        let l = |i: usize, j: usize| -> i64 {
-            match i.cmp(&j) {
-                std::cmp::Ordering::Equal => 1,
-                std::cmp::Ordering::Greater => ((i as i64 * 3 + j as i64 * 5 + shift) % 5) - 2,
-                std::cmp::Ordering::Less => 0,
-            }
-        };
-        let mut text = String::new();
-        for i in 0..n {
-            let row: Vec<String> = (0..n)
-                .map(|j| (0..n).map(|k| l(i, k) * l(j, k)).sum::<i64>().to_string())
-                .collect();
-            text += &format!("{}\n", row.join(" "));
-        }
-        text
-    };
-    let basis = dir.join("basis.txt");
-    std::fs::write(
-        &basis,
-        format!(
-            "matrix left\n{}end\nmatrix right\n{}end\nmatrix result\n{}end\n",
-            unimodular(6, 0),
-            unimodular(9, 1),
-            unimodular(6, 2)
-        ),
-    )
-    .unwrap();
-    let (code, table, err) = bilin(&[
-        "transform",
-        "matmul:2,3,3",
-        "--basis",
-        basis.to_str().unwrap(),
-    ]);
-    assert_eq!(code, 0, "{err}");
-    let table_path = dir.join("m233.txt");
-    std::fs::write(&table_path, table).unwrap();
     let out = dir.join("run.json");
     let (code, _, err) = bilin(&[
         "search",
-        table_path.to_str().unwrap(),
+        "quaternions",
         "--rank",
-        "15",
+        "7",
+        "--prime",
+        "3",
         "--seed",
         "1",
         "--threads",
         "1",
         "--time",
-        "20",
+        "8",
         "--out",
         out.to_str().unwrap(),
     ]);
     assert_eq!(code, 1, "not reached over Q: {err}");
-    assert!(err.contains("over GF(2), which did not lift to Q"), "{err}");
-    let gf2 = dir.join("run.gf2.json");
+    assert!(err.contains("over GF(3), which did not lift to Q"), "{err}");
+    let gf3 = dir.join("run.gf3.json");
     let (code, stdout, err) = bilin(&[
         "verify",
-        table_path.to_str().unwrap(),
-        gf2.to_str().unwrap(),
+        "quaternions",
+        gf3.to_str().unwrap(),
         "--field",
-        "GF(2)",
+        "GF(3)",
     ]);
     assert_eq!(code, 0, "{err}");
-    assert!(stdout.contains("verified: rank 15"), "{stdout}");
+    assert!(stdout.contains("verified: rank 7"), "{stdout}");
     std::fs::remove_dir_all(&dir).ok();
 }
 

@@ -21,7 +21,7 @@
 //! ([`crate::scheme::verify`]).
 
 use super::monogenic::{MonogenicParams, monogenic_scheme};
-use crate::laws::{find_unit, find_unit_direct};
+use crate::laws::{find_unit_direct, find_unit_in};
 use crate::linalg::integer_rows::IntegerRows;
 use crate::linalg::subspace::span;
 use crate::ranks::isotope::unital_isotope;
@@ -29,7 +29,7 @@ use crate::scalar::{Field, Q};
 use crate::scheme::{Scheme, reduce_into, verify};
 use crate::structure::algebra::Alg;
 use crate::structure::matrix_units::{SimplePart, SplitParams, split_semisimple};
-use crate::tensor::{IntegralTensor, Tensor};
+use crate::tensor::Tensor;
 
 /// Parameters of [`semisimple_scheme`].
 #[derive(Clone, Debug)]
@@ -138,14 +138,8 @@ fn of_algebra<F: Field>(
 ) -> Option<Semisimple> {
     let a = Alg::from_tensor(f, t);
     let n = a.n;
-    // the unit by the shared modular solver (elimination in fractions is slow on a dense
-    // table with large entries)
     let sp = &params.split.solve;
-    let one: Vec<F::Elem> = find_unit(&IntegralTensor::from_tensor(t), sp)
-        .ok()??
-        .iter()
-        .map(|x| f.from_rational(x))
-        .collect::<Option<_>>()?;
+    let one = find_unit_in(f, t, sp).ok()??;
     let parts = split_semisimple(&a, &one, &params.split).ok()??;
     let mut scheme = Scheme::empty(t.field(), [n, n, n]);
     let mut shapes = Vec::new();

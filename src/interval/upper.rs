@@ -85,7 +85,9 @@ pub fn upper_bounds(
     }
     // a commutative algebra with one generator: 2n - t by the Chinese remainder theorem
     // and interpolation, in the table's own basis
-    if let Some(m) = monogenic_scheme(t, &MonogenicParams::default()) {
+    let monogenic = monogenic_scheme(t, &MonogenicParams::default());
+    let monogenic_found = monogenic.is_some();
+    if let Some(m) = monogenic {
         out.push(Upper {
             value: m.scheme.rank(),
             name: "interpolation".into(),
@@ -109,7 +111,6 @@ pub fn upper_bounds(
     // a semisimple algebra split into matrix algebras and fields: the sum of the parts'
     // schemes through explicit matrix units (a commutative one has its interpolation
     // scheme above, a matrix format its stored scheme below)
-    let monogenic_found = out.iter().any(|u| u.name == "interpolation");
     if !monogenic_found && crate::scheme::build::matmul_format_of(t).is_none() {
         let field = t.field();
         let matrix = |k: usize| {

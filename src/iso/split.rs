@@ -10,7 +10,7 @@
 //! Invariant: a map is returned only after the change of basis it defines reproduces the
 //! first algebra's structure constants exactly ([`super::same_constants`]).
 
-use crate::laws::find_unit_direct;
+use crate::laws::{find_unit_direct, find_unit_in};
 use crate::linalg::Matrix;
 use crate::scalar::{Field, Q};
 use crate::structure::algebra::Alg;
@@ -28,7 +28,7 @@ type Parts<E> = Vec<(usize, Vec<Vec<E>>, Vec<Vec<E>>)>;
 
 fn parts_of<F: Field>(f: &F, t: &Tensor, params: &SplitParams) -> Option<Parts<F::Elem>> {
     let a = Alg::from_tensor(f, t);
-    let one = find_unit_direct(f, &a.table)?;
+    let one = find_unit_in(f, t, &params.solve).ok()??;
     let parts = split_semisimple(&a, &one, params).ok()??;
     let mut out = Vec::new();
     for p in &parts {

@@ -32,7 +32,7 @@ pub mod pointwise;
 mod unit;
 
 pub use check::{Check, Witness};
-pub use unit::{find_unit, find_unit_direct};
+pub use unit::{find_unit, find_unit_direct, find_unit_in};
 
 use crate::error::{Error, Result};
 use crate::scalar::Field;

@@ -84,6 +84,20 @@ pub fn find_unit(it: &IntegralTensor, params: &SolveParams) -> Result<Option<Vec
     Ok(Some(u))
 }
 
+/// The unit of the algebra `t` as elements of the field context `f` (t's field), by the
+/// modular solver of [`find_unit`] (exact; elimination in fractions is slow on a dense
+/// table with large entries). Cost: that of [`find_unit`].
+pub fn find_unit_in<F: Field>(
+    f: &F,
+    t: &crate::tensor::Tensor,
+    params: &SolveParams,
+) -> Result<Option<Vec<F::Elem>>> {
+    let Some(u) = find_unit(&IntegralTensor::from_tensor(t), params)? else {
+        return Ok(None);
+    };
+    Ok(u.iter().map(|x| f.from_rational(x)).collect())
+}
+
 /// The unit by exact elimination in the field of a table (any field, any prime).
 /// Cost: one elimination of a `2 n^2 x (n + 1)` matrix over the field.
 pub fn find_unit_direct<F: Field>(f: &F, t: &Table<F::Elem>) -> Option<Vec<F::Elem>> {

@@ -11,7 +11,7 @@
 
 use super::{Matrix, echelon};
 use crate::scalar::residue;
-use crate::scalar::{Q, Rationals, common_denominator, crt_combine};
+use crate::scalar::{Field, Q, Rationals, common_denominator, crt_combine};
 use num_bigint::BigInt;
 use num_traits::{One, Zero};
 
@@ -136,6 +136,31 @@ fn scaled_rows(m: &Matrix<Q>) -> Vec<(BigInt, Vec<BigInt>)> {
 
 fn integer_rows(m: &Matrix<Q>) -> Vec<Vec<BigInt>> {
     scaled_rows(m).into_iter().map(|(_, r)| r).collect()
+}
+
+/// The inverse of a square matrix over the field context `f`: over Q by [`inverse_q`]
+/// (exact; elimination in fractions is slow on large entries), over GF(p) by elimination.
+/// `None` when singular. Cost: that of [`inverse_q`], or O(n^3) field operations.
+pub fn inverse_exact<F: Field>(f: &F, m: &Matrix<F::Elem>) -> Option<Matrix<F::Elem>> {
+    if f.characteristic() != 0 {
+        return crate::linalg::inverse(f, m);
+    }
+    let q = Matrix {
+        rows: m.rows,
+        cols: m.cols,
+        data: m.data.iter().map(|x| f.to_rational(x)).collect(),
+    };
+    let inv = inverse_q(&q)?;
+    let data = inv
+        .data
+        .iter()
+        .map(|x| f.from_rational(x))
+        .collect::<Option<_>>()?;
+    Some(Matrix {
+        rows: inv.rows,
+        cols: inv.cols,
+        data,
+    })
 }
 
 /// The inverse of a square rational matrix, exactly, or `None` when it is singular.

@@ -35,11 +35,14 @@
 use super::algebra::Alg;
 use super::fields::{crt_idempotents, split_into_fields};
 use crate::error::Result;
+use crate::invariants::{ElementSpace, element_space};
+use crate::linalg::Matrix;
+use crate::linalg::modular::inverse_exact;
 use crate::linalg::nullspace::SolveParams;
-use crate::linalg::subspace::{Subspace, field_spec, kernel, span};
-use crate::linalg::{Matrix, inverse};
+use crate::linalg::subspace::{Subspace, field_spec, kernel, reduce, span};
 use crate::poly;
 use crate::scalar::Field;
+use crate::tensor::IntegralTensor;
 use rand::{Rng, SeedableRng};
 
 /// Parameters of [`split_semisimple`].
@@ -174,32 +177,21 @@ pub fn split_semisimple<F: Field>(
     Ok(Some(parts))
 }
 
-/// The centre `{z : z b = b z for every basis vector b}` as a subspace. Cost: `n^2`
-/// products of basis vectors and a kernel of `n^3` equations in n unknowns.
+/// The centre as a subspace, by the invariants engine ([`element_space`]). Cost: that of
+/// [`element_space`] on the algebra's table.
 fn centre_of<F: Field>(a: &Alg<F>, sp: &SolveParams) -> Result<Subspace<F::Elem>> {
     let f = &a.f;
-    let n = a.n;
-    // equation (m, k): sum_c z_c (c_cmk - c_mck) = 0
-    let mut rows = Vec::new();
-    let cols: Vec<Vec<Vec<F::Elem>>> = (0..n)
-        .map(|c| {
-            (0..n)
-                .map(|m| {
-                    a.sub(
-                        &a.mul(&a.basis(c), &a.basis(m)),
-                        &a.mul(&a.basis(m), &a.basis(c)),
-                    )
-                })
+    let it = IntegralTensor::from_tensor(&a.to_tensor("e"));
+    let z = element_space(&it, ElementSpace::Centre, sp)?;
+    let basis = (0..z.dim())
+        .map(|i| {
+            z.dense(i)
+                .iter()
+                .map(|x| f.from_rational(x).expect("in the field"))
                 .collect()
         })
         .collect();
-    for (m, k) in itertools::iproduct!(0..n, 0..n) {
-        let row: Vec<F::Elem> = cols.iter().map(|col| col[m][k].clone()).collect();
-        if row.iter().any(|x| !f.is_zero(x)) {
-            rows.push(row);
-        }
-    }
-    kernel(f, &rows, n, sp)
+    Ok(reduce(f, a.n, basis))
 }
 
 /// `x` and `y` subspaces of the same space: their intersection. Cost: a kernel of
@@ -295,30 +287,6 @@ fn candidate<F: Field>(
     y
 }
 
-/// The inverse of a square matrix: over Q by the modular solver (exact; elimination in
-/// fractions is slow on the large entries of a dense basis), else by elimination.
-fn invert<F: Field>(f: &F, m: &Matrix<F::Elem>) -> Option<Matrix<F::Elem>> {
-    if f.characteristic() != 0 {
-        return inverse(f, m);
-    }
-    let q = Matrix {
-        rows: m.rows,
-        cols: m.cols,
-        data: m.data.iter().map(|x| f.to_rational(x)).collect(),
-    };
-    let inv = crate::linalg::modular::inverse_q(&q)?;
-    let data = inv
-        .data
-        .iter()
-        .map(|x| f.from_rational(x))
-        .collect::<Option<_>>()?;
-    Some(Matrix {
-        rows: inv.rows,
-        cols: inv.cols,
-        data,
-    })
-}
-
 /// The matrix units `E_jl = rho^-1(e_jl)` of the part `comp` from a minimal left ideal
 /// (see the module documentation), checked (see the module documentation); `None` when a
 /// check fails. Cost: `k dim S` products, one inverse of size `dim S`, `k^3` products.
@@ -346,7 +314,7 @@ fn units_of<F: Field>(
             }
         }
     }
-    let inv = invert(f, &r)?;
+    let inv = inverse_exact(f, &r)?;
     let units: Vec<Vec<F::Elem>> = (0..d)
         .map(|jl| {
             let col: Vec<F::Elem> = (0..d).map(|m| inv[(m, jl)].clone()).collect();
