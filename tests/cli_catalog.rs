@@ -82,6 +82,31 @@ fn identify_proves_a_matrix_algebra_in_a_random_basis() {
     std::fs::remove_dir_all(&dir).ok();
 }
 
+/// `identify` proves that a matrix product written in three random bases of its own is
+/// the catalog's <2,3,4>, with the three maps, and says so in the JSON report too.
+#[test]
+fn identify_proves_a_matrix_product_in_three_random_bases() {
+    let dir = std::env::temp_dir().join(format!("bilin-identify-234-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let (code, table, err) = bilin(&["transform", "matmul:2,3,4", "--random", "3"]);
+    assert_eq!(code, 0, "{err}");
+    let file = dir.join("m234.txt");
+    std::fs::write(&file, table).unwrap();
+    let (code, out, err) = bilin(&["identify", file.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(
+        out.contains("matmul234: ISOMORPHIC, verified exactly"),
+        "{out}"
+    );
+    for axis in ["left axis:", "right axis:", "result axis:"] {
+        assert!(out.contains(axis), "{out}");
+    }
+    let (code, out, err) = bilin(&["identify", file.to_str().unwrap(), "--json"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("\"found-maps\""), "{out}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
 /// The schemes stored with the catalog: `catalog show` lists them (verified exactly), and
 /// `verify`, `scheme cost` and `emit` accept them by name. Strassen 1969: <2,2,2> in 7
 /// multiplications.

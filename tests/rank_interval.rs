@@ -344,6 +344,71 @@ fn command_line_matrix_algebra_in_a_random_basis() {
     std::fs::remove_dir_all(&dir).ok();
 }
 
+/// Matrix products written in three bases of their own (seeded random changes of basis
+/// with entries up to 1000 in absolute value) get the rank of the catalog's best scheme of
+/// their format as an upper bound, with a verified scheme: <2,2,3> 11, <2,3,4> 20
+/// (Hopcroft and Kerr 1971, On minimizing the number of multiplications necessary for
+/// matrix multiplication, SIAM J. Appl. Math. 20; from memory), <3,3,4> 29 (Smirnov
+/// 2013, The bilinear complexity and practical algorithms for matrix multiplication,
+/// Comput. Math. Math. Phys. 53; from memory), each in two orientations; the format is
+/// found whatever the order of the axes.
+#[test]
+fn matrix_products_in_bases_of_their_own_take_the_stored_schemes() {
+    for (format, rank) in [
+        ([2, 2, 3], 11),
+        ([3, 2, 2], 11),
+        ([2, 3, 4], 20),
+        ([4, 3, 2], 20),
+        ([3, 3, 4], 29),
+    ] {
+        let [n, m, p] = format;
+        let t = bilin::generators::generate(&format!("matmul:{n},{m},{p}")).unwrap();
+        let d = t.dims();
+        let [a, b, c] = [0, 1, 2].map(|i| random_invertible(d[i], 1000, 40 + i as u64));
+        let moved = change_basis(&t, &a, &b, &c).unwrap();
+        let stored = bilin::catalog::schemes::best_matmul_scheme(format, FieldSpec::Rational)
+            .unwrap()
+            .scheme
+            .rank();
+        assert_eq!(stored, rank, "{format:?}");
+        let iv = interval(&moved);
+        let found = iv
+            .uppers
+            .iter()
+            .find(|u| u.name == "matrix product")
+            .unwrap_or_else(|| panic!("{format:?}: no matrix product bound"));
+        assert_eq!(found.value, rank, "{format:?}");
+        assert!(verify(&found.scheme, &moved).is_ok(), "{format:?}");
+        assert_eq!(iv.upper.value, rank, "{format:?}");
+    }
+}
+
+/// The command line on a matrix product in three bases of the user's own: `bounds` gives
+/// the stored rank of its format, `search` at that rank answers at once, `verify` accepts
+/// the file.
+#[test]
+fn command_line_matrix_product_in_three_bases() {
+    let dir = std::env::temp_dir().join(format!("bilin-frame-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let t = dir.join("m234.json");
+    let (code, out, err) = bilin(&["transform", "matmul:2,3,4", "--random", "7", "--to", "json"]);
+    assert_eq!(code, 0, "{err}");
+    std::fs::write(&t, out).unwrap();
+    let ts = t.to_str().unwrap();
+    let (code, out, err) = bilin(&["bounds", ts]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("upper 20: matrix product"), "{out}");
+    assert!(out.contains("<2,3,4>"), "{out}");
+    let f = dir.join("m234-20.txt");
+    let fs = f.to_str().unwrap();
+    let (code, _, err) = bilin(&["search", ts, "--rank", "20", "--out", fs]);
+    assert_eq!(code, 0, "{err}");
+    assert!(err.contains("known before any search"), "{err}");
+    let (code, out, err) = bilin(&["verify", ts, fs]);
+    assert_eq!(code, 0, "{out}{err}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
 /// The command line on a product of polynomials: `bounds` closes the interval with the
 /// evaluation scheme, `search` answers at once and writes it, `verify` accepts the file.
 #[test]

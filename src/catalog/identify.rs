@@ -1,6 +1,7 @@
 //! Identification of an input against the catalog: compare invariant fingerprints, list
 //! the entries that match, the ones that nearly match and the invariants that separate
-//! them, and for small algebras look for an explicit isomorphism, verified exactly.
+//! them, and for small algebras (and matrix products in bases of their own) look for an
+//! explicit isomorphism, verified exactly.
 //!
 //! A matching fingerprint is evidence of isomorphism, never a proof; only an isomorphism
 //! that has been found and checked proves it.
@@ -8,11 +9,13 @@
 use super::fingerprint::{Fingerprint, FingerprintParams, compute_fingerprint};
 use super::store::{Entry, all_entries};
 use crate::error::Error;
+use crate::iso::product::find_product_isomorphism;
 use crate::iso::{
     IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism, find_split_isomorphism,
 };
 use crate::linalg::Matrix;
 use crate::scalar::Q;
+use crate::structure::matrix_frame::{FrameParams, candidate_permutations};
 use crate::structure::matrix_units::SplitParams;
 use crate::tensor::Tensor;
 use std::collections::HashMap;
@@ -51,6 +54,10 @@ pub enum IsoOutcome {
     Found(Matrix<Q>),
     /// Searched within the parameters and found none (not a proof of non-isomorphism).
     NotFound,
+    /// For a bilinear map: `[M_0, M_1, M_2]`, the columns of `M_a` the images of the
+    /// input's basis vectors on axis a in the entry's bases; `change_basis(entry, M_0, M_1,
+    /// M_2)` equals the input exactly.
+    FoundMaps(Box<[Matrix<Q>; 3]>),
     /// Not attempted (the reason is given).
     NotAttempted(String),
 }
@@ -103,7 +110,9 @@ fn same_shape(t: &Tensor, u: &Tensor) -> bool {
 /// `efp`): nilpotent Lie algebras over Q by [`find_nilpotent_isomorphism`] (solved along
 /// the lower central series, any coefficients), other algebras by the bounded search of
 /// [`find_isomorphism`], then, for semisimple algebras split into matrix algebras over
-/// their field and copies of it, through matrix units ([`find_split_isomorphism`]). Every isomorphism found has been verified exactly.
+/// their field and copies of it, through matrix units ([`find_split_isomorphism`]); a
+/// bilinear map, when both are matrix products whose frames are found
+/// ([`find_product_isomorphism`]). Every isomorphism found has been verified exactly.
 pub fn search_isomorphism(
     t: &Tensor,
     et: &Tensor,
@@ -121,7 +130,21 @@ pub fn search_isomorphism(
     if !params.search_isomorphism {
         IsoOutcome::NotAttempted("the search was switched off".into())
     } else if t.kind() != crate::tensor::Kind::Algebra {
-        IsoOutcome::NotAttempted("the search handles algebras only".into())
+        if candidate_permutations(t.dims()).is_empty() {
+            return IsoOutcome::NotAttempted(
+                "for bilinear maps the search handles matrix products whose sides include \
+                 x = s y + 1 only"
+                    .into(),
+            );
+        }
+        match find_product_isomorphism(t, et, &FrameParams::default()) {
+            Some(maps) => IsoOutcome::FoundMaps(Box::new(maps)),
+            None => IsoOutcome::NotAttempted(
+                "no standard frame of a matrix product found for both (the search for bilinear \
+                 maps handles matrix products only)"
+                    .into(),
+            ),
+        }
     } else if t.dim() > limit {
         IsoOutcome::NotAttempted(format!(
             "dimension {} is above the search limit {limit}",

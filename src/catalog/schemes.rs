@@ -60,6 +60,7 @@ pub const STORED_SCHEMES: &[StoredScheme] = &[
     stored!("matmul445", "found"),
     stored!("matmul455", "found"),
     stored!("matmul455", "gf2"),
+    stored!("matmul555", "found"),
     stored!("matmul555", "gf2"),
     stored!("polymul2", "karatsuba"),
     stored!("polymul3", "toom3"),

@@ -4,7 +4,9 @@
 
 use super::{EXIT_OK, EXIT_USAGE};
 use bilin::catalog::{IdentifyParams, IsoOutcome, identify};
+use bilin::linalg::Matrix;
 use bilin::report::identify::{identify_report, render_identify_json};
+use bilin::scalar::Q;
 use clap::Args;
 
 #[derive(Args)]
@@ -74,18 +76,22 @@ pub fn run(args: IdentifyArgs) -> i32 {
                      is, in the entry's basis (right),",
                     m.name
                 );
-                let entry_names: Vec<String> = match bilin::catalog::catalog_tensor(&m.name) {
-                    Some(e) if e.names()[0].len() == mat.rows => e.names()[0].clone(),
-                    _ => (0..mat.rows).map(|i| format!("f{i}")).collect(),
-                };
-                let ours = &t.names()[0];
-                let w = ours.iter().map(|s| s.chars().count()).max().unwrap_or(1);
-                for (j, name) in ours.iter().enumerate().take(mat.cols) {
-                    let col: Vec<bilin::scalar::Q> =
-                        (0..mat.rows).map(|i| mat[(i, j)].clone()).collect();
-                    println!(
-                        "      {name:<w$} -> {}",
-                        bilin::report::invariants::combination(&col, &entry_names)
+                let entry = bilin::catalog::catalog_tensor(&m.name);
+                print_images(mat, &t.names()[0], entry.as_ref().map(|e| &e.names()[0]));
+            }
+            IsoOutcome::FoundMaps(maps) => {
+                println!(
+                    "  {}: ISOMORPHIC, verified exactly: each basis vector of the input (left) \
+                     is, in the entry's bases (right),",
+                    m.name
+                );
+                let entry = bilin::catalog::catalog_tensor(&m.name);
+                for (axis, mat) in maps.iter().enumerate() {
+                    println!("    {} axis:", bilin::tensor::AXES[axis]);
+                    print_images(
+                        mat,
+                        &t.names()[axis],
+                        entry.as_ref().map(|e| &e.names()[axis]),
                     );
                 }
             }
@@ -118,4 +124,21 @@ pub fn run(args: IdentifyArgs) -> i32 {
         }
     }
     EXIT_OK
+}
+
+/// One line per basis vector of the input: its image, column j of `mat`, in the entry's
+/// basis (the entry's names when they fit, else `f0, f1, ...`).
+fn print_images(mat: &Matrix<Q>, ours: &[String], entry_names: Option<&Vec<String>>) {
+    let entry_names: Vec<String> = match entry_names {
+        Some(names) if names.len() == mat.rows => names.clone(),
+        _ => (0..mat.rows).map(|i| format!("f{i}")).collect(),
+    };
+    let w = ours.iter().map(|s| s.chars().count()).max().unwrap_or(1);
+    for (j, name) in ours.iter().enumerate().take(mat.cols) {
+        let col: Vec<Q> = (0..mat.rows).map(|i| mat[(i, j)].clone()).collect();
+        println!(
+            "      {name:<w$} -> {}",
+            bilin::report::invariants::combination(&col, &entry_names)
+        );
+    }
 }

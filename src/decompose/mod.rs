@@ -18,12 +18,14 @@
 pub mod eigen;
 pub mod evaluation;
 pub mod kruskal;
+pub mod matrix_product;
 pub mod monogenic;
 pub mod pencil;
 pub mod planted;
 pub mod semisimple;
 pub mod simultaneous;
 pub mod slices;
+pub mod transport;
 
 pub use kruskal::Uniqueness;
 pub use pencil::{PencilParams, pencil_decomposition};

@@ -21,12 +21,12 @@
 //! ([`crate::scheme::verify`]).
 
 use super::monogenic::{MonogenicParams, monogenic_scheme};
+use super::transport::push_transported;
 use crate::laws::{find_unit_direct, find_unit_in};
-use crate::linalg::integer_rows::IntegerRows;
 use crate::linalg::subspace::span;
 use crate::ranks::isotope::unital_isotope;
 use crate::scalar::{Field, Q};
-use crate::scheme::{Scheme, reduce_into, verify};
+use crate::scheme::{Scheme, verify};
 use crate::structure::algebra::Alg;
 use crate::structure::matrix_units::{SimplePart, SplitParams, split_semisimple};
 use crate::tensor::Tensor;
@@ -154,7 +154,7 @@ fn of_algebra<F: Field>(
                 let s = field_scheme(&k.to_tensor("k"))?;
                 // the coordinates of x c in the part's basis, for each basis vector x
                 let proj: Vec<Vec<F::Elem>> = prods.iter().map(|p| comp.coords(p)).collect();
-                push_part(f, &mut scheme, &s, &proj, &comp.basis);
+                push_transported(f, &mut scheme, &s, [&proj, &proj], &comp.basis);
                 shapes.push((PartShape::Field(*degree), scheme.rank() - before));
             }
             SimplePart::Matrix { size, units, .. } => {
@@ -169,7 +169,7 @@ fn of_algebra<F: Field>(
                 let proj: Vec<Vec<F::Elem>> = (0..n)
                     .map(|m| part.matrix_of(&a, &a.basis(m)))
                     .collect::<Option<_>>()?;
-                push_part(f, &mut scheme, &s, &proj, units);
+                push_transported(f, &mut scheme, &s, [&proj, &proj], units);
                 shapes.push((PartShape::Matrix(*size), scheme.rank() - before));
             }
         }
@@ -183,42 +183,6 @@ fn of_algebra<F: Field>(
 /// The interpolation scheme of a field part (rank `2 d - 1`; rank 1 for degree 1).
 fn field_scheme(k: &Tensor) -> Option<Scheme> {
     monogenic_scheme(k, &MonogenicParams::default()).map(|m| m.scheme)
-}
-
-/// Append the terms of the part's scheme `s` to `out`: a linear form `α` of the part
-/// becomes `x -> α(proj x)` on A's basis vectors (`proj[m]` the part coordinates of basis
-/// vector m), a result `w` becomes `sum_i w_i embed[i]` in A's basis. Over one common
-/// denominator ([`IntegerRows`]): the coordinates of a dense basis are large.
-fn push_part<F: Field>(
-    f: &F,
-    out: &mut Scheme,
-    s: &Scheme,
-    proj: &[Vec<F::Elem>],
-    embed: &[Vec<F::Elem>],
-) {
-    let field = out.field;
-    let q = |v: &[F::Elem]| -> Vec<Q> { v.iter().map(|x| f.to_rational(x)).collect() };
-    let n = proj.len();
-    let parts = embed.len();
-    // the forms: row i of the part's coordinates, as a function of the basis vector
-    let proj_rows: Vec<Vec<Q>> = (0..parts)
-        .map(|i| proj.iter().map(|p| f.to_rational(&p[i])).collect())
-        .collect();
-    let forms = IntegerRows::new(&proj_rows, n);
-    let embed: Vec<Vec<Q>> = embed.iter().map(|e| q(e)).collect();
-    let results = IntegerRows::new(&embed, n);
-    let reduce = |v: Vec<Q>| -> Vec<Q> {
-        v.iter()
-            .map(|x| reduce_into(field, x).expect("a coefficient of the field"))
-            .collect()
-    };
-    for r in 0..s.rank() {
-        out.push(
-            reduce(forms.combine(&s.u[r])),
-            reduce(forms.combine(&s.v[r])),
-            reduce(results.combine(&s.w[r])),
-        );
-    }
 }
 
 #[cfg(test)]

@@ -10,12 +10,14 @@
 
 use crate::catalog::schemes::STORED_SCHEMES;
 use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
+use crate::decompose::matrix_product::matrix_product_scheme;
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::decompose::semisimple::{PartShape, SemisimpleParams, semisimple_scheme};
 use crate::decompose::{
     PencilParams, SimultaneousParams, Uniqueness, decompose, pencil_decomposition,
 };
 use crate::scheme::{Scheme, verify};
+use crate::structure::matrix_frame::FrameParams;
 use crate::tensor::Tensor;
 use serde::Serialize;
 
@@ -143,6 +145,36 @@ pub fn upper_bounds(
                         .join(", ")
                 ),
                 scheme: s.scheme,
+            });
+        }
+    }
+    // a matrix product in bases of its own: the best stored scheme of its format, carried
+    // into those bases
+    if crate::scheme::build::matmul_format_of(t).is_none() {
+        let field = t.field();
+        let scheme_of = |f: [usize; 3]| {
+            if params.no_catalog {
+                let m = crate::generators::generate(&format!("matmul:{},{},{}", f[0], f[1], f[2]))
+                    .ok()?;
+                Scheme::standard(&m).with_field(field).ok()
+            } else {
+                crate::catalog::schemes::best_matmul_scheme(f, field)
+                    .ok()
+                    .map(|b| b.scheme)
+            }
+        };
+        if let Some(mp) = matrix_product_scheme(t, &FrameParams::default(), &scheme_of) {
+            let [n, m, p] = mp.format;
+            out.push(Upper {
+                value: mp.scheme.rank(),
+                name: "matrix product".into(),
+                detail: format!(
+                    "the matrix product <{n},{m},{p}> in bases of its own, found exactly (the \
+                     left multipliers, a full matrix algebra, split through a simple module \
+                     cut out by kernels); the best scheme of <{n},{m},{p}> carried into those \
+                     bases, verified exactly"
+                ),
+                scheme: mp.scheme,
             });
         }
     }

@@ -1,4 +1,4 @@
-//! Explicit isomorphisms between algebras, each verified exactly: a map is returned only
+//! Explicit isomorphisms between algebras (and matrix products), each verified exactly: a map is returned only
 //! after the change of basis it defines reproduces the other algebra's structure constants
 //! coefficient by coefficient. "Not found" never means "not isomorphic".
 //!
@@ -7,13 +7,16 @@
 //! - [`bounded`]: any small algebra, by a bounded search over images with small integer
 //!   coordinates;
 //! - [`split`]: semisimple algebras that split into matrix algebras over their field and
-//!   copies of it, any coefficients, through matrix units.
+//!   copies of it, any coefficients, through matrix units;
+//! - [`product`]: matrix products written in three bases of their own, any coefficients,
+//!   through the frames of both.
 //!
 //! The catalog's identification calls these; they use only the layers below (scalars,
 //! linear algebra, tensors, laws, and the structure theory for the matrix units).
 
 pub mod bounded;
 pub mod nilpotent;
+pub mod product;
 pub mod split;
 
 pub use bounded::{IsoParams, find_isomorphism};

@@ -9,7 +9,8 @@
 
 use crate::catalog::fingerprint::Value;
 use crate::catalog::{Identification, IsoOutcome};
-use crate::scalar::q_to_string;
+use crate::linalg::Matrix;
+use crate::scalar::{Q, q_to_string};
 use crate::tensor::{Kind, Tensor};
 use serde::{Deserialize, Serialize};
 
@@ -95,6 +96,13 @@ pub enum Isomorphism {
     /// `images[j]`: basis vector j of the input written in the entry's basis (exact
     /// rationals as text); verified exactly.
     Found { images: Vec<Vec<String>> },
+    /// For a bilinear map: `left[j]`, `right[j]`, `result[j]`: basis vector j of the
+    /// input's axis written in the entry's basis of that axis; verified exactly.
+    FoundMaps {
+        left: Vec<Vec<String>>,
+        right: Vec<Vec<String>>,
+        result: Vec<Vec<String>>,
+    },
     /// None with integer coordinates in `-bound..=bound` (not a proof either way).
     NotFound { bound: i64 },
     /// Not attempted, for the reason given.
@@ -175,9 +183,12 @@ pub fn identify_report(input: &str, t: &Tensor, id: &Identification, bound: i64)
                 name: m.name.clone(),
                 isomorphism: match &m.iso {
                     IsoOutcome::Found(mat) => Isomorphism::Found {
-                        images: (0..mat.cols)
-                            .map(|j| (0..mat.rows).map(|i| q_to_string(&mat[(i, j)])).collect())
-                            .collect(),
+                        images: images(mat),
+                    },
+                    IsoOutcome::FoundMaps(maps) => Isomorphism::FoundMaps {
+                        left: images(&maps[0]),
+                        right: images(&maps[1]),
+                        result: images(&maps[2]),
                     },
                     IsoOutcome::NotFound => Isomorphism::NotFound { bound },
                     IsoOutcome::NotAttempted(why) => Isomorphism::NotAttempted {
@@ -208,4 +219,12 @@ pub fn identify_report(input: &str, t: &Tensor, id: &Identification, bound: i64)
 /// The report as pretty-printed JSON.
 pub fn render_identify_json(r: &IdentifyReport) -> String {
     serde_json::to_string_pretty(r).expect("the report serializes")
+}
+
+/// The columns of a change of basis as exact rationals in text: column j is the image of
+/// basis vector j.
+fn images(m: &Matrix<Q>) -> Vec<Vec<String>> {
+    (0..m.cols)
+        .map(|j| (0..m.rows).map(|i| q_to_string(&m[(i, j)])).collect())
+        .collect()
 }

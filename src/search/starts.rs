@@ -11,11 +11,13 @@
 use super::flip::Snapshot;
 use super::{Params, bits, hensel, slice_start};
 use crate::decompose::evaluation::{EvaluationParams, evaluation_scheme};
+use crate::decompose::matrix_product::matrix_product_scheme;
 use crate::decompose::monogenic::{MonogenicParams, monogenic_scheme};
 use crate::decompose::semisimple::{SemisimpleParams, semisimple_scheme};
 use crate::error::{Error, Result};
 use crate::scalar::FieldSpec;
 use crate::scheme::{Scheme, verify};
+use crate::structure::matrix_frame::FrameParams;
 use crate::tensor::Tensor;
 
 /// The standard scheme `std` of the walks over GF(`p`), or the slice scheme in a basis of
@@ -70,6 +72,15 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
                         .map(|b| b.scheme)
                 };
                 semisimple_scheme(goal, &SemisimpleParams::default(), &matrix).map(|s| s.scheme)
+            })
+            .or_else(|| {
+                let field = goal.field();
+                let scheme_of = |f: [usize; 3]| {
+                    crate::catalog::schemes::best_matmul_scheme(f, field)
+                        .ok()
+                        .map(|b| b.scheme)
+                };
+                matrix_product_scheme(goal, &FrameParams::default(), &scheme_of).map(|m| m.scheme)
             })
             .or_else(|| evaluation_scheme(goal, &EvaluationParams::default()).map(|e| e.scheme))?;
         return on_walk_field(s, goal, walk_field, integral);

@@ -23,6 +23,7 @@ pub mod blocks;
 pub mod centre;
 pub mod fields;
 pub mod lie;
+pub mod matrix_frame;
 pub mod matrix_units;
 pub mod quaternion;
 pub mod wedderburn;
