@@ -110,21 +110,26 @@ pub fn upper_bounds(
             scheme: m.scheme,
         });
     }
+    // the best scheme of a matrix format (the schoolbook one without the catalog), the
+    // model that the semisimple parts and the matrix product below carry into the table
+    let field = t.field();
+    let format = crate::scheme::build::matmul_format_of(t);
+    let model = |f: [usize; 3]| {
+        if params.no_catalog {
+            let m =
+                crate::generators::generate(&format!("matmul:{},{},{}", f[0], f[1], f[2])).ok()?;
+            Scheme::standard(&m).with_field(field).ok()
+        } else {
+            crate::catalog::schemes::best_matmul_scheme(f, field)
+                .ok()
+                .map(|b| b.scheme)
+        }
+    };
     // a semisimple algebra split into matrix algebras and fields: the sum of the parts'
     // schemes through explicit matrix units (a commutative one has its interpolation
     // scheme above, a matrix format its stored scheme below)
-    if !monogenic_found && crate::scheme::build::matmul_format_of(t).is_none() {
-        let field = t.field();
-        let matrix = |k: usize| {
-            if params.no_catalog {
-                let m = crate::generators::generate(&format!("matrix:{k}")).ok()?;
-                Scheme::standard(&m).with_field(field).ok()
-            } else {
-                crate::catalog::schemes::best_matmul_scheme([k, k, k], field)
-                    .ok()
-                    .map(|b| b.scheme)
-            }
-        };
+    if !monogenic_found && format.is_none() {
+        let matrix = |k: usize| model([k, k, k]);
         if let Some(s) = semisimple_scheme(t, &SemisimpleParams::default(), &matrix) {
             out.push(Upper {
                 value: s.scheme.rank(),
@@ -150,33 +155,21 @@ pub fn upper_bounds(
     }
     // a matrix product in bases of its own: the best stored scheme of its format, carried
     // into those bases
-    if crate::scheme::build::matmul_format_of(t).is_none() {
-        let field = t.field();
-        let scheme_of = |f: [usize; 3]| {
-            if params.no_catalog {
-                let m = crate::generators::generate(&format!("matmul:{},{},{}", f[0], f[1], f[2]))
-                    .ok()?;
-                Scheme::standard(&m).with_field(field).ok()
-            } else {
-                crate::catalog::schemes::best_matmul_scheme(f, field)
-                    .ok()
-                    .map(|b| b.scheme)
-            }
-        };
-        if let Some(mp) = matrix_product_scheme(t, &FrameParams::default(), &scheme_of) {
-            let [n, m, p] = mp.format;
-            out.push(Upper {
-                value: mp.scheme.rank(),
-                name: "matrix product".into(),
-                detail: format!(
-                    "the matrix product <{n},{m},{p}> in bases of its own, found exactly (the \
-                     left multipliers, a full matrix algebra, split through a simple module \
-                     cut out by kernels); the best scheme of <{n},{m},{p}> carried into those \
-                     bases, verified exactly"
-                ),
-                scheme: mp.scheme,
-            });
-        }
+    if format.is_none()
+        && let Some(mp) = matrix_product_scheme(t, &FrameParams::default(), &model)
+    {
+        let [n, m, p] = mp.format;
+        out.push(Upper {
+            value: mp.scheme.rank(),
+            name: "matrix product".into(),
+            detail: format!(
+                "the matrix product <{n},{m},{p}> in bases of its own, found exactly (the left \
+                 multipliers, a full matrix algebra, split through a simple module cut out by \
+                 kernels); the best scheme of <{n},{m},{p}> carried into those bases, verified \
+                 exactly"
+            ),
+            scheme: mp.scheme,
+        });
     }
     // a product of polynomials: m + n - 1 by evaluation and interpolation
     if let Some(e) = evaluation_scheme(t, &EvaluationParams::default()) {
@@ -198,7 +191,7 @@ pub fn upper_bounds(
     if !params.no_catalog {
         // a matrix multiplication tensor: the best scheme built from the stored ones
         // (tensor products, direct sums, symmetries), verified against this tensor
-        if let Some(f) = crate::scheme::build::matmul_format_of(t)
+        if let Some(f) = format
             && let Ok(b) = crate::catalog::schemes::best_matmul_scheme(f, t.field())
             && let Some(s) = verified_over(&b.scheme, t)
         {

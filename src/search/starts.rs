@@ -62,25 +62,22 @@ pub fn known_start(goal: &Tensor, walk: Option<&Params>, integral: bool) -> Opti
     let Some(f) = crate::scheme::build::matmul_format_of(goal) else {
         // at most one of the two applies: an algebra is square, a product of polynomials
         // (of degrees at least 1) is not
+        // the catalog's best scheme of a matrix format: the model of the semisimple parts
+        // and of a matrix product in bases of its own
+        let field = goal.field();
+        let model = |f: [usize; 3]| {
+            crate::catalog::schemes::best_matmul_scheme(f, field)
+                .ok()
+                .map(|b| b.scheme)
+        };
         let s = monogenic_scheme(goal, &MonogenicParams::default())
             .map(|m| m.scheme)
             .or_else(|| {
-                let field = goal.field();
-                let matrix = |k: usize| {
-                    crate::catalog::schemes::best_matmul_scheme([k, k, k], field)
-                        .ok()
-                        .map(|b| b.scheme)
-                };
+                let matrix = |k: usize| model([k, k, k]);
                 semisimple_scheme(goal, &SemisimpleParams::default(), &matrix).map(|s| s.scheme)
             })
             .or_else(|| {
-                let field = goal.field();
-                let scheme_of = |f: [usize; 3]| {
-                    crate::catalog::schemes::best_matmul_scheme(f, field)
-                        .ok()
-                        .map(|b| b.scheme)
-                };
-                matrix_product_scheme(goal, &FrameParams::default(), &scheme_of).map(|m| m.scheme)
+                matrix_product_scheme(goal, &FrameParams::default(), &model).map(|m| m.scheme)
             })
             .or_else(|| evaluation_scheme(goal, &EvaluationParams::default()).map(|e| e.scheme))?;
         return on_walk_field(s, goal, walk_field, integral);

@@ -289,10 +289,10 @@ fn left_multipliers<F: Field>(
         let it = IntegralTensor::from_tensor(&restricted);
         space = map_invariant(&it, MapInvariant::AdjointPairs, sp)
             .ok()
-            .filter(|sp| sp.dim() == expect);
+            .filter(|found| found.dim() == expect);
     }
     let space = match space {
-        Some(sp) => sp,
+        Some(found) => found,
         None => map_invariant(
             &IntegralTensor::from_tensor(&tp),
             MapInvariant::AdjointPairs,
