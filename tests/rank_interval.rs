@@ -350,8 +350,9 @@ fn command_line_matrix_algebra_in_a_random_basis() {
 /// (Hopcroft and Kerr 1971, On minimizing the number of multiplications necessary for
 /// matrix multiplication, SIAM J. Appl. Math. 20; from memory), <3,3,4> 29 (Smirnov
 /// 2013, The bilinear complexity and practical algorithms for matrix multiplication,
-/// Comput. Math. Math. Phys. 53; from memory), each in two orientations; the format is
-/// found whatever the order of the axes.
+/// Comput. Math. Math. Phys. 53; from memory) and <3,3,5> 36 (Smirnov 2013, same
+/// paper; from memory), in two orientations each; the format is found whatever the order
+/// of the axes.
 #[test]
 fn matrix_products_in_bases_of_their_own_take_the_stored_schemes() {
     for (format, rank) in [
@@ -360,6 +361,9 @@ fn matrix_products_in_bases_of_their_own_take_the_stored_schemes() {
         ([2, 3, 4], 20),
         ([4, 3, 2], 20),
         ([3, 3, 4], 29),
+        // sides 5 and 3: the module of two kernels' sum meeting a third
+        ([3, 3, 5], 36),
+        ([5, 3, 3], 36),
     ] {
         let [n, m, p] = format;
         let t = bilin::generators::generate(&format!("matmul:{n},{m},{p}")).unwrap();
@@ -399,6 +403,7 @@ fn command_line_matrix_product_in_three_bases() {
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("upper 20: matrix product"), "{out}");
     assert!(out.contains("<2,3,4>"), "{out}");
+    assert!(out.contains("published for <2,3,4> over Q"), "{out}");
     let f = dir.join("m234-20.txt");
     let fs = f.to_str().unwrap();
     let (code, _, err) = bilin(&["search", ts, "--rank", "20", "--out", fs]);
@@ -524,4 +529,42 @@ fn a_time_limited_search_ends_near_its_limit_with_the_interval() {
         "{out}\n{err}"
     );
     std::fs::remove_dir_all(&dir).ok();
+}
+
+/// A tensor proven to be a matrix product cites the published bounds stored with the
+/// catalog's entry of its format, over the interval's field: <3,3,3> R >= 19 (Blaser
+/// 2003, On the complexity of the multiplication of matrices of small formats,
+/// J. Complexity 19) and R <= 23 (Laderman 1976, Bull. Amer. Math. Soc. 82); <4,4,4> over
+/// GF(2) R <= 47 (Fawzi et al. 2022, Nature 610; from memory); <2,3,4> in three bases of
+/// its own, found by its frame, R <= 20 (Hopcroft and Kerr 1971; from memory). A tensor
+/// that is not a matrix product cites nothing.
+#[test]
+fn recognised_matrix_formats_cite_the_published_bounds() {
+    let t = bilin::generators::generate("matmul:3,3,3").unwrap();
+    let p = interval(&t).published.expect("published bounds of <3,3,3>");
+    assert_eq!((p.format, p.entry.as_str()), ([3, 3, 3], "matmul333"));
+    let lower = p.lower.unwrap();
+    assert_eq!(lower.value, 19);
+    assert!(lower.source.contains("2003"), "{}", lower.source);
+    assert_eq!(p.upper.unwrap().value, 23);
+
+    let t = bilin::generators::generate("matmul:4,4,4")
+        .unwrap()
+        .with_field(FieldSpec::Prime(2))
+        .unwrap();
+    let p = interval(&t).published.expect("published bounds of <4,4,4>");
+    assert_eq!(p.upper.unwrap().value, 47);
+
+    let t = bilin::generators::generate("matmul:2,3,4").unwrap();
+    let d = t.dims();
+    let [a, b, c] = [0, 1, 2].map(|i| random_invertible(d[i], 5, 70 + i as u64));
+    let moved = change_basis(&t, &a, &b, &c).unwrap();
+    let p = interval(&moved)
+        .published
+        .expect("published bounds of <2,3,4>");
+    assert_eq!((p.format, p.entry.as_str()), ([2, 3, 4], "matmul234"));
+    assert_eq!(p.upper.unwrap().value, 20);
+
+    let t = bilin::generators::generate("poly:3,3").unwrap();
+    assert!(interval(&t).published.is_none());
 }

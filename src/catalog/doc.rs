@@ -141,8 +141,8 @@ fn ranges_section(out: &mut String) -> Result<(), Error> {
          the map is verified exactly. The split is found when the input's basis has small \
          entries in some matrix basis (up to about 100); see docs/schemes.md, \"semisimple\".\n\n\
          A matrix product written in three bases of its own (a bilinear map) is proven to be \
-         the catalog's `matmulNMP` when two of the sides n, m, p satisfy x = s y + 1 \
-         (<2,2,3>, <2,3,4>, <3,4,5>, ...): both are put in their standard form by frames \
+         the catalog's `matmulNMP` when two of the sides n, m, p are distinct and coprime \
+         (<2,2,3>, <2,3,4>, <3,3,5>, <3,4,5>, ...): both are put in their standard form by frames \
          found exactly, whatever the size of the entries, and the three maps are verified \
          exactly; see docs/schemes.md, \"matrix product\".\n\n\
          Unital associative algebras of dimension at most 3 over Q are not a classified range \

@@ -132,8 +132,8 @@ pub fn search_isomorphism(
     } else if t.kind() != crate::tensor::Kind::Algebra {
         if candidate_permutations(t.dims()).is_empty() {
             return IsoOutcome::NotAttempted(
-                "for bilinear maps the search handles matrix products whose sides include \
-                 x = s y + 1 only"
+                "for bilinear maps the search handles matrix products with two distinct \
+                 coprime sides only"
                     .into(),
             );
         }

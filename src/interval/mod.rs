@@ -2,13 +2,15 @@
 //! the lower side a proven bound (its theorem), the upper side a scheme verified exactly
 //! ([`upper`]). Where they meet the rank is known. For a cubic format n x n x n the
 //! generic rank over C is reported beside it, labelled as the value for a random tensor
-//! of that format, not a bound for this one. [`plan`] turns the interval into the choice
+//! of that format, not a bound for this one; for a tensor proven to be a matrix product
+//! `<n,m,p>` (in any bases), the published bounds stored with the catalog's entry of the
+//! format are cited beside it, labelled as such. [`plan`] turns the interval into the choice
 //! of a search method.
 
 pub mod plan;
 pub mod upper;
 
-pub use upper::{Upper, UpperParams, upper_bounds};
+pub use upper::{Upper, UpperBounds, UpperParams, upper_bounds};
 
 use crate::decompose::Uniqueness;
 use crate::ranks::Bounds;
@@ -67,7 +69,65 @@ pub struct RankInterval {
     /// The generic rank over C of the format, where published (a value for random tensors
     /// of this format, not a bound for this tensor).
     pub generic_rank: Option<GenericRank>,
+    /// For a tensor proven to be a matrix product `<n,m,p>`: the best published bounds
+    /// over the interval's field stored with the catalog's entry of the format, cited
+    /// (not re-derived; the proven interval is the one above).
+    pub published: Option<Published>,
     pub notes: Vec<String>,
+}
+
+/// The published rank bounds of a recognised matrix format, from its catalog entry.
+#[derive(Clone, Debug, Serialize)]
+pub struct Published {
+    /// `[n, m, p]` as recognised.
+    pub format: [usize; 3],
+    /// The catalog entry (the sorted format: the rank is invariant under permuting n, m, p).
+    pub entry: String,
+    /// The largest stored `rank.lower` over the field, with its source.
+    pub lower: Option<PublishedBound>,
+    /// The smallest stored `rank.upper` over the field, with its source.
+    pub upper: Option<PublishedBound>,
+}
+
+/// One published bound and its source.
+#[derive(Clone, Debug, Serialize)]
+pub struct PublishedBound {
+    pub value: usize,
+    pub source: String,
+}
+
+/// The published bounds of `<n,m,p>` over `field` stored with the catalog entry
+/// `matmulNMP` of the sorted format; `None` when there is no such entry or it stores no
+/// rank bound over that field.
+pub fn published_bounds(format: [usize; 3], field: crate::scalar::FieldSpec) -> Option<Published> {
+    let mut sorted = format;
+    sorted.sort_unstable();
+    let name = format!("matmul{}{}{}", sorted[0], sorted[1], sorted[2]);
+    if sorted.iter().any(|&x| x > 9) {
+        return None;
+    }
+    let e = crate::catalog::find_entry(&name)?;
+    let domain = field.name();
+    let best = |key: &str, lower: bool| -> Option<PublishedBound> {
+        let facts = e
+            .meta
+            .facts_with_key(key)
+            .filter(|f| f.domain.as_deref() == Some(domain.as_str()))
+            .filter_map(|f| Some((f.value.trim().parse::<usize>().ok()?, f.source.clone())));
+        let pick = if lower {
+            facts.max_by_key(|(v, _)| *v)
+        } else {
+            facts.min_by_key(|(v, _)| *v)
+        };
+        pick.map(|(value, source)| PublishedBound { value, source })
+    };
+    let (lower, upper) = (best("rank.lower", true), best("rank.upper", false));
+    (lower.is_some() || upper.is_some()).then_some(Published {
+        format,
+        entry: e.meta.name.clone(),
+        lower,
+        upper,
+    })
 }
 
 /// The generic rank of a format and its source.
@@ -122,6 +182,22 @@ impl RankInterval {
                 g.value, g.source
             ));
         }
+        if let Some(p) = &self.published {
+            let [n, m, q] = p.format;
+            let mut parts = Vec::new();
+            if let Some(b) = &p.lower {
+                parts.push(format!("R >= {} ({})", b.value, b.source));
+            }
+            if let Some(b) = &p.upper {
+                parts.push(format!("R <= {} ({})", b.value, b.source));
+            }
+            l.push(format!(
+                "  published for <{n},{m},{q}> over {field} (catalog entry {}; cited, not \
+                 re-derived here): {}",
+                p.entry,
+                parts.join("; ")
+            ));
+        }
         for n in &self.notes {
             l.push(format!("  note: {n}"));
         }
@@ -153,6 +229,7 @@ impl RankInterval {
             "exact": self.exact,
             "uniqueness": self.uniqueness,
             "generic_rank": self.generic_rank,
+            "published": self.published,
             "notes": self.notes,
             "scheme": scheme,
             "scheme_omitted": omitted,
@@ -168,7 +245,12 @@ pub fn rank_interval(
     params: &UpperParams,
     given: &[(String, Scheme)],
 ) -> RankInterval {
-    let (uppers, uniqueness, mut notes) = upper_bounds(t, params, given);
+    let UpperBounds {
+        uppers,
+        uniqueness,
+        mut notes,
+        matrix_format,
+    } = upper_bounds(t, params, given);
     let upper = uppers[0].clone();
     // a verified scheme of rank r proves R <= r; a lower bound above it would be a defect
     let lower = if lower.value > upper.value {
@@ -188,6 +270,7 @@ pub fn rank_interval(
         exact,
         uniqueness,
         generic_rank: generic_rank(t.dims()),
+        published: matrix_format.and_then(|f| published_bounds(f, t.field())),
         notes,
     }
 }

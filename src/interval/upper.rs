@@ -43,15 +43,25 @@ pub struct UpperParams {
     pub no_catalog: bool,
 }
 
+/// What [`upper_bounds`] found.
+#[derive(Clone, Debug)]
+pub struct UpperBounds {
+    /// Every upper bound, lowest first.
+    pub uppers: Vec<Upper>,
+    /// Kruskal's verdict when simultaneous diagonalisation succeeded.
+    pub uniqueness: Option<Uniqueness>,
+    pub notes: Vec<String>,
+    /// `[n, m, p]` when the tensor was proven to be the matrix product `<n,m,p>` in some
+    /// bases: the standard basis, a frame found exactly, or a semisimple algebra with one
+    /// part `M_n` (`<n,n,n>`); the proof is the verified scheme carried through it.
+    pub matrix_format: Option<[usize; 3]>,
+}
+
 /// Every upper bound found, lowest first, and Kruskal's verdict when simultaneous
 /// diagonalisation succeeded. `given` schemes that do not verify are left out and named in
 /// the notes. Cost: that of [`decompose`] and [`pencil_decomposition`] plus one exact
 /// verification per candidate scheme.
-pub fn upper_bounds(
-    t: &Tensor,
-    params: &UpperParams,
-    given: &[(String, Scheme)],
-) -> (Vec<Upper>, Option<Uniqueness>, Vec<String>) {
+pub fn upper_bounds(t: &Tensor, params: &UpperParams, given: &[(String, Scheme)]) -> UpperBounds {
     let mut out = Vec::new();
     let mut notes = Vec::new();
     let d = decompose(t, &params.simultaneous);
@@ -114,6 +124,7 @@ pub fn upper_bounds(
     // model that the semisimple parts and the matrix product below carry into the table
     let field = t.field();
     let format = crate::scheme::build::matmul_format_of(t);
+    let mut matrix_format = format;
     let model = |f: [usize; 3]| {
         if params.no_catalog {
             let m =
@@ -131,6 +142,11 @@ pub fn upper_bounds(
     if !monogenic_found && format.is_none() {
         let matrix = |k: usize| model([k, k, k]);
         if let Some(s) = semisimple_scheme(t, &SemisimpleParams::default(), &matrix) {
+            if let [(PartShape::Matrix(k), _)] = s.parts[..]
+                && k > 1
+            {
+                matrix_format = Some([k, k, k]);
+            }
             out.push(Upper {
                 value: s.scheme.rank(),
                 name: "semisimple".into(),
@@ -159,6 +175,7 @@ pub fn upper_bounds(
         && let Some(mp) = matrix_product_scheme(t, &FrameParams::default(), &model)
     {
         let [n, m, p] = mp.format;
+        matrix_format = Some(mp.format);
         out.push(Upper {
             value: mp.scheme.rank(),
             name: "matrix product".into(),
@@ -229,7 +246,12 @@ pub fn upper_bounds(
         }
     }
     out.sort_by_key(|u| u.value);
-    (out, d.uniqueness, notes)
+    UpperBounds {
+        uppers: out,
+        uniqueness: d.uniqueness,
+        notes,
+        matrix_format,
+    }
 }
 
 /// `s` read over the tensor's field, when it verifies there.

@@ -195,6 +195,44 @@ pub fn span<F: Field>(
     kernel(f, &k.basis, ambient, params)
 }
 
+/// `x ∩ y` for subspaces of the same space, proven. Cost: a kernel of `ambient`
+/// equations in `dim x + dim y` unknowns, then a span.
+pub fn intersect<F: Field>(
+    f: &F,
+    x: &Subspace<F::Elem>,
+    y: &Subspace<F::Elem>,
+    params: &SolveParams,
+) -> Result<Subspace<F::Elem>> {
+    let (dx, dy) = (x.dim(), y.dim());
+    if dx == 0 || dy == 0 {
+        return Ok(Subspace::zero(x.ambient));
+    }
+    let rows: Vec<Vec<F::Elem>> = (0..x.ambient)
+        .map(|i| {
+            x.basis
+                .iter()
+                .map(|v| v[i].clone())
+                .chain(y.basis.iter().map(|v| f.neg(&v[i])))
+                .collect()
+        })
+        .collect();
+    let ker = kernel(f, &rows, dx + dy, params)?;
+    let vecs: Vec<Vec<F::Elem>> = ker.basis.iter().map(|c| x.combine(f, &c[..dx])).collect();
+    span(f, &vecs, x.ambient, params)
+}
+
+/// `x + y` for subspaces of the same space, proven: the span of both bases. Cost: that
+/// of [`span`] on `dim x + dim y` vectors.
+pub fn sum<F: Field>(
+    f: &F,
+    x: &Subspace<F::Elem>,
+    y: &Subspace<F::Elem>,
+    params: &SolveParams,
+) -> Result<Subspace<F::Elem>> {
+    let vecs: Vec<Vec<F::Elem>> = x.basis.iter().chain(&y.basis).cloned().collect();
+    span(f, &vecs, x.ambient, params)
+}
+
 /// The rank of a list of vectors (the dimension of their span).
 pub fn rank_of<F: Field>(
     f: &F,

@@ -9,12 +9,14 @@
 //! is a matrix product of the permuted format (`tr(A B C)` is invariant under rotations,
 //! `(A B)^T = B^T A^T`).
 //!
-//! Method, for `m = s p + 1` (s >= 1):
-//! 1. The common kernel `{u : T(u, v_t) = 0}` of s seeded random `v_t` is
-//!    `{x y0^T : x in F^n}` (the rows of A in the line orthogonal to the columns of the
-//!    `B_t`): a simple module of the left multipliers, read as `F^n`. The representation
-//!    on it is an isomorphism onto `M_n(F)`, and its inverse gives the units `l_ij`
-//!    whatever the size of the basis entries (no eigenvalue is needed).
+//! Method, for `p < m` with `gcd(m, p) = 1`:
+//! 1. The kernel `{u : T(u, v_t) = 0}` of a seeded random `v_t` is `F^n (x) Y_t` (the
+//!    rows of A orthogonal to the columns of `B_t`); a word in such kernels, sums and
+//!    intersections ([`super::frame_module`]; one common kernel of s vectors when
+//!    `m = s p + 1`) gives `{x y0^T : x in F^n}`: a simple module of the left
+//!    multipliers, read as `F^n`. The representation on it is an isomorphism onto
+//!    `M_n(F)`, and its inverse gives the units `l_ij` whatever the size of the basis
+//!    entries (no eigenvalue is needed).
 //! 2. `u_0k`: a basis of the image of `l_00` (`{x0 y^T}`), `u_ik = l_i0 u_0k`.
 //! 3. `w_0j`: a basis of `T(u_00, V)` (`{x0 z^T}`); `v_kj`: the unique solution of
 //!    `T(u_0k', v) = δ_kk' w_0j` (the map `v -> (T(u_0k', v))_k'` is injective).
@@ -23,21 +25,22 @@
 //!    `w_ij = c_i0 w_0j`.
 //!
 //! The permutations of the axes put every pair of sides in the place of (m, p), so a
-//! format is found when two of its sides satisfy `x = s y + 1` (s >= 1): `<2,2,3>`,
-//! `<2,3,4>`, `<3,3,4>`, `<3,4,5>`, `<2,2,5>`, `<4,4,5>`, any format with a side 1 and
-//! another above 1. Not `<2,2,4>`, `<3,3,5>`, `<2,4,4>`, `<3,5,5>` or a square format:
-//! there every such kernel is a sum of several simple modules, and splitting it needs a
-//! zero divisor of a matrix algebra in the user's basis (for a square format, an algebra's
-//! isotope, [`super::matrix_units`], which finds one when the basis entries are small).
+//! format is found when two of its sides are coprime and distinct: `<2,2,3>`, `<2,3,4>`,
+//! `<3,3,4>`, `<3,3,5>`, `<3,4,5>`, `<3,5,5>`, `<2,2,5>`, `<4,4,5>`, any format with a
+//! side 1 and another above 1. Not `<2,2,4>`, `<2,4,4>` or a square format: there every
+//! such word gives a sum of several simple modules, and splitting it needs a zero divisor
+//! of a matrix algebra in the user's basis (for a square format, an algebra's isotope,
+//! [`super::matrix_units`], which finds one when the basis entries are small).
 //!
 //! Invariant: a frame is returned only after the change of basis it defines turns the
 //! tensor into the standard product exactly ([`crate::tensor::change_basis`]).
 
+use super::frame_module::{Coefficients, coefficients, module_of, plan_module};
 use crate::invariants::bilinear::{MapInvariant, map_invariant};
 use crate::linalg::integer_rows::IntegerRows;
 use crate::linalg::modular::inverse_exact;
 use crate::linalg::nullspace::SolveParams;
-use crate::linalg::subspace::{Subspace, kernel, span, unit_vector};
+use crate::linalg::subspace::{Subspace, span, unit_vector};
 use crate::linalg::{Matrix, rref};
 use crate::scalar::{Field, PrimeField, Q};
 use crate::tensor::{IntegralTensor, Tensor, change_basis};
@@ -91,9 +94,10 @@ pub const PERMUTATIONS: [[usize; 3]; 6] = [
     [2, 1, 0],
 ];
 
-/// Whether the first simple module exists for the format `<n,m,p>`: `m = s p + 1`.
+/// Whether the first simple module is reached for the format `<n,m,p>`: `p < m` and
+/// `gcd(m, p) = 1` ([`plan_module`]).
 pub fn has_module([_, m, p]: [usize; 3]) -> bool {
-    m > p && (m - 1).is_multiple_of(p)
+    plan_module(m, p).is_some()
 }
 
 /// The permutations of the axes of a tensor of dimensions `d` for which the method
@@ -358,22 +362,6 @@ fn units_from_module<F: Field>(
     Some((0..k * k).map(|idx| inv.column(idx)).collect())
 }
 
-/// A seeded random vector with entries in -3..3.
-fn random_vector<F: Field>(f: &F, len: usize, rng: &mut impl Rng) -> Vec<F::Elem> {
-    (0..len)
-        .map(|_| f.from_i64(rng.gen_range(-3..=3)))
-        .collect()
-}
-
-/// The bilinear map of `t` over the field context, as its nonzero coefficients.
-type Coefficients<E> = Vec<(usize, usize, usize, E)>;
-
-pub(crate) fn coefficients<F: Field>(f: &F, t: &Tensor) -> Option<Coefficients<F::Elem>> {
-    t.entries()
-        .map(|(i, j, k, v)| Some((i, j, k, f.from_rational(v)?)))
-        .collect()
-}
-
 /// `x -> (y -> T(x, y))`: the slices `T(e_i, .)` (b x c, row-major) as rows.
 struct Slices {
     rows: Rows,
@@ -403,28 +391,6 @@ impl Slices {
     }
 }
 
-/// The common kernel `{x : T(x, y_t) = 0}` (`left`) or `{y : T(x_t, y) = 0}`.
-fn common_kernel<F: Field>(
-    f: &F,
-    c: &Coefficients<F::Elem>,
-    dims: [usize; 3],
-    given: &[Vec<F::Elem>],
-    left: bool,
-    sp: &SolveParams,
-) -> Option<Subspace<F::Elem>> {
-    let unknowns = if left { dims[0] } else { dims[1] };
-    let mut rows = vec![vec![f.zero(); unknowns]; given.len() * dims[2]];
-    for (t, g) in given.iter().enumerate() {
-        for (i, j, k, v) in c {
-            let (free, fixed) = if left { (*i, *j) } else { (*j, *i) };
-            if !f.is_zero(&g[fixed]) {
-                f.add_mul_assign(&mut rows[t * dims[2] + k][free], v, &g[fixed]);
-            }
-        }
-    }
-    kernel(f, &rows, unknowns, sp).ok()
-}
-
 /// Indices of `g.len()` linearly independent columns of the matrix with rows `g` (the
 /// equations of the system `x^T G = r^T` that determine x), chosen modulo a word prime
 /// (independent there, so over Q); `None` when the rows are dependent.
@@ -452,8 +418,8 @@ fn independent_columns<F: Field>(f: &F, g: &[Vec<F::Elem>]) -> Option<Vec<usize>
     None
 }
 
-/// The frame vectors of a tensor whose format `[n, m, p]` has `m = s p + 1` (see the
-/// module documentation), over the field context f; not yet checked (a tensor that is not
+/// The frame vectors of a tensor whose format `[n, m, p]` has `p < m` and
+/// `gcd(m, p) = 1` (see the module documentation), over the field context f; not yet checked (a tensor that is not
 /// this matrix product gives `None` or vectors that fail the caller's check). Cost: one
 /// kernel of `a b c` equations in `a^2 + c^2` unknowns, inverses of sizes `n^2` and b,
 /// `O(a^2 + b^2)` combinations of rows.
@@ -471,12 +437,10 @@ pub fn frame_in<F: Field>(
     let sp = &params.solve;
     let coef = coefficients(f, t)?;
     let slices = Slices::new(f, &coef, dims);
-    // a simple left module in U: {A : A B_t = 0} = {x y0^T}
+    // a simple left module in U: {x y0^T}, cut out by kernels {A : A B_t = 0}
     let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
-    let vs: Vec<_> = (0..(m - 1) / p)
-        .map(|_| random_vector(f, b, &mut rng))
-        .collect();
-    let module = common_kernel(f, &coef, dims, &vs, true, sp)?;
+    let word = plan_module(m, p)?;
+    let module = module_of(f, &coef, dims, &word, sp, &mut rng)?;
     if module.dim() != n {
         return None;
     }
@@ -573,8 +537,9 @@ pub(crate) mod tests {
         assert_eq!(format_of_dims([6, 12, 8]), Some([2, 3, 4]));
         assert_eq!(format_of_dims([4, 4, 4]), Some([2, 2, 2]));
         assert_eq!(format_of_dims([4, 6, 5]), None);
-        // m = s p + 1
+        // p < m, gcd(m, p) = 1
         assert!(has_module([2, 3, 2]) && has_module([4, 4, 3]) && has_module([2, 5, 2]));
+        assert!(has_module([3, 5, 3]) && has_module([5, 5, 3]));
         assert!(!has_module([2, 2, 3]) && !has_module([2, 4, 2]) && !has_module([3, 3, 3]));
         assert!(candidate_permutations([4, 8, 8]).is_empty()); // <2,2,4>
         assert!(!candidate_permutations([4, 6, 6]).is_empty()); // <2,2,3>
@@ -582,7 +547,15 @@ pub(crate) mod tests {
 
     #[test]
     fn frames_in_three_random_bases() {
-        for f in [[2, 2, 3], [3, 2, 2], [2, 3, 4], [1, 2, 3], [3, 4, 5]] {
+        for f in [
+            [2, 2, 3],
+            [3, 2, 2],
+            [2, 3, 4],
+            [1, 2, 3],
+            [3, 4, 5],
+            [3, 3, 5],
+            [5, 3, 5],
+        ] {
             for (b, seed) in [(2, 1), (1000, 2)] {
                 let t = scrambled(f, b, seed);
                 let frame = find_matrix_frame(&t, &FrameParams::default())

@@ -39,7 +39,7 @@ use crate::invariants::{ElementSpace, element_space};
 use crate::linalg::Matrix;
 use crate::linalg::modular::inverse_exact;
 use crate::linalg::nullspace::SolveParams;
-use crate::linalg::subspace::{Subspace, field_spec, kernel, reduce, span};
+use crate::linalg::subspace::{Subspace, field_spec, intersect, reduce, span};
 use crate::poly;
 use crate::scalar::Field;
 use crate::tensor::IntegralTensor;
@@ -192,29 +192,6 @@ fn centre_of<F: Field>(a: &Alg<F>, sp: &SolveParams) -> Result<Subspace<F::Elem>
         })
         .collect();
     Ok(reduce(f, a.n, basis))
-}
-
-/// `x` and `y` subspaces of the same space: their intersection. Cost: a kernel of
-/// `ambient` equations in `dim x + dim y` unknowns.
-fn intersect<F: Field>(
-    f: &F,
-    x: &Subspace<F::Elem>,
-    y: &Subspace<F::Elem>,
-    sp: &SolveParams,
-) -> Result<Subspace<F::Elem>> {
-    let (dx, dy) = (x.dim(), y.dim());
-    let rows: Vec<Vec<F::Elem>> = (0..x.ambient)
-        .map(|i| {
-            x.basis
-                .iter()
-                .map(|v| v[i].clone())
-                .chain(y.basis.iter().map(|v| f.neg(&v[i])))
-                .collect()
-        })
-        .collect();
-    let ker = kernel(f, &rows, dx + dy, sp)?;
-    let vecs: Vec<Vec<F::Elem>> = ker.basis.iter().map(|c| x.combine(f, &c[..dx])).collect();
-    span(f, &vecs, x.ambient, sp)
 }
 
 /// A left ideal of dimension k inside the part `comp = A c` (see the module

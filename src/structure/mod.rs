@@ -15,6 +15,10 @@
 //!   fingerprints);
 //! - [`algebra`]: element arithmetic in algebras given by structure constants;
 //! - [`quaternion`]: quaternion algebras over Q by Hilbert symbols.
+//! - [`matrix_units`]: matrix units of a full matrix algebra given by structure constants;
+//! - [`matrix_frame`]: a matrix product `<n,m,p>` written in three bases of the user's
+//!   own, its standard bases found exactly; [`frame_module`]: which kernels cut out the
+//!   simple module the frame starts from.
 //!
 //! [`compute_structure`] runs the parts that apply to a tensor.
 
@@ -22,6 +26,7 @@ pub mod algebra;
 pub mod blocks;
 pub mod centre;
 pub mod fields;
+pub mod frame_module;
 pub mod lie;
 pub mod matrix_frame;
 pub mod matrix_units;
