@@ -105,10 +105,16 @@ pub fn plan_module(m: usize, p: usize) -> Option<ModuleWord> {
     best[1].take().map(|(_, w)| w)
 }
 
-/// A seeded random vector with entries in -3..3.
+/// A seeded random vector: entries in -3..3 over Q, uniform over a small prime field.
 fn random_vector<F: Field>(f: &F, len: usize, rng: &mut impl Rng) -> Vec<F::Elem> {
+    let q = f.characteristic();
     (0..len)
-        .map(|_| f.from_i64(rng.gen_range(-3..=3)))
+        .map(|_| match q {
+            // over GF(q) uniform, so that each condition of general position fails with
+            // probability about 1 / q only
+            2..=1_000_000 => f.from_i64(rng.gen_range(0..q as i64)),
+            _ => f.from_i64(rng.gen_range(-3..=3)),
+        })
         .collect()
 }
 

@@ -35,7 +35,7 @@
 //! Invariant: a frame is returned only after the change of basis it defines turns the
 //! tensor into the standard product exactly ([`crate::tensor::change_basis`]).
 
-use super::frame_module::{Coefficients, coefficients, module_of, plan_module};
+use super::frame_module::{Coefficients, ModuleWord, coefficients, module_of, plan_module};
 use crate::invariants::bilinear::{MapInvariant, map_invariant};
 use crate::linalg::integer_rows::IntegerRows;
 use crate::linalg::modular::inverse_exact;
@@ -55,6 +55,10 @@ pub struct FrameParams {
     /// Tensors with a larger side are left out (the left multipliers are a kernel in
     /// `a^2 + c^2` unknowns).
     pub max_dim: usize,
+    /// Draws of the random vectors tried (seeds `seed`, `seed + 1`, ...): over a small
+    /// field a draw is out of general position with a probability of about `1 / q` per
+    /// condition, and a failed draw is retried.
+    pub tries: usize,
 }
 
 impl Default for FrameParams {
@@ -63,6 +67,7 @@ impl Default for FrameParams {
             solve: SolveParams::default(),
             seed: 1,
             max_dim: 36,
+            tries: 4,
         }
     }
 }
@@ -393,9 +398,17 @@ impl Slices {
 
 /// Indices of `g.len()` linearly independent columns of the matrix with rows `g` (the
 /// equations of the system `x^T G = r^T` that determine x), chosen modulo a word prime
-/// (independent there, so over Q); `None` when the rows are dependent.
+/// over Q (independent there, so over Q) and in the field over GF(q); `None` when the
+/// rows are dependent.
 fn independent_columns<F: Field>(f: &F, g: &[Vec<F::Elem>]) -> Option<Vec<usize>> {
     let cols = g.first()?.len();
+    if f.characteristic() != 0 {
+        // over GF(q) in the field itself: independence of the representatives modulo
+        // another prime says nothing
+        let mut m = Matrix::from_rows(g.to_vec(), cols);
+        let pivots = rref(f, &mut m);
+        return (pivots.len() == g.len()).then_some(pivots);
+    }
     for p in crate::scalar::word_primes(4) {
         let fp = PrimeField::new(p)?;
         let Some(rows) = g
@@ -430,21 +443,36 @@ pub fn frame_in<F: Field>(
     params: &FrameParams,
 ) -> Option<FrameVectors<F::Elem>> {
     let dims = t.dims();
-    let [a, b, c] = dims;
     if dims.iter().any(|&x| x == 0 || x > params.max_dim) || [n * m, m * p, n * p] != dims {
         return None;
     }
+    let word = plan_module(m, p)?;
+    (0..params.tries.max(1) as u64).find_map(|k| {
+        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed.wrapping_add(k));
+        frame_from_draw(f, t, [n, m, p], &word, params, &mut rng)
+    })
+}
+
+/// One attempt of [`frame_in`] with the random vectors drawn from `rng`.
+fn frame_from_draw<F: Field>(
+    f: &F,
+    t: &Tensor,
+    [n, m, p]: [usize; 3],
+    word: &ModuleWord,
+    params: &FrameParams,
+    rng: &mut rand_chacha::ChaCha8Rng,
+) -> Option<FrameVectors<F::Elem>> {
+    let dims = t.dims();
+    let [a, b, c] = dims;
     let sp = &params.solve;
     let coef = coefficients(f, t)?;
     let slices = Slices::new(f, &coef, dims);
     // a simple left module in U: {x y0^T}, cut out by kernels {A : A B_t = 0}
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed);
-    let word = plan_module(m, p)?;
-    let module = module_of(f, &coef, dims, &word, sp, &mut rng)?;
+    let module = module_of(f, &coef, dims, word, sp, rng)?;
     if module.dim() != n {
         return None;
     }
-    let left = left_multipliers(f, t, n * n, sp, &mut rng)?;
+    let left = left_multipliers(f, t, n * n, sp, rng)?;
     let lu = units_from_module(f, &left.first, a, &module)?;
     let l: Vec<Map> = (0..n)
         .map(|i| left.element(f, &lu[i * n]))
@@ -518,85 +546,5 @@ pub fn frame_in<F: Field>(
 }
 
 #[cfg(test)]
-pub(crate) mod tests {
-    use super::*;
-    use crate::generators::generate;
-    use crate::scalar::FieldSpec;
-    use crate::tensor::random_invertible;
-
-    /// `<n,m,p>` after seeded random changes of basis with entries in -b..b.
-    pub(crate) fn scrambled(f: [usize; 3], b: i64, seed: u64) -> Tensor {
-        let t = generate(&format!("matmul:{},{},{}", f[0], f[1], f[2])).unwrap();
-        let d = t.dims();
-        let [p, q, r] = [0, 1, 2].map(|i| random_invertible(d[i], b, seed * 3 + i as u64));
-        change_basis(&t, &p, &q, &r).unwrap()
-    }
-
-    #[test]
-    fn formats_from_dimensions() {
-        assert_eq!(format_of_dims([6, 12, 8]), Some([2, 3, 4]));
-        assert_eq!(format_of_dims([4, 4, 4]), Some([2, 2, 2]));
-        assert_eq!(format_of_dims([4, 6, 5]), None);
-        // p < m, gcd(m, p) = 1
-        assert!(has_module([2, 3, 2]) && has_module([4, 4, 3]) && has_module([2, 5, 2]));
-        assert!(has_module([3, 5, 3]) && has_module([5, 5, 3]));
-        assert!(!has_module([2, 2, 3]) && !has_module([2, 4, 2]) && !has_module([3, 3, 3]));
-        assert!(candidate_permutations([4, 8, 8]).is_empty()); // <2,2,4>
-        assert!(!candidate_permutations([4, 6, 6]).is_empty()); // <2,2,3>
-    }
-
-    #[test]
-    fn frames_in_three_random_bases() {
-        for f in [
-            [2, 2, 3],
-            [3, 2, 2],
-            [2, 3, 4],
-            [1, 2, 3],
-            [3, 4, 5],
-            [3, 3, 5],
-            [5, 3, 5],
-        ] {
-            for (b, seed) in [(2, 1), (1000, 2)] {
-                let t = scrambled(f, b, seed);
-                let frame = find_matrix_frame(&t, &FrameParams::default())
-                    .unwrap_or_else(|| panic!("{f:?} entries {b} seed {seed}"));
-                assert_eq!(frame.format, f);
-            }
-        }
-    }
-
-    #[test]
-    fn refusals_and_prime_fields() {
-        // not reached by the method (no x = s y + 1 among the sides), or not a product
-        for spec in ["matmul:2,2,4", "matmul:3,3,3", "poly:2,3"] {
-            let t = generate(spec).unwrap();
-            assert!(
-                find_matrix_frame(&t, &FrameParams::default()).is_none(),
-                "{spec}"
-            );
-        }
-        // the dimensions of <2,2,3> (4 x 6 x 6), not the product: two copies of a 2 x 3 x 3
-        // block, each the product of a vector by a 3 x 3 matrix... any concise tensor
-        let t = generate("poly:2,5").unwrap(); // 2 x 5 x 6
-        assert!(find_matrix_frame(&t, &FrameParams::default()).is_none());
-        // over GF(7), after changes of basis of determinant 1 (unit lower triangular)
-        let t = generate("matmul:2,3,4").unwrap();
-        let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(5);
-        let [p, q, r] = t.dims().map(|d| {
-            let mut m = Matrix::filled(d, d, Q::from_integer(0.into()));
-            for i in 0..d {
-                m.data[i * d + i] = Q::from_integer(1.into());
-                for j in 0..i {
-                    m.data[i * d + j] = Q::from_integer(rng.gen_range(-3..=3).into());
-                }
-            }
-            m
-        });
-        let t = change_basis(&t, &p, &q, &r)
-            .unwrap()
-            .with_field(FieldSpec::Prime(7))
-            .unwrap();
-        let frame = find_matrix_frame(&t, &FrameParams::default()).unwrap();
-        assert_eq!(frame.format, [2, 3, 4]);
-    }
-}
+#[path = "matrix_frame_tests.rs"]
+pub(crate) mod tests;
