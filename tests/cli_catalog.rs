@@ -104,6 +104,44 @@ fn identify_proves_a_matrix_product_in_three_random_bases() {
     let (code, out, err) = bilin(&["identify", file.to_str().unwrap(), "--json"]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("\"found-maps\""), "{out}");
+    assert!(out.contains("\"matrix_product\": null"), "{out}");
+    std::fs::remove_dir_all(&dir).ok();
+}
+
+/// A matrix product whose sides are not in increasing order (<3,2,5>, <5,3,2>) has no
+/// catalog entry of its shape: `identify` proves it is that product by its frame and
+/// names the entry of the same sides, matmul235, whose rank facts hold for every order
+/// (the rank of <n,m,p> is invariant under permuting n, m, p: Buergisser, Clausen and
+/// Shokrollahi 1997, Algebraic Complexity Theory, ch. 15, from memory). A bilinear
+/// map of the same dimensions that is not a product gets no such line.
+#[test]
+fn identify_names_a_matrix_product_with_its_sides_out_of_order() {
+    let dir = std::env::temp_dir().join(format!("bilin-identify-325-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    for format in ["3,2,5", "5,3,2"] {
+        let (code, table, err) =
+            bilin(&["transform", &format!("matmul:{format}"), "--random", "4"]);
+        assert_eq!(code, 0, "{err}");
+        let file = dir.join(format!("m{format}.txt"));
+        std::fs::write(&file, table).unwrap();
+        let f = file.to_str().unwrap();
+        let (code, out, err) = bilin(&["identify", f]);
+        assert_eq!(code, 0, "{err}");
+        assert!(
+            out.contains(&format!("a matrix product <{format}>")),
+            "{out}"
+        );
+        assert!(out.contains("catalog entry matmul235"), "{out}");
+        let (code, out, err) = bilin(&["identify", f, "--json"]);
+        assert_eq!(code, 0, "{err}");
+        let raw: serde_json::Value = serde_json::from_str(&out).unwrap();
+        assert_eq!(raw["schema"], "bilin.identify/2");
+        assert_eq!(raw["matrix_product"]["entry"], "matmul235", "{out}");
+    }
+    // the dimensions of <3,2,5> (6 x 10 x 15) but the product of polynomials is not one
+    let (code, out, err) = bilin(&["identify", "poly:6,10"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(!out.contains("a matrix product"), "{out}");
     std::fs::remove_dir_all(&dir).ok();
 }
 

@@ -144,7 +144,10 @@ fn ranges_section(out: &mut String) -> Result<(), Error> {
          the catalog's `matmulNMP` when two of the sides n, m, p are distinct and coprime \
          (<2,2,3>, <2,3,4>, <3,3,5>, <3,4,5>, ...): both are put in their standard form by frames \
          found exactly, whatever the size of the entries, and the three maps are verified \
-         exactly; see docs/schemes.md, \"matrix product\".\n\n\
+         exactly; see docs/schemes.md, \"matrix product\". One whose sides are not in \
+         increasing order (<2,5,3>) has no entry of its shape: `identify` proves which \
+         product it is and names the entry of its sides (`matmul235`), whose rank facts hold \
+         for every order.\n\n\
          Unital associative algebras of dimension at most 3 over Q are not a classified range \
          here: over Q they include every quadratic and cubic number field, so no finite list \
          exists, and we know of no published list over Q to cite.\n"

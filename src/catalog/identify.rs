@@ -15,7 +15,7 @@ use crate::iso::{
 };
 use crate::linalg::Matrix;
 use crate::scalar::Q;
-use crate::structure::matrix_frame::{FrameParams, candidate_permutations};
+use crate::structure::matrix_frame::{FrameParams, candidate_permutations, find_matrix_frame};
 use crate::structure::matrix_units::SplitParams;
 use crate::tensor::Tensor;
 use std::collections::HashMap;
@@ -83,6 +83,35 @@ pub struct Identification {
     pub fingerprint: Fingerprint,
     pub matches: Vec<Match>,
     pub near: Vec<NearMatch>,
+    /// A bilinear map with no entry of its shape proven to be a matrix product by its
+    /// frame (a format whose sides are not in increasing order has no entry of its own).
+    pub matrix_product: Option<ProductMatch>,
+}
+
+/// A bilinear map proven to be the matrix product `<n,m,p>` in bases of its own (the
+/// frame of [`find_matrix_frame`], verified exactly), and the catalog entry of the same
+/// sides in increasing order, if any: it holds the rank facts of every order of the sides
+/// (the rank is invariant under permuting n, m, p).
+#[derive(Clone, Debug, PartialEq, Eq)]
+pub struct ProductMatch {
+    pub format: [usize; 3],
+    pub entry: Option<String>,
+}
+
+/// The matrix product a bilinear map is, found by its frame ([`ProductMatch`]).
+/// Cost: that of [`find_matrix_frame`].
+pub fn match_matrix_product(t: &Tensor) -> Option<ProductMatch> {
+    if t.kind() == crate::tensor::Kind::Algebra {
+        return None;
+    }
+    let frame = find_matrix_frame(t, &FrameParams::default())?;
+    let mut sides = frame.format;
+    sides.sort_unstable();
+    let name = format!("matmul{}{}{}", sides[0], sides[1], sides[2]);
+    Some(ProductMatch {
+        format: frame.format,
+        entry: super::find_entry(&name).map(|e| e.meta.name.clone()),
+    })
 }
 
 type Cache = Mutex<HashMap<(String, u64), Fingerprint>>;
@@ -200,9 +229,14 @@ pub fn identify(t: &Tensor, params: &IdentifyParams) -> Result<Identification, E
         }
     }
     near.sort_by_key(|n| n.differences.len());
+    // no entry of its shape: a matrix product of a format with sides out of order
+    let matrix_product = (matches.is_empty() && params.search_isomorphism)
+        .then(|| match_matrix_product(t))
+        .flatten();
     Ok(Identification {
         fingerprint: fp,
         matches,
         near,
+        matrix_product,
     })
 }

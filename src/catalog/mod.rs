@@ -26,7 +26,7 @@ pub mod store;
 pub use crate::iso::{IsoParams, LieIsoParams, find_isomorphism, find_nilpotent_isomorphism};
 pub use facts::{FactCheck, check_fact};
 pub use fingerprint::{Fingerprint, FingerprintParams, Value, compute_fingerprint};
-pub use identify::{Identification, IdentifyParams, IsoOutcome, identify};
+pub use identify::{Identification, IdentifyParams, IsoOutcome, ProductMatch, identify};
 pub use meta::{Fact, Meta, parse_meta};
 pub use schemes::{STORED_SCHEMES, StoredScheme, find_stored, stored_schemes};
 pub use store::{

@@ -1,6 +1,6 @@
 //! `bilin identify INPUT`: the invariant fingerprint of an input and the catalog entries
 //! it matches, nearly matches, and explicit isomorphisms where found; as text or JSON
-//! (`--json`, schema `bilin.identify/1`).
+//! (`--json`, schema `bilin.identify/2`).
 
 use super::{EXIT_OK, EXIT_USAGE};
 use bilin::catalog::{IdentifyParams, IsoOutcome, identify};
@@ -22,7 +22,7 @@ pub struct IdentifyArgs {
     /// Seed of the randomized fingerprint keys.
     #[arg(long, default_value_t = 1)]
     seed: u64,
-    /// Print the report as JSON (schema `bilin.identify/1`, see docs/identify-json.md).
+    /// Print the report as JSON (schema `bilin.identify/2`, see docs/identify-json.md).
     #[arg(long)]
     json: bool,
 }
@@ -58,6 +58,20 @@ pub fn run(args: IdentifyArgs) -> i32 {
     println!();
     if id.matches.is_empty() {
         println!("no catalog entry has this fingerprint.");
+        if let Some(p) = &id.matrix_product {
+            let [n, m, q] = p.format;
+            println!(
+                "  a matrix product <{n},{m},{q}> in bases of its own, proven: the bases in which \
+                 it is the standard product were found and checked exactly{}",
+                match &p.entry {
+                    Some(e) => format!(
+                        "; catalog entry {e} holds the rank facts of every order of its sides \
+                         (the rank is invariant under permuting n, m, p)"
+                    ),
+                    None => String::new(),
+                }
+            );
+        }
     } else {
         println!(
             "catalog entries with the same fingerprint (evidence of isomorphism, not a proof):"

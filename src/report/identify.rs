@@ -2,7 +2,7 @@
 //! entries with the same fingerprint (with an explicit isomorphism, verified exactly,
 //! where one was found), and the near matches with the invariants that separate them.
 //!
-//! JSON schema `bilin.identify/1`, documented in docs/identify-json.md. The types both
+//! JSON schema `bilin.identify/2`, documented in docs/identify-json.md. The types both
 //! serialize and deserialize (unknown fields are refused), so a reader can load the JSON
 //! back into them; adding a field bumps nothing only if readers ignore it, so new fields
 //! come with a new schema version.
@@ -15,7 +15,7 @@ use crate::tensor::{Kind, Tensor};
 use serde::{Deserialize, Serialize};
 
 /// The schema identifier of the identify report.
-pub const IDENTIFY_SCHEMA: &str = "bilin.identify/1";
+pub const IDENTIFY_SCHEMA: &str = "bilin.identify/2";
 
 /// The whole report.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
@@ -34,6 +34,17 @@ pub struct IdentifyReport {
     pub fingerprint: Vec<FingerprintItem>,
     pub matches: Vec<MatchItem>,
     pub near: Vec<NearItem>,
+    /// A bilinear map with no entry of its shape, proven to be a matrix product.
+    pub matrix_product: Option<ProductItem>,
+}
+
+/// The matrix product a bilinear map was proven to be by its frame, and the catalog entry
+/// of its sides in increasing order (null when there is none).
+#[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct ProductItem {
+    pub format: [usize; 3],
+    pub entry: Option<String>,
 }
 
 /// One invariant: its key, its typed value and its text as printed by `identify`.
@@ -213,6 +224,10 @@ pub fn identify_report(input: &str, t: &Tensor, id: &Identification, bound: i64)
                     .collect(),
             })
             .collect(),
+        matrix_product: id.matrix_product.as_ref().map(|p| ProductItem {
+            format: p.format,
+            entry: p.entry.clone(),
+        }),
     }
 }
 
