@@ -109,8 +109,8 @@ fn identify_proves_a_matrix_product_in_three_random_bases() {
 }
 
 /// A matrix product whose sides are not in increasing order (<3,2,5>, <5,3,2>) has no
-/// catalog entry of its shape: `identify` proves it is that product by its frame and
-/// names the entry of the same sides, matmul235, whose rank facts hold for every order
+/// catalog entry of its shape: `identify` proves it is that product by its frame (the
+/// maps onto the generator, verified exactly) and names the entry of the same sides, matmul235, whose rank facts hold for every order
 /// (the rank of <n,m,p> is invariant under permuting n, m, p: Buergisser, Clausen and
 /// Shokrollahi 1997, Algebraic Complexity Theory, ch. 15, from memory). A bilinear
 /// map of the same dimensions that is not a product gets no such line.
@@ -118,7 +118,7 @@ fn identify_proves_a_matrix_product_in_three_random_bases() {
 fn identify_names_a_matrix_product_with_its_sides_out_of_order() {
     let dir = std::env::temp_dir().join(format!("bilin-identify-325-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    for format in ["3,2,5", "5,3,2"] {
+    for (format, dims) in [("3,2,5", [6, 10, 15]), ("5,3,2", [15, 6, 10])] {
         let (code, table, err) =
             bilin(&["transform", &format!("matmul:{format}"), "--random", "4"]);
         assert_eq!(code, 0, "{err}");
@@ -132,11 +132,16 @@ fn identify_names_a_matrix_product_with_its_sides_out_of_order() {
             "{out}"
         );
         assert!(out.contains("catalog entry matmul235"), "{out}");
+        let generator = format!("ISOMORPHIC to the generator matmul:{format}");
+        assert!(out.contains(&generator), "{out}");
         let (code, out, err) = bilin(&["identify", f, "--json"]);
         assert_eq!(code, 0, "{err}");
         let raw: serde_json::Value = serde_json::from_str(&out).unwrap();
         assert_eq!(raw["schema"], "bilin.identify/2");
         assert_eq!(raw["matrix_product"]["entry"], "matmul235", "{out}");
+        // the maps: one column of images per basis vector of each axis
+        let cols = |k: &str| raw["matrix_product"][k].as_array().unwrap().len();
+        assert_eq!([cols("left"), cols("right"), cols("result")], dims);
     }
     // the dimensions of <3,2,5> (6 x 10 x 15) but the product of polynomials is not one
     let (code, out, err) = bilin(&["identify", "poly:6,10"]);

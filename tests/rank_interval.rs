@@ -568,3 +568,22 @@ fn recognised_matrix_formats_cite_the_published_bounds() {
     let t = bilin::generators::generate("poly:3,3").unwrap();
     assert!(interval(&t).published.is_none());
 }
+
+/// M_2(Q) in a random basis of its own is split into matrix units, so it is proven to be
+/// <2,2,2>, and `bounds` cites the published bounds of matmul222: R = 7 (Winograd 1971,
+/// On multiplication of 2x2 matrices, Linear Algebra Appl. 4; Strassen 1969).
+#[test]
+fn command_line_cites_published_bounds_for_a_matrix_algebra_in_its_own_basis() {
+    let dir = std::env::temp_dir().join(format!("bilin-m2-published-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let (code, out, err) = bilin(&["transform", "matrix:2", "--random", "5", "--to", "json"]);
+    assert_eq!(code, 0, "{err}");
+    let file = dir.join("m2.json");
+    std::fs::write(&file, out).unwrap();
+    let (code, out, err) = bilin(&["bounds", file.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("R = 7 over Q"), "{out}");
+    assert!(out.contains("published for <2,2,2> over Q"), "{out}");
+    assert!(out.contains("R >= 7 (Winograd 1971"), "{out}");
+    std::fs::remove_dir_all(&dir).ok();
+}

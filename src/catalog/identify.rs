@@ -15,7 +15,7 @@ use crate::iso::{
 };
 use crate::linalg::Matrix;
 use crate::scalar::Q;
-use crate::structure::matrix_frame::{FrameParams, candidate_permutations, find_matrix_frame};
+use crate::structure::matrix_frame::{FrameParams, candidate_permutations};
 use crate::structure::matrix_units::SplitParams;
 use crate::tensor::Tensor;
 use std::collections::HashMap;
@@ -88,29 +88,39 @@ pub struct Identification {
     pub matrix_product: Option<ProductMatch>,
 }
 
-/// A bilinear map proven to be the matrix product `<n,m,p>` in bases of its own (the
-/// frame of [`find_matrix_frame`], verified exactly), and the catalog entry of the same
-/// sides in increasing order, if any: it holds the rank facts of every order of the sides
-/// (the rank is invariant under permuting n, m, p).
-#[derive(Clone, Debug, PartialEq, Eq)]
+/// A bilinear map proven to be the matrix product `<n,m,p>` in bases of its own, with the
+/// isomorphism onto the generator `matmul:n,m,p` (verified exactly), and the catalog
+/// entry of the same sides in increasing order, if any: it holds the rank facts of every
+/// order of the sides (the rank is invariant under permuting n, m, p).
+#[derive(Clone, Debug, PartialEq)]
 pub struct ProductMatch {
     pub format: [usize; 3],
     pub entry: Option<String>,
+    /// Columns: the images of the input's basis vectors in the generator's bases, axis by
+    /// axis ([`find_product_isomorphism`]).
+    pub maps: Box<[crate::linalg::Matrix<crate::scalar::Q>; 3]>,
 }
 
-/// The matrix product a bilinear map is, found by its frame ([`ProductMatch`]).
-/// Cost: that of [`find_matrix_frame`].
+/// The matrix product a bilinear map is, with the maps onto its generator
+/// ([`ProductMatch`]). Cost: that of [`find_product_isomorphism`].
 pub fn match_matrix_product(t: &Tensor) -> Option<ProductMatch> {
     if t.kind() == crate::tensor::Kind::Algebra {
         return None;
     }
-    let frame = find_matrix_frame(t, &FrameParams::default())?;
-    let mut sides = frame.format;
+    let format = crate::structure::matrix_frame::format_of_dims(t.dims())?;
+    let [n, m, p] = format;
+    let model = crate::generators::generate(&format!("matmul:{n},{m},{p}"))
+        .ok()?
+        .with_field(t.field())
+        .ok()?;
+    let maps = find_product_isomorphism(t, &model, &FrameParams::default())?;
+    let mut sides = format;
     sides.sort_unstable();
     let name = format!("matmul{}{}{}", sides[0], sides[1], sides[2]);
     Some(ProductMatch {
-        format: frame.format,
+        format,
         entry: super::find_entry(&name).map(|e| e.meta.name.clone()),
+        maps: Box::new(maps),
     })
 }
 

@@ -61,16 +61,26 @@ pub fn run(args: IdentifyArgs) -> i32 {
         if let Some(p) = &id.matrix_product {
             let [n, m, q] = p.format;
             println!(
-                "  a matrix product <{n},{m},{q}> in bases of its own, proven: the bases in which \
-                 it is the standard product were found and checked exactly{}",
+                "  a matrix product <{n},{m},{q}> in bases of its own, ISOMORPHIC to the generator \
+                 matmul:{n},{m},{q}, verified exactly{}; each basis vector of the input (left) \
+                 is, in the generator's bases (right),",
                 match &p.entry {
                     Some(e) => format!(
-                        "; catalog entry {e} holds the rank facts of every order of its sides \
-                         (the rank is invariant under permuting n, m, p)"
+                        " (catalog entry {e} holds the rank facts of every order of its sides: \
+                         the rank is invariant under permuting n, m, p)"
                     ),
                     None => String::new(),
                 }
             );
+            let model = bilin::generators::generate(&format!("matmul:{n},{m},{q}")).ok();
+            for (axis, mat) in p.maps.iter().enumerate() {
+                println!("    {} axis:", bilin::tensor::AXES[axis]);
+                print_images(
+                    mat,
+                    &t.names()[axis],
+                    model.as_ref().map(|e| &e.names()[axis]),
+                );
+            }
         }
     } else {
         println!(

@@ -38,13 +38,18 @@ pub struct IdentifyReport {
     pub matrix_product: Option<ProductItem>,
 }
 
-/// The matrix product a bilinear map was proven to be by its frame, and the catalog entry
-/// of its sides in increasing order (null when there is none).
+/// The matrix product a bilinear map was proven to be by its frame, the catalog entry of
+/// its sides in increasing order (null when there is none), and the isomorphism onto the
+/// generator `matmul:n,m,p`: `left[j]` is basis vector j of the input's left space in the
+/// generator's basis, likewise `right` and `result`.
 #[derive(Clone, Debug, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(deny_unknown_fields)]
 pub struct ProductItem {
     pub format: [usize; 3],
     pub entry: Option<String>,
+    pub left: Vec<Vec<String>>,
+    pub right: Vec<Vec<String>>,
+    pub result: Vec<Vec<String>>,
 }
 
 /// One invariant: its key, its typed value and its text as printed by `identify`.
@@ -227,6 +232,9 @@ pub fn identify_report(input: &str, t: &Tensor, id: &Identification, bound: i64)
         matrix_product: id.matrix_product.as_ref().map(|p| ProductItem {
             format: p.format,
             entry: p.entry.clone(),
+            left: images(&p.maps[0]),
+            right: images(&p.maps[1]),
+            result: images(&p.maps[2]),
         }),
     }
 }
