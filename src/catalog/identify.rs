@@ -114,12 +114,9 @@ pub fn match_matrix_product(t: &Tensor) -> Option<ProductMatch> {
         .with_field(t.field())
         .ok()?;
     let maps = find_product_isomorphism(t, &model, &FrameParams::default())?;
-    let mut sides = format;
-    sides.sort_unstable();
-    let name = format!("matmul{}{}{}", sides[0], sides[1], sides[2]);
     Some(ProductMatch {
         format,
-        entry: super::find_entry(&name).map(|e| e.meta.name.clone()),
+        entry: super::matmul_entry(format).map(|e| e.meta.name.clone()),
         maps: Box::new(maps),
     })
 }

@@ -30,7 +30,8 @@ pub use identify::{Identification, IdentifyParams, IsoOutcome, ProductMatch, ide
 pub use meta::{Fact, Meta, parse_meta};
 pub use schemes::{STORED_SCHEMES, StoredScheme, find_stored, stored_schemes};
 pub use store::{
-    Entry, all_entries, catalog_tensor, find_entry, register_input_resolver, resolve_catalog_name,
+    Entry, all_entries, catalog_tensor, find_entry, matmul_entry, register_input_resolver,
+    resolve_catalog_name,
 };
 
 /// The embedded file names, for the test that compares them with the directory.

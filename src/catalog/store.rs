@@ -62,6 +62,16 @@ pub fn find_entry(name: &str) -> Option<&'static Entry> {
         .or_else(|| all.iter().find(|e| e.meta.is_named(name)))
 }
 
+/// The entry of the matrix format with the sides of `format` in increasing order (found by
+/// its alias `matmul:n,m,p`): it holds the rank facts of every order of the sides, since
+/// the rank of `<n,m,p>` is invariant under permuting n, m, p (Buergisser, Clausen and
+/// Shokrollahi 1997, Algebraic Complexity Theory, ch. 15, from memory).
+pub fn matmul_entry(format: [usize; 3]) -> Option<&'static Entry> {
+    let mut s = format;
+    s.sort_unstable();
+    find_entry(&format!("matmul:{},{},{}", s[0], s[1], s[2]))
+}
+
 /// The tensor of the catalog entry with this name or alias. `None` if there is no such
 /// entry or it cannot be built.
 pub fn catalog_tensor(name: &str) -> Option<Tensor> {

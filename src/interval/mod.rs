@@ -100,13 +100,7 @@ pub struct PublishedBound {
 /// `matmulNMP` of the sorted format; `None` when there is no such entry or it stores no
 /// rank bound over that field.
 pub fn published_bounds(format: [usize; 3], field: crate::scalar::FieldSpec) -> Option<Published> {
-    let mut sorted = format;
-    sorted.sort_unstable();
-    let name = format!("matmul{}{}{}", sorted[0], sorted[1], sorted[2]);
-    if sorted.iter().any(|&x| x > 9) {
-        return None;
-    }
-    let e = crate::catalog::find_entry(&name)?;
+    let e = crate::catalog::matmul_entry(format)?;
     let domain = field.name();
     let best = |key: &str, lower: bool| -> Option<PublishedBound> {
         let facts = e
