@@ -62,20 +62,7 @@ fn refusals_and_prime_fields() {
     let t = generate("poly:2,5").unwrap(); // 2 x 5 x 6
     assert!(find_matrix_frame(&t, &FrameParams::default()).is_none());
     // over GF(7), after changes of basis of determinant 1 (unit lower triangular)
-    let t = generate("matmul:2,3,4").unwrap();
-    let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(5);
-    let [p, q, r] = t.dims().map(|d| {
-        let mut m = Matrix::filled(d, d, Q::from_integer(0.into()));
-        for i in 0..d {
-            m.data[i * d + i] = Q::from_integer(1.into());
-            for j in 0..i {
-                m.data[i * d + j] = Q::from_integer(rng.gen_range(-3..=3).into());
-            }
-        }
-        m
-    });
-    let t = change_basis(&t, &p, &q, &r)
-        .unwrap()
+    let t = unimodular_scrambled([2, 3, 4], 5)
         .with_field(FieldSpec::Prime(7))
         .unwrap();
     let frame = find_matrix_frame(&t, &FrameParams::default()).unwrap();
