@@ -3,6 +3,7 @@
 
 mod common;
 
+use common::random_basis_file;
 use common::run as bilin;
 
 #[test]
@@ -67,11 +68,8 @@ fn identify_reports_matches_and_separating_invariants() {
 fn identify_proves_a_matrix_algebra_in_a_random_basis() {
     let dir = std::env::temp_dir().join(format!("bilin-identify-m2-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let (code, table, err) = bilin(&["transform", "matrix:2", "--random", "9"]);
-    assert_eq!(code, 0, "{err}");
-    let file = dir.join("m2.txt");
-    std::fs::write(&file, table).unwrap();
-    let (code, out, err) = bilin(&["identify", file.to_str().unwrap()]);
+    let file = random_basis_file(&dir, "matrix:2", "9", "m2.txt");
+    let (code, out, err) = bilin(&["identify", &file]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("M2: ISOMORPHIC, verified exactly"), "{out}");
     assert!(
@@ -88,11 +86,8 @@ fn identify_proves_a_matrix_algebra_in_a_random_basis() {
 fn identify_proves_a_matrix_product_in_three_random_bases() {
     let dir = std::env::temp_dir().join(format!("bilin-identify-234-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let (code, table, err) = bilin(&["transform", "matmul:2,3,4", "--random", "3"]);
-    assert_eq!(code, 0, "{err}");
-    let file = dir.join("m234.txt");
-    std::fs::write(&file, table).unwrap();
-    let (code, out, err) = bilin(&["identify", file.to_str().unwrap()]);
+    let file = random_basis_file(&dir, "matmul:2,3,4", "3", "m234.txt");
+    let (code, out, err) = bilin(&["identify", &file]);
     assert_eq!(code, 0, "{err}");
     assert!(
         out.contains("matmul234: ISOMORPHIC, verified exactly"),
@@ -101,7 +96,7 @@ fn identify_proves_a_matrix_product_in_three_random_bases() {
     for axis in ["left axis:", "right axis:", "result axis:"] {
         assert!(out.contains(axis), "{out}");
     }
-    let (code, out, err) = bilin(&["identify", file.to_str().unwrap(), "--json"]);
+    let (code, out, err) = bilin(&["identify", &file, "--json"]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("\"found-maps\""), "{out}");
     assert!(out.contains("\"matrix_product\": null"), "{out}");
@@ -110,21 +105,23 @@ fn identify_proves_a_matrix_product_in_three_random_bases() {
 
 /// A matrix product whose sides are not in increasing order (<3,2,5>, <5,3,2>) has no
 /// catalog entry of its shape: `identify` proves it is that product by its frame (the
-/// maps onto the generator, verified exactly) and names the entry of the same sides, matmul235, whose rank facts hold for every order
-/// (the rank of <n,m,p> is invariant under permuting n, m, p: Buergisser, Clausen and
-/// Shokrollahi 1997, Algebraic Complexity Theory, ch. 15, from memory). A bilinear
-/// map of the same dimensions that is not a product gets no such line.
+/// maps onto the generator, verified exactly) and names the entry of the same sides,
+/// matmul235, whose rank facts hold for every order (the rank of <n,m,p> is invariant
+/// under permuting n, m, p: Buergisser, Clausen and Shokrollahi 1997, Algebraic
+/// Complexity Theory, ch. 15, from memory). A bilinear map of the same dimensions that is
+/// not a product gets no such line.
 #[test]
 fn identify_names_a_matrix_product_with_its_sides_out_of_order() {
     let dir = std::env::temp_dir().join(format!("bilin-identify-325-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     for (format, dims) in [("3,2,5", [6, 10, 15]), ("5,3,2", [15, 6, 10])] {
-        let (code, table, err) =
-            bilin(&["transform", &format!("matmul:{format}"), "--random", "4"]);
-        assert_eq!(code, 0, "{err}");
-        let file = dir.join(format!("m{format}.txt"));
-        std::fs::write(&file, table).unwrap();
-        let f = file.to_str().unwrap();
+        let file = random_basis_file(
+            &dir,
+            &format!("matmul:{format}"),
+            "4",
+            &format!("m{format}.txt"),
+        );
+        let f = file.as_str();
         let (code, out, err) = bilin(&["identify", f]);
         assert_eq!(code, 0, "{err}");
         assert!(

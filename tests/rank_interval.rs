@@ -16,6 +16,7 @@ use bilin::scalar::{FieldSpec, Q};
 use bilin::scheme::verify;
 use bilin::search::{Method, Params};
 use bilin::tensor::{Kind, Tensor, change_basis, random_invertible};
+use common::random_basis_file;
 use common::run as bilin;
 use proptest::prelude::*;
 
@@ -325,11 +326,8 @@ fn split_semisimple_algebras_close_at_the_alder_strassen_bound() {
 fn command_line_matrix_algebra_in_a_random_basis() {
     let dir = std::env::temp_dir().join(format!("bilin-units-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let m3 = dir.join("m3.json");
-    let (code, out, err) = bilin(&["transform", "matrix:3", "--random", "4", "--to", "json"]);
-    assert_eq!(code, 0, "{err}");
-    std::fs::write(&m3, out).unwrap();
-    let m3s = m3.to_str().unwrap();
+    let m3 = random_basis_file(&dir, "matrix:3", "4", "m3.json");
+    let m3s = m3.as_str();
     let (code, out, err) = bilin(&["bounds", m3s]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("upper 23: semisimple"), "{out}");
@@ -394,11 +392,8 @@ fn matrix_products_in_bases_of_their_own_take_the_stored_schemes() {
 fn command_line_matrix_product_in_three_bases() {
     let dir = std::env::temp_dir().join(format!("bilin-frame-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let t = dir.join("m234.json");
-    let (code, out, err) = bilin(&["transform", "matmul:2,3,4", "--random", "7", "--to", "json"]);
-    assert_eq!(code, 0, "{err}");
-    std::fs::write(&t, out).unwrap();
-    let ts = t.to_str().unwrap();
+    let t = random_basis_file(&dir, "matmul:2,3,4", "7", "m234.json");
+    let ts = t.as_str();
     let (code, out, err) = bilin(&["bounds", ts]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("upper 20: matrix product"), "{out}");
@@ -576,11 +571,8 @@ fn recognised_matrix_formats_cite_the_published_bounds() {
 fn command_line_cites_published_bounds_for_a_matrix_algebra_in_its_own_basis() {
     let dir = std::env::temp_dir().join(format!("bilin-m2-published-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
-    let (code, out, err) = bilin(&["transform", "matrix:2", "--random", "5", "--to", "json"]);
-    assert_eq!(code, 0, "{err}");
-    let file = dir.join("m2.json");
-    std::fs::write(&file, out).unwrap();
-    let (code, out, err) = bilin(&["bounds", file.to_str().unwrap()]);
+    let file = random_basis_file(&dir, "matrix:2", "5", "m2.json");
+    let (code, out, err) = bilin(&["bounds", &file]);
     assert_eq!(code, 0, "{err}");
     assert!(out.contains("R = 7 over Q"), "{out}");
     assert!(out.contains("published for <2,2,2> over Q"), "{out}");

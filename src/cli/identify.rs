@@ -73,14 +73,7 @@ pub fn run(args: IdentifyArgs) -> i32 {
                 }
             );
             let model = bilin::generators::generate(&format!("matmul:{n},{m},{q}")).ok();
-            for (axis, mat) in p.maps.iter().enumerate() {
-                println!("    {} axis:", bilin::tensor::AXES[axis]);
-                print_images(
-                    mat,
-                    &t.names()[axis],
-                    model.as_ref().map(|e| &e.names()[axis]),
-                );
-            }
+            print_maps(&p.maps, &t, model.as_ref());
         }
     } else {
         println!(
@@ -110,14 +103,7 @@ pub fn run(args: IdentifyArgs) -> i32 {
                     m.name
                 );
                 let entry = bilin::catalog::catalog_tensor(&m.name);
-                for (axis, mat) in maps.iter().enumerate() {
-                    println!("    {} axis:", bilin::tensor::AXES[axis]);
-                    print_images(
-                        mat,
-                        &t.names()[axis],
-                        entry.as_ref().map(|e| &e.names()[axis]),
-                    );
-                }
+                print_maps(maps, &t, entry.as_ref());
             }
             IsoOutcome::NotFound if nilpotent_lie => println!(
                 "  {}: fingerprint matches; the solver along the lower central series found no isomorphism (not a proof either way)",
@@ -148,6 +134,19 @@ pub fn run(args: IdentifyArgs) -> i32 {
         }
     }
     EXIT_OK
+}
+
+/// The three maps of an isomorphism of bilinear maps, axis by axis ([`print_images`]),
+/// with the basis names of the target where known.
+fn print_maps(
+    maps: &[Matrix<Q>; 3],
+    t: &bilin::tensor::Tensor,
+    target: Option<&bilin::tensor::Tensor>,
+) {
+    for (axis, mat) in maps.iter().enumerate() {
+        println!("    {} axis:", bilin::tensor::AXES[axis]);
+        print_images(mat, &t.names()[axis], target.map(|e| &e.names()[axis]));
+    }
 }
 
 /// One line per basis vector of the input: its image, column j of `mat`, in the entry's

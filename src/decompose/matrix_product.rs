@@ -12,12 +12,13 @@
 use super::transport::push_transported;
 use crate::linalg::Matrix;
 use crate::linalg::modular::inverse_exact;
-use crate::scalar::{Field, Q};
+use crate::scalar::Field;
+use crate::scheme::construct::permute_axes;
 use crate::scheme::{Scheme, verify};
 use crate::structure::matrix_frame::{
     FrameParams, candidate_permutations, format_of_dims, frame_in,
 };
-use crate::tensor::Tensor;
+use crate::tensor::{Tensor, inverse_permutation};
 
 /// A matrix product recognised in the tensor's bases.
 #[derive(Clone, Debug)]
@@ -48,7 +49,10 @@ pub fn matrix_product_scheme(
         else {
             continue;
         };
-        let scheme = unpermute(&s, perm, t);
+        // a scheme of t.permute_axes(perm) back on t's axes
+        let Ok(scheme) = permute_axes(&s, inverse_permutation(perm)) else {
+            continue;
+        };
         if verify(&scheme, t).is_ok() {
             return Some(MatrixProduct { format, scheme });
         }
@@ -77,22 +81,6 @@ fn carried<F: Field>(
     let mut out = Scheme::empty(t.field(), t.dims());
     push_transported(f, &mut out, &model, [&pu, &pv], &fv.ws);
     Some(out)
-}
-
-/// A scheme of `t.permute_axes(perm)` as a scheme of `t`: the factor on new axis `i`
-/// belongs to old axis `perm[i]`.
-fn unpermute(s: &Scheme, perm: [usize; 3], t: &Tensor) -> Scheme {
-    let mut out = Scheme::empty(s.field, t.dims());
-    for r in 0..s.rank() {
-        let new = [&s.u[r], &s.v[r], &s.w[r]];
-        let mut old: [Vec<Q>; 3] = Default::default();
-        for i in 0..3 {
-            old[perm[i]] = new[i].clone();
-        }
-        let [u, v, w] = old;
-        out.push(u, v, w);
-    }
-    out
 }
 
 #[cfg(test)]

@@ -11,7 +11,8 @@
 //!
 //! Dimensions: random subspaces drawn independently are in general position, so a sum
 //! has dimension `min(m, a + b)` and an intersection `max(0, a + b - m)` (Harris 1992,
-//! Algebraic Geometry, lecture 11: general position of linear spaces; common practice).
+//! Algebraic Geometry: A First Course, general position of linear spaces; from memory; common
+//! practice).
 //! Starting from `m - p`, these reach exactly the multiples of `gcd(m, p)`, so a word for
 //! dimension 1 exists if and only if `gcd(m, p) = 1` and `p < m`. The common kernel of k
 //! vectors (an intersection of k kernels, in one system) has dimension `m - k p`; when

@@ -43,7 +43,7 @@ use crate::linalg::nullspace::SolveParams;
 use crate::linalg::subspace::{Subspace, span, unit_vector};
 use crate::linalg::{Matrix, rref};
 use crate::scalar::{Field, PrimeField, Q};
-use crate::tensor::{IntegralTensor, Tensor, change_basis};
+use crate::tensor::{AXIS_PERMUTATIONS, IntegralTensor, Tensor, change_basis};
 use rand::{Rng, SeedableRng};
 
 /// Parameters of [`find_matrix_frame`] and [`frame_in`].
@@ -87,18 +87,6 @@ pub fn format_of_dims([a, b, c]: [usize; 3]) -> Option<[usize; 3]> {
     (f[0] * f[1] == a && f[1] * f[2] == b && f[0] * f[2] == c).then_some(f)
 }
 
-/// The permutations of the axes: new axis `i` is old axis `perm[i]`. Every permutation
-/// of a matrix product's axes is a matrix product (`tr(A B C)` is invariant under
-/// rotations, and `(A B)^T = B^T A^T`), of the permuted format.
-pub const PERMUTATIONS: [[usize; 3]; 6] = [
-    [0, 1, 2],
-    [1, 2, 0],
-    [2, 0, 1],
-    [1, 0, 2],
-    [0, 2, 1],
-    [2, 1, 0],
-];
-
 /// Whether the first simple module is reached for the format `<n,m,p>`: `p < m` and
 /// `gcd(m, p) = 1` ([`plan_module`]).
 pub fn has_module([_, m, p]: [usize; 3]) -> bool {
@@ -106,10 +94,11 @@ pub fn has_module([_, m, p]: [usize; 3]) -> bool {
 }
 
 /// The permutations of the axes of a tensor of dimensions `d` for which the method
-/// applies, each with the permuted format, the cheapest left multiplier system first
+/// applies (every permutation of a matrix product's axes is a matrix product of the
+/// permuted format: `tr(A B C)` is invariant under rotations, and `(A B)^T = B^T A^T`), each with the permuted format, the cheapest left multiplier system first
 /// (`a^2 + c^2` unknowns); empty when the dimensions are not those of a matrix product.
 pub fn candidate_permutations(d: [usize; 3]) -> Vec<([usize; 3], [usize; 3])> {
-    let mut out: Vec<([usize; 3], [usize; 3])> = PERMUTATIONS
+    let mut out: Vec<([usize; 3], [usize; 3])> = AXIS_PERMUTATIONS
         .iter()
         .filter_map(|&perm| Some((perm, format_of_dims(perm.map(|i| d[i]))?)))
         .filter(|(_, f)| has_module(*f))
@@ -447,10 +436,24 @@ pub fn frame_in<F: Field>(
         return None;
     }
     let word = plan_module(m, p)?;
+    let coef = coefficients(f, t)?;
+    let table = Table {
+        slices: Slices::new(f, &coef, dims),
+        coef,
+        word,
+    };
     (0..params.tries.max(1) as u64).find_map(|k| {
         let mut rng = rand_chacha::ChaCha8Rng::seed_from_u64(params.seed.wrapping_add(k));
-        frame_from_draw(f, t, [n, m, p], &word, params, &mut rng)
+        frame_from_draw(f, t, [n, m, p], &table, params, &mut rng)
     })
+}
+
+/// What every draw of [`frame_in`] reads: the tensor's coefficients over the field, its
+/// slices, and the word that cuts out the module.
+struct Table<E> {
+    coef: Coefficients<E>,
+    slices: Slices,
+    word: ModuleWord,
 }
 
 /// One attempt of [`frame_in`] with the random vectors drawn from `rng`.
@@ -458,17 +461,16 @@ fn frame_from_draw<F: Field>(
     f: &F,
     t: &Tensor,
     [n, m, p]: [usize; 3],
-    word: &ModuleWord,
+    table: &Table<F::Elem>,
     params: &FrameParams,
     rng: &mut rand_chacha::ChaCha8Rng,
 ) -> Option<FrameVectors<F::Elem>> {
     let dims = t.dims();
     let [a, b, c] = dims;
     let sp = &params.solve;
-    let coef = coefficients(f, t)?;
-    let slices = Slices::new(f, &coef, dims);
+    let slices = &table.slices;
     // a simple left module in U: {x y0^T}, cut out by kernels {A : A B_t = 0}
-    let module = module_of(f, &coef, dims, word, sp, rng)?;
+    let module = module_of(f, &table.coef, dims, &table.word, sp, rng)?;
     if module.dim() != n {
         return None;
     }

@@ -84,6 +84,26 @@ pub enum Kind {
 /// The three axes of a tensor.
 pub const AXES: [&str; 3] = ["left", "right", "result"];
 
+/// The six permutations of the three axes, in the convention of
+/// [`Tensor::permute_axes`] (new axis `i` is old axis `perm[i]`), the identity first.
+pub const AXIS_PERMUTATIONS: [[usize; 3]; 6] = [
+    [0, 1, 2],
+    [1, 2, 0],
+    [2, 0, 1],
+    [1, 0, 2],
+    [0, 2, 1],
+    [2, 1, 0],
+];
+
+/// The permutation that undoes `perm`: `t.permute_axes(perm).permute_axes(inverse) = t`.
+pub fn inverse_permutation(perm: [usize; 3]) -> [usize; 3] {
+    let mut inv = [0; 3];
+    for (i, &p) in perm.iter().enumerate() {
+        inv[p] = i;
+    }
+    inv
+}
+
 /// An exact structure tensor. See the module documentation for the invariants.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub struct Tensor {

@@ -36,6 +36,20 @@ pub fn tmpdir(tag: &str) -> std::path::PathBuf {
     d
 }
 
+/// `bilin transform SPEC --random SEED` (with `--to json` when `name` ends in `.json`)
+/// written to `dir/name`: a table in a seeded random basis of its own; the file's path.
+pub fn random_basis_file(dir: &std::path::Path, spec: &str, seed: &str, name: &str) -> String {
+    let mut args = vec!["transform", spec, "--random", seed];
+    if name.ends_with(".json") {
+        args.extend(["--to", "json"]);
+    }
+    let (code, out, err) = run(&args);
+    assert_eq!(code, 0, "{err}");
+    let file = dir.join(name);
+    std::fs::write(&file, out).expect("write the table");
+    file.to_str().expect("a path in UTF-8").to_string()
+}
+
 /// True when `cmd ARGS` runs and succeeds (the tool is installed).
 pub fn have(cmd: &str, args: &[&str]) -> bool {
     Command::new(cmd)
